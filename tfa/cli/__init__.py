@@ -1,0 +1,82 @@
+"""The ``tfa`` command line.
+
+Each subcommand lives in its own module ``tfa/cli/cmd_<name>.py`` that defines
+``register(subparsers)``: it adds its parser and sets ``run=`` to a function taking the parsed
+arguments and returning an exit code. Exit codes: 0 done, 1 the question's answer could not be
+computed, 2 bad input.
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import logging
+import sys
+
+from ..errors import TfaError
+
+#: Subcommands in the order ``tfa --help`` lists them, with the module that implements each.
+COMMANDS: dict[str, str] = {
+    "assess": "cmd_assess",
+    "dg": "cmd_dg",
+    "inspect": "cmd_inspect",
+    "feasible": "cmd_feasible",
+    "uphill": "cmd_uphill",
+    "h2-scan": "cmd_h2_scan",
+    "h2-threshold": "cmd_h2_threshold",
+    "ranges": "cmd_ranges",
+    "driving-force": "cmd_driving_force",
+    "census": "cmd_census",
+    "estimate": "cmd_estimate",
+    "robustness": "cmd_robustness",
+    "map": "cmd_map",
+}
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The top-level parser with every subcommand whose module is present."""
+    parser = argparse.ArgumentParser(
+        prog="tfa",
+        description="Thermodynamic feasibility of ancestral, H2-fed reaction networks at the "
+        "conditions of a hydrothermal setting.",
+    )
+    from .. import __version__
+
+    parser.add_argument("--version", action="version", version=f"tfa {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+    for name, module_name in COMMANDS.items():
+        try:
+            module = importlib.import_module(f".{module_name}", __name__)
+        except ModuleNotFoundError as err:
+            if err.name and err.name.endswith(module_name):
+                continue  # that subcommand is not part of this build
+            raise
+        module.register(sub)
+    return parser
+
+
+def main(argv: list[str] | None = None) -> int:
+    """Entry point of the ``tfa`` command; returns the exit code."""
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    if not getattr(args, "command", None):
+        parser.print_help()
+        return 2
+    level = logging.WARNING
+    if getattr(args, "verbose", False):
+        level = logging.INFO
+    if getattr(args, "quiet", False):
+        level = logging.ERROR
+    logging.basicConfig(level=level, format="%(levelname)s: %(message)s")
+    try:
+        return int(args.run(args) or 0)
+    except TfaError as err:
+        print(f"tfa {args.command}: error: {err}", file=sys.stderr)
+        return err.exit_code
+    except KeyboardInterrupt:
+        print(f"tfa {args.command}: interrupted; files already written are complete", file=sys.stderr)
+        return 1
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())
