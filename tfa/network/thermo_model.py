@@ -1,0 +1,104 @@
+"""The hand-over from the network layer to the optimisation layer: a cobra model with, for each
+reaction, its transformed standard reaction energy at the environment, and for each compound its
+log-concentration bounds.
+
+Nothing here computes a Gibbs energy; the numbers are filled in by :mod:`tfa.network.energies`
+from the thermodynamics engine. Units: kJ/mol; concentrations in mol/L (gases: partial pressure,
+bar); ``log_bounds`` hold natural logarithms of those.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import cobra
+
+from ..conditions import Conditions
+
+#: Where a reaction's energy comes from, from strongest to weakest.
+ENERGY_SOURCES = ("species", "literature", "reconciled", "estimated", "placeholder", "none")
+
+#: The four ways a network is asked to run (see :mod:`tfa.network.rewrites`).
+MODES = ("native", "h2_only", "no_atp_strict", "no_atp_bare")
+
+
+@dataclass
+class ReactionEnergy:
+    """Transformed standard Gibbs energy of one reaction at the environment's conditions.
+
+    Attributes
+    ----------
+    reaction_id : str
+        The cobra reaction id.
+    standard : float
+        Delta_r G'deg, kJ/mol, for the reaction as written (forward direction).
+    uncertainty : float
+        Standard uncertainty sigma of ``standard``, kJ/mol (> 0 unless exact by construction).
+    source : str
+        One of :data:`ENERGY_SOURCES`: the weakest kind of data that entered the value.
+    provenance : str
+        Plain words: which species, literature values or estimates, with source keys.
+    compound_terms : dict
+        Net stoichiometry over the thermodynamic compounds used (compound id -> coefficient),
+        so uncertainties of shared compounds can be correlated (empty when not applicable).
+    """
+
+    reaction_id: str
+    standard: float
+    uncertainty: float
+    source: str
+    provenance: str = ""
+    compound_terms: dict[str, float] = field(default_factory=dict)
+
+    def __post_init__(self) -> None:
+        if self.source not in ENERGY_SOURCES:
+            raise ValueError(f"reaction {self.reaction_id}: unknown energy source {self.source!r}")
+
+
+@dataclass
+class ThermoModel:
+    """A network ready for the optimisation layer.
+
+    Attributes
+    ----------
+    model : cobra.Model
+        The network (already rewritten for ``mode``); boundary reactions carry no energy.
+    conditions : Conditions
+        Temperature, pH, ionic strength, pressure of the environment.
+    energies : dict[str, ReactionEnergy]
+        Internal reactions with an energy. Internal reactions missing here have none
+        (the optimisation layer leaves them free or blocks them, and reports them).
+    log_bounds : dict[str, tuple[float, float]]
+        Metabolite id -> (ln lower, ln upper) of its concentration (mol/L) or partial pressure
+        (bar). A fixed (fed) compound has lower == upper.
+    no_activity : set[str]
+        Metabolite ids that never enter the activity term: H+ (fixed by pH) and water (activity 1).
+    mode : str
+        One of :data:`MODES`.
+    environment_name : str
+        Name of the environment, for reports.
+    demand_id : str or None
+        Id of the demand reaction whose lower bound expresses the required output.
+    feed_ids : dict[str, str]
+        Role -> metabolite id for the fed compounds ("H2", "CO2", "H2S", "phosphate", "ammonia").
+    """
+
+    model: cobra.Model
+    conditions: Conditions
+    energies: dict[str, ReactionEnergy]
+    log_bounds: dict[str, tuple[float, float]]
+    no_activity: set[str] = field(default_factory=set)
+    mode: str = "native"
+    environment_name: str = ""
+    demand_id: str | None = None
+    feed_ids: dict[str, str] = field(default_factory=dict)
+
+    @property
+    def RT(self) -> float:  # noqa: N802
+        """R*T in kJ/mol at the model's temperature."""
+        return self.conditions.RT
+
+    def internal_reactions(self) -> list[cobra.Reaction]:
+        """Reactions that are not boundary (exchange, demand, sink) reactions."""
+        boundary = set(r.id for r in self.model.boundary)
+        return [r for r in self.model.reactions if r.id not in boundary]
