@@ -105,8 +105,8 @@ class BalanceReport:
     charge_residual : float
         Residual in charge.
     implicit_protons : float
-        H+ ions the buffer must supply (> 0: consumed from the buffer on the left) so that the
-        reaction balances; equals the H residual when the reaction is balanced.
+        H+ ions released to the buffer (negative: taken from it) so that the reaction balances:
+        the number of H+ to add on the products side. Meaningful when ``ok``.
     """
 
     element_residuals: dict[str, float] = field(default_factory=dict)
@@ -115,7 +115,7 @@ class BalanceReport:
 
     @property
     def implicit_protons(self) -> float:
-        return self.hydrogen_residual
+        return -self.hydrogen_residual + 0.0
 
     @property
     def ok(self) -> bool:
@@ -140,7 +140,8 @@ class BalanceReport:
     def message(self) -> str:
         if self.ok:
             if abs(self.implicit_protons) > TOLERANCE:
-                return f"balanced ({self.implicit_protons:+g} H+ from the buffer)"
+                verb = "released to" if self.implicit_protons > 0 else "taken from"
+                return f"balanced ({abs(self.implicit_protons):g} H+ {verb} the buffer)"
             return "balanced"
         return "; ".join(self.problems())
 
