@@ -1,0 +1,122 @@
+"""Standard uncertainty of transformed formation energies and of reaction energies.
+
+Model (stated values are common practice for evaluated thermochemical tables unless a source is
+named; they are the project's choice, not measurements):
+
+- Species data at 298.15 K, σ0 by kind of species: liquid water 0.1 kJ/mol (CODATA key values are
+  known to about 0.04 kJ/mol; Cox, Wagman & Medvedev 1989), gases 0.3 kJ/mol, aqueous species with
+  at most one carbon atom 0.5 kJ/mol, larger aqueous (organic) species 1.0 kJ/mol; species from an
+  unreviewed source 2.0 kJ/mol. A species that carries its own ``sigma_G`` (reconciled or estimated
+  species) uses that value.
+- Temperature: integration from 298.15 K with a constant heat capacity ignores dCp/dT, whose error
+  grows about as (T − Tr)²; the project takes 0.3 kJ/mol per species at ΔT = 55 K (80 °C), so
+  that a typical reaction stays near the 0.5 kJ/mol drift against the HKF equations of state
+  stated in DESIGN.md. Where Cp° is missing (constant-ΔH fallback) the neglected term is
+  about Cp·ΔT²/(2T); DESIGN.md states up to 5 kJ/mol per reaction at 80 °C, so 2.5 kJ/mol per
+  species at ΔT = 55 K. Both scale with (ΔT / 55 K)² and add in quadrature to σ0.
+- A reactant made of several species (pseudoisomers) takes the fraction-weighted sum
+  σ = Σ r_j σ_j (the species of one reactant share their data, so they are treated as fully
+  correlated).
+- A reaction: σ = sqrt(Σ ν_i² σ_i²) over its compounds, taken as independent (Henry et al. 2007
+  propagate group-contribution errors the same way).
+
+References
+----------
+[1] C. S. Henry, L. J. Broadbelt, V. Hatzimanikatis, Biophys. J. 92 (2007) 1792-1805.
+[2] J. D. Cox, D. D. Wagman, V. A. Medvedev, CODATA Key Values for Thermodynamics, Hemisphere, 1989.
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Iterable
+
+import numpy as np
+
+from ..constants import T_REF
+
+#: σ0 of liquid water, kJ/mol.
+SIGMA_WATER = 0.1
+#: σ0 of a gas species, kJ/mol.
+SIGMA_GAS = 0.3
+#: σ0 of an aqueous species with at most one C atom, kJ/mol.
+SIGMA_AQUEOUS_SMALL = 0.5
+#: σ0 of an aqueous species with two or more C atoms, kJ/mol.
+SIGMA_AQUEOUS_ORGANIC = 1.0
+#: σ0 of a species from an unreviewed source, kJ/mol.
+SIGMA_UNREVIEWED = 2.0
+#: Temperature span at which the temperature terms below are stated, K.
+DELTA_T_CALIBRATION = 55.0
+#: Temperature term of constant-Cp integration at DELTA_T_CALIBRATION, kJ/mol per species.
+SIGMA_CONSTANT_CP = 0.3
+#: Temperature term of the constant-ΔH fallback at DELTA_T_CALIBRATION, kJ/mol per species.
+SIGMA_CONSTANT_H = 2.5
+
+
+def base_sigma(state: str, carbon_atoms: int, reviewed: bool = True, own_sigma: float | None = None) -> float:
+    """σ0 of a species' ΔfG° at 298.15 K, kJ/mol (model in the module docstring).
+
+    Examples
+    --------
+    >>> base_sigma("aq", 3), base_sigma("gas", 1), base_sigma("aq", 2, reviewed=False)
+    (1.0, 0.3, 2.0)
+    >>> base_sigma("aq", 3, own_sigma=4.2)
+    4.2
+    """
+    if own_sigma is not None and math.isfinite(own_sigma) and own_sigma > 0:
+        return float(own_sigma)
+    if not reviewed:
+        return SIGMA_UNREVIEWED
+    if state == "liq":
+        return SIGMA_WATER
+    if state == "gas":
+        return SIGMA_GAS
+    return SIGMA_AQUEOUS_SMALL if carbon_atoms <= 1 else SIGMA_AQUEOUS_ORGANIC
+
+
+def temperature_sigma(temperature: float, constant_cp: bool) -> float:
+    """Added σ from carrying a species from 298.15 K to ``temperature`` (K), kJ/mol.
+
+    Equation: σ_T = s·((T − 298.15)/55 K)², s = 0.3 kJ/mol with Cp°, 2.5 kJ/mol without
+    (constant ΔH).
+
+    Examples
+    --------
+    >>> temperature_sigma(298.15, True), temperature_sigma(353.15, True), temperature_sigma(353.15, False)
+    (0.0, 0.3, 2.5)
+    """
+    scale = SIGMA_CONSTANT_CP if constant_cp else SIGMA_CONSTANT_H
+    return scale * ((temperature - T_REF) / DELTA_T_CALIBRATION) ** 2
+
+
+def species_sigma(base: float, temperature: float, constant_cp: bool) -> float:
+    """σ of one species at ``temperature``: sqrt(σ0² + σ_T²), kJ/mol.
+
+    >>> round(species_sigma(1.0, 353.15, False), 3)
+    2.693
+    """
+    return math.hypot(base, temperature_sigma(temperature, constant_cp))
+
+
+def reactant_sigma(fractions: Iterable[float], sigmas: Iterable[float]) -> float:
+    """σ of a reactant from its species: Σ r_j σ_j (species of a reactant fully correlated).
+
+    >>> reactant_sigma([0.25, 0.75], [1.0, 2.0])
+    1.75
+    """
+    r = np.asarray(list(fractions), dtype=float)
+    s = np.asarray(list(sigmas), dtype=float)
+    return float(np.sum(r * s))
+
+
+def reaction_sigma(coefficients: Iterable[float], sigmas: Iterable[float]) -> float:
+    """σ of a reaction energy: sqrt(Σ ν_i² σ_i²) over independent compounds, kJ/mol.
+
+    Example: 4 H2(g) + CO2(g) ⇌ CH4(g) + 2 H2O(l) with σ(gas) = 0.3 and σ(water) = 0.1 kJ/mol:
+
+    >>> round(reaction_sigma([-4, -1, 1, 2], [0.3, 0.3, 0.3, 0.1]), 3)
+    1.304
+    """
+    nu = np.asarray(list(coefficients), dtype=float)
+    s = np.asarray(list(sigmas), dtype=float)
+    return float(np.sqrt(np.sum((nu * s) ** 2)))
