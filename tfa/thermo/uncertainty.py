@@ -115,7 +115,7 @@ def reaction_sigma(coefficients: Iterable[float], sigmas: Iterable[float]) -> fl
     Example: 4 H2(g) + CO2(g) ⇌ CH4(g) + 2 H2O(l) with σ(gas) = 0.3 and σ(water) = 0.1 kJ/mol:
 
     >>> round(reaction_sigma([-4, -1, 1, 2], [0.3, 0.3, 0.3, 0.1]), 3)
-    1.304
+    1.288
     """
     nu = np.asarray(list(coefficients), dtype=float)
     s = np.asarray(list(sigmas), dtype=float)
