@@ -1,0 +1,723 @@
+#!/usr/bin/env python
+"""Generate the bundled species, compound and source tables of ``tfa`` from OBIGT.
+
+Development-time script. It reads the OBIGT thermodynamic database that the ``pychnosz``
+package carries (``pychnosz/data/extdata/OBIGT/*.csv`` and ``.../thermo/refs.csv``) and writes,
+deterministically (sorted rows, fixed float formatting):
+
+- ``tfa/data/species.csv``   one row per species (standard molal properties, 298.15 K, 1 bar)
+- ``tfa/data/compounds.csv`` one row per reactant (compound as biochemists name it)
+- ``tfa/data/sources.csv``   one row per source key used by a bundled species
+
+The runtime package reads only these tables; it never imports pychnosz.
+
+Rules applied (documented here because the tables carry no free-text notes)
+-------------------------------------------------------------------------
+Which OBIGT row
+    OBIGT sometimes carries one species name in several files. pychnosz loads by default, in
+    this order, H2O_aq, inorganic_aq, organic_aq, (crystals), inorganic_gas, organic_gas,
+    organic_liq; its ``info(name, state)`` returns the first match. We read the same files in the
+    same order and take the first row of a given (name, state). The optional files (SLOP98,
+    SUPCRT92, DEW, AD) are not used, so every bundled value is the one pychnosz's ``subcrt``
+    uses by default (checked in tests/test_thermo_species.py).
+Units
+    Rows whose ``E_units`` is ``cal`` are converted with 4.184 J/cal (thermochemical calorie).
+    G and H are written in kJ/mol, S and Cp in J/(mol K), V in cm3/mol.
+Missing Cp or V
+    Some rows leave Cp° or V° at 298.15 K empty but give the parameters of their equation of
+    state (HKF for aqueous species, Maier-Kelley heat-capacity coefficients for gases). We then
+    evaluate that same row's equation of state at 298.15 K and 1 bar with pychnosz (``subcrt``)
+    and write the result: the number is the source's own, at the reference state. Where the
+    parameters are absent too, the cell stays empty and the runtime flags the species
+    (constant-ΔH fallback). Gases: OBIGT gives V° = 0 (the standard state of a gas is the ideal
+    gas at 1 bar at every pressure), kept as is.
+Water
+    OBIGT computes liquid water from a water model (H2O_aq.csv has no numbers; sources JOH92,
+    HGK84). We take its properties at 298.15 K and 1 bar from ``pychnosz.water``
+    (G −237.181 kJ/mol, H −285.837 kJ/mol, S 69.92 J/(mol K), Cp 75.36 J/(mol K), V 18.07 cm3/mol,
+    in OBIGT's apparent-energy convention) and check them against these published numbers.
+Hydrated CO2
+    The total-CO2 reactant uses the hydrated convention: its neutral member is the composite
+    row ``CO2(aq)+H2O`` whose G, H, S, Cp and V are the sums of CO2(aq) and liquid water
+    (formula H2CO3, n_h 2), a pseudoisomer of HCO3− and CO3−2.
+Species ids
+    Aqueous species keep their OBIGT name (unique within state aq); gases get ``<formula>(g)``,
+    liquid water ``H2O(l)``. ``formula`` is the element composition in Hill order without the
+    charge (the charge has its own column).
+Reference species of a compound
+    ``compounds.csv`` gives the formula and charge of one member: the one without Mg that
+    predominates at pH 7, 298.15 K, I = 0 (lowest ΔfG° + n_h·RT·ln10·7).
+Peer review (``sources.csv``)
+    ``peer_reviewed = no`` when the citation is a submitted manuscript, unpublished work, a
+    thesis or dissertation, a computer data file, or a note of the database maintainers
+    (citation mentioning "OBIGT database" or "vignette"). Everything else (journal papers,
+    published books, government data compilations such as NBS/NIST tables and US Bureau of
+    Mines bulletins) is ``yes``. The 2026 key LDS+26 ("submitted manuscript") is therefore
+    ``no``; the test suite checks this.
+Names
+    Every id, name and synonym (compared case-insensitively) must point to exactly one compound;
+    the script stops with an error naming both compounds when two claim the same name.
+
+Run: ``/tmp/venv/bin/python scripts/make_species_table.py`` (writes into tfa/data/).
+"""
+
+from __future__ import annotations
+
+import argparse
+import csv
+import io
+import math
+import re
+import sys
+from dataclasses import dataclass
+from importlib import resources
+from pathlib import Path
+
+import pandas as pd
+
+CALORIE = 4.184
+R_KJ = 8.314462618e-3
+T_REF = 298.15
+LN10 = math.log(10.0)
+
+#: pychnosz's default load order (aqueous, gas and liquid files only; crystals are not used).
+DEFAULT_FILES = ("H2O_aq.csv", "inorganic_aq.csv", "organic_aq.csv",
+                 "inorganic_gas.csv", "organic_gas.csv", "organic_liq.csv")
+
+#: Published 25 degC properties of liquid water used to check pychnosz.water (OBIGT/SUPCRT92
+#: values, Johnson et al. 1992 Comp. Geosci. 18:899; G, H in kJ/mol, S, Cp in J/mol/K, V cm3/mol).
+WATER_CHECK = {"G": -237.18, "H": -285.83, "S": 69.91, "Cp": 75.35, "V": 18.07}
+
+COMPOSITE_CO2 = "CO2(aq)+H2O"
+WATER_ID = "H2O(l)"
+
+
+# --------------------------------------------------------------------------------------------
+# Reactant table. Species are written as OBIGT names (state aq unless marked):
+#   "name"        aqueous species
+#   "name|gas"    gas,  "name|liq" liquid
+#   WATER_ID, COMPOSITE_CO2 special rows built by this script.
+# Columns: id, name, kind, synonyms, species
+# --------------------------------------------------------------------------------------------
+
+@dataclass(frozen=True)
+class ReactantDef:
+    id: str
+    name: str
+    kind: str
+    synonyms: tuple[str, ...]
+    species: tuple[str, ...]
+
+
+def R_(id_: str, name: str, kind: str, synonyms: str, species: str) -> ReactantDef:
+    """One reactant: synonyms and species as ';'-separated text (readable table below)."""
+    syn = tuple(s.strip() for s in synonyms.split(";") if s.strip())
+    sp = tuple(s.strip() for s in species.split(";") if s.strip())
+    return ReactantDef(id_, name, kind, syn, sp)
+
+
+AQ, GAS, WATER, PROTON = "aqueous", "gas", "water", "proton"
+
+REACTANTS: list[ReactantDef] = [
+    # --- water, proton, inorganic feed compounds ---------------------------------------------
+    R_("H2O", "water", WATER, "water; H2O(l)", WATER_ID),
+    R_("H+", "proton", PROTON, "proton; hydrogen ion; H(+)", "H+"),
+    R_("H2", "hydrogen (dissolved)", AQ, "dihydrogen; H2(aq); hydrogen", "H2"),
+    R_("H2(g)", "hydrogen gas", GAS, "hydrogen gas; dihydrogen gas", "hydrogen|gas"),
+    R_("CO2", "carbon dioxide (dissolved, unhydrated)", AQ, "CO2(aq); carbon dioxide", "CO2"),
+    R_("CO2(g)", "carbon dioxide gas", GAS, "carbon dioxide gas", "carbon dioxide|gas"),
+    R_("CO2tot", "total carbon dioxide (hydrated CO2, bicarbonate, carbonate)", AQ,
+       "total CO2; CO2 total; dissolved inorganic carbon; DIC; bicarbonate; hydrogencarbonate; "
+       "HCO3-; HCO3; carbonate; CO3-2; carbonic acid; H2CO3",
+       f"{COMPOSITE_CO2}; HCO3-; CO3-2; MgCO3"),
+    R_("CH4", "methane (dissolved)", AQ, "methane; CH4(aq)", "CH4"),
+    R_("CH4(g)", "methane gas", GAS, "methane gas", "methane|gas"),
+    R_("CO", "carbon monoxide (dissolved)", AQ, "carbon monoxide; CO(aq)", "CO"),
+    R_("CO(g)", "carbon monoxide gas", GAS, "carbon monoxide gas", "carbon monoxide|gas"),
+    R_("H2S", "hydrogen sulfide (dissolved, H2S + HS-)", AQ,
+       "hydrogen sulfide; H2S(aq); sulfide; bisulfide; hydrosulfide; HS-", "H2S; HS-"),
+    R_("H2S(g)", "hydrogen sulfide gas", GAS, "hydrogen sulfide gas", "hydrogen sulfide|gas"),
+    R_("ammonia", "ammonia (dissolved, NH3 + NH4+)", AQ,
+       "NH3; NH3(aq); ammonium; NH4+; NH4", "NH3; NH4+"),
+    R_("NH3(g)", "ammonia gas", GAS, "ammonia gas", "ammonia|gas"),
+    R_("N2", "nitrogen (dissolved)", AQ, "dinitrogen; N2(aq); nitrogen", "N2"),
+    R_("N2(g)", "nitrogen gas", GAS, "nitrogen gas; dinitrogen gas", "nitrogen|gas"),
+    R_("O2", "oxygen (dissolved)", AQ, "dioxygen; O2(aq); oxygen", "O2"),
+    R_("O2(g)", "oxygen gas", GAS, "oxygen gas; dioxygen gas", "oxygen|gas"),
+    R_("phosphate", "orthophosphate", AQ,
+       "Pi; orthophosphate; phosphoric acid; H3PO4; HPO4-2; H2PO4-; inorganic phosphate",
+       "H3PO4; H2PO4-; HPO4-2; PO4-3"),
+    R_("pyrophosphate", "pyrophosphate", AQ,
+       "PPi; diphosphate; pyrophosphoric acid; inorganic pyrophosphate",
+       "H4P2O7; H3P2O7-; H2P2O7-2; HP2O7-3; P2O7-4"),
+    R_("sulfate", "sulfate", AQ, "SO4-2; sulphate; hydrogen sulfate; bisulfate",
+       "HSO4-; SO4-2"),
+    R_("magnesium", "magnesium ion", AQ, "Mg2+; Mg+2; Mg++; magnesium ion", "Mg+2"),
+    # --- C1-C3 organics -----------------------------------------------------------------------
+    R_("formate", "formate", AQ, "formic acid; methanoate; HCOO-; HCOOH",
+       "formic acid; formate"),
+    R_("acetate", "acetate", AQ, "acetic acid; ethanoate; CH3COO-; CH3COOH",
+       "acetic acid; acetate"),
+    R_("propanoate", "propanoate", AQ, "propionate; propanoic acid; propionic acid",
+       "propanoic acid; propanoate"),
+    R_("butanoate", "butanoate", AQ, "butyrate; butanoic acid; butyric acid",
+       "n-butanoic acid; n-butanoate"),
+    R_("methanol", "methanol", AQ, "methyl alcohol; CH3OH", "methanol"),
+    R_("ethanol", "ethanol", AQ, "ethyl alcohol", "ethanol"),
+    R_("formaldehyde", "formaldehyde", AQ, "methanal; HCHO", "formaldehyde"),
+    R_("acetaldehyde", "acetaldehyde", AQ, "ethanal", "acetaldehyde"),
+    R_("methanethiol", "methanethiol", AQ, "methyl mercaptan; CH3SH", "methanethiol"),
+    R_("HCN", "hydrogen cyanide", AQ, "hydrogen cyanide; hydrocyanic acid", "HCN"),
+    R_("urea", "urea", AQ, "carbamide", "urea"),
+    R_("glycolate", "glycolate", AQ, "glycolic acid; hydroxyacetate; hydroxyacetic acid",
+       "glycolic acid; glycolate"),
+    R_("lactate", "lactate", AQ, "lactic acid; 2-hydroxypropanoate; L-lactate",
+       "lactic acid; lactate"),
+    R_("pyruvate", "pyruvate", AQ, "pyruvic acid; 2-oxopropanoate",
+       "pyruvic acid; pyruvate"),
+    R_("oxalate", "oxalate", AQ, "oxalic acid", "oxalic acid; H-oxalate; oxalate-2"),
+    R_("malonate", "malonate", AQ, "malonic acid", "malonic acid; H-malonate; malonate-2"),
+    R_("glycerol", "glycerol", AQ, "glycerin; propane-1,2,3-triol", "glycerol"),
+    R_("ethanolamine", "ethanolamine", AQ, "2-aminoethanol", "ethanolamine"),
+    R_("putrescine", "putrescine", AQ, "1,4-diaminobutane", "putrescine"),
+    R_("spermidine", "spermidine", AQ, "", "spermidine"),
+    # --- citric-acid cycle ---------------------------------------------------------------------
+    R_("citrate", "citrate", AQ, "citric acid",
+       "citric acid; H2-citrate; H-citrate-2; citrate-3"),
+    R_("isocitrate", "isocitrate", AQ, "isocitric acid",
+       "isocitric acid; H2-isocitrate; H-isocitrate-2; isocitrate-3"),
+    R_("cis-aconitate", "cis-aconitate", AQ, "cis-aconitic acid; aconitate",
+       "cis-aconitic acid; H2-cis-aconitate; H-cis-aconitate-2; cis-aconitate-3"),
+    R_("2-oxoglutarate", "2-oxoglutarate", AQ,
+       "alpha-ketoglutarate; 2-ketoglutarate; oxoglutarate; a-ketoglutarate; AKG; "
+       "2-oxoglutaric acid; alpha-ketoglutaric acid",
+       "a-ketoglutaric acid; H-a-ketoglutarate; a-ketoglutarate-2"),
+    R_("succinate", "succinate", AQ, "succinic acid; butanedioate",
+       "succinic acid; H-succinate; succinate-2"),
+    R_("fumarate", "fumarate", AQ, "fumaric acid", "fumaric acid; H-fumarate; fumarate-2"),
+    R_("malate", "malate", AQ, "malic acid; L-malate", "malic acid; H-malate; malate-2"),
+    R_("oxaloacetate", "oxaloacetate", AQ, "oxaloacetic acid; oxalacetate; OAA",
+       "oxaloacetic acid; H-oxaloacetate; oxaloacetate-2"),
+    R_("glutarate", "glutarate", AQ, "glutaric acid", "glutaric acid; H-glutarate; glutarate-2"),
+    # --- phosphorylated C2/C3 intermediates (LDS+26, unreviewed) -------------------------------
+    R_("acetyl phosphate", "acetyl phosphate", AQ, "acetylphosphate; acetyl-P; AcP",
+       "acetylphosphate; acetylphosphate-1; acetylphosphate-2; acetylphosphate-3"),
+    R_("glycerate", "glycerate", AQ, "glyceric acid; D-glycerate", "glyceric acid; glycerate-1"),
+    R_("3-phosphoglycerate", "3-phosphoglycerate", AQ,
+       "3-phospho-D-glycerate; 3PG; 3-PGA; glycerate 3-phosphate",
+       "3-phosphoglycerate; 3-phosphoglycerate-1; 3-phosphoglycerate-2; 3-phosphoglycerate-3"),
+    R_("1,3-bisphosphoglycerate", "1,3-bisphosphoglycerate", AQ,
+       "bisphosphoglycerate; 1,3-BPG; 3-phospho-D-glyceroyl phosphate; BPG",
+       "bisphosphoglycerate; bisphosphoglycerate-1; bisphosphoglycerate-2; "
+       "bisphosphoglycerate-3; bisphosphoglycerate-4; bisphosphoglycerate-5"),
+    R_("phosphoenolpyruvate", "phosphoenolpyruvate", AQ, "PEP",
+       "phosphoenolpyruvate; phosphoenolpyruvate-1; phosphoenolpyruvate-2; "
+       "phosphoenolpyruvate-3"),
+    R_("glycerol 3-phosphate", "glycerol 3-phosphate", AQ,
+       "glycerol-3-phosphate; 3-phosphoglycerol; sn-glycerol 3-phosphate; G3P",
+       "3-phosphoglycerol; 3-phosphoglycerol-1; 3-phosphoglycerol-2"),
+    # --- sugars and sugar phosphates -----------------------------------------------------------
+    R_("ribose", "D-ribose", AQ, "D-ribose", "ribose"),
+    R_("deoxyribose", "2-deoxy-D-ribose", AQ, "2-deoxyribose; 2-deoxy-D-ribose", "deoxyribose"),
+    R_("arabinose", "arabinose", AQ, "", "arabinose"),
+    R_("xylose", "xylose", AQ, "", "xylose"),
+    R_("lyxose", "lyxose", AQ, "", "lyxose"),
+    R_("ribulose", "ribulose", AQ, "D-ribulose", "ribulose"),
+    R_("xylulose", "xylulose", AQ, "D-xylulose", "xylulose"),
+    R_("glucose", "D-glucose", AQ, "D-glucose; dextrose", "glucose"),
+    R_("fructose", "D-fructose", AQ, "D-fructose", "fructose"),
+    R_("galactose", "D-galactose", AQ, "D-galactose", "galactose"),
+    R_("mannose", "D-mannose", AQ, "D-mannose", "mannose"),
+    R_("sorbose", "sorbose", AQ, "L-sorbose", "sorbose"),
+    R_("rhamnose", "rhamnose", AQ, "L-rhamnose", "rhamnose"),
+    R_("heptose", "heptose", AQ, "", "heptose"),
+    R_("glucosamine", "glucosamine", AQ, "glucoseamine; D-glucosamine", "glucoseamine"),
+    R_("N-acetylglucosamine", "N-acetylglucosamine", AQ, "GlcNAc", "N-acetylglucosamine"),
+    R_("glucose 6-phosphate", "D-glucose 6-phosphate", AQ, "glucose-6-phosphate; G6P",
+       "glucose-6-phosphate; glucose-6-phosphate-1; glucose-6-phosphate-2"),
+    R_("fructose 6-phosphate", "D-fructose 6-phosphate", AQ, "fructose-6-phosphate; F6P",
+       "fructose-6-phosphate; fructose-6-phosphate-1; fructose-6-phosphate-2"),
+    R_("mannose 6-phosphate", "D-mannose 6-phosphate", AQ, "mannose-6-phosphate; M6P",
+       "mannose-6-phosphate; mannose-6-phosphate-1; mannose-6-phosphate-2"),
+    R_("galactose 1-phosphate", "D-galactose 1-phosphate", AQ, "galactose-1-phosphate; Gal1P",
+       "galactose-1-phosphate; galactose-1-phosphate-1; galactose-1-phosphate-2"),
+    R_("ribose 5-phosphate", "D-ribose 5-phosphate", AQ, "ribose-5-phosphate; R5P",
+       "ribose-5-phosphate; ribose-5-phosphate-1; ribose-5-phosphate-2"),
+    R_("ribulose 5-phosphate", "D-ribulose 5-phosphate", AQ,
+       "ribulose-5-phosphate; ribulosephosphate; Ru5P",
+       "ribulosephosphate; ribulosephosphate-; ribulosephosphate-2"),
+    # --- nucleobases and nucleosides -----------------------------------------------------------
+    R_("adenine", "adenine", AQ, "Ade", "adenine"),
+    R_("guanine", "guanine", AQ, "Gua", "guanine"),
+    R_("cytosine", "cytosine", AQ, "Cyt", "cytosine"),
+    R_("thymine", "thymine", AQ, "Thy", "thymine"),
+    R_("uracil", "uracil", AQ, "Ura", "uracil"),
+    R_("adenosine", "adenosine", AQ, "Ado", "adenosine"),
+    R_("guanosine", "guanosine", AQ, "Guo", "guanosine"),
+    R_("cytidine", "cytidine", AQ, "Cyd", "cytidine"),
+    R_("uridine", "uridine", AQ, "Urd", "uridine"),
+    # OBIGT's "thymidine" is the ribonucleoside (C10H14N2O6): ribothymidine. The name
+    # "thymidine" alone is left unmapped because biochemists use it for deoxythymidine.
+    R_("ribothymidine", "ribothymidine (5-methyluridine)", AQ, "5-methyluridine", "thymidine"),
+    R_("deoxyadenosine", "2'-deoxyadenosine", AQ, "2'-deoxyadenosine; dAdo", "deoxyadenosine"),
+    R_("deoxyguanosine", "2'-deoxyguanosine", AQ, "2'-deoxyguanosine; dGuo", "deoxyguanosine"),
+    R_("deoxycytidine", "2'-deoxycytidine", AQ, "2'-deoxycytidine; dCyd", "deoxycytidine"),
+    R_("deoxyuridine", "2'-deoxyuridine", AQ, "2'-deoxyuridine; dUrd", "deoxyuridine"),
+    R_("deoxythymidine", "2'-deoxythymidine", AQ, "2'-deoxythymidine; dThd",
+       "deoxythymidine"),
+    # --- nucleotides: (id, name, OBIGT stem, number of phosphates) expanded below ---------------
+    # --- cofactors ------------------------------------------------------------------------------
+    R_("NAD", "NAD+ (oxidised nicotinamide adenine dinucleotide)", AQ,
+       "NAD+; NAD(ox); NADox; nicotinamide adenine dinucleotide",
+       "H2NAD(ox)+; HNAD(ox); NAD(ox)-"),
+    R_("NADH", "NADH (reduced nicotinamide adenine dinucleotide)", AQ, "NAD(red); NADred",
+       "H2NAD(red); HNAD(red)-; NAD(red)-2"),
+    R_("NADP", "NADP+ (oxidised nicotinamide adenine dinucleotide phosphate)", AQ,
+       "NADP+; NADP(ox); NADPox; nicotinamide adenine dinucleotide phosphate",
+       "H4NADP(ox)+; H3NADP(ox); H2NADP(ox)-; HNADP(ox)-2; NADP(ox)-3"),
+    R_("NADPH", "NADPH (reduced nicotinamide adenine dinucleotide phosphate)", AQ,
+       "NADP(red); NADPred",
+       "H4NADP(red); H3NADP(red)-; H2NADP(red)-2; HNADP(red)-3; NADP(red)-4"),
+    R_("NMN", "nicotinamide mononucleotide (oxidised)", AQ,
+       "nicotinamide mononucleotide; NMN+; NicMP(ox)",
+       "H2NicMP(ox)+; HNicMP(ox); NicMP(ox)-"),
+    R_("NMNH", "nicotinamide mononucleotide (reduced)", AQ, "NicMP(red)",
+       "H2NicMP(red); HNicMP(red)-; NicMP(red)-2"),
+    R_("cAMP", "3',5'-cyclic AMP", AQ, "cyclic AMP; 3',5'-cyclic AMP; cyclic adenosine monophosphate",
+       "cyclic-HAMP; cyclic-AMP-1"),
+]
+
+#: Nucleotides: id, name, base letter in OBIGT names, deoxy?, phosphates. OBIGT's TMP/TDP/TTP
+#: are ribothymidine nucleotides; they get ids ribo-TMP etc. so that "TMP" means nothing wrong.
+NUCLEOTIDE_BASES = {"A": "adenosine", "G": "guanosine", "C": "cytidine", "U": "uridine",
+                    "T": "ribothymidine"}
+_PHOS = {1: "MP", 2: "DP", 3: "TP"}
+_PHOS_WORD = {1: "monophosphate", 2: "diphosphate", 3: "triphosphate"}
+
+
+def _nucleotides() -> list[ReactantDef]:
+    """Expand the nucleotide families of LaRowe & Helgeson (2006) into reactants."""
+    out = []
+    mg_species = {"AMP": "MgAMP", "ADP": "MgADP-; MgHADP; Mg2ADP+",
+                  "ATP": "MgATP-2; MgHATP-; MgH2ATP; Mg2ATP"}
+    for deoxy in (False, True):
+        for base, nucleoside in NUCLEOTIDE_BASES.items():
+            for n_p in (1, 2, 3):
+                stem = base + _PHOS[n_p]                       # e.g. ATP
+                prefix = "d" if deoxy else ""
+                max_h = n_p + 1                                # fully protonated H(n+1)XNP
+                charges = [-(n_p + 1) + k for k in range(max_h + 1)]
+                names = []
+                for k, z in enumerate(charges):
+                    hpart = "" if k == 0 else ("H" if k == 1 else f"H{k}")
+                    zpart = "" if z == 0 else ("-" if z == -1 else f"{z:+d}".replace("+", "+"))
+                    names.append(f"{prefix}{hpart}{stem}{zpart}")
+                if deoxy:
+                    if base == "T":
+                        ident, nuc = f"dT{_PHOS[n_p]}", "2'-deoxythymidine"
+                    else:
+                        ident, nuc = f"d{stem}", "2'-deoxy" + nucleoside
+                elif base == "T":
+                    ident, nuc = f"ribo-T{_PHOS[n_p]}", nucleoside
+                else:
+                    ident, nuc = stem, nucleoside
+                name = f"{nuc} 5'-{_PHOS_WORD[n_p]}"
+                synonyms = [name, name.replace(" 5'-", " ")]
+                if not deoxy and base != "T":
+                    synonyms.append(f"{nucleoside} {_PHOS_WORD[n_p]}".replace(" 5'-", " "))
+                species = names + ([] if deoxy else mg_species.get(stem, "").split("; "))
+                out.append(ReactantDef(ident, name, AQ,
+                                       tuple(dict.fromkeys(s for s in synonyms if s)),
+                                       tuple(s for s in species if s)))
+    return out
+
+
+#: Amino acids: id, three-letter code, OBIGT species from most protonated to least.
+AMINO_ACIDS = [
+    ("alanine", "Ala", "alaninium; alanine; alaninate"),
+    ("arginine", "Arg", "argininium+2; argininium; arginine; argininate"),
+    ("asparagine", "Asn", "asparaginium; asparagine; asparaginate"),
+    ("aspartate", "Asp", "aspartinium; aspartic acid; aspartate; aspartate-2"),
+    ("cysteine", "Cys", "cysteinium; cysteine; cysteinate; cysteinate-2"),
+    ("glutamine", "Gln", "glutaminium; glutamine; glutaminate"),
+    ("glutamate", "Glu", "glutamic-acid+1; glutamic acid; glutamate; glutamate-2"),
+    ("glycine", "Gly", "glycinium; glycine; glycinate"),
+    ("histidine", "His", "histidinium+2; histidinium; histidine; histidinate"),
+    ("isoleucine", "Ile", "isoleucinium; isoleucine; isoleucinate"),
+    ("leucine", "Leu", "leucinium; leucine; leucinate"),
+    ("lysine", "Lys", "lysinium+2; lysinium; lysine; lysinate"),
+    ("methionine", "Met", "methioninium; methionine; methionate"),
+    ("phenylalanine", "Phe", "phenylalaninium; phenylalanine; phenylalanate"),
+    ("proline", "Pro", "prolinium; proline; prolinate"),
+    ("serine", "Ser", "serinium; serine; serinate"),
+    ("threonine", "Thr", "threoninium; threonine; threonate"),
+    ("tryptophan", "Trp", "tryptophanium; tryptophan; tryptophanate"),
+    ("tyrosine", "Tyr", "tyrosinium; tyrosine; tyrosinate; tyrosinate-2"),
+    ("valine", "Val", "valinium; valine; valinate"),
+]
+_ACID_NAMES = {"aspartate": "aspartic acid; L-aspartic acid", "glutamate": "glutamic acid; "
+               "L-glutamic acid"}
+
+
+def _amino_acids() -> list[ReactantDef]:
+    out = []
+    for ident, code, species in AMINO_ACIDS:
+        syn = f"{code}; L-{ident}"
+        if ident in _ACID_NAMES:
+            syn += "; " + _ACID_NAMES[ident]
+        out.append(R_(ident, ident, AQ, syn, species))
+    return out
+
+
+def all_reactants() -> list[ReactantDef]:
+    return REACTANTS + _amino_acids() + _nucleotides()
+
+
+# --------------------------------------------------------------------------------------------
+# Formula parsing
+# --------------------------------------------------------------------------------------------
+
+_TOKEN = re.compile(r"([A-Z][a-z]?|\(|\)|\d+(?:\.\d+)?)")
+
+
+def parse_formula(text: str) -> tuple[dict[str, int], int]:
+    """Element counts and charge of an OBIGT formula such as ``Mg(HCO3)+`` or ``C4H5O4-2``."""
+    m = re.match(r"^(.*?)([+-]\d*)?$", text)
+    body, zpart = m.group(1), m.group(2)
+    charge = 0
+    if zpart:
+        sign = 1 if zpart[0] == "+" else -1
+        charge = sign * (int(zpart[1:]) if len(zpart) > 1 else 1)
+    stack: list[dict[str, int]] = [{}]
+    tokens = _TOKEN.findall(body)
+    if "".join(tokens) != body:
+        raise ValueError(f"cannot read formula {text!r}")
+    i = 0
+    while i < len(tokens):
+        tok = tokens[i]
+        mult = 1
+        if i + 1 < len(tokens) and tokens[i + 1][0].isdigit():
+            mult = int(tokens[i + 1])
+        if tok == "(":
+            stack.append({})
+            i += 1
+            continue
+        if tok == ")":
+            group = stack.pop()
+            for el, n in group.items():
+                stack[-1][el] = stack[-1].get(el, 0) + n * mult
+            i += 2 if mult != 1 or (i + 1 < len(tokens) and tokens[i + 1][0].isdigit()) else 1
+            continue
+        if tok[0].isdigit():
+            raise ValueError(f"cannot read formula {text!r}")
+        stack[-1][tok] = stack[-1].get(tok, 0) + mult
+        i += 2 if (i + 1 < len(tokens) and tokens[i + 1][0].isdigit()) else 1
+    if len(stack) != 1:
+        raise ValueError(f"unbalanced parentheses in formula {text!r}")
+    return {k: v for k, v in stack[0].items() if v}, charge
+
+
+def hill_formula(counts: dict[str, int]) -> str:
+    """Hill order: C, H, then the other elements alphabetically (no charge)."""
+    order = []
+    if "C" in counts:
+        order = ["C"] + (["H"] if "H" in counts else [])
+    order += sorted(e for e in counts if e not in order)
+    return "".join(e + (str(counts[e]) if counts[e] != 1 else "") for e in order)
+
+
+# --------------------------------------------------------------------------------------------
+# Reading OBIGT
+# --------------------------------------------------------------------------------------------
+
+def pychnosz_data_dir() -> Path:
+    return Path(str(resources.files("pychnosz"))) / "data" / "extdata"
+
+
+def read_obigt(extdata: Path) -> dict[tuple[str, str], dict]:
+    """First row per (name, state) in pychnosz's default load order, with its file name."""
+    rows: dict[tuple[str, str], dict] = {}
+    for fname in DEFAULT_FILES:
+        frame = pd.read_csv(extdata / "OBIGT" / fname, dtype={"ref2": str, "ref1": str})
+        for rec in frame.to_dict("records"):
+            key = (rec["name"], rec["state"])
+            if key not in rows:
+                rec["_file"] = fname
+                rows[key] = rec
+    return rows
+
+
+def _num(value) -> float | None:
+    if value is None:
+        return None
+    try:
+        x = float(value)
+    except (TypeError, ValueError):
+        return None
+    return None if math.isnan(x) else x
+
+
+def _str(value) -> str:
+    if value is None or (isinstance(value, float) and math.isnan(value)):
+        return ""
+    return str(value).strip()
+
+
+@dataclass
+class SpeciesRow:
+    species: str
+    reactant: str
+    formula: str
+    state: str
+    charge: int
+    n_h: int
+    n_mg: int
+    G: float
+    H: float | None
+    S: float | None
+    Cp: float | None
+    V: float | None
+    source: str
+    source2: str
+    obigt_name: str
+
+
+def _eos_at_reference(names_states: list[tuple[str, str]]) -> dict[tuple[str, str], dict]:
+    """Cp and V at 298.15 K, 1 bar from pychnosz's equations of state (J, cm3)."""
+    if not names_states:
+        return {}
+    import pychnosz
+
+    pychnosz.reset()
+    out = {}
+    for name, state in names_states:
+        res = pychnosz.subcrt([name], state=[state], T=25, P=1)
+        frame = res.out["species_data"][0] if isinstance(res.out, dict) and "species_data" in res.out \
+            else res.out
+        out[(name, state)] = {"Cp": _num(frame["Cp"].iloc[0]), "V": _num(frame["V"].iloc[0])}
+    return out
+
+
+def water_properties() -> dict[str, float]:
+    """Liquid water at 298.15 K, 1 bar from pychnosz.water, in kJ/mol, J/mol/K, cm3/mol."""
+    import pychnosz
+
+    pychnosz.reset()
+    w = pychnosz.water(["G", "H", "S", "Cp", "V"], T=298.15, P=1)
+    props = {"G": float(w["G"]) / 1000.0, "H": float(w["H"]) / 1000.0, "S": float(w["S"]),
+             "Cp": float(w["Cp"]), "V": float(w["V"])}
+    for key, ref in WATER_CHECK.items():
+        tol = 0.02 if key in ("G", "H") else 0.05
+        if abs(props[key] - ref) > tol:
+            raise SystemExit(f"pychnosz water {key} = {props[key]} differs from the published "
+                             f"{ref}; check the pychnosz version")
+    return props
+
+
+def build_species(reactants: list[ReactantDef], obigt: dict) -> list[SpeciesRow]:
+    rows: list[SpeciesRow] = []
+    seen: dict[str, str] = {}
+    missing: list[str] = []
+    need_eos: list[tuple[str, str]] = []
+    pending: list[tuple[SpeciesRow, tuple[str, str]]] = []
+    water = water_properties()
+    water_row_src = obigt[("water", "liq")]
+
+    def add(row: SpeciesRow) -> None:
+        if row.species in seen:
+            raise SystemExit(f"species {row.species!r} listed in reactants {seen[row.species]!r} "
+                             f"and {row.reactant!r}; a species belongs to one reactant")
+        seen[row.species] = row.reactant
+        rows.append(row)
+
+    for reac in reactants:
+        for spec in reac.species:
+            if spec == WATER_ID:
+                add(SpeciesRow(WATER_ID, reac.id, "H2O", "liq", 0, 2, 0, water["G"], water["H"],
+                               water["S"], water["Cp"], water["V"], _str(water_row_src["ref1"]),
+                               _str(water_row_src["ref2"]), "water"))
+                continue
+            if spec == COMPOSITE_CO2:
+                co2 = obigt[("CO2", "aq")]
+                f = CALORIE if co2["E_units"] == "cal" else 1.0
+                vals = {k: _num(co2[k]) for k in ("G", "H", "S", "Cp", "V")}
+                add(SpeciesRow(COMPOSITE_CO2, reac.id, "CH2O3", "aq", 0, 2, 0,
+                               vals["G"] * f / 1000 + water["G"], vals["H"] * f / 1000 + water["H"],
+                               vals["S"] * f + water["S"], vals["Cp"] * f + water["Cp"],
+                               vals["V"] + water["V"], _str(co2["ref1"]),
+                               _str(water_row_src["ref1"]), "CO2+water"))
+                continue
+            name, _, state = spec.partition("|")
+            state = state or "aq"
+            rec = obigt.get((name, state))
+            if rec is None:
+                missing.append(f"{reac.id}: {name} ({state})")
+                continue
+            counts, charge = parse_formula(str(rec["formula"]))
+            if state == "aq" and name != "H+" and _num(rec.get("z.T")) is not None and rec["model"] == "HKF":
+                if int(round(_num(rec["z.T"]))) != charge:   # e.g. cysteinate (AH97b): HKF z 0
+                    print(f"note: {name}: charge {charge} from the formula, HKF z = "
+                          f"{rec['z.T']} in {rec['_file']}; the formula's charge is used",
+                          file=sys.stderr)
+            f = CALORIE if rec["E_units"] == "cal" else 1.0
+            G = _num(rec["G"])
+            if G is None:
+                missing.append(f"{reac.id}: {name} ({state}) has no G")
+                continue
+            H, S, Cp, V = (_num(rec[k]) for k in ("H", "S", "Cp", "V"))
+            sid = f"{hill_formula(counts)}(g)" if state == "gas" else name
+            row = SpeciesRow(sid, reac.id, hill_formula(counts), state, charge,
+                             counts.get("H", 0), counts.get("Mg", 0), G * f / 1000.0,
+                             None if H is None else H * f / 1000.0,
+                             None if S is None else S * f, None if Cp is None else Cp * f, V,
+                             _str(rec["ref1"]), _str(rec["ref2"]), name)
+            if Cp is None or V is None:
+                need_eos.append((name, state))
+                pending.append((row, (name, state)))
+            add(row)
+    if missing:
+        raise SystemExit("not found in OBIGT (default files):\n  " + "\n  ".join(missing))
+    eos = _eos_at_reference(need_eos)
+    for row, key in pending:
+        if row.Cp is None and eos[key]["Cp"] is not None:
+            row.Cp = eos[key]["Cp"]
+        if row.V is None and eos[key]["V"] is not None:
+            row.V = eos[key]["V"]
+    return rows
+
+
+# --------------------------------------------------------------------------------------------
+# Compounds, names, sources
+# --------------------------------------------------------------------------------------------
+
+def reference_species(members: list[SpeciesRow]) -> SpeciesRow:
+    """The member without Mg that predominates at pH 7, 298.15 K, I = 0."""
+    plain = [m for m in members if m.n_mg == 0] or members
+    rt = R_KJ * T_REF
+    return min(plain, key=lambda m: (m.G + m.n_h * rt * LN10 * 7.0, m.species))
+
+
+def check_names(reactants: list[ReactantDef]) -> None:
+    owner: dict[str, str] = {}
+    for reac in reactants:
+        for label in dict.fromkeys((reac.id, reac.name) + reac.synonyms):
+            key = label.strip().lower()
+            if key in owner and owner[key] != reac.id:
+                raise SystemExit(f"name clash: {label!r} names both {owner[key]!r} and "
+                                 f"{reac.id!r}; remove it from one of them")
+            owner[key] = reac.id
+
+
+UNREVIEWED_PATTERNS = ("submitted", "unpublished", "in prep", "dissertation", "thesis",
+                       "computer data file", "computer file", "obigt database", "vignette",
+                       "personal communication", "written communication")
+
+
+def is_peer_reviewed(key: str, citation: str) -> bool:
+    text = citation.lower()
+    if key.startswith("OBIGT"):
+        return False
+    return not any(p in text for p in UNREVIEWED_PATTERNS)
+
+
+def build_sources(rows: list[SpeciesRow], extdata: Path) -> list[dict]:
+    refs = pd.read_csv(extdata / "thermo" / "refs.csv", dtype=str, keep_default_na=False)
+    by_key = {}
+    for rec in refs.to_dict("records"):
+        by_key.setdefault(rec["key"], rec)
+    keys = sorted({k for r in rows for k in (r.source, r.source2) if k})
+    out = []
+    for key in keys:
+        rec = by_key.get(key)
+        if rec is None:
+            raise SystemExit(f"source key {key!r} not in refs.csv")
+        url = rec.get("URL", "")
+        doi = url.split("doi.org/", 1)[1] if "doi.org/" in url else ""
+        year = rec.get("year", "")
+        citation = _clean_html(rec["citation"])
+        out.append({"key": key, "authors": _clean_html(rec["author"]), "year": year,
+                    "citation": citation, "doi": doi,
+                    "peer_reviewed": "yes" if is_peer_reviewed(key, citation) else "no",
+                    "note": _clean_html(rec.get("note", ""))})
+    return out
+
+
+def _clean_html(text: str) -> str:
+    text = re.sub(r"<[^>]+>", "", text or "")
+    return (text.replace("&quot;", '"').replace("&Delta;", "Δ").replace("&omega;", "ω")
+            .replace("&amp;", "&").strip())
+
+
+def _fmt(x: float | None, digits: int = 6) -> str:
+    if x is None:
+        return ""
+    text = f"{round(x, digits):.{digits}f}".rstrip("0").rstrip(".")
+    return "0" if text in ("-0", "") else text
+
+
+def _csv(header: list[str], rows: list[list]) -> str:
+    buf = io.StringIO()
+    writer = csv.writer(buf, lineterminator="\n")
+    writer.writerow(header)
+    writer.writerows(rows)
+    return buf.getvalue()
+
+
+def _write(path: Path, text: str) -> None:
+    tmp = path.with_suffix(path.suffix + ".part")
+    tmp.write_text(text, encoding="utf-8")
+    tmp.replace(path)
+
+
+def main(argv: list[str] | None = None) -> int:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--out", type=Path,
+                        default=Path(__file__).resolve().parents[1] / "tfa" / "data")
+    args = parser.parse_args(argv)
+
+    extdata = pychnosz_data_dir()
+    reactants = all_reactants()
+    check_names(reactants)
+    ids = [r.id for r in reactants]
+    if len(ids) != len(set(ids)):
+        raise SystemExit("duplicate reactant id")
+    obigt = read_obigt(extdata)
+    rows = build_species(reactants, obigt)
+
+    by_reactant: dict[str, list[SpeciesRow]] = {}
+    for r in rows:                                   # creation order = order in the table
+        by_reactant.setdefault(r.reactant, []).append(r)
+    rows.sort(key=lambda r: (r.reactant.lower(), r.reactant, r.species))
+    species_text = _csv(
+        ["species", "reactant", "formula", "state", "charge", "n_h", "n_mg", "G_kJ", "H_kJ",
+         "S_J_K", "Cp_J_K", "V_cm3", "source", "source2", "obigt_name"],
+        [[r.species, r.reactant, r.formula, r.state, r.charge, r.n_h, r.n_mg, _fmt(r.G),
+          _fmt(r.H), _fmt(r.S), _fmt(r.Cp), _fmt(r.V), r.source, r.source2, r.obigt_name]
+         for r in rows])
+
+    comp_rows = []
+    for reac in sorted(reactants, key=lambda r: (r.id.lower(), r.id)):
+        members = by_reactant[reac.id]
+        ref = reference_species(members)
+        member_ids = [m.species for m in members]
+        synonyms = [s for s in dict.fromkeys(reac.synonyms) if s.lower() != reac.id.lower()]
+        comp_rows.append([reac.id, reac.name, ";".join(synonyms), reac.kind, ";".join(member_ids),
+                          ref.formula, ref.charge])
+    compounds_text = _csv(["id", "name", "synonyms", "kind", "species", "formula", "charge"],
+                          comp_rows)
+
+    sources = build_sources(rows, extdata)
+    sources_text = _csv(["key", "authors", "year", "citation", "doi", "peer_reviewed", "note"],
+                        [[s[k] for k in ("key", "authors", "year", "citation", "doi",
+                                         "peer_reviewed", "note")] for s in sources])
+
+    args.out.mkdir(parents=True, exist_ok=True)
+    _write(args.out / "species.csv", species_text)
+    _write(args.out / "compounds.csv", compounds_text)
+    _write(args.out / "sources.csv", sources_text)
+    print(f"{len(rows)} species, {len(comp_rows)} compounds, {len(sources)} sources -> {args.out}")
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
