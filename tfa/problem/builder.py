@@ -1,0 +1,526 @@
+"""The thermodynamic flux problem on the cobra model's optlang problem, built in bulk.
+
+Formulation (thermodynamics-based flux analysis, Henry, Broadbelt & Hatzimanikatis 2007,
+Biophys. J. 92:1792; the binary direction variables are those of loopless flux balance,
+Schellenberger, Lewis & Palsson 2011, Biophys. J. 100:544). Units: kJ/mol, ln(mol/L) or ln(bar).
+
+- x_i = ln c_i for every compound with an activity term, within its log bounds (fed compounds
+  have lower == upper);
+- g_j = Delta_r G'deg_j + eps_j + RT sum_i S_ij x_i for every internal reaction with an energy,
+  |eps_j| <= k sigma_j (an explicit variable per reaction, bounded by its interval bounds);
+- binaries f_j, b_j: v_fwd_j <= U_j f_j, v_rev_j <= L_j b_j, f_j + b_j <= 1;
+- g_j <= -delta + M_f,j (1 - f_j) and -g_j <= -delta + M_b,j (1 - b_j), M from interval bounds
+  (:mod:`tfa.problem.bigm`), never a blanket constant;
+- optional: uphill binaries u_j (v_fwd_j <= U_j (f_j + u_j), v_rev_j <= L_j (b_j + u_j)) for the
+  minimal uphill set; a driving-force variable B replacing delta (max-min driving force,
+  Noor et al. 2014, PLoS Comput. Biol. 10:e1003483).
+
+The problem is built once; scans change only variable bounds. Every variable and constraint
+added is removed again by :meth:`ThermoProblem.remove` (or on leaving a ``with`` block).
+"""
+
+from __future__ import annotations
+
+import logging
+import math
+import time
+from dataclasses import dataclass, field
+
+import numpy as np
+from optlang.symbolics import Zero
+
+from ..errors import InputError, MissingDataError
+from ..network.thermo_model import ThermoModel
+from ..verify.certificate import CertificateInput
+from .bigm import direction_big_m, energy_intervals
+from .solvers import check_status, solver_name_of, use_solver
+
+log = logging.getLogger(__name__)
+
+#: Default least driving force delta, kJ/mol. It is four orders of magnitude above what solver
+#: tolerances (~1e-6 on variables, times RT*|S| ~ 10) can fake, so a certified sign is real, and
+#: well below the standard uncertainty of reaction energies (1-5 kJ/mol), so it does not move
+#: the answer (common practice in thermodynamics-based flux analysis uses 0 to 1 kJ/mol).
+DEFAULT_MIN_DRIVING_FORCE = 0.1
+#: Default time limit of one solve, s.
+DEFAULT_TIME_LIMIT = 300.0
+UNKNOWN_ENERGY_POLICIES = ("free", "block")
+
+
+@dataclass
+class ProblemOptions:
+    """Options of the thermodynamic flux problem.
+
+    Attributes
+    ----------
+    solver : str or None
+        "glpk", "highs" or None (the measured default, :data:`tfa.problem.solvers.DEFAULT_SOLVER`).
+    min_driving_force : float
+        delta, kJ/mol: a reaction that carries flux must have -g >= delta in its direction.
+    uncertainty_k : float
+        Allowed slack eps_j in multiples of sigma_j (0: energies taken as exact).
+    unknown_energy : str
+        "free" (reactions without an energy carry flux without a thermodynamic constraint; they
+        are reported) or "block" (they carry no flux).
+    time_limit : float or None
+        Seconds per solve; hitting it raises ``UndeterminedError``.
+    uphill : bool
+        Add the uphill binaries u_j (minimal uphill set).
+    driving_force : bool
+        Replace delta by a variable B (max-min driving force).
+    log_bound_overrides : dict
+        Metabolite id -> (ln lo, ln hi) used instead of the model's bounds at build time (the
+        envelope of an H2 scan or threshold; later bound changes must stay inside it).
+    """
+
+    solver: str | None = None
+    min_driving_force: float = DEFAULT_MIN_DRIVING_FORCE
+    uncertainty_k: float = 0.0
+    unknown_energy: str = "free"
+    time_limit: float | None = DEFAULT_TIME_LIMIT
+    uphill: bool = False
+    driving_force: bool = False
+    log_bound_overrides: dict[str, tuple[float, float]] = field(default_factory=dict)
+
+    def __post_init__(self) -> None:
+        if self.unknown_energy not in UNKNOWN_ENERGY_POLICIES:
+            raise InputError(f"unknown_energy must be 'free' or 'block', got {self.unknown_energy!r}")
+        if not (math.isfinite(self.min_driving_force) and self.min_driving_force >= 0):
+            raise InputError(f"the least driving force must be >= 0 kJ/mol, got {self.min_driving_force}")
+        if not (math.isfinite(self.uncertainty_k) and self.uncertainty_k >= 0):
+            raise InputError(f"the uncertainty multiple k must be >= 0, got {self.uncertainty_k}")
+        if self.time_limit is not None and not self.time_limit > 0:
+            raise InputError(f"the time limit must be positive seconds, got {self.time_limit}")
+
+    def to_dict(self) -> dict:
+        """Plain dictionary for provenance."""
+        return {
+            "solver": self.solver,
+            "min_driving_force_kJ": self.min_driving_force,
+            "uncertainty_k": self.uncertainty_k,
+            "unknown_energy": self.unknown_energy,
+            "time_limit_s": self.time_limit,
+        }
+
+
+@dataclass
+class Solution:
+    """One solution of the problem, as numpy arrays (read from the solver, not yet certified).
+
+    Attributes
+    ----------
+    reaction_ids, fluxes : all reactions and their net fluxes (forward minus reverse)
+    metabolite_ids, log_conc : compounds with an activity term and ln c (mol/L or bar)
+    energy_ids, energies, slack : reactions with an energy, g_j (kJ/mol, solver's value), eps_j
+    forward, backward : the direction binaries (bool)
+    uphill : reactions whose uphill binary is 1 (uphill problems only)
+    driving_force : B for driving-force problems, else None
+    objective : objective value (None for a pure feasibility problem)
+    solver, seconds : solver name and wall time of the solve
+    """
+
+    reaction_ids: list[str]
+    fluxes: np.ndarray
+    metabolite_ids: list[str]
+    log_conc: np.ndarray
+    energy_ids: list[str]
+    energies: np.ndarray
+    slack: np.ndarray
+    forward: np.ndarray
+    backward: np.ndarray
+    uphill: list[str]
+    driving_force: float | None
+    objective: float | None
+    solver: str
+    seconds: float
+
+    def flux(self, reaction_id: str) -> float:
+        """Net flux of one reaction."""
+        return float(self.fluxes[self.reaction_ids.index(reaction_id)])
+
+    def concentration(self, metabolite_id: str) -> float:
+        """Concentration (mol/L or bar) of one compound."""
+        return float(np.exp(self.log_conc[self.metabolite_ids.index(metabolite_id)]))
+
+
+class ThermoProblem:
+    """The thermodynamic flux problem attached to a ThermoModel's cobra model.
+
+    Use as a context manager (or call :meth:`remove`) so the model is left as it was.
+
+    Examples
+    --------
+    >>> # see tests/test_engine_small.py for hand-solved networks
+    """
+
+    def __init__(self, thermo_model: ThermoModel, options: ProblemOptions | None = None) -> None:
+        self.thermo_model = thermo_model
+        self.options = options or ProblemOptions()
+        self.model = thermo_model.model
+        started = time.perf_counter()
+        self.solver_name = use_solver(self.model, self.options.solver)
+        self.solver = self.model.solver
+        self._variables: list = []
+        self._constraints: list = []
+        self._extra_constraints: list = []
+        self._saved_bounds: list[tuple] = []
+        self._saved_objective = self.solver.objective
+        self._removed = False
+        self._collect_arrays()
+        self._build()
+        self.build_seconds = time.perf_counter() - started
+        log.info("built the thermodynamic problem (%d reactions with energy, %d compounds) in %.2f s",
+                 len(self.energy_ids), len(self.metabolite_ids), self.build_seconds)
+
+    # ------------------------------------------------------------------ arrays
+    def _collect_arrays(self) -> None:
+        tm, opts = self.thermo_model, self.options
+        model = self.model
+        self.reactions = list(model.reactions)
+        self.reaction_ids = [r.id for r in self.reactions]
+        self.reaction_index = {rid: j for j, rid in enumerate(self.reaction_ids)}
+        metabolites = list(model.metabolites)
+        met_index = {m.id: i for i, m in enumerate(metabolites)}
+        self.n_metabolites = len(metabolites)
+        rows, cols, vals = [], [], []
+        for j, r in enumerate(self.reactions):
+            if r.lower_bound > r.upper_bound:
+                raise InputError(f"reaction {r.id}: lower flux bound {r.lower_bound} exceeds upper bound "
+                                 f"{r.upper_bound}; fix the bounds in the network or environment")
+            if not (math.isfinite(r.lower_bound) and math.isfinite(r.upper_bound)):
+                raise InputError(f"reaction {r.id}: flux bounds must be finite for the direction "
+                                 "constraints; give finite bounds (e.g. -1000, 1000)")
+            for met, coef in r.metabolites.items():
+                rows.append(met_index[met.id])
+                cols.append(j)
+                vals.append(float(coef))
+        self.stoich = (np.array(rows, int), np.array(cols, int), np.array(vals, float))
+
+        boundary = {r.id for r in model.boundary}
+        self.energy_ids = []
+        self.unknown_energy_ids = []
+        for r in self.reactions:
+            if r.id in boundary:
+                if r.id in tm.energies:
+                    log.warning("boundary reaction %s carries an energy; it is ignored", r.id)
+                continue
+            (self.energy_ids if r.id in tm.energies else self.unknown_energy_ids).append(r.id)
+        standard = []
+        sigma = []
+        for rid in self.energy_ids:
+            e = tm.energies[rid]
+            if e.standard is None or not math.isfinite(e.standard):
+                raise MissingDataError(f"reaction {rid}: its standard energy is not a number; give a "
+                                       "value or remove it from the energies so it is treated as unknown")
+            s = 0.0 if e.uncertainty is None or not math.isfinite(e.uncertainty) else abs(e.uncertainty)
+            standard.append(float(e.standard))
+            sigma.append(s)
+        self.standard = np.array(standard, float)
+        self.sigma = np.array(sigma, float)
+        self.energy_reaction_index = np.array([self.reaction_index[r] for r in self.energy_ids], int)
+
+        no_activity = set(tm.no_activity)
+        self.metabolite_ids = []
+        m_index: dict[str, int] = {}
+        t_rows, t_cols, t_vals = [], [], []
+        for k, rid in enumerate(self.energy_ids):
+            for met, coef in model.reactions.get_by_id(rid).metabolites.items():
+                if met.id in no_activity:
+                    continue
+                if met.id not in m_index:
+                    m_index[met.id] = len(self.metabolite_ids)
+                    self.metabolite_ids.append(met.id)
+                t_rows.append(k)
+                t_cols.append(m_index[met.id])
+                t_vals.append(float(coef))
+        self.metabolite_index = m_index
+        self.thermo = (np.array(t_rows, int), np.array(t_cols, int), np.array(t_vals, float))
+        lo, hi = [], []
+        for mid in self.metabolite_ids:
+            bounds = opts.log_bound_overrides.get(mid, tm.log_bounds.get(mid))
+            if bounds is None:
+                raise InputError(f"compound {mid} has no concentration bounds; give conc_min and "
+                                 "conc_max for it (or a default range in the environment)")
+            a, b = float(bounds[0]), float(bounds[1])
+            if not (math.isfinite(a) and math.isfinite(b)):
+                raise InputError(f"compound {mid}: concentration bounds must be positive and finite, "
+                                 f"got ln bounds ({a}, {b})")
+            if a > b + 1e-12:
+                raise InputError(f"compound {mid}: contradictory concentration bounds, lower "
+                                 f"{math.exp(a):.3g} > upper {math.exp(b):.3g}; swap or fix them")
+            lo.append(a)
+            hi.append(max(a, b))
+        self.envelope_lower = np.array(lo, float)
+        self.envelope_upper = np.array(hi, float)
+        self.slack_width = opts.uncertainty_k * self.sigma
+        self.g_lower, self.g_upper = energy_intervals(
+            self.standard, self.slack_width, *self.thermo, self.envelope_lower,
+            self.envelope_upper, tm.RT)
+        self.big_m = direction_big_m(self.g_lower, self.g_upper, opts.min_driving_force)
+
+    # ------------------------------------------------------------------ build
+    def _build(self) -> None:
+        opts, solver, rt = self.options, self.solver, self.thermo_model.RT
+        iface = solver.interface
+        var = iface.Variable
+        n_e = len(self.energy_ids)
+        self.x_vars = [var(f"tfa_x_{i}", lb=a, ub=b)
+                       for i, (a, b) in enumerate(zip(self.envelope_lower, self.envelope_upper))]
+        self.g_vars = [var(f"tfa_g_{j}", lb=float(self.g_lower[j]), ub=float(self.g_upper[j]))
+                       for j in range(n_e)]
+        self.eps_vars = [var(f"tfa_e_{j}", lb=-float(w), ub=float(w)) if w > 0 else None
+                         for j, w in enumerate(self.slack_width)]
+        upper = np.array([max(self.reactions[j].upper_bound, 0.0) for j in self.energy_reaction_index])
+        lower = np.array([max(-self.reactions[j].lower_bound, 0.0) for j in self.energy_reaction_index])
+        self.flux_cap_forward, self.flux_cap_backward = upper, lower
+        if opts.driving_force:
+            fwd_ok = upper > 0
+            bwd_ok = lower > 0
+        else:
+            fwd_ok = self.big_m.forward_possible & (upper > 0)
+            bwd_ok = self.big_m.backward_possible & (lower > 0)
+        self.f_vars = [var(f"tfa_f_{j}", lb=0, ub=1 if fwd_ok[j] else 0, type="binary")
+                       for j in range(n_e)]
+        self.b_vars = [var(f"tfa_b_{j}", lb=0, ub=1 if bwd_ok[j] else 0, type="binary")
+                       for j in range(n_e)]
+        self.u_vars = ([var(f"tfa_u_{j}", lb=0, ub=1, type="binary") for j in range(n_e)]
+                       if opts.uphill else [])
+        self.b_var = None
+        if opts.driving_force:
+            g_abs = float(np.max(np.maximum(-self.g_lower, self.g_upper))) if n_e else 1.0
+            self.driving_force_upper = max(g_abs, opts.min_driving_force)
+            self.b_var = var("tfa_B", lb=-self.driving_force_upper - 1.0, ub=self.driving_force_upper)
+        new_vars = (self.x_vars + self.g_vars + [v for v in self.eps_vars if v is not None]
+                    + self.f_vars + self.b_vars + self.u_vars
+                    + ([self.b_var] if self.b_var is not None else []))
+        solver.add(new_vars)
+        self._variables = new_vars
+
+        con = iface.Constraint
+        rows: list[tuple] = []   # (name, lb, ub, coefficients)
+        t_rows, t_cols, t_vals = self.thermo
+        per_reaction: list[dict] = [dict() for _ in range(n_e)]
+        for k, i, s in zip(t_rows, t_cols, t_vals):
+            d = per_reaction[k]
+            xv = self.x_vars[i]
+            d[xv] = d.get(xv, 0.0) - rt * s
+        delta = opts.min_driving_force
+        b_hi = getattr(self, "driving_force_upper", 0.0)
+        for j in range(n_e):
+            rid = self.energy_ids[j]
+            reaction = self.reactions[self.energy_reaction_index[j]]
+            coefs = per_reaction[j]
+            coefs[self.g_vars[j]] = 1.0
+            if self.eps_vars[j] is not None:
+                coefs[self.eps_vars[j]] = -1.0
+            std = float(self.standard[j])
+            rows.append((f"tfa_def_{j}", std, std, coefs))
+            u = self.u_vars[j] if self.u_vars else None
+            if upper[j] > 0:
+                c = {reaction.forward_variable: 1.0, self.f_vars[j]: -float(upper[j])}
+                if u is not None:
+                    c[u] = -float(upper[j])
+                rows.append((f"tfa_fwd_{j}", None, 0.0, c))
+            if lower[j] > 0:
+                c = {reaction.reverse_variable: 1.0, self.b_vars[j]: -float(lower[j])}
+                if u is not None:
+                    c[u] = -float(lower[j])
+                rows.append((f"tfa_rev_{j}", None, 0.0, c))
+            if upper[j] > 0 and lower[j] > 0:
+                rows.append((f"tfa_dir_{j}", None, 1.0, {self.f_vars[j]: 1.0, self.b_vars[j]: 1.0}))
+            if opts.driving_force:
+                if fwd_ok[j]:
+                    m = float(self.g_upper[j]) + b_hi
+                    rows.append((f"tfa_gf_{j}", None, m,
+                                 {self.g_vars[j]: 1.0, self.b_var: 1.0, self.f_vars[j]: m}))
+                if bwd_ok[j]:
+                    m = b_hi - float(self.g_lower[j])
+                    rows.append((f"tfa_gb_{j}", None, m,
+                                 {self.g_vars[j]: -1.0, self.b_var: 1.0, self.b_vars[j]: m}))
+            else:
+                m_f = float(self.big_m.forward[j])
+                m_b = float(self.big_m.backward[j])
+                if fwd_ok[j] and m_f > 0:
+                    rows.append((f"tfa_gf_{j}", None, m_f - delta, {self.g_vars[j]: 1.0, self.f_vars[j]: m_f}))
+                if bwd_ok[j] and m_b > 0:
+                    rows.append((f"tfa_gb_{j}", None, m_b - delta, {self.g_vars[j]: -1.0, self.b_vars[j]: m_b}))
+            del rid
+        constraints = [con(Zero, lb=lb, ub=ub, name=name, sloppy=True) for name, lb, ub, _ in rows]
+        solver.add(constraints, sloppy=True)
+        solver.update()
+        self._constraints = constraints
+        _set_rows(solver, constraints, [r[3] for r in rows])
+
+        if opts.unknown_energy == "block":
+            for rid in self.unknown_energy_ids:
+                r = self.reactions[self.reaction_index[rid]]
+                for v in (r.forward_variable, r.reverse_variable):
+                    self._saved_bounds.append((v, v.lb, v.ub))
+                    v.lb = 0.0
+                    v.ub = 0.0
+        self.set_objective({})
+
+    # ------------------------------------------------------------------ changes
+    def set_objective(self, coefficients: dict, direction: str = "min") -> None:
+        """Replace the objective by a linear one (empty: a pure feasibility problem)."""
+        objective = self.solver.interface.Objective(Zero, direction=direction, sloppy=True)
+        self.solver.objective = objective
+        if coefficients:
+            objective.set_linear_coefficients(coefficients)
+        self.solver.update()
+        self._objective_is_zero = not coefficients
+
+    def set_log_bounds(self, metabolite_id: str, lower: float, upper: float) -> None:
+        """Change the ln-concentration bounds of one compound within its build-time envelope."""
+        try:
+            i = self.metabolite_index[metabolite_id]
+        except KeyError:
+            raise InputError(f"compound {metabolite_id} has no activity term in any reaction with an "
+                             "energy, so its concentration does not matter here") from None
+        lo_env, hi_env = self.envelope_lower[i], self.envelope_upper[i]
+        if lower < lo_env - 1e-9 or upper > hi_env + 1e-9:
+            raise InputError(f"compound {metabolite_id}: bounds ({math.exp(lower):.3g}, "
+                             f"{math.exp(upper):.3g}) lie outside the range the problem was built for "
+                             f"({math.exp(lo_env):.3g}, {math.exp(hi_env):.3g}); rebuild with "
+                             "log_bound_overrides covering them")
+        if lower > upper:
+            raise InputError(f"compound {metabolite_id}: lower bound above upper bound")
+        xv = self.x_vars[i]
+        xv.set_bounds(float(lower), float(upper))
+
+    def log_bounds_of(self, metabolite_id: str) -> tuple[float, float]:
+        """Current (ln lo, ln hi) of one compound."""
+        xv = self.x_vars[self.metabolite_index[metabolite_id]]
+        return float(xv.lb), float(xv.ub)
+
+    def add_constraint(self, coefficients: dict, lb: float | None, ub: float | None, name: str):
+        """Add a linear constraint (integer cuts, fixed directions); removed with the problem."""
+        c = self.solver.interface.Constraint(Zero, lb=lb, ub=ub, name=name, sloppy=True)
+        self.solver.add([c], sloppy=True)
+        self.solver.update()
+        c.set_linear_coefficients(coefficients)
+        self._extra_constraints.append(c)
+        return c
+
+    def remove_constraint(self, constraint) -> None:
+        """Remove a constraint added by :meth:`add_constraint`."""
+        self.solver.remove([constraint])
+        self._extra_constraints.remove(constraint)
+
+    # ------------------------------------------------------------------ solve
+    def solve(self, what: str = "the thermodynamic flux problem") -> Solution:
+        """Solve; return the solution or raise InfeasibleProblem / UndeterminedError in plain words."""
+        self.solver.configuration.timeout = (None if self.options.time_limit is None
+                                             else int(math.ceil(self.options.time_limit)))
+        started = time.perf_counter()
+        status = self.solver.optimize()
+        seconds = time.perf_counter() - started
+        check_status(status, what, self.options.time_limit)
+        return self._read_solution(seconds)
+
+    def _read_solution(self, seconds: float) -> Solution:
+        primal = self.solver.primal_values
+        fluxes = np.array([primal[r.id] - primal[r.reverse_id] for r in self.reactions], float)
+        x = np.array([primal[v.name] for v in self.x_vars], float)
+        g = np.array([primal[v.name] for v in self.g_vars], float)
+        eps = np.array([primal[v.name] if v is not None else 0.0 for v in self.eps_vars], float)
+        f = np.array([primal[v.name] > 0.5 for v in self.f_vars], bool)
+        b = np.array([primal[v.name] > 0.5 for v in self.b_vars], bool)
+        uphill = [self.energy_ids[j] for j, v in enumerate(self.u_vars) if primal[v.name] > 0.5]
+        b_value = float(primal[self.b_var.name]) if self.b_var is not None else None
+        objective = None if self._objective_is_zero else float(self.solver.objective.value)
+        return Solution(list(self.reaction_ids), fluxes, list(self.metabolite_ids), x,
+                        list(self.energy_ids), g, eps, f, b, uphill, b_value, objective,
+                        self.solver_name, seconds)
+
+    # ------------------------------------------------------------------ certificate
+    def certificate_input(self, solution: Solution, allowed_uphill: list[str] | None = None,
+                          min_driving_force: float | None = None) -> CertificateInput:
+        """Plain arrays for :func:`tfa.verify.certificate.check_solution` (bounds read from the
+        cobra model and the current compound bounds, energies from the ThermoModel)."""
+        lower = np.array([r.lower_bound for r in self.reactions], float)
+        upper = np.array([r.upper_bound for r in self.reactions], float)
+        if self.options.unknown_energy == "block":
+            for rid in self.unknown_energy_ids:
+                j = self.reaction_index[rid]
+                lower[j] = upper[j] = 0.0
+        x_lo = np.array([v.lb for v in self.x_vars], float)
+        x_hi = np.array([v.ub for v in self.x_vars], float)
+        delta = self.options.min_driving_force if min_driving_force is None else min_driving_force
+        return CertificateInput(
+            reaction_ids=list(self.reaction_ids), fluxes=solution.fluxes, flux_lower=lower,
+            flux_upper=upper, stoich_rows=self.stoich[0], stoich_cols=self.stoich[1],
+            stoich_values=self.stoich[2], n_metabolites=self.n_metabolites,
+            metabolite_ids=list(self.metabolite_ids), log_conc=solution.log_conc, log_lower=x_lo,
+            log_upper=x_hi, energy_reaction_index=self.energy_reaction_index,
+            standard=self.standard, sigma=self.sigma, slack=solution.slack,
+            uncertainty_k=self.options.uncertainty_k, thermo_rows=self.thermo[0],
+            thermo_cols=self.thermo[1], thermo_values=self.thermo[2], rt=self.thermo_model.RT,
+            min_driving_force=delta, allowed_uphill=list(allowed_uphill or []))
+
+    # ------------------------------------------------------------------ cleanup
+    def remove(self) -> None:
+        """Take every variable and constraint of this problem off the model; restore bounds and
+        the objective."""
+        if self._removed:
+            return
+        self._removed = True
+        solver = self.solver
+        for v, lb, ub in reversed(self._saved_bounds):
+            v.set_bounds(lb, ub)
+        try:
+            solver.objective = self._saved_objective
+        except Exception:  # noqa: BLE001 - the saved objective may reference removed variables
+            solver.objective = solver.interface.Objective(Zero, sloppy=True)
+        solver.remove(self._extra_constraints + self._constraints)
+        solver.update()
+        solver.remove(self._variables)
+        solver.update()
+
+    def __enter__(self) -> "ThermoProblem":
+        return self
+
+    def __exit__(self, *exc) -> None:
+        self.remove()
+
+    def describe(self) -> dict:
+        """Size and provenance of the problem, for reports."""
+        return {
+            "solver": self.solver_name,
+            "reactions_with_energy": len(self.energy_ids),
+            "reactions_without_energy": list(self.unknown_energy_ids),
+            "unknown_energy_policy": self.options.unknown_energy,
+            "compounds_with_activity": len(self.metabolite_ids),
+            "build_seconds": self.build_seconds,
+        }
+
+
+def _set_rows(solver, constraints: list, coefficient_maps: list[dict]) -> None:
+    """Set the coefficients of freshly added (empty) rows in bulk.
+
+    GLPK: one ``glp_set_mat_row`` per row through swiglpk; the matrix interface (HiGHS): one dict
+    update; any other optlang interface: ``set_linear_coefficients`` per row.
+    """
+    name = solver_name_of(solver)
+    if name == "glpk":
+        import swiglpk
+
+        lp = solver.problem
+        for c, coefs in zip(constraints, coefficient_maps):
+            n = len(coefs)
+            ind = swiglpk.intArray(n + 1)
+            val = swiglpk.doubleArray(n + 1)
+            for k, (v, a) in enumerate(coefs.items(), start=1):
+                ind[k] = v._index
+                val[k] = float(a)
+            swiglpk.glp_set_mat_row(lp, c._index, n, ind, val)
+    elif hasattr(solver.problem, "constraint_coefs"):
+        solver.problem.reset()
+        table = solver.problem.constraint_coefs
+        for c, coefs in zip(constraints, coefficient_maps):
+            cname = c.name
+            for v, a in coefs.items():
+                table[(cname, v.name)] = float(a)
+    else:
+        for c, coefs in zip(constraints, coefficient_maps):
+            c.set_linear_coefficients(coefs)

@@ -1,0 +1,140 @@
+"""An optlang solver interface for HiGHS (LP and MILP), for use as ``model.solver``.
+
+optlang 1.9 reaches HiGHS only through its ``hybrid`` interface, which refuses to import
+unless the quadratic solver OSQP is installed as well. This module is the same matrix-based
+optlang interface (``optlang.matrix_interface``) with the HiGHS call alone, so a cobra model
+can use HiGHS through optlang with nothing but ``highspy`` installed::
+
+    from tfa.problem import highs_interface
+    model.solver = highs_interface      # cobra accepts an optlang interface module
+
+Only linear objectives are supported (LP, MILP). Reference: Q. Huangfu, J. A. J. Hall,
+Parallelizing the dual revised simplex method, Math. Prog. Comp. 10 (2018) 119-142 (HiGHS).
+"""
+
+from __future__ import annotations
+
+import logging
+
+import numpy as np
+import optlang.matrix_interface as mi
+from optlang import interface
+from optlang.exceptions import SolverError
+
+import highspy as hs
+
+log = logging.getLogger(__name__)
+
+#: HiGHS model-status strings -> optlang status.
+_STATUS_MAP = {
+    "Optimal": interface.OPTIMAL,
+    "Not Set": interface.ABORTED,
+    "Load error": interface.SPECIAL,
+    "Model error": interface.SPECIAL,
+    "Presolve error": interface.SPECIAL,
+    "Solve error": interface.SPECIAL,
+    "Postsolve error": interface.SPECIAL,
+    "Empty": interface.UNDEFINED,
+    "Infeasible": interface.INFEASIBLE,
+    "Primal infeasible or unbounded": interface.INFEASIBLE_OR_UNBOUNDED,
+    "Unbounded": interface.UNBOUNDED,
+    "Bound on objective reached": interface.OPTIMAL,
+    "Target for objective reached": interface.SUBOPTIMAL,
+    "Time limit reached": interface.TIME_LIMIT,
+    "Iteration limit reached": interface.ITERATION_LIMIT,
+    "Solution limit reached": interface.NODE_LIMIT,
+    "Interrupted by user": interface.ABORTED,
+    "Unknown": interface.UNDEFINED,
+}
+
+_LP_METHODS = ("auto", "simplex", "interior point")
+_SOLVER_OPTION = {"simplex": "simplex", "interior point": "ipm", "auto": "choose"}
+_PRESOLVE_OPTION = {True: "on", False: "off", "auto": "choose"}
+_VAR_TYPES = np.array([hs.HighsVarType.kContinuous, hs.HighsVarType.kInteger])
+
+
+class HighsProblem(mi.MatrixProblem):
+    """The matrix form of the problem, solved by HiGHS (LP and MILP only)."""
+
+    def __init__(self) -> None:
+        super().__init__()
+        self.settings["presolve"] = "auto"
+
+    def _options(self) -> "hs.HighsOptions":
+        options = hs.HighsOptions()
+        options.primal_feasibility_tolerance = self.settings["primal_inf_tolerance"]
+        options.dual_feasibility_tolerance = self.settings["dual_inf_tolerance"]
+        options.mip_feasibility_tolerance = self.settings["mip_tolerance"]
+        options.presolve = _PRESOLVE_OPTION[self.settings["presolve"]]
+        options.solver = _SOLVER_OPTION[self.settings["lp_method"]]
+        limit = self.settings["time_limit"]
+        options.time_limit = float("inf") if not limit else float(limit)
+        options.log_to_console = self.settings["verbose"] > 0
+        options.output_flag = self.settings["verbose"] > 0
+        options.threads = self.settings["threads"]
+        options.random_seed = 0
+        return options
+
+    def solve(self) -> None:
+        if self.obj_quadratic_coefs:
+            raise SolverError("the HiGHS interface of tfa solves linear problems only")
+        d = float(self.direction)
+        sp = self.build()
+        lp = hs.HighsLp()
+        lp.sense_ = hs.ObjSense.kMinimize
+        lp.num_col_ = len(self.variables)
+        lp.num_row_ = len(self.constraints)
+        lp.col_cost_ = sp.q
+        lp.col_lower_ = sp.vbounds[:, 0] if lp.num_col_ else np.zeros(0)
+        lp.col_upper_ = sp.vbounds[:, 1] if lp.num_col_ else np.zeros(0)
+        if sp.A is not None:
+            lp.a_matrix_.format_ = hs.MatrixFormat.kColwise
+            lp.a_matrix_.start_ = sp.A.indptr
+            lp.a_matrix_.index_ = sp.A.indices
+            lp.a_matrix_.value_ = sp.A.data
+            lp.row_lower_ = sp.bounds[:, 0]
+            lp.row_upper_ = sp.bounds[:, 1]
+        if self.integer_vars:
+            lp.integrality_ = list(_VAR_TYPES[sp.integer])
+        highs = hs.Highs()
+        highs.passOptions(self._options())
+        highs.passModel(lp)
+        highs.run()
+        self.status = highs.modelStatusToString(highs.getModelStatus())
+        info = highs.getInfo()
+        sol = highs.getSolution()
+        primals = np.array(sol.col_value)
+        cprimals = np.array(sol.row_value)
+        if primals.size == len(self.variables):
+            self.primals = dict(zip(self.variables, primals))
+            self.cprimals = dict(zip(self.constraints, cprimals))
+            if not self.integer_vars and sol.dual_valid:
+                self.vduals = dict(zip(self.variables, np.array(sol.col_dual) * d))
+                self.duals = dict(zip(self.constraints, np.array(sol.row_dual) * d))
+        self.obj_value = info.objective_function_value * self.direction
+        self.info = info
+        self._solution = None
+
+    def still_valid(self, A, bounds) -> bool:  # noqa: N803 - optlang's signature
+        return False
+
+
+class Variable(mi.Variable):
+    pass
+
+
+class Constraint(mi.Constraint):
+    _INDICATOR_CONSTRAINT_SUPPORT = False
+
+
+class Objective(mi.Objective):
+    pass
+
+
+class Configuration(mi.Configuration):
+    lp_methods = _LP_METHODS
+
+
+class Model(mi.Model):
+    ProblemClass = HighsProblem
+    status_map = _STATUS_MAP
