@@ -309,10 +309,13 @@ def _structures() -> dict[str, tuple[str, str]]:
     add("cytosine", cyt)
     add("thymine", "Cc1c[nH]c(=O)[nH]c1=O")
     add("uracil", "O=c1cc[nH]c(=O)[nH]1")
-    bases = {"A": "n1cnc2c(N)ncnc21", "G": "n1cnc2c1[nH]c(N)nc2=O", "C": "n1ccc(N)nc1=O",
-             "T": "n1cc(C)c(=O)[nH]c1=O", "U": "n1ccc(=O)[nH]c1=O"}
-    basesH = {"A": "n1cnc2c(N)[nH+]cnc21", "G": "n1c[nH+]c2c1[nH]c(N)nc2=O",
-              "C": "n1ccc(N)[nH+]c1=O"}
+    # ring-closure labels %11/%12 so that a base written inside the sugar ring (label 1)
+    # does not close the sugar's ring
+    bases = {"A": "n%11cnc%12c(N)ncnc%12%11", "G": "n%11cnc%12c%11nc(N)[nH]c%12=O",
+             "C": "n%11ccc(N)nc%11=O", "T": "n%11cc(C)c(=O)[nH]c%11=O",
+             "U": "n%11ccc(=O)[nH]c%11=O"}
+    basesH = {"A": "n%11cnc%12c(N)[nH+]cnc%12%11", "G": "n%11c[nH+]c%12c%11nc(N)[nH]c%12=O",
+              "C": "n%11ccc(N)[nH+]c%11=O"}
     nuc = {"A": "adenosine", "G": "guanosine", "C": "cytidine", "T": "thymidine", "U": "uridine"}
     for b, name in nuc.items():
         add(name, f"OCC1OC({bases[b]})C(O)C1O", "ribofuranoside")
@@ -354,8 +357,8 @@ def _structures() -> dict[str, tuple[str, str]]:
                     note = "protonated base" if base_h else ""
                     add(f"{d}{hs}{code}{sign}", smiles, note)
     # pyridine nucleotides: nicotinamide ring oxidised (pyridinium) or reduced (1,4-dihydro)
-    ox_ring = "[n+]1cccc(C(N)=O)c1"
-    red_ring = "N1C=CCC(C(N)=O)=C1"
+    ox_ring = "[n+]%13cccc(C(N)=O)c%13"
+    red_ring = "N%13C=CCC(C(N)=O)=C%13"
     for state, ring in (("ox", ox_ring), ("red", red_ring)):
         z = 1 if state == "ox" else 0
         for h in range(0, 3):
@@ -369,7 +372,7 @@ def _structures() -> dict[str, tuple[str, str]]:
             add(f"{hs}NicMP({state}){sign}", smi)
         # NAD: protons to adenine N1 first, then one diester oxygen
         for h in range(0, 3):
-            ade_ring = "n1cnc2c(N)[nH+]cnc21" if h >= 1 else "n1cnc2c(N)ncnc21"
+            ade_ring = basesH["A"] if h >= 1 else bases["A"]
             o2 = "O" if h >= 2 else "[O-]"
             smi = f"{o2}P(=O)(OCC1OC({ring})C(O)C1O)OP(=O)([O-])OCC1OC({ade_ring})C(O)C1O"
             charge = z - 2 + h
@@ -381,7 +384,7 @@ def _structures() -> dict[str, tuple[str, str]]:
             mono = ["[O-]", "[O-]"]
             if h >= 1:
                 mono[0] = "O"
-            ade_ring = "n1cnc2c(N)[nH+]cnc21" if h >= 2 else "n1cnc2c(N)ncnc21"
+            ade_ring = basesH["A"] if h >= 2 else bases["A"]
             if h >= 3:
                 mono[1] = "O"
             o2 = "O" if h >= 4 else "[O-]"
