@@ -1,0 +1,659 @@
+"""Figures of a network assessment, drawn with matplotlib (Agg backend, no display).
+
+Each figure function takes a plain :class:`pandas.DataFrame` with documented columns and returns a
+:class:`matplotlib.figure.Figure`; :func:`save_figure` writes it as PNG and SVG atomically. The
+figures know nothing of the analyses, so they can be drawn from any table with these columns.
+
+Figures
+-------
+- :func:`energy_profile_figure`: cumulative Delta_r G' along a route, as a staircase.
+- :func:`h2_scan_figure`: feasibility, uphill-set size and driving force against dissolved H2.
+- :func:`census_figure`: distribution of Delta_r G' per mode, with counts of exergonic steps.
+- :func:`ranges_figure`: the feasible interval of Delta_r G' per reaction.
+
+Colours come from the colour-blind-safe palette of Okabe and Ito (M. Okabe, K. Ito, "Color
+Universal Design", 2008), fixed per role so that a mode has the same colour in every figure.
+Energies are in kJ/mol, concentrations in mol/L (gases: bar).
+"""
+
+from __future__ import annotations
+
+import io
+import logging
+import math
+import re
+from pathlib import Path
+from typing import Sequence
+
+import matplotlib
+
+matplotlib.use("Agg")
+
+import matplotlib.pyplot as plt  # noqa: E402
+import numpy as np  # noqa: E402
+import pandas as pd  # noqa: E402
+from matplotlib.figure import Figure  # noqa: E402
+from matplotlib.lines import Line2D  # noqa: E402
+from matplotlib.ticker import MaxNLocator  # noqa: E402
+
+from ..errors import InputError  # noqa: E402
+from ..util.files import write_bytes  # noqa: E402
+
+logger = logging.getLogger(__name__)
+
+#: Okabe-Ito colours (colour-blind safe), by name.
+OKABE_ITO = {
+    "black": "#000000",
+    "orange": "#E69F00",
+    "sky_blue": "#56B4E9",
+    "bluish_green": "#009E73",
+    "yellow": "#F0E442",
+    "blue": "#0072B2",
+    "vermillion": "#D55E00",
+    "reddish_purple": "#CC79A7",
+}
+
+#: Colour of each of the four modes (same in every figure).
+MODE_COLOURS = {
+    "native": OKABE_ITO["blue"],
+    "h2_only": OKABE_ITO["bluish_green"],
+    "no_atp_strict": OKABE_ITO["orange"],
+    "no_atp_bare": OKABE_ITO["reddish_purple"],
+}
+
+#: Colours of roles shared by several figures.
+DOWNHILL_COLOUR = OKABE_ITO["blue"]
+UPHILL_COLOUR = OKABE_ITO["vermillion"]
+REFERENCE_COLOUR = "#6E6E6E"
+THRESHOLD_COLOUR = OKABE_ITO["vermillion"]
+
+#: Words for the modes, for legends and axis labels.
+MODE_LABELS = {
+    "native": "native (ATP made inside)",
+    "h2_only": "H2 in place of carriers",
+    "no_atp_strict": "without ATP",
+    "no_atp_bare": "bare chemistry (ATP coupling stripped)",
+}
+
+#: Short names of the modes, for tick labels.
+MODE_SHORT_LABELS = {
+    "native": "native",
+    "h2_only": "H2 for carriers",
+    "no_atp_strict": "without ATP",
+    "no_atp_bare": "bare chemistry",
+}
+
+#: Smallest font used anywhere in a figure, pt.
+MIN_FONT_PT = 8.0
+
+#: Width of every figure, inches (shown about 900 px wide in the HTML report).
+FIGURE_WIDTH_IN = 8.0
+
+#: Keyword for horizontal box plots ("orientation" from matplotlib 3.10, "vert" before).
+_HORIZONTAL_BOX = ({"orientation": "horizontal"}
+                   if tuple(int(p) for p in matplotlib.__version__.split(".")[:2]) >= (3, 10)
+                   else {"vert": False})
+
+#: Marker per kind of energy in the census (cycled).
+_KIND_MARKERS = ("o", "s", "^", "D", "v")
+
+_STYLE = {
+    "font.size": 10.0,
+    "axes.titlesize": 11.0,
+    "axes.labelsize": 10.0,
+    "xtick.labelsize": 9.0,
+    "ytick.labelsize": 9.0,
+    "legend.fontsize": 9.0,
+    "axes.spines.top": False,
+    "axes.spines.right": False,
+    "svg.fonttype": "path",  # glyphs as paths: the SVG looks the same on every machine
+    "svg.hashsalt": "tfa",  # stable element ids in the SVG
+}
+
+
+def _new_figure(height_in: float, nrows: int = 1, sharex: bool = False, **kwargs):
+    with plt.rc_context(_STYLE):
+        fig, axes = plt.subplots(nrows, 1, figsize=(FIGURE_WIDTH_IN, height_in), sharex=sharex,
+                                 layout="constrained", **kwargs)
+    return fig, axes
+
+
+def _require_columns(frame: pd.DataFrame, columns: Sequence[str], figure: str) -> None:
+    if not isinstance(frame, pd.DataFrame):
+        raise InputError(f"{figure}: expected a pandas DataFrame, got {type(frame).__name__}")
+    missing = [c for c in columns if c not in frame.columns]
+    if missing:
+        raise InputError(
+            f"{figure}: the table lacks the column(s) {', '.join(missing)}; it has "
+            f"{', '.join(map(str, frame.columns)) or 'no columns'}; add them"
+        )
+    if frame.empty:
+        raise InputError(f"{figure}: the table has no rows; nothing to draw")
+
+
+def _wrap_label(text: str, width: int = 14, max_lines: int = 3) -> str:
+    """Wrap a label at spaces, underscores and hyphens (kept), shortened beyond ``max_lines``.
+
+    >>> _wrap_label("methylene_THF_reductase", 12)
+    'methylene_\\nTHF_\\nreductase'
+    """
+    text = str(text)
+    pieces = [p for p in re.split(r"(?<=[_\-\s])", text) if p]
+    lines: list[str] = []
+    current = ""
+    for piece in pieces:
+        if current and len(current) + len(piece.rstrip()) > width:
+            lines.append(current.rstrip())
+            current = ""
+        while len(piece) > width:  # a single piece longer than a line: cut it
+            lines.append(piece[:width])
+            piece = piece[width:]
+        current += piece
+    if current.strip():
+        lines.append(current.rstrip())
+    if len(lines) > max_lines:
+        lines = lines[:max_lines]
+        lines[-1] = lines[-1][: max(1, width - 1)] + "\u2026"
+    return "\n".join(lines) if lines else text
+
+
+def _scientific(value: float) -> str:
+    """A number for a figure label in mathtext, e.g. ``3.0e-05`` -> ``$3.0\\times10^{-5}$``.
+
+    >>> print(_scientific(3e-5), _scientific(0.25))
+    $3.0\\times10^{-5}$ 0.25
+    """
+    if value == 0 or 1e-2 <= abs(value) < 1e4:
+        return f"{value:.3g}"
+    exponent = int(math.floor(math.log10(abs(value))))
+    mantissa = value / 10**exponent
+    return f"${mantissa:.1f}\\times10^{{{exponent}}}$"
+
+
+# ---------------------------------------------------------------------------------------------
+# 1. energy profile
+# ---------------------------------------------------------------------------------------------
+
+
+def energy_profile_figure(frame: pd.DataFrame, title: str | None = None) -> Figure:
+    """Cumulative Delta_r G' along a route, drawn as a staircase of levels.
+
+    The level after step k is G_k = sum_{i<=k} Delta_r G'_i (kJ/mol), starting from G_0 = 0 for
+    the substrates of the route; a step whose own Delta_r G' > 0 is drawn in the uphill colour.
+
+    Parameters
+    ----------
+    frame : DataFrame
+        One row per step, in route order. Columns: ``step`` (reaction id or label),
+        ``dg_prime`` (Delta_r G', kJ/mol, at the solution or at reference concentrations),
+        optional ``dg_standard`` (Delta_r G'deg, kJ/mol), drawn as a second, dashed staircase.
+    title : str, optional
+        Axes title.
+
+    Returns
+    -------
+    Figure
+
+    Examples
+    --------
+    >>> fig = energy_profile_figure(pd.DataFrame({"step": ["a", "b"], "dg_prime": [-5.0, 2.0]}))
+    >>> fig.axes[0].get_ylabel()
+    "cumulative ΔrG' (kJ/mol)"
+    """
+    _require_columns(frame, ["step", "dg_prime"], "energy profile")
+    steps = [str(s) for s in frame["step"]]
+    dg = pd.to_numeric(frame["dg_prime"], errors="coerce").to_numpy(dtype=float)
+    if not np.all(np.isfinite(dg)):
+        bad = [steps[i] for i in np.flatnonzero(~np.isfinite(dg))]
+        raise InputError(f"energy profile: step(s) {', '.join(bad)} have no finite dg_prime; "
+                         "give a value in kJ/mol for every step of the route")
+    n = len(steps)
+    height = 4.6 if n <= 12 else 5.2
+    fig, ax = _new_figure(height)
+    width = 0.6  # half-width of a level
+
+    def staircase(values: np.ndarray, colour_steps: bool, style: str, colour: str,
+                  lw: float) -> None:
+        levels = np.concatenate([[0.0], np.cumsum(values)])
+        for k, level in enumerate(levels):
+            ax.hlines(level, k - width / 2, k + width / 2, colors=colour, linestyles=style,
+                      linewidth=lw + 0.8)
+        for k in range(n):
+            c = colour
+            if colour_steps:
+                c = UPHILL_COLOUR if values[k] > 0 else DOWNHILL_COLOUR
+            ax.plot([k + width / 2, k + 1 - width / 2], [levels[k], levels[k + 1]], color=c,
+                    linestyle=style, linewidth=lw)
+
+    if "dg_standard" in frame.columns:
+        std = pd.to_numeric(frame["dg_standard"], errors="coerce").to_numpy(dtype=float)
+        if np.all(np.isfinite(std)):
+            staircase(std, False, "--", REFERENCE_COLOUR, 1.2)
+        else:
+            logger.warning("energy profile: dg_standard has missing values; not drawn")
+            std = None
+    else:
+        std = None
+    staircase(dg, True, "-", OKABE_ITO["black"], 1.6)
+
+    levels = np.concatenate([[0.0], np.cumsum(dg)])
+    every = levels if std is None else np.concatenate([levels, np.cumsum(std)])
+    span = float(np.ptp(every)) or 1.0
+    if n <= 20:  # annotate each step's own energy beside its connector
+        for k in range(n):
+            y = (levels[k] + levels[k + 1]) / 2
+            ax.annotate(f"{dg[k]:+.0f}", (k + 0.5, y), xytext=(5, 0), textcoords="offset points",
+                        ha="left", va="center", fontsize=MIN_FONT_PT,
+                        color=UPHILL_COLOUR if dg[k] > 0 else DOWNHILL_COLOUR,
+                        bbox={"boxstyle": "round,pad=0.1", "fc": "white", "ec": "none",
+                              "alpha": 0.8})
+    ax.axhline(0.0, color=REFERENCE_COLOUR, linewidth=0.8, linestyle=":")
+    ax.set_xlim(-0.6, n + 0.6)
+    ax.set_ylim(min(every.min(), 0) - 0.08 * span, max(every.max(), 0) + 0.08 * span)
+    ax.set_xticks(np.arange(n) + 0.5)
+    if n <= 6:  # room for wrapped, horizontal labels
+        labels = [_wrap_label(s, 16, 3) for s in steps]
+        ax.set_xticklabels(labels, fontsize=9.0)
+    else:  # one slanted line each, shortened when very long
+        labels = [_wrap_label(s, 28, 1) for s in steps]
+        ax.set_xticklabels(labels, rotation=35, ha="right", rotation_mode="anchor",
+                           fontsize=9.0 if n <= 14 else MIN_FONT_PT)
+    ax.set_xlabel("step along the route")
+    ax.set_ylabel("cumulative ΔrG' (kJ/mol)")
+    handles = [
+        Line2D([], [], color=DOWNHILL_COLOUR, lw=1.6, label="downhill step (ΔrG' < 0)"),
+        Line2D([], [], color=UPHILL_COLOUR, lw=1.6, label="uphill step (ΔrG' > 0)"),
+    ]
+    if std is not None:
+        handles.append(Line2D([], [], color=REFERENCE_COLOUR, lw=1.2, ls="--",
+                              label="standard, ΔrG'°"))
+    ax.legend(handles=handles, loc="best", frameon=True, framealpha=0.9, edgecolor="none")
+    ax.set_title(title or f"Energy profile: total ΔrG' = {levels[-1]:.1f} kJ/mol over {n} steps")
+    return fig
+
+
+# ---------------------------------------------------------------------------------------------
+# 2. H2 scan
+# ---------------------------------------------------------------------------------------------
+
+_H2_AXIS_LABELS = {
+    "mol/L": "dissolved H2 (mol/L)",
+    "bar": "H2 partial pressure (bar)",
+}
+
+
+def h2_scan_figure(frame: pd.DataFrame, unit: str = "mol/L", threshold: float | None = None,
+                   title: str | None = None) -> Figure:
+    """Feasibility, size of the minimal uphill set and driving force against the H2 supply.
+
+    Three stacked panels on a shared logarithmic H2 axis; the H2 threshold (the smallest H2 at
+    which the network runs) as a vertical line when given.
+
+    Parameters
+    ----------
+    frame : DataFrame
+        One row per scanned H2 value. Columns: ``h2`` (mol/L, or bar with ``unit="bar"``; > 0),
+        ``feasible`` (bool), ``uphill_count`` (int, NaN where not computed),
+        ``driving_force`` (kJ/mol, NaN where infeasible or not computed).
+    unit : {"mol/L", "bar"}
+        Unit of ``h2`` and of ``threshold``.
+    threshold : float, optional
+        H2 threshold in ``unit``.
+    title : str, optional
+        Title above the panels.
+
+    Returns
+    -------
+    Figure
+
+    Examples
+    --------
+    >>> f = pd.DataFrame({"h2": [1e-6, 1e-4], "feasible": [False, True],
+    ...                   "uphill_count": [2, 0], "driving_force": [float("nan"), 1.5]})
+    >>> h2_scan_figure(f, threshold=1e-5).axes[-1].get_xlabel()
+    'dissolved H2 (mol/L)'
+    """
+    _require_columns(frame, ["h2", "feasible", "uphill_count", "driving_force"], "H2 scan")
+    if unit not in _H2_AXIS_LABELS:
+        raise InputError(f"H2 scan: unit {unit!r} unknown; use 'mol/L' or 'bar'")
+    data = frame.copy()
+    data["h2"] = pd.to_numeric(data["h2"], errors="coerce")
+    if not (data["h2"] > 0).all():
+        raise InputError("H2 scan: every h2 value must be a positive number (log axis); "
+                         f"got {data['h2'].min()!r}")
+    data = data.sort_values("h2")
+    h2 = data["h2"].to_numpy(dtype=float)
+    feasible = data["feasible"].map(lambda v: bool(v) if pd.notna(v) else False).to_numpy()
+    uphill = pd.to_numeric(data["uphill_count"], errors="coerce").to_numpy(dtype=float)
+    force = pd.to_numeric(data["driving_force"], errors="coerce").to_numpy(dtype=float)
+
+    fig, axes = _new_figure(6.4, nrows=3, sharex=True,
+                            gridspec_kw={"height_ratios": [0.7, 1.0, 1.2]})
+    ax_f, ax_u, ax_d = axes
+
+    ax_f.plot(h2, feasible.astype(float), color=REFERENCE_COLOUR, lw=0.8, drawstyle="steps-mid")
+    ax_f.scatter(h2[feasible], np.ones(feasible.sum()), color=DOWNHILL_COLOUR, zorder=3,
+                 s=22, label="runs")
+    ax_f.scatter(h2[~feasible], np.zeros((~feasible).sum()), color=UPHILL_COLOUR, marker="x",
+                 zorder=3, s=22, label="does not run")
+    ax_f.set_yticks([0, 1])
+    ax_f.set_yticklabels(["no", "yes"])
+    ax_f.set_ylim(-0.35, 1.35)
+    ax_f.set_ylabel("feasible")
+
+    ok = np.isfinite(uphill)
+    ax_u.plot(h2[ok], uphill[ok], color=OKABE_ITO["orange"], marker="o", ms=4, lw=1.2,
+              drawstyle="steps-mid")
+    ax_u.yaxis.set_major_locator(MaxNLocator(integer=True))
+    top = np.nanmax(uphill) if ok.any() else 1.0
+    ax_u.set_ylim(-0.4, max(1.0, top) + 0.6)
+    ax_u.set_ylabel("uphill steps\n(count)")
+
+    ok = np.isfinite(force)
+    ax_d.plot(h2[ok], force[ok], color=DOWNHILL_COLOUR, marker="o", ms=4, lw=1.2)
+    ax_d.axhline(0.0, color=REFERENCE_COLOUR, lw=0.8, ls=":")
+    ax_d.set_ylabel("driving force\n(kJ/mol)")
+    ax_d.set_xscale("log")
+    ax_d.set_xlabel(_H2_AXIS_LABELS[unit])
+    if not ok.any():
+        ax_d.text(0.5, 0.5, "no driving force computed", transform=ax_d.transAxes,
+                  ha="center", va="center", color=REFERENCE_COLOUR)
+
+    if threshold is not None and math.isfinite(threshold) and threshold > 0:
+        for ax in axes:
+            ax.axvline(threshold, color=THRESHOLD_COLOUR, lw=1.0, ls="--")
+        ax_f.annotate(f"threshold {_scientific(threshold)} {unit}", (threshold, 1.0),
+                      xytext=(4, 6), textcoords="offset points", ha="left", va="bottom",
+                      fontsize=MIN_FONT_PT + 1, color=THRESHOLD_COLOUR)
+    lo, hi = h2.min(), h2.max()
+    if threshold is not None and math.isfinite(threshold) and threshold > 0:
+        lo, hi = min(lo, threshold), max(hi, threshold)
+    ax_d.set_xlim(lo / 2.0, hi * 2.0)
+    for ax in axes:
+        ax.yaxis.set_label_coords(-0.08, 0.5)
+    fig.suptitle(title or "Network against H2 supply", fontsize=11)
+    return fig
+
+
+# ---------------------------------------------------------------------------------------------
+# 3. census
+# ---------------------------------------------------------------------------------------------
+
+
+def census_figure(frame: pd.DataFrame, title: str | None = None, seed: int = 0) -> Figure:
+    """Distribution of Delta_r G' of the reactions in each mode (strip plot over a box plot).
+
+    One row of points per mode (and per kind of energy, when several are given), a box for the
+    quartiles, a vertical line at zero; the legend counts the exergonic reactions
+    (Delta_r G' < 0) of each row.
+
+    Parameters
+    ----------
+    frame : DataFrame
+        Long table: ``mode``, ``reaction``, ``dg_prime`` (kJ/mol); optional ``kind``
+        (e.g. "ΔrG'°", "ΔrG' at 1 mM"). Rows with a missing ``dg_prime`` are left out.
+    title : str, optional
+        Axes title.
+    seed : int
+        Seed of the vertical jitter of the points (the figure is reproducible).
+
+    Returns
+    -------
+    Figure
+
+    Examples
+    --------
+    >>> f = pd.DataFrame({"mode": ["native"] * 3, "reaction": ["a", "b", "c"],
+    ...                   "dg_prime": [-10.0, 5.0, -1.0]})
+    >>> census_figure(f).axes[0].get_xlabel()
+    "ΔrG' (kJ/mol)"
+    """
+    _require_columns(frame, ["mode", "reaction", "dg_prime"], "census")
+    data = frame.copy()
+    data["dg_prime"] = pd.to_numeric(data["dg_prime"], errors="coerce")
+    dropped = int(data["dg_prime"].isna().sum())
+    data = data.dropna(subset=["dg_prime"])
+    if data.empty:
+        raise InputError("census: no reaction has a finite dg_prime; nothing to draw")
+    if "kind" not in data.columns:
+        data["kind"] = "ΔrG'"
+    data["kind"] = data["kind"].astype(str)
+    modes = [m for m in MODE_LABELS if m in set(data["mode"])]
+    modes += [m for m in dict.fromkeys(data["mode"].astype(str)) if m not in modes]
+    kinds = list(dict.fromkeys(data["kind"]))
+    rows = [(m, k) for m in modes for k in kinds
+            if ((data["mode"] == m) & (data["kind"] == k)).any()]
+    height = max(3.2, 1.6 + 0.5 * len(rows) + 0.2 * ((len(rows) + 1) // 2))
+    fig, ax = _new_figure(height)
+    rng = np.random.default_rng(seed)
+    handles = []
+    for y, (mode, kind) in enumerate(rows):
+        values = data.loc[(data["mode"] == mode) & (data["kind"] == kind), "dg_prime"]
+        values = values.to_numpy(dtype=float)
+        colour = MODE_COLOURS.get(mode, OKABE_ITO["black"])
+        marker = _KIND_MARKERS[kinds.index(kind) % len(_KIND_MARKERS)]
+        ax.boxplot(values, positions=[y], **_HORIZONTAL_BOX, widths=0.5, showfliers=False,
+                   patch_artist=True, manage_ticks=False,
+                   boxprops={"facecolor": "none", "edgecolor": colour},
+                   medianprops={"color": colour, "linewidth": 1.6},
+                   whiskerprops={"color": colour}, capprops={"color": colour})
+        jitter = rng.uniform(-0.18, 0.18, size=len(values))
+        ax.scatter(values, y + jitter, s=16, color=colour, marker=marker, alpha=0.75,
+                   edgecolors="none", zorder=3)
+        exergonic = int((values < 0).sum())
+        label = MODE_SHORT_LABELS.get(mode, mode) + (f", {kind}" if len(kinds) > 1 else "")
+        handles.append(Line2D([], [], color=colour, marker=marker, ls="none",
+                              label=f"{label}: {exergonic} of {len(values)} exergonic"))
+    ax.axvline(0.0, color=REFERENCE_COLOUR, lw=1.0, ls="--")
+    ax.set_yticks(range(len(rows)))
+    ax.set_yticklabels([MODE_SHORT_LABELS.get(m, _wrap_label(m, 16, 1))
+                        + (f"\n{k}" if len(kinds) > 1 else "") for m, k in rows])
+    ax.set_ylim(len(rows) - 0.5, -0.5)
+    ax.set_xlabel("ΔrG' (kJ/mol)")
+    fig.legend(handles=handles, loc="outside lower center", ncol=2 if len(handles) > 1 else 1,
+               frameon=False, title="exergonic = ΔrG' < 0", title_fontsize=9.0)
+    text = title or "Census: reaction energies per mode"
+    if dropped:
+        text += f" ({dropped} without a value left out)"
+    ax.set_title(text)
+    return fig
+
+
+# ---------------------------------------------------------------------------------------------
+# 4. ranges
+# ---------------------------------------------------------------------------------------------
+
+#: Most reactions drawn in one ranges figure; beyond this the most constrained are shown.
+MAX_RANGE_ROWS = 60
+
+
+def select_ranges(frame: pd.DataFrame, max_reactions: int = MAX_RANGE_ROWS
+                  ) -> tuple[pd.DataFrame, str]:
+    """The rows a ranges figure shows, sorted, and a caption note saying what was left out.
+
+    Rows are sorted by the midpoint of [dg_min, dg_max] (most downhill at the top). When there
+    are more than ``max_reactions`` rows, the ``max_reactions`` narrowest intervals (the most
+    constrained reactions) are kept.
+
+    Parameters
+    ----------
+    frame : DataFrame
+        Columns ``reaction``, ``dg_min``, ``dg_max`` (kJ/mol), optional ``dg_at_solution``.
+    max_reactions : int
+        Largest number of rows to keep.
+
+    Returns
+    -------
+    (DataFrame, str)
+        The rows to draw and a note for the caption ("" when nothing was left out).
+
+    Examples
+    --------
+    >>> f = pd.DataFrame({"reaction": list("abc"), "dg_min": [-9.0, -1.0, -50.0],
+    ...                   "dg_max": [-1.0, 0.0, 50.0]})
+    >>> rows, note = select_ranges(f, max_reactions=2)
+    >>> list(rows["reaction"]), note
+    (['a', 'b'], 'showing the 2 most constrained of 3 reactions (narrowest ranges)')
+    """
+    _require_columns(frame, ["reaction", "dg_min", "dg_max"], "ranges")
+    data = frame.copy()
+    for column in ("dg_min", "dg_max"):
+        data[column] = pd.to_numeric(data[column], errors="coerce")
+    bad = data["dg_min"].isna() | data["dg_max"].isna()
+    if bad.any():
+        logger.info("ranges: %d reaction(s) without a range left out", int(bad.sum()))
+    data = data.loc[~bad]
+    if (data["dg_min"] > data["dg_max"] + 1e-9).any():
+        wrong = data.loc[data["dg_min"] > data["dg_max"] + 1e-9, "reaction"].astype(str)
+        raise InputError(f"ranges: dg_min > dg_max for {', '.join(wrong)}; swap or fix them")
+    note = ""
+    if len(data) > max_reactions:
+        width = (data["dg_max"] - data["dg_min"]).replace([np.inf], np.finfo(float).max)
+        data = data.assign(_width=width).sort_values("_width", kind="stable")
+        data = data.head(max_reactions).drop(columns="_width")
+        note = (f"showing the {max_reactions} most constrained of {len(frame)} reactions "
+                "(narrowest ranges)")
+    if bad.any():
+        note = (note + "; " if note else "") + f"{int(bad.sum())} without a range left out"
+    lo = data["dg_min"].clip(lower=-1e6)
+    hi = data["dg_max"].clip(upper=1e6)
+    data = data.assign(_mid=(lo + hi) / 2).sort_values(["_mid", "reaction"], kind="stable")
+    return data.drop(columns="_mid").reset_index(drop=True), note
+
+
+def ranges_figure(frame: pd.DataFrame, title: str | None = None,
+                  max_reactions: int = MAX_RANGE_ROWS) -> Figure:
+    """The range of Delta_r G' each reaction can take over the feasible set, one bar each.
+
+    Rows as chosen by :func:`select_ranges`; an interval entirely below zero (the reaction must
+    run forward) is drawn in the downhill colour, one entirely above zero (must run backward)
+    in the uphill colour, one spanning zero in grey. The value at the returned solution, when
+    given, is a black tick. The figure grows with the number of rows (about 0.2 in each), so the
+    labels keep at least 8 pt.
+
+    Parameters
+    ----------
+    frame : DataFrame
+        Columns ``reaction``, ``dg_min``, ``dg_max`` (kJ/mol), optional ``dg_at_solution``.
+    title : str, optional
+        Axes title; the note of :func:`select_ranges` is added to it.
+    max_reactions : int
+        Largest number of rows drawn.
+
+    Returns
+    -------
+    Figure
+
+    Examples
+    --------
+    >>> f = pd.DataFrame({"reaction": ["a"], "dg_min": [-3.0], "dg_max": [2.0]})
+    >>> ranges_figure(f).axes[0].get_xlabel()
+    "ΔrG' range over the feasible set (kJ/mol)"
+    """
+    rows, note = select_ranges(frame, max_reactions)
+    if rows.empty:
+        raise InputError("ranges: no reaction has a finite range; nothing to draw")
+    n = len(rows)
+    height = 2.2 + 0.21 * n
+    fig, ax = _new_figure(height)
+    lo_all = rows["dg_min"].replace(-np.inf, np.nan).min()
+    hi_all = rows["dg_max"].replace(np.inf, np.nan).max()
+    lo_all = min(0.0, lo_all if np.isfinite(lo_all) else 0.0)
+    hi_all = max(0.0, hi_all if np.isfinite(hi_all) else 0.0)
+    pad = 0.06 * ((hi_all - lo_all) or 1.0)
+    left, right = lo_all - pad, hi_all + pad
+    for y, row in rows.iterrows():
+        lo, hi = float(row["dg_min"]), float(row["dg_max"])
+        if hi < 0:
+            colour = DOWNHILL_COLOUR
+        elif lo > 0:
+            colour = UPHILL_COLOUR
+        else:
+            colour = REFERENCE_COLOUR
+        a, b = max(lo, left), min(hi, right)
+        ax.hlines(y, a, b, color=colour, lw=4.0 if n <= 40 else 3.0)
+        if not math.isfinite(lo):
+            ax.plot(left, y, marker="<", color=colour, ms=5)
+        if not math.isfinite(hi):
+            ax.plot(right, y, marker=">", color=colour, ms=5)
+        if abs(b - a) < 1e-9:
+            ax.plot(a, y, marker="|", color=colour, ms=8, mew=2)
+    has_solution = "dg_at_solution" in rows.columns
+    if has_solution:
+        sol = pd.to_numeric(rows["dg_at_solution"], errors="coerce")
+        ok = sol.notna().to_numpy()
+        ax.plot(sol[ok], np.arange(n)[ok], ls="none", marker="|", color=OKABE_ITO["black"],
+                ms=9, mew=1.6)
+    ax.axvline(0.0, color=OKABE_ITO["black"], lw=0.8, ls="--")
+    ax.set_xlim(left, right)
+    ax.set_ylim(n - 0.5, -0.5)
+    ax.set_yticks(range(n))
+    label_size = 9.0 if n <= 30 else MIN_FONT_PT
+    ax.set_yticklabels([_wrap_label(r, 28, 1) for r in rows["reaction"].astype(str)],
+                       fontsize=label_size)
+    ax.set_xlabel("ΔrG' range over the feasible set (kJ/mol)")
+    ax.grid(axis="x", color="#DDDDDD", lw=0.6)
+    ax.set_axisbelow(True)
+    handles = [
+        Line2D([], [], color=DOWNHILL_COLOUR, lw=4, label="always downhill (forward)"),
+        Line2D([], [], color=UPHILL_COLOUR, lw=4, label="always uphill (runs backward)"),
+        Line2D([], [], color=REFERENCE_COLOUR, lw=4, label="either direction"),
+    ]
+    if has_solution:
+        handles.append(Line2D([], [], color=OKABE_ITO["black"], marker="|", ls="none", ms=9,
+                              mew=1.6, label="at the solution"))
+    fig.legend(handles=handles, loc="outside lower center", ncol=4 if len(handles) == 4 else 3,
+               frameon=False, fontsize=MIN_FONT_PT + 0.5, handlelength=1.6)
+    text = title or "Ranges of ΔrG'"
+    if note:
+        text += f"\n({note})"
+    ax.set_title(text)
+    return fig
+
+
+# ---------------------------------------------------------------------------------------------
+# writing
+# ---------------------------------------------------------------------------------------------
+
+
+def figure_bytes(fig: Figure, fmt: str, dpi: int = 150) -> bytes:
+    """Render a figure to PNG or SVG bytes in memory (no file touched)."""
+    if fmt not in ("png", "svg"):
+        raise InputError(f"figure format {fmt!r} unknown; use 'png' or 'svg'")
+    buffer = io.BytesIO()
+    metadata = {"Software": "tfa"} if fmt == "png" else {"Creator": "tfa", "Date": None}
+    with plt.rc_context(_STYLE):
+        fig.savefig(buffer, format=fmt, dpi=dpi, metadata=metadata, bbox_inches="tight",
+                    pad_inches=0.08)
+    return buffer.getvalue()
+
+
+def save_figure(fig: Figure, path_stem: str | Path, dpi: int = 150,
+                close: bool = True) -> tuple[Path, Path]:
+    """Write a figure as ``<stem>.png`` and ``<stem>.svg``, each atomically.
+
+    Parameters
+    ----------
+    fig : Figure
+        The figure.
+    path_stem : str or Path
+        Path without suffix (a suffix, if any, is replaced).
+    dpi : int
+        Resolution of the PNG.
+    close : bool
+        Close the figure afterwards (frees its memory).
+
+    Returns
+    -------
+    (Path, Path)
+        The PNG and SVG paths.
+    """
+    stem = Path(path_stem)
+    if stem.suffix.lower() in (".png", ".svg"):
+        stem = stem.with_suffix("")
+    png = write_bytes(stem.with_name(stem.name + ".png"), figure_bytes(fig, "png", dpi))
+    svg = write_bytes(stem.with_name(stem.name + ".svg"), figure_bytes(fig, "svg", dpi))
+    if close:
+        plt.close(fig)
+    logger.info("figure written: %s (.png, .svg)", stem)
+    return png, svg
