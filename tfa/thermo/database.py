@@ -239,6 +239,13 @@ class ThermoDatabase:
         return ThermoDatabase(species, list(rows.values()), self._couples, self.sources,
                               self.include_unreviewed)
 
+    def with_unreviewed(self, include_unreviewed: bool) -> "ThermoDatabase":
+        """The same data with unreviewed sources included or left out."""
+        if include_unreviewed == self.include_unreviewed:
+            return self
+        return ThermoDatabase(self._all_species, self._compound_rows, self._couples, self.sources,
+                              include_unreviewed)
+
     # ------------------------------------------------------------------ lookups
     def is_reviewed(self, key: str | None) -> bool:
         """True unless ``key`` is a source marked not peer reviewed (unknown keys count as
