@@ -41,7 +41,8 @@ Hydrated CO2
     row ``CO2(aq)+H2O`` whose G, H, S, Cp and V are the sums of CO2(aq) and liquid water
     (formula H2CO3, n_h 2), a pseudoisomer of HCO3− and CO3−2.
 Species ids
-    Aqueous species keep their OBIGT name (unique within state aq); gases get ``<formula>(g)``,
+    Aqueous species keep their OBIGT name (unique within state aq); gases get ``<formula>(g)``
+    with the formula as OBIGT writes it (NH3(g)),
     liquid water ``H2O(l)``. ``formula`` is the element composition in Hill order without the
     charge (the charge has its own column).
 Reference species of a compound
@@ -64,6 +65,7 @@ Run: ``/tmp/venv/bin/python scripts/make_species_table.py`` (writes into tfa/dat
 from __future__ import annotations
 
 import argparse
+import contextlib
 import csv
 import io
 import math
@@ -483,18 +485,30 @@ class SpeciesRow:
 
 
 def _eos_at_reference(names_states: list[tuple[str, str]]) -> dict[tuple[str, str], dict]:
-    """Cp and V at 298.15 K, 1 bar from pychnosz's equations of state (J, cm3)."""
+    """Cp (J/mol/K) and V (cm3/mol) at 298.15 K, 1 bar from the rows' equations of state.
+
+    pychnosz's ``info(index)`` fills a missing Cp and V of an HKF row from its parameters; for
+    gases (Maier-Kelley Cp coefficients) ``subcrt`` at 25 degC, 1 bar gives Cp. ``subcrt`` is not
+    used for V: for rows in J units (pychnosz 1.5.3) it returns V multiplied by 4.184 (e.g.
+    ethanolamine, LA16: 234.1 instead of 55.95 cm3/mol).
+    """
     if not names_states:
         return {}
     import pychnosz
 
-    pychnosz.reset()
     out = {}
-    for name, state in names_states:
-        res = pychnosz.subcrt([name], state=[state], T=25, P=1)
-        frame = res.out["species_data"][0] if isinstance(res.out, dict) and "species_data" in res.out \
-            else res.out
-        out[(name, state)] = {"Cp": _num(frame["Cp"].iloc[0]), "V": _num(frame["V"].iloc[0])}
+    with contextlib.redirect_stdout(io.StringIO()):
+        pychnosz.reset()
+        for name, state in names_states:
+            row = pychnosz.info(pychnosz.info(name, state)).iloc[0]
+            f = CALORIE if row["E_units"] == "cal" else 1.0
+            cp = _num(row["Cp"])
+            cp = None if cp is None else cp * f
+            if cp is None:
+                res = pychnosz.subcrt([name], state=[state], T=25, P=1)
+                frame = res.out["species_data"][0] if "species_data" in res.out else res.out
+                cp = _num(frame["Cp"].iloc[0])
+            out[(name, state)] = {"Cp": cp, "V": _num(row["V"])}
     return out
 
 
@@ -565,7 +579,7 @@ def build_species(reactants: list[ReactantDef], obigt: dict) -> list[SpeciesRow]
                 missing.append(f"{reac.id}: {name} ({state}) has no G")
                 continue
             H, S, Cp, V = (_num(rec[k]) for k in ("H", "S", "Cp", "V"))
-            sid = f"{hill_formula(counts)}(g)" if state == "gas" else name
+            sid = f"{rec['formula']}(g)" if state == "gas" else name
             row = SpeciesRow(sid, reac.id, hill_formula(counts), state, charge,
                              counts.get("H", 0), counts.get("Mg", 0), G * f / 1000.0,
                              None if H is None else H * f / 1000.0,
