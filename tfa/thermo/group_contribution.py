@@ -523,7 +523,7 @@ class GroupModel:
         if fit.n_species == 0 or any(g not in fit.species_seen for g in counts):
             return None
         index = {c: i for i, c in enumerate(fit.columns)}
-        return fit.origin + sum(n * fit.values[index[g]] for g, n in counts.items())
+        return float(fit.origin + sum(n * fit.values[index[g]] for g, n in counts.items()))
 
     def leverage(self, counts: dict[str, int]) -> float:
         """x^T (Z^T Z + Lambda)^-1 x of the DfG fit (dimensionless)."""
@@ -814,6 +814,6 @@ def estimated_species_records(estimate: GroupEstimate, reactant_id: str) -> list
             charge=charge, n_h=n_h, n_mg=0, G=g,
             H=estimate.H if is_base else None, S=estimate.S if is_base else None,
             Cp=estimate.Cp if is_base else None, V=None, source=SOURCE_KEY,
-            source2="", origin="estimated", sigma_G=estimate.sigma_G,
+            source2=None, origin="estimated", sigma_G=estimate.sigma_G,
         ))
     return records
