@@ -1,0 +1,110 @@
+"""``tfa dg``: transformed Gibbs energy of one reaction at given conditions.
+
+Prints ΔrG'° and ΔrG' (kJ/mol) with their standard uncertainty, the balance, the sources and
+the provenance of every compound. Bad input (unknown compound, unbalanced equation, bad
+activity) prints an error on stderr only and exits with code 2.
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+
+from ..conditions import Conditions
+from ..errors import InputError
+from ..thermo.database import ReactionEnergyResult, ThermoDatabase
+from .common import add_common_options, add_conditions_options, print_json
+
+#: Conditions used when an option is not given.
+DEFAULTS = {"temperature": 25.0, "ph": 7.0, "ionic_strength": 0.0}
+
+
+def register(subparsers) -> None:
+    parser = subparsers.add_parser(
+        "dg",
+        help="transformed Gibbs energy of a reaction (dG'0, dG', uncertainty, balance, sources)",
+        description="Transformed reaction Gibbs energy at the given temperature, pH, ionic "
+        "strength and pressure. Compounds are named by id, name or synonym (case does not "
+        "matter): CO2 is dissolved CO2, CO2(g) the gas and CO2tot total CO2 (it carries one "
+        "water). Arrows: <=>, =, ->.",
+        epilog='example: tfa dg "H2 + CO2tot <=> formate + H2O" --temperature 70 --ph 6.5 '
+        "--ionic-strength 0.2 --activity H2=1e-3",
+    )
+    parser.add_argument("equation", metavar="EQUATION", help='e.g. "4 H2(g) + CO2(g) <=> CH4(g) + 2 H2O"')
+    add_conditions_options(parser)
+    parser.add_argument("--activity", action="append", default=[], metavar="NAME=VALUE",
+                        help="activity of a compound for dG' (mol/L; gases: bar); repeatable. "
+                        "Compounds not given are at 1 (standard state)")
+    parser.add_argument("--include-unreviewed", action="store_true",
+                        help="also use species data from sources that are not peer reviewed")
+    add_common_options(parser)
+    parser.set_defaults(run=run)
+
+
+def parse_activities(items: list[str]) -> dict[str, float]:
+    """``["H2=1e-3", "formate=0.01"]`` -> ``{"H2": 0.001, "formate": 0.01}``.
+
+    >>> parse_activities(["H2(g)=1e-3", "acetyl phosphate = 2e-4"])
+    {'H2(g)': 0.001, 'acetyl phosphate': 0.0002}
+    """
+    out: dict[str, float] = {}
+    for item in items:
+        name, sep, value = item.rpartition("=")
+        name = name.strip()
+        if not sep or not name:
+            raise InputError(f"--activity '{item}': write NAME=VALUE, e.g. --activity H2=1e-3")
+        try:
+            out[name] = float(value)
+        except ValueError:
+            raise InputError(f"--activity '{item}': '{value.strip()}' is not a number; write "
+                             "NAME=VALUE, e.g. --activity H2=1e-3") from None
+    return out
+
+
+def _conditions(args: argparse.Namespace) -> tuple[Conditions, list[str]]:
+    defaulted = []
+    values = {}
+    for key, default in DEFAULTS.items():
+        given = getattr(args, key)
+        if given is None:
+            defaulted.append(f"{key.replace('_', ' ')} {default:g}")
+            given = default
+        values[key] = given
+    conditions = Conditions.from_celsius(values["temperature"], ph=values["ph"],
+                                         ionic_strength=values["ionic_strength"],
+                                         pressure=args.pressure, pmg=args.pmg)
+    return conditions, defaulted
+
+
+def _text(result: ReactionEnergyResult, defaulted: list[str]) -> str:
+    lines = [
+        f"reaction    {result.equation}",
+        f"conditions  {result.conditions.describe()}"
+        + (f"  (default: {', '.join(defaulted)})" if defaulted else ""),
+        f"dG'0        {result.standard:9.2f} +/- {result.uncertainty:.2f} kJ/mol  (standard transformed)",
+        f"dG'         {result.actual:9.2f} +/- {result.uncertainty:.2f} kJ/mol  (at the activities below)",
+        "activities  " + (", ".join(f"{k}={v:g}" for k, v in result.activities.items()) or "none"),
+        f"balance     {result.balance.message}",
+        f"sources     {', '.join(result.sources) or 'none'}",
+        "provenance",
+    ]
+    lines += [f"  {line}" for line in result.provenance]
+    if result.flags:
+        lines.append("flags")
+        lines += [f"  {flag}" for flag in result.flags]
+    return "\n".join(lines) + "\n"
+
+
+def run(args: argparse.Namespace) -> int:
+    conditions, defaulted = _conditions(args)
+    activities = parse_activities(args.activity)
+    db = ThermoDatabase.load(include_unreviewed=args.include_unreviewed)
+    result = db.reaction_energy(args.equation, conditions, activities=activities)
+    if args.json:
+        payload = result.to_dict()
+        payload["defaults"] = defaulted
+        payload["include_unreviewed"] = bool(args.include_unreviewed)
+        print_json(payload)
+    else:
+        sys.stdout.write(_text(result, defaulted))
+    return 0
