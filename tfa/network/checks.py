@@ -1,0 +1,121 @@
+"""Element and charge balance of every reaction of a network.
+
+Rule (reactant convention, Alberty 2003, ch. 3-4; :mod:`tfa.thermo.balance`): every element
+except H balances exactly; the residuals in H and in charge are equal, so a whole number of H+
+is exchanged with the pH buffer (``implicit_protons``, H+ to add on the products side).
+Boundary reactions (one side empty: exchanges, demands, sinks) are not checked.
+
+References
+----------
+[1] R. A. Alberty, Thermodynamics of Biochemical Reactions, Wiley, 2003.
+"""
+
+from __future__ import annotations
+
+import math
+
+import cobra
+import pandas as pd
+
+from ..errors import InputError, UnbalancedReactionError
+from ..thermo.balance import check_balance
+from .roles import formula_and_charge
+
+BALANCE_COLUMNS = ("reaction", "equation", "balanced", "implicit_protons", "hydrogen_residual",
+                   "charge_residual", "element_residuals", "message")
+
+
+def is_boundary_reaction(reaction: cobra.Reaction) -> bool:
+    """True when one side of the reaction is empty (exchange, demand, sink).
+
+    >>> r = cobra.Reaction("EX_h2"); r.add_metabolites({cobra.Metabolite("h2"): -1})
+    >>> is_boundary_reaction(r)
+    True
+    """
+    coefficients = list(reaction.metabolites.values())
+    return bool(coefficients) and (all(c < 0 for c in coefficients) or all(c > 0 for c in coefficients))
+
+
+def balance_report(model: cobra.Model, include_boundary: bool = False) -> pd.DataFrame:
+    """One row per reaction: is it balanced, how many H+ are implicit, what is off.
+
+    Parameters
+    ----------
+    model : cobra.Model
+        Metabolites need ``formula`` and ``charge``; a compound without them makes its reactions
+        ``balanced = False`` with a message saying which formula is missing.
+    include_boundary : bool
+        Also list boundary reactions (``balanced`` is then NaN for them: nothing to check).
+
+    Returns
+    -------
+    pandas.DataFrame
+        Columns :data:`BALANCE_COLUMNS`; ``implicit_protons`` is NaN when not balanced;
+        ``element_residuals`` is text such as ``"C:+1, O:+2"`` (products minus reactants).
+
+    Examples
+    --------
+    Formate dehydrogenase (EC 1.17.1.9), CO2 + NADH -> formate + NAD+, balances exactly with the
+    reference species of Alberty (2003); without NADH it is short of two electrons:
+
+    >>> m = cobra.Model("fdh")
+    >>> mets = {i: cobra.Metabolite(i, formula=f, charge=z, compartment="c") for i, f, z in
+    ...         [("co2", "CO2", 0), ("nadh", "C21H27N7O14P2", -2), ("nad", "C21H26N7O14P2", -1),
+    ...          ("for", "CHO2", -1)]}
+    >>> good, bad = cobra.Reaction("FDH"), cobra.Reaction("BAD")
+    >>> m.add_reactions([good, bad])
+    >>> good.add_metabolites({mets["co2"]: -1, mets["nadh"]: -1, mets["for"]: 1, mets["nad"]: 1})
+    >>> bad.add_metabolites({mets["co2"]: -1, mets["for"]: 1})
+    >>> balance_report(m)[["reaction", "balanced"]].values.tolist()
+    [['FDH', True], ['BAD', False]]
+    """
+    rows = []
+    for reaction in model.reactions:
+        equation = reaction.build_reaction_string()
+        if is_boundary_reaction(reaction):
+            if include_boundary:
+                rows.append({"reaction": reaction.id, "equation": equation, "balanced": math.nan,
+                             "implicit_protons": math.nan, "hydrogen_residual": math.nan,
+                             "charge_residual": math.nan, "element_residuals": "",
+                             "message": "boundary reaction (not checked)"})
+            continue
+        try:
+            formulas = {m.id: formula_and_charge(m) for m in reaction.metabolites}
+        except InputError as exc:
+            rows.append({"reaction": reaction.id, "equation": equation, "balanced": False,
+                         "implicit_protons": math.nan, "hydrogen_residual": math.nan,
+                         "charge_residual": math.nan, "element_residuals": "", "message": str(exc)})
+            continue
+        report = check_balance({m.id: c for m, c in reaction.metabolites.items()}, formulas)
+        rows.append({
+            "reaction": reaction.id,
+            "equation": equation,
+            "balanced": report.ok,
+            "implicit_protons": report.implicit_protons if report.ok else math.nan,
+            "hydrogen_residual": report.hydrogen_residual,
+            "charge_residual": report.charge_residual,
+            "element_residuals": ", ".join(f"{e}:{v:+g}" for e, v in sorted(report.element_residuals.items())),
+            "message": report.message,
+        })
+    return pd.DataFrame(rows, columns=list(BALANCE_COLUMNS))
+
+
+def require_balanced_network(model: cobra.Model, where: str = "") -> None:
+    """Raise :class:`~tfa.errors.UnbalancedReactionError` listing every unbalanced reaction.
+
+    Parameters
+    ----------
+    where : str
+        Where the model came from (file name), for the message.
+    """
+    frame = balance_report(model)
+    bad = frame[frame["balanced"] != True]  # noqa: E712 - NaN-safe comparison
+    if bad.empty:
+        return
+    prefix = f"{where}: " if where else ""
+    lines = [f"  {row.reaction} ({row.equation}): {row.message}" for row in bad.itertuples()]
+    raise UnbalancedReactionError(
+        f"{prefix}{len(bad)} reaction(s) do not balance:\n" + "\n".join(lines)
+        + "\nFix the coefficients, add the missing compound (H2O, H+, a carrier) or correct the "
+        "formula and charge of a compound"
+    )

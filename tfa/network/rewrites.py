@@ -1,0 +1,486 @@
+"""The four ways a network is asked to run, as context managers that restore the model exactly.
+
+- :func:`native`: electron carriers and adenine nucleotides are internal; nothing supplies them
+  from outside (their boundary reactions are blocked), so the network must regenerate them.
+- :func:`h2_only`: every electron-carrier pair is replaced by H2 (N/2 H2 per N-electron unit),
+  with H+ corrected so the reaction still balances: X + NADH + H+ -> XH2 + NAD+ becomes
+  X + H2 -> XH2. Reactions left with nothing but H+/H2O (a hydrogenase H2 + NAD+ -> NADH + H+
+  becomes H2 -> H2) are removed, as are reactions that make or use up a carrier; carrier
+  compounds leave the model.
+- :func:`no_atp_strict`: ATP, ADP, AMP and pyrophosphate are unavailable; every reaction that
+  contains one of them is blocked (bounds 0, 0).
+- :func:`no_atp_bare_chemistry`: each reaction coupled to ATP, ADP or pyrophosphate hydrolysis
+  becomes its own chemistry, i.e. the reaction minus the hydrolysis reactions
+
+      H1  ATP + H2O -> ADP + Pi + H+        H2  ATP + H2O -> AMP + PPi + H+
+      H3  ADP + H2O -> AMP + Pi + H+        H4  PPi + H2O -> 2 Pi (+ H+ as the formulas say)
+
+  in the amounts that cancel every nucleotide (a kinase X + ATP -> XP + ADP becomes
+  X + Pi -> XP + H2O). The result does not depend on which combination is used, because the only
+  freedom (H1 + H3 versus H2 + H4) is the same net chemistry; the combination with the smallest
+  total amount is recorded. Pure nucleotide interconversions (adenylate kinase, diphosphatase)
+  become empty and are removed; reactions that make or use up the adenine moiety are removed.
+
+Every rewritten reaction gets ``notes['rewritten']`` saying what was done. All changes go through
+cobra's ``with model:`` history (undone when the context ends); the order of reactions,
+metabolites and the terms within each reaction is restored as well, so the model after the
+context equals the model before it.
+
+Compounds are recognised by their role (``notes['role']``, see :mod:`tfa.network.roles`).
+
+References
+----------
+[1] R. A. Alberty, Thermodynamics of Biochemical Reactions, Wiley, 2003 (reactant convention:
+    H+ is supplied by the buffer at fixed pH).
+[2] R. K. Thauer, K. Jungermann, K. Decker, Bacteriol. Rev. 41 (1977) 100-180 (carriers as
+    two-electron couples; ferredoxin counted per two electrons).
+"""
+
+from __future__ import annotations
+
+import contextlib
+import logging
+from dataclasses import dataclass, field
+from functools import partial
+from typing import Iterator
+
+import cobra
+import pandas as pd
+from cobra.util.context import get_context
+
+from ..errors import InputError
+from ..thermo.balance import check_balance
+from .checks import is_boundary_reaction as is_boundary
+from .roles import NUCLEOTIDE_ROLES, carrier_pairs, formula_and_charge, single_with_role
+from .thermo_model import MODES
+
+logger = logging.getLogger(__name__)
+
+_TOL = 1e-9
+
+
+@dataclass
+class RewriteSummary:
+    """What a rewrite did.
+
+    Attributes
+    ----------
+    mode : str
+        One of :data:`tfa.network.thermo_model.MODES`.
+    rewritten : dict
+        Reaction id -> what was done to it (the text also stored in its ``notes['rewritten']``).
+    removed : list
+        Ids of reactions removed from the model (inside the context).
+    blocked : list
+        Ids of reactions whose bounds were set to (0, 0).
+    removed_metabolites : list
+        Ids of compounds removed from the model.
+    """
+
+    mode: str
+    rewritten: dict[str, str] = field(default_factory=dict)
+    removed: list[str] = field(default_factory=list)
+    blocked: list[str] = field(default_factory=list)
+    removed_metabolites: list[str] = field(default_factory=list)
+
+    def to_frame(self) -> pd.DataFrame:
+        """One row per touched reaction: ``reaction``, ``action`` (rewritten/removed/blocked), ``detail``."""
+        rows = []
+        for rid, text in self.rewritten.items():
+            action = "removed" if rid in self.removed else "blocked" if rid in self.blocked else "rewritten"
+            rows.append({"reaction": rid, "action": action, "detail": text})
+        return pd.DataFrame(rows, columns=["reaction", "action", "detail"])
+
+
+# --------------------------------------------------------------------------------------------
+# exact undo
+
+
+def _restore_order(model: cobra.Model, reaction_ids: list[str], metabolite_ids: list[str],
+                   term_order: dict[str, list[str]]) -> None:
+    """Put reactions, metabolites and each reaction's terms back in their saved order."""
+    rpos = {rid: i for i, rid in enumerate(reaction_ids)}
+    model.reactions.sort(key=lambda r: rpos.get(r.id, len(rpos)))
+    mpos = {mid: i for i, mid in enumerate(metabolite_ids)}
+    model.metabolites.sort(key=lambda m: mpos.get(m.id, len(mpos)))
+    for rid, order in term_order.items():
+        if rid not in model.reactions:
+            continue
+        reaction = model.reactions.get_by_id(rid)
+        current = reaction._metabolites  # noqa: SLF001 - reorder only, same keys and values
+        if [m.id for m in current] != order and {m.id for m in current} == set(order):
+            by_id = {m.id: m for m in current}
+            reaction._metabolites = {by_id[mid]: current[by_id[mid]] for mid in order}  # noqa: SLF001
+
+
+@contextlib.contextmanager
+def _exact_context(model: cobra.Model) -> Iterator:
+    """``with model:`` plus restoring of every order, registered first so it runs last."""
+    with model:
+        context = get_context(model)
+        context(partial(_restore_order, model, [r.id for r in model.reactions],
+                        [m.id for m in model.metabolites],
+                        {r.id: [m.id for m in r._metabolites] for r in model.reactions}))  # noqa: SLF001
+        yield context
+
+
+def _note(context, reaction: cobra.Reaction, text: str, summary: RewriteSummary) -> None:
+    """Record ``text`` in ``notes['rewritten']`` (undone with the context) and in the summary."""
+    old = reaction.notes
+    new = dict(old)
+    new["rewritten"] = f"{old['rewritten']}; {text}" if old.get("rewritten") else text
+    context(partial(setattr, reaction, "notes", old))
+    reaction.notes = new
+    summary.rewritten[reaction.id] = text
+
+
+def _set_stoichiometry(reaction: cobra.Reaction, new: dict[cobra.Metabolite, float]) -> None:
+    """Change the reaction's terms to ``new`` through cobra (history-registered)."""
+    old = reaction.metabolites
+    delta: dict[cobra.Metabolite, float] = {}
+    for met in set(old) | set(new):
+        change = new.get(met, 0.0) - old.get(met, 0.0)
+        if abs(change) > _TOL:
+            delta[met] = change
+    if delta:
+        reaction.add_metabolites(delta, combine=True)
+    leftovers = {m: c for m, c in reaction.metabolites.items() if abs(c) <= _TOL}
+    if leftovers:
+        reaction.subtract_metabolites(leftovers, combine=True)
+
+
+def _is_empty(stoichiometry: dict[cobra.Metabolite, float], inert: set[str]) -> bool:
+    return all(abs(c) <= _TOL or m.id in inert for m, c in stoichiometry.items())
+
+
+def _implicit_protons(stoichiometry: dict[cobra.Metabolite, float]) -> float:
+    formulas = {m.id: formula_and_charge(m) for m in stoichiometry}
+    report = check_balance({m.id: c for m, c in stoichiometry.items()}, formulas)
+    return report.implicit_protons
+
+
+def _fmt(value: float) -> str:
+    return f"{value:+g}"
+
+
+def _finish(model: cobra.Model, summary: RewriteSummary, remove: list[cobra.Reaction],
+            gone: set[cobra.Metabolite], label: str, context) -> None:
+    """Drop the given compounds from boundary reactions, remove reactions and compounds."""
+    remove_ids = {r.id for r in remove}
+    for reaction in model.reactions:
+        if reaction.id in remove_ids or not is_boundary(reaction):
+            continue
+        present = [m for m in reaction.metabolites if m in gone]
+        if not present:
+            continue
+        if len(present) == len(reaction.metabolites):
+            remove.append(reaction)
+            remove_ids.add(reaction.id)
+            _note(context, reaction, f"{label}: boundary reaction of {', '.join(m.id for m in present)} removed", summary)
+        else:
+            _set_stoichiometry(reaction, {m: c for m, c in reaction.metabolites.items() if m not in gone})
+            _note(context, reaction, f"{label}: {', '.join(m.id for m in present)} dropped", summary)
+    if remove:
+        summary.removed.extend(r.id for r in remove)
+        model.remove_reactions(remove)
+    leftovers = [m for m in model.metabolites if m in gone]
+    if leftovers:
+        summary.removed_metabolites.extend(m.id for m in leftovers)
+        model.remove_metabolites(leftovers)
+
+
+# --------------------------------------------------------------------------------------------
+# the modes
+
+
+@contextlib.contextmanager
+def h2_only(model: cobra.Model) -> Iterator[RewriteSummary]:
+    """Replace every electron-carrier pair by H2 for the duration of the context.
+
+    A pair whose reduced form differs from the oxidised form by ``N`` electrons, ``c`` in charge
+    (reduced minus oxidised), satisfies red - ox = (N/2) H2 + c H+ (element and charge balance;
+    checked by :func:`tfa.network.roles.carrier_pairs`). So a reaction with ``k`` units of the
+    reduced form on the left (coefficient -k) gets -k N/2 H2 and -k c H+ in place of the pair,
+    and stays balanced with the same implicit protons [1].
+
+    Examples
+    --------
+    NADH/NAD+ (Alberty 2003 reference species C21H27N7O14P2 -2 / C21H26N7O14P2 -1) in lactate
+    dehydrogenase (EC 1.1.1.27), pyruvate + NADH + H+ -> lactate + NAD+:
+
+    >>> from tfa.network.roles import parse_role
+    >>> m = cobra.Model("ldh")
+    >>> def met(i, f, z, role=""):
+    ...     x = cobra.Metabolite(i, formula=f, charge=z, compartment="c")
+    ...     x.notes = {"role": role} if role else {}
+    ...     return x
+    >>> pyr, lac = met("pyr", "C3H3O3", -1), met("lac", "C3H5O3", -1)
+    >>> nadh, nad = met("nadh", "C21H27N7O14P2", -2, "red:NAD:2"), met("nad", "C21H26N7O14P2", -1, "ox:NAD:2")
+    >>> h, h2 = met("h", "H", 1, "proton"), met("h2", "H2", 0, "h2")
+    >>> r = cobra.Reaction("LDH"); m.add_reactions([r])
+    >>> r.add_metabolites({pyr: -1, nadh: -1, h: -1, lac: 1, nad: 1}); m.add_metabolites([h2])
+    >>> with h2_only(m):
+    ...     print(m.reactions.LDH.build_reaction_string())
+    h2 + pyr --> lac
+    >>> m.reactions.LDH.build_reaction_string()
+    'h + nadh + pyr --> lac + nad'
+    """
+    summary = RewriteSummary("h2_only")
+    with _exact_context(model) as context:
+        pairs = carrier_pairs(model)
+        carriers = {p.reduced for p in pairs.values()} | {p.oxidised for p in pairs.values()}
+        h2 = single_with_role(model, "h2", ("h2",))
+        proton = single_with_role(model, "proton", ("h", "h_c"))
+        water = single_with_role(model, "water", ("h2o", "h2o_c"))
+        inert = {m.id for m in (proton, water, h2) if m is not None}
+        remove: list[cobra.Reaction] = []
+        for reaction in list(model.reactions):
+            stoich = reaction.metabolites
+            present = [p for p in pairs.values() if p.reduced in stoich or p.oxidised in stoich]
+            if not present or is_boundary(reaction):
+                continue
+            new = dict(stoich)
+            h2_change = 0.0
+            proton_change = 0.0
+            parts: list[str] = []
+            unbalanced_pair = None
+            for pair in present:
+                red = new.pop(pair.reduced, 0.0)
+                ox = new.pop(pair.oxidised, 0.0)
+                if abs(red + ox) > _TOL:
+                    unbalanced_pair = pair
+                    break
+                h2_change += red * pair.electrons / 2.0
+                proton_change += red * pair.charge_difference
+                parts.append(f"{pair.reduced.id}/{pair.oxidised.id} ({_fmt(-red)} {pair.pair}, "
+                             f"{pair.electrons} e-)")
+            if unbalanced_pair is not None:
+                remove.append(reaction)
+                _note(context, reaction, f"h2_only: removed, it makes or uses up carrier "
+                      f"{unbalanced_pair.pair} ({unbalanced_pair.reduced.id}/{unbalanced_pair.oxidised.id})",
+                      summary)
+                continue
+            if abs(h2_change) > _TOL:
+                if h2 is None:
+                    raise InputError(
+                        f"reaction '{reaction.id}': replacing carriers by H2 needs an H2 compound; add "
+                        "one with role 'h2' to the compounds table"
+                    )
+                new[h2] = new.get(h2, 0.0) + h2_change
+            if abs(proton_change) > _TOL:
+                if proton is not None:
+                    new[proton] = new.get(proton, 0.0) + proton_change
+                else:
+                    logger.info("%s: %+g H+ left implicit (no compound with role 'proton')",
+                                reaction.id, proton_change)
+            new = {m: round(c, 12) for m, c in new.items() if abs(c) > _TOL}
+            if _is_empty(new, inert):
+                remove.append(reaction)
+                _note(context, reaction, "h2_only: removed, only regenerates carriers ("
+                      + ", ".join(parts) + " becomes nothing)", summary)
+                continue
+            _set_stoichiometry(reaction, new)
+            _note(context, reaction, "h2_only: " + ", ".join(parts) + f" replaced by {_fmt(h2_change)} H2"
+                  + (f", H+ {_fmt(proton_change)}" if abs(proton_change) > _TOL else ""), summary)
+        _finish(model, summary, remove, carriers, "h2_only", context)
+        logger.info("h2_only: %d reactions rewritten, %d removed", len(summary.rewritten) - len(summary.removed),
+                    len(summary.removed))
+        yield summary
+
+
+def nucleotide_metabolites(model: cobra.Model) -> dict[str, cobra.Metabolite]:
+    """Role -> metabolite for ATP, ADP, AMP and pyrophosphate (roles absent from the model are left out)."""
+    found: dict[str, cobra.Metabolite] = {}
+    for role in NUCLEOTIDE_ROLES:
+        met = single_with_role(model, role)
+        if met is not None:
+            found[role] = met
+    return found
+
+
+@contextlib.contextmanager
+def no_atp_strict(model: cobra.Model) -> Iterator[RewriteSummary]:
+    """Block every reaction that contains ATP, ADP, AMP or pyrophosphate (bounds 0, 0)."""
+    summary = RewriteSummary("no_atp_strict")
+    with _exact_context(model) as context:
+        nucleotides = set(nucleotide_metabolites(model).values())
+        for reaction in model.reactions:
+            present = sorted(m.id for m in reaction.metabolites if m in nucleotides)
+            if not present:
+                continue
+            reaction.bounds = (0.0, 0.0)
+            summary.blocked.append(reaction.id)
+            _note(context, reaction, f"no_atp_strict: blocked, needs {', '.join(present)}", summary)
+        logger.info("no_atp_strict: %d reactions blocked", len(summary.blocked))
+        yield summary
+
+
+#: Hydrolysis reactions over roles (without H+; protons are set from the formulas).
+_HYDROLYSES = {
+    "H1": {"atp": -1.0, "water": -1.0, "adp": 1.0, "phosphate": 1.0},
+    "H2": {"atp": -1.0, "water": -1.0, "amp": 1.0, "pyrophosphate": 1.0},
+    "H3": {"adp": -1.0, "water": -1.0, "amp": 1.0, "phosphate": 1.0},
+    "H4": {"pyrophosphate": -1.0, "water": -1.0, "phosphate": 2.0},
+}
+_HYDROLYSIS_TEXT = {"H1": "ATP -> ADP + Pi", "H2": "ATP -> AMP + PPi", "H3": "ADP -> AMP + Pi",
+                    "H4": "PPi -> 2 Pi"}
+
+
+def hydrolysis_amounts(atp: float, adp: float, amp: float, ppi: float) -> dict[str, float]:
+    """Amounts of H1..H4 whose subtraction cancels the given nucleotide coefficients.
+
+    Solves x1 + x2 = -atp, x1 - x3 = adp, x2 + x3 = amp, x2 - x4 = ppi (needs
+    atp + adp + amp = 0) and picks, of the one-parameter family of solutions, the one with the
+    smallest sum of |x| (ties: fewest pyrophosphate hydrolyses).
+
+    >>> hydrolysis_amounts(-1, 1, 0, 0)        # a kinase: X + ATP -> XP + ADP
+    {'H1': 1.0, 'H2': 0.0, 'H3': 0.0, 'H4': 0.0}
+    >>> hydrolysis_amounts(-1, 0, 1, 1)        # a synthetase: ... + ATP -> ... + AMP + PPi
+    {'H1': 0.0, 'H2': 1.0, 'H3': 0.0, 'H4': 0.0}
+    >>> hydrolysis_amounts(0, 0, 0, -1)        # inorganic diphosphatase (EC 3.6.1.1)
+    {'H1': 0.0, 'H2': 0.0, 'H3': 0.0, 'H4': 1.0}
+    """
+    if abs(atp + adp + amp) > _TOL:
+        raise InputError("the adenine moiety is not conserved (ATP + ADP + AMP coefficients do not sum to 0)")
+
+    def solution(x4: float) -> dict[str, float]:
+        x2 = ppi + x4
+        return {"H1": -atp - x2, "H2": x2, "H3": amp - x2, "H4": x4}
+
+    candidates = {0.0, -ppi, -atp - ppi, amp - ppi}
+    best = min(candidates, key=lambda x4: (round(sum(abs(v) for v in solution(x4).values()), 9), abs(x4)))
+    return {k: float(v) + 0.0 for k, v in solution(best).items()}
+
+
+@contextlib.contextmanager
+def no_atp_bare_chemistry(model: cobra.Model) -> Iterator[RewriteSummary]:
+    """Strip ATP, ADP and pyrophosphate coupling: each reaction becomes its bare chemistry.
+
+    The reaction minus x1 H1 + x2 H2 + x3 H3 + x4 H4 (see the module text and
+    :func:`hydrolysis_amounts`), with H+ set so the implicit protons stay those of the original
+    reaction [1]. Requires compounds with roles ``water`` and ``phosphate`` when a reaction is
+    rewritten.
+
+    Examples
+    --------
+    Acetate kinase (EC 2.7.2.1), acetate + ATP -> acetyl phosphate + ADP, becomes
+    acetate + Pi + H+ -> acetyl phosphate + H2O (reference species of Alberty 2003 at pH 7):
+
+    >>> m = cobra.Model("ack")
+    >>> def met(i, f, z, role=""):
+    ...     x = cobra.Metabolite(i, formula=f, charge=z, compartment="c")
+    ...     x.notes = {"role": role} if role else {}
+    ...     return x
+    >>> mets = [met("ac", "C2H3O2", -1), met("actp", "C2H3O5P", -2), met("atp", "C10H12N5O13P3", -4, "atp"),
+    ...         met("adp", "C10H12N5O10P2", -3, "adp"), met("pi", "HPO4", -2, "phosphate"),
+    ...         met("h2o", "H2O", 0, "water"), met("h", "H", 1, "proton")]
+    >>> m.add_metabolites(mets); r = cobra.Reaction("ACK"); m.add_reactions([r])
+    >>> r.build_reaction_from_string("ac + atp --> actp + adp")
+    >>> with no_atp_bare_chemistry(m):
+    ...     print(m.reactions.ACK.build_reaction_string())
+    ac + h + pi --> actp + h2o
+    """
+    summary = RewriteSummary("no_atp_bare")
+    with _exact_context(model) as context:
+        nucleotides = nucleotide_metabolites(model)
+        role_of = {met: role for role, met in nucleotides.items()}
+        water = single_with_role(model, "water", ("h2o", "h2o_c"))
+        phosphate = single_with_role(model, "phosphate", ("pi", "pi_c"))
+        proton = single_with_role(model, "proton", ("h", "h_c"))
+        inert = {m.id for m in (proton, water) if m is not None}
+        remove: list[cobra.Reaction] = []
+        for reaction in list(model.reactions):
+            stoich = reaction.metabolites
+            if is_boundary(reaction) or not any(m in role_of for m in stoich):
+                continue
+            a = {role: stoich.get(met, 0.0) for role, met in nucleotides.items()}
+            try:
+                amounts = hydrolysis_amounts(a.get("atp", 0.0), a.get("adp", 0.0), a.get("amp", 0.0),
+                                             a.get("pyrophosphate", 0.0))
+            except InputError:
+                remove.append(reaction)
+                _note(context, reaction, "no_atp_bare: removed, it makes or uses up adenine nucleotides",
+                      summary)
+                continue
+            for role, met in (("water", water), ("phosphate", phosphate)):
+                if met is None:
+                    raise InputError(
+                        f"reaction '{reaction.id}': stripping ATP coupling needs a compound with role "
+                        f"'{role}'; add it to the compounds table"
+                    )
+            new = {m: c for m, c in stoich.items() if m not in role_of}
+            for name, x in amounts.items():
+                if abs(x) <= _TOL:
+                    continue
+                for role, coefficient in _HYDROLYSES[name].items():
+                    if role in ("water", "phosphate"):
+                        met = water if role == "water" else phosphate
+                        new[met] = new.get(met, 0.0) - x * coefficient
+            new = {m: round(c, 12) for m, c in new.items() if abs(c) > _TOL}
+            used = ", ".join(f"{x:g} x ({_HYDROLYSIS_TEXT[k]})" for k, x in amounts.items() if abs(x) > _TOL)
+            if proton is not None:
+                before = _implicit_protons(stoich)
+                after = _implicit_protons(new) if new else 0.0
+                change = after - before
+                if abs(change) > _TOL:
+                    new[proton] = round(new.get(proton, 0.0) + change, 12)
+                    new = {m: c for m, c in new.items() if abs(c) > _TOL}
+            if _is_empty(new, inert):
+                remove.append(reaction)
+                _note(context, reaction, f"no_atp_bare: removed, a nucleotide interconversion (minus {used} "
+                      "leaves nothing)", summary)
+                continue
+            _set_stoichiometry(reaction, new)
+            _note(context, reaction, f"no_atp_bare: minus {used}", summary)
+        _finish(model, summary, remove, set(nucleotides.values()), "no_atp_bare", context)
+        logger.info("no_atp_bare: %d reactions rewritten, %d removed",
+                    len(summary.rewritten) - len(summary.removed), len(summary.removed))
+        yield summary
+
+
+@contextlib.contextmanager
+def native(model: cobra.Model) -> Iterator[RewriteSummary]:
+    """Carriers and adenine nucleotides stay internal: block boundary reactions that supply or drain them."""
+    summary = RewriteSummary("native")
+    with _exact_context(model) as context:
+        internal = set(nucleotide_metabolites(model).values())
+        for pair in carrier_pairs(model).values():
+            internal |= {pair.reduced, pair.oxidised}
+        for reaction in model.reactions:
+            present = sorted(m.id for m in reaction.metabolites if m in internal)
+            if present and is_boundary(reaction):
+                reaction.bounds = (0.0, 0.0)
+                summary.blocked.append(reaction.id)
+                _note(context, reaction, f"native: blocked, {', '.join(present)} must be regenerated inside",
+                      summary)
+        yield summary
+
+
+_MANAGERS = {
+    "native": native,
+    "h2_only": h2_only,
+    "no_atp_strict": no_atp_strict,
+    "no_atp_bare": no_atp_bare_chemistry,
+}
+
+
+@contextlib.contextmanager
+def apply_mode(model: cobra.Model, mode: str) -> Iterator[RewriteSummary]:
+    """The context manager of ``mode`` (one of :data:`tfa.network.thermo_model.MODES`).
+
+    >>> sorted(_MANAGERS) == sorted(MODES)
+    True
+    """
+    if mode not in _MANAGERS:
+        raise InputError(f"mode '{mode}' is not known; use one of {', '.join(MODES)}")
+    with _MANAGERS[mode](model) as summary:
+        yield summary
+
+
+def carrier_metabolites(model: cobra.Model) -> list[cobra.Metabolite]:
+    """Reduced and oxidised forms of every carrier pair, in model order."""
+    ids = set()
+    for pair in carrier_pairs(model).values():
+        ids |= {pair.reduced.id, pair.oxidised.id}
+    return [m for m in model.metabolites if m.id in ids]
+
