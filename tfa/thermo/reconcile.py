@@ -36,9 +36,11 @@ values, divided by its standard deviation, so a value with |z| > 3 disagrees wit
 3σ. A value with leverage 1 is checked by no other and is reported as "unchecked".
 
 Temperature dependence of a reconciled compound: its reference species receives an entropy S°
-from the same least-squares system applied to the reaction entropies, ΔrS'° = (ΔrH'° − ΔrG'°)/T
-where ΔrH'° is given and ΔrS'° = 0 otherwise, so that the species record reproduces the stated
-(or assumed) temperature dependence of every literature reaction. The approximation costs an
+and a heat capacity Cp° from the same least-squares system applied to the reaction entropies,
+ΔrS'° = (ΔrH'° − ΔrG'°)/T where ΔrH'° is given and ΔrS'° = 0 otherwise, and to the reaction heat
+capacities, ΔrCp'° = 0, so that the species record, carried with constant Cp° like species data,
+reproduces the stated (or assumed) temperature dependence of every literature reaction (the
+known compounds' transformed S'° and Cp'° are taken from the database by central differences). The approximation costs an
 uncertainty that grows with |T − 298.15 K|: :data:`ENTROPY_SIGMA_NO_ENTHALPY` (0.03 kJ/mol/K,
 i.e. a reaction entropy of ±30 J/mol/K, common practice for biochemical reactions whose ΔrS'° is
 unknown) or :data:`ENTROPY_SIGMA_WITH_ENTHALPY` (0.01 kJ/mol/K: the neglected ΔrCp'°, common
@@ -246,6 +248,9 @@ class Reconciliation:
     species : dict
         Compound id -> UnknownSpecies, for every compound without species data that was passed,
         including those no literature value mentions (never identified).
+    heat_capacities : ndarray
+        Minimum-norm Cp° of the reference species, kJ/mol/K, such that every literature reaction
+        has ΔrCp'° = 0 (its ΔrH'° and ΔrS'° constant, as the approximations above assume).
     """
 
     unknowns: tuple[str, ...]
@@ -258,6 +263,19 @@ class Reconciliation:
     matrix: np.ndarray
     residuals: list[ValueResidual] = field(default_factory=list)
     species: dict[str, UnknownSpecies] = field(default_factory=dict)
+    heat_capacities: np.ndarray = field(default_factory=lambda: np.zeros(0))
+
+    def species_gibbs(self, compound: str, temperature: float) -> float:
+        """ΔfG° (I = 0) of a compound's reference species at ``temperature``, kJ/mol.
+
+        Equation (constant Cp°, as for species data): G(T) = G(Tr) − S°(T − Tr)
+        + Cp°[(T − Tr) − T ln(T/Tr)].
+        """
+        i = self.unknowns.index(compound)
+        t = float(temperature)
+        cp = float(self.heat_capacities[i]) if self.heat_capacities.size else 0.0
+        return float(self.species_energies[i] - self.entropies[i] * (t - T_REF)
+                     + cp * ((t - T_REF) - t * math.log(t / T_REF)))
 
     # ----------------------------------------------------------------------------------- queries
     def vector(self, stoichiometry: Mapping[str, float]) -> np.ndarray:
@@ -400,6 +418,16 @@ def _known_derivative(known_energy: KnownEnergy, compound: str, conditions: Cond
     return (up - down) / (2 * h)
 
 
+def _second_derivative(f: Callable[[Conditions], float], conditions: Conditions) -> float:
+    """d²f/dT² by a central difference of ±0.5 K."""
+    h = 0.5
+    t = conditions.temperature
+    up = f(conditions.with_(temperature=t + h))
+    mid = f(conditions)
+    down = f(conditions.with_(temperature=t - h))
+    return (up - 2.0 * mid + down) / (h * h)
+
+
 def _offset_derivative(species: UnknownSpecies, conditions: Conditions) -> float:
     """d/dT of :func:`legendre_offset`, kJ/mol/K (central difference)."""
     h = 0.5
@@ -461,12 +489,14 @@ def reconcile(
     a = np.zeros((n_rows, n_cols))
     b = np.zeros(n_rows)
     b_entropy = np.zeros(n_rows)
+    b_cp = np.zeros(n_rows)
     variance = np.zeros(n_rows)
     undefined_warned: set[str] = set()
     for row, value in enumerate(used):
         at = value.conditions.with_(temperature=T_REF)
         rhs = value.at_reference_temperature()
         rhs_s = -value.entropy()  # Σ ν dG'/dT = −ΔrS'°
+        rhs_cp = 0.0  # Σ ν Cp_u = −Σ_k ν Cp'_k + Σ_u ν T δ_u'' (ΔrCp'° = 0)
         var = value.sigma ** 2
         for compound, nu in value.stoichiometry.items():
             nu = float(nu)
@@ -476,6 +506,7 @@ def reconcile(
                 rhs -= nu * (legendre_offset(sp, at) - legendre_offset(sp, reference))
                 # dG'_u/dT = −S_u + d(offset)/dT; the unknown column carries −S_u
                 rhs_s -= nu * _offset_derivative(sp, at)
+                rhs_cp += nu * T_REF * _second_derivative(lambda k, sp=sp: legendre_offset(sp, k), at)
                 if not sp.defined and compound not in undefined_warned and (
                         abs(at.ph - reference.ph) > 1e-9 or abs(at.ionic_strength - reference.ionic_strength) > 1e-9):
                     undefined_warned.add(compound)
@@ -491,8 +522,12 @@ def reconcile(
                 rhs -= nu * g
                 var += (nu * s) ** 2
                 rhs_s -= nu * _known_derivative(known_energy, compound, at)
+                # Cp'_k = −T d²ΔfG'°_k/dT²
+                rhs_cp += nu * T_REF * _second_derivative(
+                    lambda k, c=compound: known_energy(c, k)[0], at)
         b[row] = rhs
         b_entropy[row] = rhs_s
+        b_cp[row] = rhs_cp
         variance[row] = var
     if n_rows:
         root_w = 1.0 / np.sqrt(variance)
@@ -502,12 +537,14 @@ def reconcile(
         covariance = pinv @ pinv.T
         # entropy system: Σ ν (−S_u) = rhs_s  ->  S = −A⁺ rhs_s (same weights)
         entropies = -(pinv @ (b_entropy * root_w))
+        heat_capacities = pinv @ (b_cp * root_w)
         fitted = a @ x
         hat_diag = np.einsum("ij,ji->i", aw, pinv)
     else:
         x = np.zeros(0)
         covariance = np.zeros((0, 0))
         entropies = np.zeros(0)
+        heat_capacities = np.zeros(0)
         fitted = np.zeros(0)
         hat_diag = np.zeros(0)
     residuals: list[ValueResidual] = []
@@ -526,7 +563,7 @@ def reconcile(
                         "%.1f sigma", value.id, value.source_key, e, z)
     species_g = np.array([x[i] - legendre_offset(species[u], reference) for i, u in enumerate(names)])
     return Reconciliation(names, reference, x, covariance, entropies, species_g, tuple(used), a,
-                          residuals, dict(species))
+                          residuals, dict(species), heat_capacities)
 
 
 def read_literature_values(path, where: str | None = None) -> list[LiteratureValue]:
