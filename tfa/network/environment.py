@@ -1,0 +1,427 @@
+"""The setting a network is asked to live in: conditions, fed compounds, concentration bounds,
+the demand it must meet and the outlets it may use, read from a TOML file.
+
+File format (units: degC at the interface, mol/L for solutes, bar for gases)::
+
+    [environment]
+    name = "Kestrel Ridge vent field"
+    description = "..."
+    [conditions]
+    temperature_C = 70.0
+    pH = 7.0
+    ionic_strength_M = 0.25
+    pressure_bar = 250.0          # optional
+    pMg = 3.0                     # optional
+    [feed]                        # fixed activities; keys are network ids or thermo keys
+    H2 = 1.0e-3
+    [bounds]                      # default for every other compound, then per compound
+    default = [1.0e-6, 1.0e-2]
+    atp = [1.0e-4, 1.0e-2]
+    [demand]
+    reaction = "demand_precursors"
+    flux = 0.01
+    [outlets]
+    allowed = ["ac", "for"]
+
+Precedence of a compound's concentration bounds: fed (fixed) > ``[bounds]`` entry of the
+environment > ``conc_min``/``conc_max`` of the compounds table > ``[bounds] default``. Water and
+H+ have no concentration variable (activity 1; H+ fixed by pH).
+"""
+
+from __future__ import annotations
+
+import difflib
+import logging
+import math
+import sys
+from dataclasses import dataclass, field, replace
+from pathlib import Path
+from typing import Any
+
+import cobra
+
+from ..conditions import Conditions
+from ..errors import ConditionsError, NetworkFileError
+from .checks import is_boundary_reaction
+from .roles import metabolite_role
+
+if sys.version_info >= (3, 11):
+    import tomllib
+else:  # pragma: no cover - Python 3.10
+    import tomli as tomllib
+
+logger = logging.getLogger(__name__)
+
+#: Allowed keys per section of an environment file (None = any key).
+SECTIONS: dict[str, tuple[str, ...] | None] = {
+    "environment": ("name", "description"),
+    "conditions": ("temperature_C", "pH", "ionic_strength_M", "pressure_bar", "pMg"),
+    "feed": None,
+    "bounds": None,
+    "demand": ("reaction", "flux"),
+    "outlets": ("allowed",),
+}
+REQUIRED_CONDITIONS = ("temperature_C", "pH", "ionic_strength_M")
+#: Default concentration bounds, mol/L, when a file gives none (common practice in
+#: thermodynamics-based flux analysis: 1 uM to 10 mM; Henry et al. 2007).
+DEFAULT_BOUNDS = (1.0e-6, 1.0e-2)
+
+
+@dataclass(frozen=True)
+class Environment:
+    """A setting: conditions, feed, concentration bounds, demand and outlets.
+
+    Attributes
+    ----------
+    name, description : str
+        For reports.
+    conditions : Conditions
+        Temperature (K inside), pH, ionic strength (mol/L), pressure (bar), pMg.
+    feed : dict
+        Compound key (network id or thermo key) -> fixed activity (mol/L; gases bar).
+    default_bounds : tuple
+        (lower, upper) concentration, mol/L, for compounds with no other bound.
+    bounds : dict
+        Compound key -> (lower, upper), mol/L.
+    demand_reaction : str or None
+        Id of the reaction whose flux expresses the required output.
+    demand_flux : float
+        Lower bound of that reaction's flux (network flux units).
+    outlets : tuple
+        Compound keys that may leave the network through their exchange.
+    source : str
+        The file read, or empty.
+    """
+
+    name: str
+    conditions: Conditions
+    feed: dict[str, float] = field(default_factory=dict)
+    default_bounds: tuple[float, float] = DEFAULT_BOUNDS
+    bounds: dict[str, tuple[float, float]] = field(default_factory=dict)
+    demand_reaction: str | None = None
+    demand_flux: float = 0.0
+    outlets: tuple[str, ...] = ()
+    description: str = ""
+    source: str = ""
+
+    # ---------------------------------------------------------------- reading
+
+    @classmethod
+    def from_toml(cls, path: str | Path) -> "Environment":
+        """Read and validate an environment file.
+
+        Raises
+        ------
+        NetworkFileError
+            Unreadable TOML (with line and column), unknown section or key, missing key, a value
+            of the wrong type, a concentration <= 0, lower bound above upper bound.
+        ConditionsError
+            Conditions outside what the models support (named with the file).
+        """
+        path = Path(path)
+        if not path.is_file():
+            raise NetworkFileError(f"{path}: no such environment file; give the path of a .toml file")
+        try:
+            data = tomllib.loads(path.read_text(encoding="utf-8"))
+        except tomllib.TOMLDecodeError as exc:
+            raise NetworkFileError(f"{path}: not valid TOML ({exc}); fix the syntax there") from exc
+        except UnicodeDecodeError as exc:
+            raise NetworkFileError(f"{path}: not UTF-8 text; save it as UTF-8") from exc
+        return cls.from_dict(data, source=str(path))
+
+    @classmethod
+    def from_dict(cls, data: dict[str, Any], source: str = "") -> "Environment":
+        """Build from the parsed TOML mapping (see :meth:`from_toml`)."""
+        where = source or "environment"
+        for section, value in data.items():
+            if section not in SECTIONS:
+                raise NetworkFileError(_unknown(where, f"section [{section}]", section, list(SECTIONS)))
+            if not isinstance(value, dict):
+                raise NetworkFileError(f"{where}: '{section}' must be a section [{section}], not a value")
+            allowed = SECTIONS[section]
+            if allowed is not None:
+                for key in value:
+                    if key not in allowed:
+                        raise NetworkFileError(_unknown(where, f"key '{key}' in [{section}]", key, list(allowed)))
+        env = data.get("environment", {})
+        name = env.get("name", Path(source).stem if source else "environment")
+        if not isinstance(name, str) or not name.strip():
+            raise NetworkFileError(f"{where} [environment] name: give a non-empty text")
+        description = env.get("description", "")
+        if not isinstance(description, str):
+            raise NetworkFileError(f"{where} [environment] description: give a text")
+
+        cond = data.get("conditions")
+        if cond is None:
+            raise NetworkFileError(f"{where}: no [conditions] section; give temperature_C, pH and ionic_strength_M")
+        for key in REQUIRED_CONDITIONS:
+            if key not in cond:
+                raise NetworkFileError(f"{where} [conditions]: '{key}' is missing; add e.g. "
+                                       f"{key} = {dict(temperature_C=25.0, pH=7.0, ionic_strength_M=0.1)[key]}")
+        values = {key: _real(where, "conditions", key, cond[key]) for key in cond}
+        try:
+            conditions = Conditions.from_celsius(values["temperature_C"], ph=values["pH"],
+                                                 ionic_strength=values["ionic_strength_M"],
+                                                 pressure=values.get("pressure_bar"), pmg=values.get("pMg"))
+        except ConditionsError as exc:
+            raise ConditionsError(f"{where} [conditions]: {exc}") from exc
+
+        feed = {}
+        for key, value in data.get("feed", {}).items():
+            feed[key] = _positive(where, "feed", key, value)
+
+        bounds_section = dict(data.get("bounds", {}))
+        default_bounds = DEFAULT_BOUNDS
+        if "default" in bounds_section:
+            default_bounds = _pair(where, "default", bounds_section.pop("default"))
+        bounds = {key: _pair(where, key, value) for key, value in bounds_section.items()}
+        for key in bounds:
+            if key in feed:
+                raise NetworkFileError(f"{where} [bounds] {key}: '{key}' is also fed (fixed) in [feed]; "
+                                       "give it in one section only")
+
+        demand = data.get("demand", {})
+        demand_reaction = demand.get("reaction")
+        if demand_reaction is not None and (not isinstance(demand_reaction, str) or not demand_reaction):
+            raise NetworkFileError(f"{where} [demand] reaction: give a reaction id as text")
+        demand_flux = 0.0
+        if "flux" in demand:
+            demand_flux = _real(where, "demand", "flux", demand["flux"])
+            if demand_flux < 0:
+                raise NetworkFileError(f"{where} [demand] flux: {demand_flux} is negative; give a flux >= 0")
+
+        outlets = data.get("outlets", {}).get("allowed", [])
+        if not isinstance(outlets, list) or not all(isinstance(x, str) and x for x in outlets):
+            raise NetworkFileError(f"{where} [outlets] allowed: give a list of compound ids, e.g. [\"ac\", \"for\"]")
+        overlap = sorted(set(outlets) & set(feed))
+        if overlap:
+            logger.info("%s: %s both fed and allowed as outlets", where, ", ".join(overlap))
+        return cls(name=name.strip(), conditions=conditions, feed=feed, default_bounds=default_bounds,
+                   bounds=bounds, demand_reaction=demand_reaction, demand_flux=demand_flux,
+                   outlets=tuple(outlets), description=description, source=source)
+
+    # ---------------------------------------------------------------- copies for scans
+
+    @property
+    def demand(self) -> tuple[str | None, float]:
+        """(demand reaction id, minimum flux)."""
+        return self.demand_reaction, self.demand_flux
+
+    def with_conditions(self, **changes: float | None) -> "Environment":
+        """A copy with conditions changed: ``celsius``, ``temperature`` (K), ``ph``,
+        ``ionic_strength``, ``pressure``, ``pmg``.
+
+        >>> env = Environment("demo", Conditions.from_celsius(25))
+        >>> round(env.with_conditions(celsius=70).conditions.temperature, 2)
+        343.15
+        """
+        allowed = {"celsius", "temperature", "ph", "ionic_strength", "pressure", "pmg"}
+        unknown = sorted(set(changes) - allowed)
+        if unknown:
+            raise ConditionsError(f"cannot change {', '.join(unknown)}; use {', '.join(sorted(allowed))}")
+        return replace(self, conditions=self.conditions.with_(**changes))
+
+    def with_feed(self, changes: dict[str, float] | None = None, **more: float) -> "Environment":
+        """A copy with some fed activities changed or added (mol/L; gases bar).
+
+        >>> env = Environment("demo", Conditions(), feed={"H2": 1e-3})
+        >>> env.with_feed({"H2": 1e-5}).feed
+        {'H2': 1e-05}
+        """
+        feed = dict(self.feed)
+        for key, value in {**(changes or {}), **more}.items():
+            feed[key] = _positive("with_feed", "feed", key, value)
+        return replace(self, feed=feed)
+
+    def without_feed(self, *keys: str) -> "Environment":
+        """A copy in which the given compounds are not fed (e.g. ``without_feed("H2")``)."""
+        missing = [k for k in keys if k not in self.feed]
+        if missing:
+            raise NetworkFileError(f"{', '.join(missing)} not fed in {self.name}; fed: {', '.join(self.feed)}")
+        return replace(self, feed={k: v for k, v in self.feed.items() if k not in keys})
+
+    # ---------------------------------------------------------------- resolution against a network
+
+    def resolve(self, model: cobra.Model, key: str) -> cobra.Metabolite:
+        """The metabolite a key names: its id, its ``thermo_key``, or (case-insensitive) id, thermo
+        key, name or synonym.
+
+        Raises
+        ------
+        NetworkFileError
+            When nothing matches (with close matches) or several compounds match.
+        """
+        if key in model.metabolites:
+            return model.metabolites.get_by_id(key)
+        exact = [m for m in model.metabolites if (m.notes or {}).get("thermo_key") == key]
+        if len(exact) == 1:
+            return exact[0]
+        lowered = key.lower()
+        loose = []
+        for met in model.metabolites:
+            names = {met.id.lower(), (met.name or "").lower(), (met.notes or {}).get("thermo_key", "").lower()}
+            names |= {s.strip().lower() for s in (met.notes or {}).get("synonyms", "").split(";") if s.strip()}
+            if lowered in names:
+                loose.append(met)
+        candidates = exact or loose
+        if len(candidates) == 1:
+            return candidates[0]
+        where = self.source or self.name
+        if len(candidates) > 1:
+            raise NetworkFileError(
+                f"{where}: '{key}' matches several compounds of network {model.id} "
+                f"({', '.join(m.id for m in candidates)}); use the compound id"
+            )
+        known = [m.id for m in model.metabolites] + [m.notes.get("thermo_key", "") for m in model.metabolites
+                                                     if (m.notes or {}).get("thermo_key")]
+        close = difflib.get_close_matches(key, known, n=3, cutoff=0.5)
+        hint = f"did you mean {', '.join(repr(c) for c in close)}?" if close else "use a compound id of the network"
+        raise NetworkFileError(f"{where}: '{key}' is not a compound of network {model.id}; {hint}")
+
+    def feed_metabolites(self, model: cobra.Model) -> dict[str, float]:
+        """Metabolite id -> fixed activity for every fed compound."""
+        fed: dict[str, float] = {}
+        for key, value in self.feed.items():
+            met = self.resolve(model, key)
+            if met.id in fed:
+                raise NetworkFileError(f"{self.source or self.name} [feed]: '{key}' and another key both name "
+                                       f"compound {met.id}; keep one")
+            fed[met.id] = value
+        return fed
+
+    def metabolite_bounds(self, model: cobra.Model) -> dict[str, tuple[float, float]]:
+        """Metabolite id -> (lower, upper) concentration (mol/L; gases bar) for every compound with
+        a concentration variable (water and H+ are left out).
+
+        A per-compound ``[bounds]`` entry that names no compound of this network is logged and
+        ignored (the same environment serves networks with and without, e.g., ATP).
+        """
+        fed = self.feed_metabolites(model)
+        own: dict[str, tuple[float, float]] = {}
+        for key, pair in self.bounds.items():
+            try:
+                own[self.resolve(model, key).id] = pair
+            except NetworkFileError:
+                logger.info("%s: bounds for '%s' ignored, not in network %s", self.name, key, model.id)
+        result: dict[str, tuple[float, float]] = {}
+        for met in model.metabolites:
+            if metabolite_role(met) in ("water", "proton"):
+                continue
+            if met.id in fed:
+                result[met.id] = (fed[met.id], fed[met.id])
+                continue
+            if met.id in own:
+                result[met.id] = own[met.id]
+                continue
+            lower, upper = self.default_bounds
+            notes = met.notes or {}
+            if notes.get("conc_min"):
+                lower = float(notes["conc_min"])
+            if notes.get("conc_max"):
+                upper = float(notes["conc_max"])
+            if lower > upper:
+                raise NetworkFileError(
+                    f"compound {met.id}: its bounds [{lower:g}, {upper:g}] (compounds table and environment "
+                    f"{self.name} default) are empty; widen conc_min/conc_max or the [bounds] default"
+                )
+            result[met.id] = (lower, upper)
+        return result
+
+    def exchange_bounds(self, model: cobra.Model, flux_bound: float = 1000.0) -> dict[str, tuple[float, float]]:
+        """Bounds of every boundary reaction in this environment.
+
+        Exchanges (one compound, one empty side) of fed compounds, water and H+ are open both
+        ways; those of outlets may only export; all other boundary reactions are closed, except
+        the demand reaction, whose lower bound is the demand flux.
+
+        Raises
+        ------
+        NetworkFileError
+            A fed compound or outlet without an exchange, or a demand reaction not in the network.
+        """
+        where = self.source or self.name
+        fed = set(self.feed_metabolites(model))
+        outlets = {self.resolve(model, key).id for key in self.outlets}
+        free = fed | {m.id for m in model.metabolites if metabolite_role(m) in ("water", "proton")}
+        exchanges: dict[str, cobra.Reaction] = {}
+        result: dict[str, tuple[float, float]] = {}
+        for reaction in model.reactions:
+            if not is_boundary_reaction(reaction) or reaction.id == self.demand_reaction:
+                continue
+            if len(reaction.metabolites) == 1:
+                met, coefficient = next(iter(reaction.metabolites.items()))
+                exchanges.setdefault(met.id, reaction)
+                if met.id in free:
+                    result[reaction.id] = (-flux_bound, flux_bound)
+                    continue
+                if met.id in outlets:
+                    result[reaction.id] = (0.0, flux_bound) if coefficient < 0 else (-flux_bound, 0.0)
+                    continue
+            result[reaction.id] = (0.0, 0.0)
+        for met_id in sorted(fed | outlets):
+            if met_id not in exchanges:
+                raise NetworkFileError(
+                    f"{where}: compound {met_id} is fed or an outlet but network {model.id} has no exchange "
+                    f"for it; add a reaction 'EX_{met_id}' with equation '{met_id} <=> '"
+                )
+        if self.demand_reaction is not None:
+            if self.demand_reaction not in model.reactions:
+                close = difflib.get_close_matches(self.demand_reaction, [r.id for r in model.reactions], n=3)
+                hint = f"did you mean {', '.join(repr(c) for c in close)}?" if close else "add it to the network"
+                raise NetworkFileError(f"{where} [demand] reaction: '{self.demand_reaction}' is not a reaction "
+                                       f"of network {model.id}; {hint}")
+            demand = model.reactions.get_by_id(self.demand_reaction)
+            result[demand.id] = (self.demand_flux, max(demand.upper_bound, self.demand_flux))
+        return result
+
+    def apply_exchange_bounds(self, model: cobra.Model) -> dict[str, tuple[float, float]]:
+        """Set :meth:`exchange_bounds` on the model (undone on leaving an enclosing ``with model:``)."""
+        bounds = self.exchange_bounds(model)
+        for rid, pair in bounds.items():
+            model.reactions.get_by_id(rid).bounds = pair
+        return bounds
+
+    def describe(self) -> str:
+        """One line for reports."""
+        feed = ", ".join(f"{k} {v:g}" for k, v in self.feed.items())
+        return f"{self.name}: {self.conditions.describe()}; feed {feed or 'none'}"
+
+
+def _unknown(where: str, what: str, key: str, allowed: list[str]) -> str:
+    close = difflib.get_close_matches(key, allowed, n=1)
+    hint = f"did you mean '{close[0]}'? " if close else ""
+    return f"{where}: unknown {what}; {hint}allowed: {', '.join(allowed)}"
+
+
+def _real(where: str, section: str, key: str, value: Any) -> float:
+    if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(float(value)):
+        raise NetworkFileError(f"{where} [{section}] {key}: {value!r} is not a number; write e.g. {key} = 1.0")
+    return float(value)
+
+
+def _positive(where: str, section: str, key: str, value: Any) -> float:
+    number = _real(where, section, key, value)
+    if number <= 0:
+        raise NetworkFileError(
+            f"{where} [{section}] {key}: {value!r} is not a concentration; give a value > 0 "
+            "(mol/L; gases bar), or remove the entry"
+        )
+    return number
+
+
+def _pair(where: str, key: str, value: Any) -> tuple[float, float]:
+    if not isinstance(value, list) or len(value) != 2:
+        raise NetworkFileError(f"{where} [bounds] {key}: give two numbers [lower, upper] in mol/L, e.g. "
+                               f"{key} = [1.0e-6, 1.0e-2]")
+    lower = _positive(where, "bounds", key, value[0])
+    upper = _positive(where, "bounds", key, value[1])
+    if lower > upper:
+        raise NetworkFileError(f"{where} [bounds] {key}: lower {lower:g} is above upper {upper:g}; swap them")
+    return lower, upper
+
+
+def bundled_environment() -> Environment:
+    """The bundled demo environment, the invented Kestrel Ridge vent field."""
+    from .bundled import bundled_environment_path
+
+    return Environment.from_toml(bundled_environment_path())
