@@ -388,7 +388,8 @@ class Environment:
 
 
 def _unknown(where: str, what: str, key: str, allowed: list[str]) -> str:
-    close = difflib.get_close_matches(key, allowed, n=1)
+    same_case = [a for a in allowed if a.lower() == key.lower()]
+    close = same_case or difflib.get_close_matches(key, allowed, n=1)
     hint = f"did you mean '{close[0]}'? " if close else ""
     return f"{where}: unknown {what}; {hint}allowed: {', '.join(allowed)}"
 
