@@ -153,7 +153,7 @@ def test_unknown_energy_source_is_an_error(network, db):
         reaction_energies(model, table)
 
 
-ENV = SimpleNamespace(
+ENV_FIELDS = dict(
     name="Kestrel Ridge vent field (test)",
     conditions=VENT,
     feed={"H2": 1e-3, "phosphate": 1e-3},
@@ -162,6 +162,17 @@ ENV = SimpleNamespace(
     demand={"reaction": "DM_pyr", "flux": 0.01},
     outlets={"allowed": ["ac"]},
 )
+# a duck-typed stand-in and the real Environment class must give the same thermo model
+ENVIRONMENTS = {"stand-in": SimpleNamespace(**ENV_FIELDS)}
+try:
+    from tfa.network.environment import Environment
+
+    ENVIRONMENTS["Environment"] = Environment(
+        ENV_FIELDS["name"], VENT, feed=dict(ENV_FIELDS["feed"]), default_bounds=(1e-6, 1e-2),
+        bounds=dict(ENV_FIELDS["bounds"]), demand_reaction="DM_pyr", demand_flux=0.01, outlets=("ac",))
+except ImportError:  # pragma: no cover - until the environment module lands
+    pass
+ENV = ENVIRONMENTS["stand-in"]
 
 
 @pytest.fixture()
@@ -180,10 +191,11 @@ def stand_in_rewrites(monkeypatch):
         monkeypatch.setitem(sys.modules, "tfa.network.rewrites", module)
 
 
-def test_prepared_fills_the_thermo_model_and_restores(network, db, stand_in_rewrites):
+@pytest.mark.parametrize("env_kind", sorted(ENVIRONMENTS))
+def test_prepared_fills_the_thermo_model_and_restores(network, db, stand_in_rewrites, env_kind):
     model, values = network
     before = {r.id: r.bounds for r in model.reactions}
-    with prepared(model, ENV, "native", db, values) as tm:
+    with prepared(model, ENVIRONMENTS[env_kind], "native", db, values) as tm:
         assert tm.demand_id == "DM_pyr"
         assert model.reactions.DM_pyr.lower_bound == pytest.approx(0.01)
         assert model.reactions.EX_ac.bounds == (0.0, 1000.0)     # outlet: export only

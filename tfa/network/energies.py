@@ -184,7 +184,7 @@ class CompoundEnergyTable:
             for k, v in u_terms.items():
                 terms[k] = terms.get(k, 0.0) + v
             _extend(sources, u_sources)
-            parts.append(u_text)
+            parts.insert(0, u_text)
             source = u_source
         sigma = math.sqrt(max(variance, 0.0))
         provenance = "; ".join(parts)
@@ -684,8 +684,17 @@ def _thermo_model(model: cobra.Model, environment, mode: str, db: ThermoDatabase
     table = compound_energies(model, environment, db, literature)
     energies = reaction_energies(model, table)
     no_activity = _no_activity(model, db)
-    bounds, feed_ids = log_bounds(model, environment, no_activity)
-    demand_id = _apply_environment_fluxes(model, environment, feed_ids, no_activity)
+    if hasattr(environment, "metabolite_bounds") and hasattr(environment, "apply_exchange_bounds"):
+        # a tfa.network.environment.Environment: its own resolution of keys, bounds and exchanges
+        concentration = environment.metabolite_bounds(model)
+        bounds = {m: (math.log(lo), math.log(hi)) for m, (lo, hi) in concentration.items()
+                  if m not in no_activity}
+        feed_ids = {str(key): environment.resolve(model, key).id for key in environment.feed}
+        environment.apply_exchange_bounds(model)
+        demand_id = environment.demand_reaction
+    else:
+        bounds, feed_ids = log_bounds(model, environment, no_activity)
+        demand_id = _apply_environment_fluxes(model, environment, feed_ids, no_activity)
     kept = {rid: e for rid, e in energies.items() if math.isfinite(e.standard)}
     for rid, e in energies.items():
         if rid not in kept:

@@ -1,0 +1,152 @@
+"""``tfa inspect``: balance status, data coverage and the energy of every reaction of a network.
+
+NETWORK is a reactions table (``.tsv``/``.csv``, with ``compounds.tsv`` beside it and optionally
+``reaction_values.tsv`` and ``environment.toml``), a folder holding them, or an SBML/JSON file.
+With no NETWORK the bundled network and its environment (the Kestrel Ridge vent field) are used.
+The environment is ``--environment FILE``, else ``environment.toml`` beside the network, else the
+bundled one. Nothing is written to disk. Bad input exits with code 2 and a message naming the
+file and line.
+"""
+
+from __future__ import annotations
+
+import argparse
+import math
+import sys
+from pathlib import Path
+
+from ..errors import InputError
+from ..thermo.database import ThermoDatabase
+from .common import add_common_options, add_conditions_options, print_json, print_table
+
+#: Provenance text is cut to this many characters in the text output (JSON keeps all of it).
+PROVENANCE_WIDTH = 70
+
+
+def register(subparsers) -> None:
+    parser = subparsers.add_parser(
+        "inspect",
+        help="balance, data coverage and dG'0 of every reaction of a network at an environment",
+        description="Check a network: is every reaction balanced, where does each reaction's "
+        "transformed standard Gibbs energy come from (species data, a literature value, "
+        "reconciled literature values, an estimate, or nothing), and what is it at the "
+        "environment's temperature, pH and ionic strength. Without NETWORK the bundled network "
+        "is inspected at its own environment.",
+        epilog="example: tfa inspect models/ancestral_core/reactions.tsv --environment my_vent.toml --json",
+    )
+    parser.add_argument("network", metavar="NETWORK", nargs="?",
+                        help="reactions table (.tsv/.csv), a folder with one, or SBML/JSON; "
+                        "default: the bundled network")
+    parser.add_argument("--environment", metavar="FILE",
+                        help="environment file (TOML); default: environment.toml beside the network, "
+                        "else the bundled one")
+    parser.add_argument("--compounds", metavar="FILE",
+                        help="compounds table, when it is not compounds.tsv beside the reactions table")
+    add_conditions_options(parser)
+    parser.add_argument("--include-unreviewed", action="store_true",
+                        help="also use data from sources that are not peer reviewed")
+    parser.add_argument("--no-estimates", action="store_true",
+                        help="do not estimate compounds without data (they stay placeholders)")
+    add_common_options(parser)
+    parser.set_defaults(run=run)
+
+
+def _network_folder(path: Path) -> Path:
+    return path if path.is_dir() else path.parent
+
+
+def _load(args: argparse.Namespace):
+    """(model, environment, literature path or None, description of what was read)."""
+    from ..network.bundled import bundled_environment_path, bundled_folder
+    from ..network.energies import reaction_values_beside
+    from ..network.environment import Environment
+    from ..network.io_sbml import load_network
+
+    if args.network:
+        path = Path(args.network)
+        if not path.exists():
+            raise InputError(f"{path}: no such file or folder; give a reactions table, a folder "
+                             "holding reactions.tsv, or an SBML/JSON file")
+        model = load_network(path, args.compounds, require_balanced=False)
+        folder = _network_folder(path)
+        literature = reaction_values_beside(folder / "reactions.tsv")
+        default_env = folder / "environment.toml"
+        if not default_env.is_file():
+            default_env = bundled_environment_path()
+    else:
+        folder = bundled_folder()
+        model = load_network(folder / "reactions.tsv", require_balanced=False)
+        literature = reaction_values_beside(folder / "reactions.tsv")
+        default_env = bundled_environment_path()
+    env_path = Path(args.environment) if args.environment else default_env
+    environment = Environment.from_toml(env_path)
+    changes = {}
+    for option, key in (("temperature", "celsius"), ("ph", "ph"), ("ionic_strength", "ionic_strength"),
+                        ("pressure", "pressure"), ("pmg", "pmg")):
+        value = getattr(args, option, None)
+        if value is not None:
+            changes[key] = value
+    if changes:
+        environment = environment.with_conditions(**changes)
+    return model, environment, literature, env_path
+
+
+def _fmt(value: float) -> str:
+    return "—" if value is None or (isinstance(value, float) and math.isnan(value)) else f"{value:.2f}"
+
+
+def run(args: argparse.Namespace) -> int:
+    from ..network.checks import balance_report
+    from ..network.coverage import coverage
+
+    model, environment, literature, env_path = _load(args)
+    db = ThermoDatabase.load(include_unreviewed=args.include_unreviewed)
+    balance = balance_report(model)
+    unbalanced = balance[~balance["balanced"].astype(bool)]
+    report = coverage(model, environment, db, literature if literature else [],
+                      estimate=not args.no_estimates)
+    if args.json:
+        payload = report.to_dict()
+        payload["environment_file"] = str(env_path)
+        payload["literature_file"] = str(literature) if literature else None
+        payload["balance"] = {
+            "internal_reactions": int(len(balance)),
+            "balanced": int(len(balance) - len(unbalanced)),
+            "unbalanced": [{"id": r.reaction, "message": r.message} for r in unbalanced.itertuples()],
+        }
+        payload["include_unreviewed"] = bool(args.include_unreviewed)
+        print_json(payload)
+        return 0
+    out = sys.stdout
+    out.write(f"network      {model.id}: {len(model.reactions)} reactions ({report.total} internal), "
+              f"{len(model.metabolites)} compounds\n")
+    out.write(f"environment  {environment.name} ({env_path})\n")
+    out.write(f"conditions   {report.conditions.describe()}\n")
+    out.write(f"literature   {literature or 'none'}\n")
+    if unbalanced.empty:
+        out.write(f"balance      all {len(balance)} internal reactions balance\n")
+    else:
+        out.write(f"balance      {len(unbalanced)} of {len(balance)} internal reactions do not balance:\n")
+        for row in unbalanced.itertuples():
+            out.write(f"  {row.reaction}: {row.message}\n")
+    counts, fractions = report.counts, report.fractions
+    out.write("coverage     " + ", ".join(f"{k} {counts[k]} ({100 * fractions[k]:.0f}%)"
+                                          for k in counts if counts[k]) + "\n")
+    out.write(f"             reviewed species data or a cited value: "
+              f"{100 * report.reviewed_or_cited_fraction:.1f}% of {report.total}\n")
+    for d in report.disagreements:
+        out.write(f"disagreement literature value {d['id']} ({d['source_key']}): residual "
+                  f"{d['residual_kJ']:.1f} kJ/mol, {d['studentized']:.1f} sigma\n")
+    frame = report.to_frame()
+    frame["dG0_prime_kJ"] = frame["dG0_prime_kJ"].map(_fmt)
+    frame["sigma_kJ"] = frame["sigma_kJ"].map(_fmt)
+    frame["provenance"] = frame["provenance"].map(
+        lambda t: t if len(t) <= PROVENANCE_WIDTH else t[: PROVENANCE_WIDTH - 1] + "…")
+    out.write("\n")
+    print_table(frame[["reaction", "dG0_prime_kJ", "sigma_kJ", "source", "pathway", "provenance"]]
+                .rename(columns={"dG0_prime_kJ": "dG'0 kJ/mol", "sigma_kJ": "sigma"}))
+    missing = report.without_reviewed_data()
+    if missing:
+        out.write(f"\nwithout reviewed species data or a cited value ({len(missing)}): "
+                  + ", ".join(f"{r.reaction_id} ({r.source})" for r in missing) + "\n")
+    return 0
