@@ -225,3 +225,47 @@ def test_bad_bounds_are_reported(network, db):
     env = SimpleNamespace(conditions=VENT, feed={}, default_bounds=(1e-6, 1e-2), bounds={"adp": (1e-2, 1e-4)})
     with pytest.raises(Exception, match="adp"):
         log_bounds(model, env, {"h2o", "h"})
+
+
+MOIETY_COMPOUNDS = """id\tname\tsynonyms\tformula\tcharge\tthermo_key\tconc_min\tconc_max\trole\tsmiles\tnotes
+h2o\twater\t\tH2O\t0\tH2O\t\t\twater\t\t
+h\tproton\t\tH\t1\tH+\t\t\tproton\t\t
+ac\tacetate\t\tC2H3O2\t-1\tacetate\t\t\t\t\t
+pi\tphosphate\t\tHO4P\t-2\tphosphate\t\t\tphosphate\t\t
+actp\tacetyl phosphate\t\tC2H3O5P\t-2\t\t\t\t\t\t
+accoa\tacetyl-CoA\t\tC23H34N7O17P3S\t-4\t\t\t\t\t\t
+coa\tcoenzyme A\t\tC21H32N7O16P3S\t-4\t\t\t\t\t\t
+"""
+
+MOIETY_REACTIONS = """id\tequation\tname\tec\tpathway\tenergy_source\tlower_bound\tupper_bound\tnotes
+PTA\taccoa + pi <=> actp + coa\tphosphotransacetylase\t2.3.1.8\ttest\t\t\t\t
+ACH\taccoa + h2o -> ac + coa + h\tacetyl-CoA hydrolase\t3.1.2.1\ttest\t\t\t\t
+"""
+
+MOIETY_VALUES = VALUES + (
+    "accoa_hydrolysis\taccoa + h2o <=> ac + coa + h\t-35.7\t2.0\t\t25\t7\t0.25\t\tTJD77\tyes\t"
+    "Thauer et al. 1977, from memory\n")
+
+
+def test_conserved_moiety_network(tmp_path, db):
+    # Acetyl-CoA and CoA only ever appear together: each alone is not fixed, their difference is.
+    # Hand value of phosphotransacetylase = (acetyl-CoA hydrolysis) − (acetyl phosphate hydrolysis)
+    # = −35.7 − (−43.1) = +7.4 kJ/mol at the literature conditions (25 °C, pH 7, I = 0.25), the
+    # known compounds cancelling exactly (Thauer et al. 1977 give about +9 kJ/mol for this step,
+    # from memory: consistent within the 2 kJ/mol σ of each value).
+    (tmp_path / "compounds.tsv").write_text(MOIETY_COMPOUNDS)
+    (tmp_path / "reactions.tsv").write_text(MOIETY_REACTIONS)
+    (tmp_path / "reaction_values.tsv").write_text(MOIETY_VALUES)
+    model = read_network(tmp_path / "reactions.tsv")
+    values = read_literature_values(tmp_path / "reaction_values.tsv")
+    table = compound_energies(model, ROOM, db, values, estimate=False)
+    assert not table.compounds["accoa"].identified and not table.compounds["coa"].identified
+    assert table.compounds["actp"].identified
+    energies = reaction_energies(model, table)
+    assert energies["PTA"].standard == pytest.approx(7.4, abs=1e-6)
+    assert energies["PTA"].source == "reconciled"          # a combination of two values
+    assert energies["ACH"].standard == pytest.approx(-35.7, abs=1e-6)
+    assert energies["ACH"].source == "literature"
+    # CoA alone (or acetyl-CoA alone) is not fixed by the values: no number, never zero
+    lone = table.reaction_energy("lone", {"coa": 1.0, "h2o": -1.0})
+    assert math.isnan(lone.standard) and lone.source in ("placeholder", "none")
