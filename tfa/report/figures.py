@@ -134,10 +134,17 @@ def _require_columns(frame: pd.DataFrame, columns: Sequence[str], figure: str) -
 def _wrap_label(text: str, width: int = 14, max_lines: int = 3) -> str:
     """Wrap a label at spaces, underscores and hyphens (kept), shortened beyond ``max_lines``.
 
+    >>> _wrap_label("step_07_of_a_long_reaction_name", 20, 1)
+    'step_07_o…ction_name'
     >>> _wrap_label("methylene_THF_reductase", 12)
     'methylene_\\nTHF_\\nreductase'
     """
     text = str(text)
+    if max_lines == 1:  # one line: keep both ends, which usually tell reactions apart
+        if len(text) <= width:
+            return text
+        head = (width - 1) // 2
+        return text[:head] + "\u2026" + text[len(text) - (width - 1 - head):]
     pieces = [p for p in re.split(r"(?<=[_\-\s])", text) if p]
     lines: list[str] = []
     current = ""
