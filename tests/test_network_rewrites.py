@@ -162,3 +162,18 @@ def test_reaction_that_makes_adenine_nucleotide_is_removed():
     with no_atp_bare_chemistry(m) as summary:
         assert "AMPSYN" in summary.removed
     assert "AMPSYN" in m.reactions
+
+
+def test_demand_with_atp_keeps_its_other_compounds(model):
+    demand = cobra.Reaction("DM_mix", lower_bound=0.0)
+    demand.add_metabolites({model.metabolites.mal: -1, model.metabolites.atp: -1})
+    model.add_reactions([demand])
+    before = snapshot(model)
+    with no_atp_strict(model):
+        assert stoich(model, "DM_mix") == {"mal": -1}
+        assert model.reactions.DM_mix.bounds == (0.0, 1000.0)
+    with native(model) as summary:
+        assert "DM_mix" not in summary.blocked
+    with no_atp_bare_chemistry(model):
+        assert stoich(model, "DM_mix") == {"mal": -1}
+    assert snapshot(model) == before

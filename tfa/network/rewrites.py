@@ -8,7 +8,7 @@
   becomes H2 -> H2) are removed, as are reactions that make or use up a carrier; carrier
   compounds leave the model.
 - :func:`no_atp_strict`: ATP, ADP, AMP and pyrophosphate are unavailable; every reaction that
-  contains one of them is blocked (bounds 0, 0).
+  contains one of them is blocked (bounds 0, 0); a demand of several compounds only loses them.
 - :func:`no_atp_bare_chemistry`: each reaction coupled to ATP, ADP or pyrophosphate hydrolysis
   becomes its own chemistry, i.e. the reaction minus the hydrolysis reactions
 
@@ -300,13 +300,22 @@ def nucleotide_metabolites(model: cobra.Model) -> dict[str, cobra.Metabolite]:
 
 @contextlib.contextmanager
 def no_atp_strict(model: cobra.Model) -> Iterator[RewriteSummary]:
-    """Block every reaction that contains ATP, ADP, AMP or pyrophosphate (bounds 0, 0)."""
+    """Block every reaction that contains ATP, ADP, AMP or pyrophosphate (bounds 0, 0).
+
+    A demand reaction of several compounds keeps its other compounds (the nucleotides are
+    dropped from it, and noted) rather than being blocked.
+    """
     summary = RewriteSummary("no_atp_strict")
     with _exact_context(model) as context:
         nucleotides = set(nucleotide_metabolites(model).values())
         for reaction in model.reactions:
             present = sorted(m.id for m in reaction.metabolites if m in nucleotides)
             if not present:
+                continue
+            if is_boundary(reaction) and len(present) < len(reaction.metabolites):
+                # a demand of several compounds: ask for the others only
+                _set_stoichiometry(reaction, {m: c for m, c in reaction.metabolites.items() if m not in nucleotides})
+                _note(context, reaction, f"no_atp_strict: {', '.join(present)} dropped", summary)
                 continue
             reaction.bounds = (0.0, 0.0)
             summary.blocked.append(reaction.id)
@@ -440,7 +449,8 @@ def no_atp_bare_chemistry(model: cobra.Model) -> Iterator[RewriteSummary]:
 
 @contextlib.contextmanager
 def native(model: cobra.Model) -> Iterator[RewriteSummary]:
-    """Carriers and adenine nucleotides stay internal: block boundary reactions that supply or drain them."""
+    """Carriers and adenine nucleotides stay internal: block their exchanges (one-compound boundary
+    reactions), so the network must regenerate them; a demand that includes them is kept."""
     summary = RewriteSummary("native")
     with _exact_context(model) as context:
         internal = set(nucleotide_metabolites(model).values())
@@ -448,7 +458,7 @@ def native(model: cobra.Model) -> Iterator[RewriteSummary]:
             internal |= {pair.reduced, pair.oxidised}
         for reaction in model.reactions:
             present = sorted(m.id for m in reaction.metabolites if m in internal)
-            if present and is_boundary(reaction):
+            if present and is_boundary(reaction) and len(reaction.metabolites) == 1:
                 reaction.bounds = (0.0, 0.0)
                 summary.blocked.append(reaction.id)
                 _note(context, reaction, f"native: blocked, {', '.join(present)} must be regenerated inside",
