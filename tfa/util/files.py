@@ -12,6 +12,20 @@ from pathlib import Path
 from typing import Any, Iterator
 
 
+def _umask() -> int:
+    """The process's file-creation mask (read without changing it where the system allows)."""
+    try:
+        with open("/proc/self/status", encoding="ascii") as status:
+            for line in status:
+                if line.startswith("Umask:"):
+                    return int(line.split()[1], 8)
+    except (OSError, ValueError):
+        pass
+    mask = os.umask(0o022)
+    os.umask(mask)
+    return mask
+
+
 @contextlib.contextmanager
 def atomic_path(path: str | os.PathLike) -> Iterator[Path]:
     """Yield a temporary path beside ``path``; on success rename it onto ``path``.
@@ -30,6 +44,7 @@ def atomic_path(path: str | os.PathLike) -> Iterator[Path]:
     fd, tmp_name = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".part", dir=target.parent)
     os.close(fd)
     tmp = Path(tmp_name)
+    os.chmod(tmp, 0o666 & ~_umask())  # mkstemp makes 0600; give the usual mode of a new file
     try:
         yield tmp
         os.replace(tmp, target)
