@@ -177,3 +177,16 @@ def test_demand_with_atp_keeps_its_other_compounds(model):
     with no_atp_bare_chemistry(model):
         assert stoich(model, "DM_mix") == {"mal": -1}
     assert snapshot(model) == before
+
+
+def test_bifurcating_hydrogenase_disappears_under_h2_only(model):
+    """Electron-bifurcating [FeFe]-hydrogenase (EC 1.12.1.4): 2 H2 + NAD+ + Fd(ox) -> NADH +
+    Fd(red) + 3 H+ (Schut & Adams 2009, J. Bacteriol. 191:4451; stoichiometry from memory); with
+    both carriers replaced by H2 it is H2 -> H2 and must go."""
+    met = model.metabolites
+    bif = cobra.Reaction("HYDABC")
+    bif.add_metabolites({met.h2: -2, met.nad: -1, met.fdox: -1, met.nadh: 1, met.fdred: 1, met.h: 3})
+    model.add_reactions([bif])
+    assert balance_report(model).set_index("reaction").loc["HYDABC", "implicit_protons"] == 0
+    with h2_only(model) as summary:
+        assert "HYDABC" in summary.removed
