@@ -15,7 +15,7 @@ import pytest
 
 from tfa.analyses.uncertainty import (
     draw_energies,
-    draw_normals,
+    keyed_normals,
     energy_covariance,
     psd_factor,
     with_energies,
@@ -94,7 +94,7 @@ def test_zero_sigma_draws_equal_the_mean_exactly():
 def test_draws_reproduce_the_covariance_and_are_order_independent():
     model, sig = chain(extra=1.5)
     cov = energy_covariance(model, sig)
-    ids, draws = draw_energies(cov, 20000, seed=2024)
+    ids, draws = draw_energies(cov, 3000, seed=2024)
     sample = np.cov(draws, rowvar=False)
     # standard error of a sample covariance: sqrt((Σ_ii Σ_jj + Σ_ij²) / n)
     c = cov.covariance
@@ -108,12 +108,28 @@ def test_draws_reproduce_the_covariance_and_are_order_independent():
     assert not np.array_equal(draw_energies(cov, 1, seed=2025, start=7)[1][0], draws[7])
 
 
-def test_draw_normals_are_the_spawned_children():
-    children = np.random.SeedSequence(5).spawn(3)
-    for i, child in enumerate(children):
-        assert np.array_equal(draw_normals(5, i, 4), np.random.default_rng(child).standard_normal(4))
+def test_keyed_normals_are_children_of_the_spawned_draw():
+    from tfa.analyses.uncertainty import _name_key
+
+    for i in range(3):
+        child = np.random.SeedSequence(5).spawn(3)[i]
+        expected = np.random.default_rng(np.random.SeedSequence(5, spawn_key=child.spawn_key + (_name_key("B"),)))
+        assert keyed_normals(5, i, ["A", "B"])[1] == expected.standard_normal()
     with pytest.raises(InputError, match="seed"):
-        draw_normals(-1, 0, 2)
+        keyed_normals(-1, 0, ["A"])
+
+
+def test_a_compound_has_the_same_error_in_every_mode():
+    # a "mode" that adds a reaction over B must not change the draws of R1 and R2
+    model, sig = chain()
+    extended = Stub(dict(model.energies, R4=ReactionEnergy("R4", 1.0, 2.0, "species", "", {"B": 1})))
+    one = energy_covariance(model, sig, reaction_ids=["R1", "R2"]).draw(9, 4)
+    two = energy_covariance(extended, sig, reaction_ids=["R1", "R2", "R4"]).draw(9, 4)
+    np.testing.assert_allclose(one, two[:2], rtol=0, atol=1e-12)
+    # and R4's draw moves with B's error: R4 - ḡ4 = σ_B z_B = R1 - ḡ1 - σ_A z_A
+    z = keyed_normals(9, 4, ["A", "B"])
+    assert two[2] - 1.0 == pytest.approx(2.0 * z[1])
+    assert one[0] + 10.0 == pytest.approx(-1.0 * z[0] + 2.0 * z[1])
 
 
 def test_with_energies_replaces_values_and_keeps_the_rest():

@@ -16,10 +16,13 @@ section 5.2) applied to ΔrG'° = Σ ν ΔfG'°.
 
 Draws: g = ḡ + F z with the factor F = [N·diag(σ_k) | diag(s_j)] (so F Fᵀ = Σ exactly and is
 positive semi-definite by construction; no decomposition, hence the same numbers on every
-machine) and z standard normal from ``numpy.random.SeedSequence(seed, spawn_key=(i,))`` — the
-i-th child of ``SeedSequence(seed).spawn`` — so draw i depends only on (seed, i), never on which
-process computes it or in which order. For a covariance given as a matrix,
-:func:`psd_factor` uses an eigen-decomposition with negative eigenvalues clipped (PSD guard).
+machine). Draw i takes its seed sequence from ``numpy.random.SeedSequence(seed).spawn``'s i-th
+child, and within it one standard normal number per *name* (a compound key, or
+``reaction:<id>`` for an independent part), from that child's child numbered by a stable hash of
+the name. So draw i depends only on (seed, i) — never on which process computes it or in which
+order — and a compound has the same error in draw i of every mode, whatever other reactions the
+mode's rewrite adds. For a covariance given as a matrix, :func:`psd_factor` uses an
+eigen-decomposition with negative eigenvalues clipped (PSD guard).
 
 Units: kJ/mol throughout.
 
@@ -33,6 +36,7 @@ References
 
 from __future__ import annotations
 
+import hashlib
 import logging
 import math
 from dataclasses import dataclass, replace
@@ -94,11 +98,14 @@ class EnergyCovariance:
         np.fill_diagonal(corr, 1.0)
         return corr
 
+    @property
+    def factor_names(self) -> list[str]:
+        """Name of each column of :attr:`factor`: compound keys, then ``reaction:<id>``."""
+        return list(self.compound_ids) + [f"reaction:{r}" for r in self.reaction_ids]
+
     def draw(self, seed: int, index: int) -> np.ndarray:
         """Draw number ``index`` of the run seeded ``seed``: ḡ + F z, kJ/mol."""
-        f = self.factor
-        z = draw_normals(seed, index, f.shape[1])
-        return self.mean + f @ z
+        return self.mean + self.factor @ keyed_normals(seed, index, self.factor_names)
 
     def to_frame(self) -> pd.DataFrame:
         """One row per reaction: ΔrG'°, stated σ, σ from Σ, shared and independent parts."""
@@ -114,20 +121,28 @@ class EnergyCovariance:
         })
 
 
-def draw_normals(seed: int, index: int, size: int) -> np.ndarray:
-    """Standard normal numbers of draw ``index`` in the run seeded ``seed`` (order independent).
+def _name_key(name: str) -> int:
+    """A stable 63-bit number for a name (the same in every process and on every machine)."""
+    return int.from_bytes(hashlib.sha256(name.encode("utf-8")).digest()[:8], "big") >> 1
 
-    Uses the ``index``-th child of ``numpy.random.SeedSequence(seed)`` (what ``spawn`` would give).
 
-    >>> a = draw_normals(7, 3, 4)
-    >>> b = np.random.default_rng(np.random.SeedSequence(7).spawn(4)[3]).standard_normal(4)
-    >>> bool(np.array_equal(a, b))
+def keyed_normals(seed: int, index: int, names: Sequence[str]) -> np.ndarray:
+    """One standard normal number per name for draw ``index`` of the run seeded ``seed``.
+
+    The number of a name does not depend on the other names asked for:
+
+    >>> a = keyed_normals(3, 0, ["H2", "CO2tot", "formate"])
+    >>> b = keyed_normals(3, 0, ["formate", "H2"])
+    >>> bool(a[2] == b[0] and a[0] == b[1])
     True
     """
     if seed is None or int(seed) < 0:
         raise InputError(f"the seed must be a whole number >= 0, got {seed!r}")
-    sequence = np.random.SeedSequence(int(seed), spawn_key=(int(index),))
-    return np.random.default_rng(sequence).standard_normal(int(size))
+    out = np.empty(len(names))
+    for k, name in enumerate(names):
+        sequence = np.random.SeedSequence(int(seed), spawn_key=(int(index), _name_key(str(name))))
+        out[k] = np.random.default_rng(sequence).standard_normal()
+    return out
 
 
 def compound_sigmas(thermo_model: ThermoModel) -> dict[str, float]:
@@ -247,10 +262,9 @@ def draw_energies(thermo_model: ThermoModel | EnergyCovariance, n: int, seed: in
     if n < 0:
         raise InputError(f"the number of draws must be >= 0, got {n}")
     cov = thermo_model if isinstance(thermo_model, EnergyCovariance) else energy_covariance(thermo_model)
-    factor = cov.factor
     out = np.empty((n, len(cov.reaction_ids)))
     for i in range(n):
-        out[i] = cov.mean + factor @ draw_normals(seed, start + i, factor.shape[1])
+        out[i] = cov.draw(seed, start + i)
     return list(cov.reaction_ids), out
 
 
