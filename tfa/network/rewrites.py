@@ -426,7 +426,8 @@ def no_atp_bare_chemistry(model: cobra.Model) -> Iterator[RewriteSummary]:
                         met = water if role == "water" else phosphate
                         new[met] = new.get(met, 0.0) - x * coefficient
             new = {m: round(c, 12) for m, c in new.items() if abs(c) > _TOL}
-            used = ", ".join(f"{x:g} x ({_HYDROLYSIS_TEXT[k]})" for k, x in amounts.items() if abs(x) > _TOL)
+            used = ", ".join(f"{'minus' if x > 0 else 'plus'} {abs(x):g} x ({_HYDROLYSIS_TEXT[k]})"
+                             for k, x in amounts.items() if abs(x) > _TOL)
             if proton is not None:
                 before = _implicit_protons(stoich)
                 after = _implicit_protons(new) if new else 0.0
@@ -436,11 +437,11 @@ def no_atp_bare_chemistry(model: cobra.Model) -> Iterator[RewriteSummary]:
                     new = {m: c for m, c in new.items() if abs(c) > _TOL}
             if _is_empty(new, inert):
                 remove.append(reaction)
-                _note(context, reaction, f"no_atp_bare: removed, a nucleotide interconversion (minus {used} "
+                _note(context, reaction, f"no_atp_bare: removed, a nucleotide interconversion ({used} "
                       "leaves nothing)", summary)
                 continue
             _set_stoichiometry(reaction, new)
-            _note(context, reaction, f"no_atp_bare: minus {used}", summary)
+            _note(context, reaction, f"no_atp_bare: {used}", summary)
         _finish(model, summary, remove, set(nucleotides.values()), "no_atp_bare", context)
         logger.info("no_atp_bare: %d reactions rewritten, %d removed",
                     len(summary.rewritten) - len(summary.removed), len(summary.removed))
