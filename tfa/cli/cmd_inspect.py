@@ -132,8 +132,8 @@ def run(args: argparse.Namespace) -> int:
     counts, fractions = report.counts, report.fractions
     out.write("coverage     " + ", ".join(f"{k} {counts[k]} ({100 * fractions[k]:.0f}%)"
                                           for k in counts if counts[k]) + "\n")
-    out.write(f"             reviewed species data or a cited value: "
-              f"{100 * report.reviewed_or_cited_fraction:.1f}% of {report.total}\n")
+    out.write(f"             reviewed species data or cited literature values (restated or "
+              f"reconciled): {100 * report.reviewed_or_cited_fraction:.1f}% of {report.total}\n")
     for d in report.disagreements:
         out.write(f"disagreement literature value {d['id']} ({d['source_key']}): residual "
                   f"{d['residual_kJ']:.1f} kJ/mol, {d['studentized']:.1f} sigma\n")
@@ -147,6 +147,6 @@ def run(args: argparse.Namespace) -> int:
                 .rename(columns={"dG0_prime_kJ": "dG'0 kJ/mol", "sigma_kJ": "sigma"}))
     missing = report.without_reviewed_data()
     if missing:
-        out.write(f"\nwithout reviewed species data or a cited value ({len(missing)}): "
+        out.write(f"\nwithout reviewed species data or cited values ({len(missing)}): "
                   + ", ".join(f"{r.reaction_id} ({r.source})" for r in missing) + "\n")
     return 0

@@ -4,7 +4,8 @@ Per internal reaction: the kind of source (``species`` data, a ``literature`` re
 restates, ``reconciled`` from several literature values, ``estimated`` by group contribution,
 ``placeholder`` or ``none``), ΔrG'° at the environment, its σ and the provenance text; then counts
 and fractions per kind and the list of reactions without reviewed species data or a cited
-literature value. The rules that assign a source are those of :mod:`tfa.network.energies`.
+literature value (species data, a value it restates, or a combination of cited values). The
+rules that assign a source are those of :mod:`tfa.network.energies`.
 
 Nothing here computes an energy; it reads the :class:`~tfa.network.thermo_model.ReactionEnergy`
 records made by :mod:`tfa.network.energies`.
@@ -23,8 +24,12 @@ from ..conditions import Conditions
 from .energies import CompoundEnergyTable, compound_energies, reaction_energies
 from .thermo_model import ENERGY_SOURCES, ReactionEnergy
 
-#: Sources that count as "reviewed species data or a cited reaction-level value".
-REVIEWED_OR_CITED = ("species", "literature")
+#: Sources that count as "reviewed species data or a cited reaction-level value". A reconciled
+#: energy is made only of reviewed species data and cited, peer-reviewed literature values (a
+#: combination of several of them, e.g. phosphotransacetylase = acetyl-CoA hydrolysis − acetyl
+#: phosphate hydrolysis), so it counts; estimates and placeholders do not. The report keeps the
+#: split between the three kinds.
+REVIEWED_OR_CITED = ("species", "literature", "reconciled")
 #: Sources with a number (the others have none).
 WITH_VALUE = ("species", "literature", "reconciled", "estimated")
 
@@ -84,7 +89,8 @@ class CoverageReport:
 
     @property
     def reviewed_or_cited_fraction(self) -> float:
-        """Fraction of reactions whose ΔrG'° comes from reviewed species data or a cited value."""
+        """Fraction of reactions whose ΔrG'° comes from reviewed species data or cited values
+        (sources in :data:`REVIEWED_OR_CITED`: species, literature, reconciled)."""
         n = self.total
         return sum(self.counts[k] for k in REVIEWED_OR_CITED) / n if n else 0.0
 

@@ -171,10 +171,9 @@ class CompoundEnergyTable:
         if other:
             result = self._unknown_part(reaction_id, other, energy_source)
             if result is None:
-                blockers = [m for m in other if self.compounds[m].source in ("placeholder", "none")
-                            or (self.compounds[m].source == "reconciled" and not self.compounds[m].estimate_key)]
+                blockers = self._blockers(other)
                 kind = "placeholder" if blockers and all(self.compounds[m].smiles for m in blockers) else "none"
-                why = self._why_unresolved(other)
+                why = self._why_unresolved(other, blockers)
                 return ReactionEnergy(reaction_id, math.nan, math.nan, kind,
                                       f"no energy: {why}" + (f"; {parts[0]}" if parts else ""),
                                       {})
@@ -259,14 +258,23 @@ class CompoundEnergyTable:
                 return True
         return False
 
-    def _why_unresolved(self, other: Mapping[str, float]) -> str:
+    def _blockers(self, other: Mapping[str, float]) -> list[str]:
+        """Compounds that keep a reaction from having an energy."""
+        out = [m for m in other if self.compounds[m].source in ("placeholder", "none")]
+        reconciled = {m: n for m, n in other.items() if self.compounds[m].source == "reconciled"}
+        rec = self.reconciliation
+        if reconciled and (rec is None or not rec.identified(reconciled)):
+            out += [m for m in reconciled if not self.compounds[m].estimate_key]
+        return out
+
+    def _why_unresolved(self, other: Mapping[str, float], blockers: Sequence[str]) -> str:
         reasons = []
-        for m in other:
+        for m in blockers:
             ce = self.compounds[m]
             if ce.source == "reconciled":
-                reasons.append(f"{m} is reconciled but this combination of its moiety is not fixed "
-                               "by the literature values")
-            elif ce.source in ("placeholder", "none"):
+                reasons.append(f"{m} is reconciled, but the literature values do not fix this "
+                               "combination of its conserved moiety, and it has no estimate")
+            else:
                 reasons.append(f"{m}: {ce.provenance}")
         return "; ".join(reasons) or "compounds without data"
 
