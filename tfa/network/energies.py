@@ -36,6 +36,10 @@ Reactions, including those the mode rewrites create, sum over their compounds. T
   has a SMILES, ``none`` otherwise; it has no value (NaN) and is left out of
   :attr:`ThermoModel.energies`.
 
+Pressure: species data are carried to the environment's pressure with their V°; reconciled and
+estimated species have no V°, so the literature reactions are taken as having ΔrV'° = 0 for their
+unknown compounds (the database flags "no V" for them).
+
 Literature values are read from ``reaction_values.tsv`` beside the network's reactions table
 (passed by the caller, or found through ``model.notes['reaction_values_path']``, or the bundled
 table when the model is the bundled network).
