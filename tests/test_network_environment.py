@@ -149,3 +149,11 @@ def test_bundled_environment_reads():
     assert env.name == "Kestrel Ridge vent field"
     assert {"H2", "CO2"} <= set(env.feed)
     assert env.demand_reaction
+
+
+def test_outlet_missing_from_network_is_ignored(tmp_path, caplog):
+    model = read_network(DATA / "reactions.tsv")
+    env = Environment.from_toml(write(tmp_path, EXAMPLE.replace('allowed = ["ac"]', 'allowed = ["ac", "ch4"]')))
+    exchanges = env.exchange_bounds(model)
+    assert exchanges["EX_ac"] == (0.0, 1000.0)
+    assert "outlet 'ch4' ignored" in caplog.text

@@ -332,16 +332,22 @@ class Environment:
 
         Exchanges (one compound, one empty side) of fed compounds, water and H+ are open both
         ways; those of outlets may only export; all other boundary reactions are closed, except
-        the demand reaction, whose lower bound is the demand flux.
+        the demand reaction, whose lower bound is the demand flux. Outlets are optional: one that
+        the network lacks (or has no exchange for) is logged and ignored.
 
         Raises
         ------
         NetworkFileError
-            A fed compound or outlet without an exchange, or a demand reaction not in the network.
+            A fed compound without an exchange, or a demand reaction not in the network.
         """
         where = self.source or self.name
         fed = set(self.feed_metabolites(model))
-        outlets = {self.resolve(model, key).id for key in self.outlets}
+        outlets: set[str] = set()
+        for key in self.outlets:
+            try:
+                outlets.add(self.resolve(model, key).id)
+            except NetworkFileError:
+                logger.warning("%s: outlet '%s' ignored, not a compound of network %s", where, key, model.id)
         free = fed | {m.id for m in model.metabolites if metabolite_role(m) in ("water", "proton")}
         exchanges: dict[str, cobra.Reaction] = {}
         result: dict[str, tuple[float, float]] = {}
@@ -358,11 +364,13 @@ class Environment:
                     result[reaction.id] = (0.0, flux_bound) if coefficient < 0 else (-flux_bound, 0.0)
                     continue
             result[reaction.id] = (0.0, 0.0)
-        for met_id in sorted(fed | outlets):
+        for met_id in sorted(outlets - set(exchanges)):
+            logger.warning("%s: outlet %s ignored, network %s has no exchange for it", where, met_id, model.id)
+        for met_id in sorted(fed):
             if met_id not in exchanges:
                 raise NetworkFileError(
-                    f"{where}: compound {met_id} is fed or an outlet but network {model.id} has no exchange "
-                    f"for it; add a reaction 'EX_{met_id}' with equation '{met_id} <=> '"
+                    f"{where}: compound {met_id} is fed but network {model.id} has no exchange for it; add "
+                    f"a reaction 'EX_{met_id}' with equation '{met_id} <=> '"
                 )
         if self.demand_reaction is not None:
             if self.demand_reaction not in model.reactions:
