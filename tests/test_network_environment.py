@@ -143,12 +143,15 @@ def _bundled_environment_exists() -> bool:
 @pytest.mark.skipif(not _bundled_environment_exists(),
                     reason="models/ancestral_core/environment.toml not written yet (another engineer's task)")
 def test_bundled_environment_reads():
-    from tfa.network import bundled_environment
+    from tfa.network import bundled_environment, load_bundled_network
 
     env = bundled_environment()
+    model = load_bundled_network()
     assert env.name == "Kestrel Ridge vent field"
-    assert {"H2", "CO2"} <= set(env.feed)
-    assert env.demand_reaction
+    fed = {model.metabolites.get_by_id(i).notes.get("thermo_key") for i in env.feed_metabolites(model)}
+    assert {"H2", "CO2"} <= fed
+    assert env.demand_reaction in model.reactions
+    assert set(env.metabolite_bounds(model)) <= {m.id for m in model.metabolites}
 
 
 def test_outlet_missing_from_network_is_ignored(tmp_path, caplog):

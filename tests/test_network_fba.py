@@ -49,9 +49,10 @@ def _max_demand(model, env) -> tuple[float, dict]:
         with native(model):
             env.apply_exchange_bounds(model)
             model.objective = env.demand_reaction
-            solution = model.optimize()
-            if solution.status != "optimal":
+            value = model.slim_optimize(error_value=math.nan)
+            if math.isnan(value):
                 return math.nan, {}
+            solution = model.optimize()
             return solution.objective_value, solution.fluxes.to_dict()
 
 
