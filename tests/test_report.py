@@ -413,3 +413,10 @@ def test_overlap_check_can_fail():
         label.set_rotation(0)
         label.set_horizontalalignment("center")
     assert _overlaps(_text_boxes(fig, labels))
+
+
+def test_html_text_keeps_line_breaks_and_lists(tmp_path):
+    text = "runs with ATP: yes\nruns without ATP: no\n\n- first <point>\n- second"
+    page = build_report([ReportSection("Summary", text)], tmp_path / "r.html").read_text()
+    assert "<p>runs with ATP: yes<br>runs without ATP: no</p>" in page
+    assert "<ul><li>first &lt;point&gt;</li><li>second</li></ul>" in page

@@ -104,7 +104,8 @@ class ReportSection:
     title : str
         Heading.
     text : str
-        Plain words. Blank lines separate paragraphs; lines starting with "- " become a list.
+        Plain words. Blank lines separate paragraphs, a single line break is kept as one;
+        lines starting with "- " become a list.
     table : DataFrame or None
         A table shown below the text (sortable by clicking a column header).
     figure_paths : sequence of Path
@@ -248,7 +249,8 @@ def _text_html(text: str) -> str:
 
         def flush_paragraph() -> None:
             if paragraph:
-                out.append("<p>" + html.escape(" ".join(s.strip() for s in paragraph)) + "</p>")
+                out.append("<p>" + "<br>".join(html.escape(s.strip()) for s in paragraph)
+                           + "</p>")
                 paragraph.clear()
 
         def flush_items() -> None:
