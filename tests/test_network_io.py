@@ -172,3 +172,24 @@ def test_unbalanced_network_can_be_read_for_inspection(mini: Path):
     frame = balance_report(model).set_index("reaction")
     assert not frame.loc["LDH", "balanced"]
     assert frame["balanced"].sum() == len(frame) - 1
+
+
+def _bundled_tables_exist() -> bool:
+    from tfa.errors import NetworkFileError
+    from tfa.network.bundled import bundled_folder
+
+    try:
+        return (bundled_folder() / "reactions.tsv").is_file()
+    except NetworkFileError:
+        return False
+
+
+@pytest.mark.skipif(not _bundled_tables_exist(), reason="models/ancestral_core/ not written yet")
+def test_bundled_network_round_trips_through_sbml(tmp_path: Path):
+    from tfa.network import load_bundled_network
+
+    original = load_bundled_network()
+    assert balance_report(original)["balanced"].all()
+    write_sbml(original, tmp_path / "core.xml")
+    write_network(read_sbml(tmp_path / "core.xml"), tmp_path / "tables")
+    assert model_fingerprint(read_network(tmp_path / "tables" / "reactions.tsv")) == model_fingerprint(original)
