@@ -1,0 +1,237 @@
+"""One network, many points: the network and environment sent once to every worker process, a
+ThermoModel prepared per mode and conditions, and the outcome of the analyses at one point as a
+small JSON-able dict.
+
+Used by :mod:`tfa.analyses.robustness` (points = draws of ΔrG'°) and :mod:`tfa.analyses.maps`
+(points = conditions). Nothing here computes a Gibbs energy: energies come from
+:func:`tfa.network.energies.prepare`, answers from the analyses of this package
+(:func:`~tfa.analyses.feasibility.feasibility`, the minimal uphill set, the H2 threshold, the
+max-min driving force), each certified there.
+
+A :class:`NetworkJob` holds the model and environment as bytes (``pickle`` of objects this
+process built, never of a user file); a worker unpickles them once per process
+(:func:`tfa.util.points.worker_cache`, keyed by the content hash) and caches the prepared model
+of the last few (mode, conditions), so a robustness run prepares each mode once per worker.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import logging
+import math
+import pickle
+from collections import OrderedDict
+from dataclasses import dataclass, field
+from typing import Any, Mapping
+
+from ..errors import InputError
+from ..network.thermo_model import MODES, ThermoModel
+from ..problem.builder import ProblemOptions
+from ..util.points import worker_cache
+
+log = logging.getLogger(__name__)
+
+#: Condition axes a point may change, with their units at the interface.
+CONDITION_AXES = {
+    "temperature": "degC",
+    "ph": "",
+    "ionic_strength": "mol/L",
+    "pressure": "bar",
+    "h2": "mol/L (gas feed: bar)",
+}
+#: What an outcome can hold.
+OUTCOME_PARTS = ("uphill", "threshold", "driving_force")
+#: Prepared models kept per worker (conditions change from point to point on a map).
+PREPARED_CACHE_SIZE = 8
+
+
+@dataclass(frozen=True)
+class NetworkJob:
+    """The network, environment and analysis options of a many-point run, ready to ship.
+
+    Attributes
+    ----------
+    payload : bytes
+        ``pickle`` of (cobra model, environment), made by :meth:`create` in this process.
+    token : str
+        SHA-256 of ``payload``: the worker cache key.
+    options : dict
+        ``min_driving_force``, ``solver``, ``time_limit``, ``unknown_energy`` (ProblemOptions) and
+        ``parts``: which of :data:`OUTCOME_PARTS` to compute.
+    fingerprint : str
+        A hash of the network's reactions, bounds and notes and of the environment that is the
+        same in every process and session (the pickle bytes are not), for results-file headers.
+    """
+
+    payload: bytes
+    token: str
+    options: dict = field(default_factory=dict)
+    fingerprint: str = ""
+
+    @classmethod
+    def create(cls, model, environment, parts=("uphill", "threshold"), prepare=None,
+               **options: Any) -> "NetworkJob":
+        """Package a model and environment (see the class docstring for ``options``).
+
+        ``prepare(model, environment, mode) -> ThermoModel`` (a module-level function) replaces
+        :func:`tfa.network.energies.prepare`, e.g. for hand-made test networks.
+        """
+        unknown = [p for p in parts if p not in OUTCOME_PARTS]
+        if unknown:
+            raise InputError(f"unknown outcome part(s) {', '.join(unknown)}; use {', '.join(OUTCOME_PARTS)}")
+        allowed = {"min_driving_force", "solver", "time_limit", "unknown_energy"}
+        bad = sorted(set(options) - allowed)
+        if bad:
+            raise InputError(f"unknown option(s) {', '.join(bad)}; use {', '.join(sorted(allowed))}")
+        ProblemOptions(**options)  # validate now, not in every worker
+        payload = pickle.dumps((model, environment, prepare), protocol=pickle.HIGHEST_PROTOCOL)
+        token = hashlib.sha256(payload).hexdigest()
+        return cls(payload, token, {"parts": list(parts), **options},
+                   fingerprint(model, environment, prepare))
+
+    def describe(self) -> dict:
+        """Plain dictionary for results-file headers (no payload)."""
+        return {"network": self.fingerprint, **self.options}
+
+    def objects(self) -> tuple:
+        """(model, environment, prepare or None), unpickled once per worker process."""
+        return worker_cache(("network-job", self.token), lambda: pickle.loads(self.payload))
+
+    def problem_options(self) -> ProblemOptions:
+        opts = {k: v for k, v in self.options.items() if k != "parts"}
+        return ProblemOptions(**opts)
+
+    def thermo_model(self, mode: str, changes: Mapping[str, float] | None = None) -> ThermoModel:
+        """The prepared model of ``mode`` at the environment with ``changes`` (see
+        :func:`changed_environment`), cached per worker."""
+        if mode not in MODES:
+            raise InputError(f"unknown mode {mode!r}; use one of {', '.join(MODES)}")
+        key = (mode, tuple(sorted((changes or {}).items())))
+        cache: OrderedDict = worker_cache(("prepared", self.token), OrderedDict)
+        if key in cache:
+            cache.move_to_end(key)
+            return cache[key]
+        from ..network.energies import prepare
+
+        model, environment, custom = self.objects()
+        env = changed_environment(model, environment, changes or {})
+        tm = (custom or prepare)(model, env, mode)
+        cache[key] = tm
+        while len(cache) > PREPARED_CACHE_SIZE:
+            cache.popitem(last=False)
+        return tm
+
+
+def fingerprint(model, environment, prepare=None) -> str:
+    """SHA-256 (16 hex digits) of the network and environment, stable across processes.
+
+    >>> fingerprint(None, None) == fingerprint(None, None)
+    True
+    """
+    parts = []
+    if model is not None and not hasattr(model, "reactions"):
+        parts.append(repr(model))
+    elif model is not None:
+        for r in sorted(model.reactions, key=lambda r: r.id):
+            parts.append(f"{r.id}|{r.build_reaction_string()}|{r.lower_bound}|{r.upper_bound}")
+        for m in sorted(model.metabolites, key=lambda m: m.id):
+            parts.append(f"{m.id}|{m.formula}|{m.charge}|{sorted((m.notes or {}).items())}")
+    parts.append(repr(environment))
+    if prepare is not None:
+        parts.append(f"{prepare.__module__}.{prepare.__qualname__}")
+    return hashlib.sha256("\n".join(parts).encode("utf-8")).hexdigest()[:16]
+
+
+def h2_feed_key(model, environment) -> str:
+    """The key of the environment's feed that supplies H2 (role ``h2`` in the network)."""
+    from ..network.roles import single_with_role
+
+    feed = dict(getattr(environment, "feed", {}) or {})
+    met = single_with_role(model, "h2", fallback_ids=("h2", "H2", "h2_c"))
+    names = set()
+    if met is not None:
+        names = {met.id.lower(), str((met.notes or {}).get("thermo_key", "")).lower()}
+    for key in feed:
+        if key.lower() in names:
+            return key
+    for key in feed:
+        if key.lower() in ("h2", "h2(aq)", "h2(g)"):
+            return key
+    raise InputError("the environment feeds no H2, so H2 supply cannot be changed; add H2 to its "
+                     "[feed] section")
+
+
+def changed_environment(model, environment, changes: Mapping[str, float]):
+    """A copy of ``environment`` with conditions or H2 supply changed.
+
+    ``changes`` keys: ``temperature`` (degC), ``ph``, ``ionic_strength`` (mol/L), ``pressure``
+    (bar), ``h2`` (the fed H2 activity: mol/L, or bar when H2 is fed as a gas).
+    """
+    unknown = sorted(set(changes) - set(CONDITION_AXES))
+    if unknown:
+        raise InputError(f"cannot change {', '.join(unknown)}; use {', '.join(CONDITION_AXES)}")
+    env = environment
+    conditions = {}
+    for name, value in changes.items():
+        if name == "h2":
+            continue
+        conditions["celsius" if name == "temperature" else name] = float(value)
+    if conditions:
+        env = env.with_conditions(**conditions)
+    if "h2" in changes:
+        env = env.with_feed({h2_feed_key(model, environment): float(changes["h2"])})
+    return env
+
+
+def _number(value) -> float | None:
+    if value is None:
+        return None
+    value = float(value)
+    return value if math.isfinite(value) else None
+
+
+def outcome(tm: ThermoModel, options: ProblemOptions, parts=("uphill", "threshold")) -> dict:
+    """Answers of the analyses for one prepared model, as a JSON-able dict.
+
+    Keys: ``feasible`` (bool), ``demand_impossible`` (bool), ``uphill_size`` and ``uphill``
+    (a minimal uphill set, sorted; size 0 when feasible), ``h2_threshold`` (least H2 at which the
+    network is feasible, mol/L or bar; None when not asked or never feasible) and
+    ``driving_force_kJ`` (max-min driving force of the network, kJ/mol; None when not asked).
+    """
+    from .feasibility import feasibility
+
+    diagnose = "uphill" in parts
+    result = feasibility(tm, options, diagnose=diagnose)
+    out: dict[str, Any] = {"feasible": bool(result.feasible),
+                           "demand_impossible": bool(result.demand_impossible)}
+    if diagnose:
+        if result.feasible:
+            out["uphill_size"], out["uphill"] = 0, []
+        elif result.diagnosis is not None:
+            members = sorted(result.diagnosis.sets[0]) if result.diagnosis.sets else []
+            out["uphill_size"], out["uphill"] = int(result.diagnosis.size), members
+        else:
+            out["uphill_size"], out["uphill"] = None, None
+    if "threshold" in parts:
+        out["h2_threshold"] = _h2_threshold(tm, options)
+    if "driving_force" in parts:
+        out["driving_force_kJ"] = _driving_force(tm, options)
+    return out
+
+
+def _h2_threshold(tm: ThermoModel, options: ProblemOptions) -> float | None:
+    """Least H2 (NaN -> None when no H2 level in the default range makes the network feasible)."""
+    from .hydrogen import h2_threshold
+
+    return _number(h2_threshold(tm, options).threshold)
+
+
+def _driving_force(tm: ThermoModel, options: ProblemOptions) -> float | None:
+    """Max-min driving force of the network (None when the demand cannot be met at all)."""
+    from ..problem.solvers import InfeasibleProblem
+    from .driving_force import network_driving_force
+
+    try:
+        return _number(network_driving_force(tm, options).driving_force)
+    except InfeasibleProblem:
+        return None

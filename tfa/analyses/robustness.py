@@ -1,0 +1,278 @@
+"""Robustness of the conclusions to the uncertainty of the reaction energies.
+
+For N seeded draws of ΔrG'° from their correlated distribution (:mod:`tfa.analyses.uncertainty`:
+Σ = N C Nᵀ + D, reactions that share a compound vary together), each mode is solved again:
+feasibility, the minimal uphill set and the H2 threshold. Reported:
+
+- the probability that the network is feasible per mode, p̂ = k/n, with the binomial standard
+  error √(p̂(1 − p̂)/n) (the normal approximation of the binomial proportion; e.g. D. S. Moore,
+  G. P. McCabe, Introduction to the Practice of Statistics, 8.1);
+- how often each reaction is in the minimal uphill set (the first minimal set the solver finds;
+  alternative sets of the same size exist in some draws);
+- the distribution of the H2 threshold (quantiles over the draws where the network can be fed at
+  all; the others are counted apart).
+
+Draw i of a compound's error is the same in every mode and does not depend on which process runs
+it (``numpy.random.SeedSequence(seed)``, see :mod:`tfa.analyses.uncertainty`), so a given seed
+gives identical results serially, on a process pool or on a Dask cluster
+(:mod:`tfa.util.points`). ``sigma_scale`` multiplies every σ; with 0 each draw is the
+deterministic answer exactly. The unperturbed (deterministic) answer of each mode is computed as
+well and reported beside the probabilities.
+
+Units: kJ/mol; the threshold in the unit of the H2 feed (mol/L, or bar for a gas).
+"""
+
+from __future__ import annotations
+
+import functools
+import logging
+import math
+import tempfile
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any, Callable, Sequence
+
+import numpy as np
+import pandas as pd
+
+from ..conditions import Conditions
+from ..errors import InputError
+from ..network.thermo_model import MODES
+from ..util.points import RunSummary, read_results, run_points
+from .jobs import NetworkJob, outcome
+from .uncertainty import energy_covariance, with_energies
+
+log = logging.getLogger(__name__)
+
+#: Quantiles of the H2 threshold that are reported.
+THRESHOLD_QUANTILES = (0.05, 0.25, 0.5, 0.75, 0.95)
+#: Index of the unperturbed point of each mode.
+MEAN = "mean"
+
+
+def robustness_point(job: NetworkJob, point: dict) -> dict:
+    """Outcome of one draw (or of the mean, ``index == "mean"``) in one mode; runs in a worker."""
+    tm = job.thermo_model(point["mode"])
+    if point["index"] != MEAN:
+        cov = energy_covariance(tm)
+        draw = cov.draw(int(point["seed"]), int(point["index"]))
+        scale = float(point.get("sigma_scale", 1.0))
+        values = cov.mean + scale * (draw - cov.mean)
+        tm = with_energies(tm, dict(zip(cov.reaction_ids, values.tolist())))
+    return outcome(tm, job.problem_options(), job.options.get("parts", ("uphill", "threshold")))
+
+
+def robustness_points(n_draws: int, seed: int, modes: Sequence[str], sigma_scale: float = 1.0) -> list[dict]:
+    """The points of a run: the mean and draws 0..n-1 of every mode, ids ``<mode>/<index>``.
+
+    >>> [p["id"] for p in robustness_points(2, 7, ["native"])]
+    ['native/mean', 'native/d00000', 'native/d00001']
+    """
+    points = []
+    for mode in modes:
+        points.append({"id": f"{mode}/{MEAN}", "mode": mode, "index": MEAN, "seed": int(seed),
+                       "sigma_scale": float(sigma_scale)})
+        for i in range(n_draws):
+            points.append({"id": f"{mode}/d{i:05d}", "mode": mode, "index": i, "seed": int(seed),
+                           "sigma_scale": float(sigma_scale)})
+    return points
+
+
+@dataclass
+class RobustnessResult:
+    """Outcome of every draw in every mode.
+
+    Attributes
+    ----------
+    modes, n_draws, seed, sigma_scale : what was run
+    records : list of dict
+        One per (mode, draw): ``mode``, ``draw`` (int, or "mean"), ``feasible``, ``uphill_size``,
+        ``uphill``, ``h2_threshold``, ``error`` (None when the point was solved).
+    conditions : Conditions or None
+    run : RunSummary of the execution (workers, time, failures)
+    provenance : dict
+    """
+
+    modes: list[str]
+    n_draws: int
+    seed: int
+    sigma_scale: float
+    records: list[dict]
+    conditions: Conditions | None = None
+    run: RunSummary | None = None
+    provenance: dict = field(default_factory=dict)
+    analysis: str = "robustness"
+
+    def _draws(self, mode: str) -> list[dict]:
+        return [r for r in self.records if r["mode"] == mode and r["draw"] != MEAN]
+
+    def _mean(self, mode: str) -> dict | None:
+        return next((r for r in self.records if r["mode"] == mode and r["draw"] == MEAN), None)
+
+    def feasibility_frame(self) -> pd.DataFrame:
+        """Per mode: draws solved, feasible count, probability, binomial standard error, failed
+        draws and the deterministic answer."""
+        rows = []
+        for mode in self.modes:
+            solved = [r for r in self._draws(mode) if r["error"] is None]
+            n = len(solved)
+            k = sum(1 for r in solved if r["feasible"])
+            p = k / n if n else math.nan
+            mean = self._mean(mode)
+            rows.append({"mode": mode, "draws": n, "feasible": k, "probability": p,
+                         "standard_error": math.sqrt(p * (1 - p) / n) if n else math.nan,
+                         "failed": len(self._draws(mode)) - n,
+                         "deterministic_feasible": None if mean is None or mean["error"] else mean["feasible"]})
+        return pd.DataFrame(rows)
+
+    def uphill_frame(self) -> pd.DataFrame:
+        """Per mode and reaction: how often it is in the minimal uphill set (fraction of the draws
+        with a computed set), and in the deterministic set."""
+        rows = []
+        for mode in self.modes:
+            sets = [r["uphill"] for r in self._draws(mode) if r["error"] is None and r.get("uphill") is not None]
+            counts: dict[str, int] = {}
+            for members in sets:
+                for rid in members:
+                    counts[rid] = counts.get(rid, 0) + 1
+            mean = self._mean(mode)
+            in_mean = set((mean or {}).get("uphill") or [])
+            for rid in sorted(set(counts) | in_mean, key=lambda r: (-counts.get(r, 0), r)):
+                rows.append({"mode": mode, "reaction": rid, "count": counts.get(rid, 0),
+                             "frequency": counts.get(rid, 0) / len(sets) if sets else math.nan,
+                             "in_deterministic_set": rid in in_mean})
+        return pd.DataFrame(rows, columns=["mode", "reaction", "count", "frequency", "in_deterministic_set"])
+
+    def uphill_size_frame(self) -> pd.DataFrame:
+        """Per mode and size of the minimal uphill set: number and fraction of draws."""
+        rows = []
+        for mode in self.modes:
+            sizes = [r["uphill_size"] for r in self._draws(mode)
+                     if r["error"] is None and r.get("uphill_size") is not None]
+            for size in sorted(set(sizes)):
+                rows.append({"mode": mode, "size": int(size), "draws": sizes.count(size),
+                             "fraction": sizes.count(size) / len(sizes)})
+        return pd.DataFrame(rows, columns=["mode", "size", "draws", "fraction"])
+
+    def threshold_frame(self) -> pd.DataFrame:
+        """Per mode: H2 threshold quantiles over the draws where one exists, the number of draws
+        where the network cannot be fed at any H2 in range, and the deterministic threshold."""
+        rows = []
+        for mode in self.modes:
+            solved = [r for r in self._draws(mode) if r["error"] is None and "h2_threshold" in r]
+            values = np.array([r["h2_threshold"] for r in solved if r["h2_threshold"] is not None], float)
+            row: dict[str, Any] = {"mode": mode, "draws": len(values),
+                                   "never_feasible": len(solved) - len(values)}
+            for q in THRESHOLD_QUANTILES:
+                row[f"q{int(round(q * 100)):02d}"] = float(np.quantile(values, q)) if len(values) else math.nan
+            mean = self._mean(mode)
+            row["deterministic"] = (mean or {}).get("h2_threshold")
+            rows.append(row)
+        return pd.DataFrame(rows)
+
+    def records_frame(self) -> pd.DataFrame:
+        """One row per (mode, draw)."""
+        frame = pd.DataFrame(self.records)
+        if "uphill" in frame:
+            frame["uphill"] = [";".join(u) if isinstance(u, list) else None for u in frame["uphill"]]
+        return frame
+
+    def to_frame(self) -> pd.DataFrame:
+        """The main table: feasibility probability per mode."""
+        return self.feasibility_frame()
+
+    def frames(self) -> dict[str, pd.DataFrame]:
+        """Every table by name (for files)."""
+        return {"feasibility": self.feasibility_frame(), "uphill": self.uphill_frame(),
+                "uphill_size": self.uphill_size_frame(), "threshold": self.threshold_frame(),
+                "draws": self.records_frame()}
+
+    def summary(self) -> str:
+        """One line per mode in plain words."""
+        lines = []
+        for row in self.feasibility_frame().itertuples():
+            if row.draws:
+                lines.append(f"{row.mode}: feasible in {row.feasible} of {row.draws} draws "
+                             f"(p = {row.probability:.2f} ± {row.standard_error:.2f})"
+                             + (f"; {row.failed} draw(s) failed" if row.failed else ""))
+            else:
+                lines.append(f"{row.mode}: no draw solved")
+        return "\n".join(lines)
+
+    def to_dict(self) -> dict:
+        """Plain dictionary for JSON output."""
+        return {"analysis": self.analysis, "summary": self.summary(), "seed": self.seed,
+                "n_draws": self.n_draws, "sigma_scale": self.sigma_scale, "modes": self.modes,
+                "conditions": self.conditions.to_dict() if self.conditions else None,
+                "provenance": self.provenance,
+                **{name: frame.to_dict(orient="records") for name, frame in self.frames().items()}}
+
+
+def _record(point: dict, line: dict | None) -> dict:
+    base = {"mode": point["mode"], "draw": point["index"], "feasible": None, "uphill_size": None,
+            "uphill": None, "h2_threshold": None, "error": None}
+    if line is None:
+        base["error"] = "not computed (run interrupted)"
+    elif "error" in line:
+        base["error"] = line["error"]
+    else:
+        base.update(line["result"])
+    return base
+
+
+def robustness(model, environment, n_draws: int = 100, seed: int = 0, modes: Sequence[str] = MODES,
+               *, executor: str = "pool", workers: int | None = None, scheduler: str | None = None,
+               results_path: str | Path | None = None, resume: bool = False, overwrite: bool = False,
+               sigma_scale: float = 1.0, threshold: bool = True, prepare: Callable | None = None,
+               progress: Callable | None = None, **problem_options: Any) -> RobustnessResult:
+    """Feasibility, minimal uphill set and H2 threshold under N seeded draws of ΔrG'°.
+
+    Parameters
+    ----------
+    model, environment : the network (cobra.Model) and the setting (Environment)
+    n_draws : draws per mode
+    seed : whole number >= 0; the same seed gives the same draws on any executor
+    modes : modes to solve (default all four)
+    executor, workers, scheduler : see :func:`tfa.util.points.run_points` (default: a local
+        process pool with one worker per core)
+    results_path : JSON-lines file of the run (default: a temporary file, removed afterwards);
+        give one to be able to ``resume``
+    sigma_scale : multiplies every σ (0: every draw is the deterministic answer)
+    threshold : also compute the H2 threshold of every draw
+    prepare : replaces :func:`tfa.network.energies.prepare` (module-level function)
+    problem_options : ``min_driving_force``, ``solver``, ``time_limit``, ``unknown_energy``
+
+    Returns
+    -------
+    RobustnessResult
+    """
+    if n_draws < 1:
+        raise InputError(f"the number of draws must be at least 1, got {n_draws}")
+    if not (math.isfinite(sigma_scale) and sigma_scale >= 0):
+        raise InputError(f"sigma_scale must be >= 0, got {sigma_scale}")
+    if seed is None or int(seed) < 0:
+        raise InputError(f"the seed must be a whole number >= 0, got {seed!r}")
+    modes = list(modes)
+    bad = [m for m in modes if m not in MODES]
+    if bad:
+        raise InputError(f"unknown mode(s) {', '.join(bad)}; use {', '.join(MODES)}")
+    parts = ("uphill", "threshold") if threshold else ("uphill",)
+    job = NetworkJob.create(model, environment, parts=parts, prepare=prepare, **problem_options)
+    points = robustness_points(n_draws, seed, modes, sigma_scale)
+    header = {"analysis": "robustness", "seed": int(seed), "n_draws": int(n_draws), "modes": modes,
+              "sigma_scale": float(sigma_scale), **job.describe()}
+    function = functools.partial(robustness_point, job)
+    with tempfile.TemporaryDirectory(prefix="tfa-robustness-") as scratch:
+        path = Path(results_path) if results_path is not None else Path(scratch) / "draws.jsonl"
+        summary = run_points(points, function, path, executor=executor, workers=workers,
+                             scheduler=scheduler, resume=resume, overwrite=overwrite, header=header,
+                             progress=progress)
+        _, lines = read_results(path)
+    records = [_record(p, lines.get(p["id"])) for p in points]
+    conditions = getattr(environment, "conditions", None)
+    return RobustnessResult(modes=modes, n_draws=int(n_draws), seed=int(seed),
+                            sigma_scale=float(sigma_scale), records=records, conditions=conditions,
+                            run=summary,
+                            provenance={"executor": summary.executor, "seconds": summary.seconds,
+                                        "results_file": str(results_path) if results_path else None,
+                                        "interrupted": summary.interrupted, **job.describe()})
