@@ -528,11 +528,12 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
 
 # ------------------------------------------------------------------------ reaction energies
 def reaction_energies(model: cobra.Model, table: CompoundEnergyTable) -> dict[str, ReactionEnergy]:
-    """:class:`ReactionEnergy` of every internal (non-boundary) reaction, NaN where undetermined."""
-    boundary = {r.id for r in model.boundary}
+    """:class:`ReactionEnergy` of every internal reaction (both sides non-empty), NaN where undetermined."""
+    from .checks import is_boundary_reaction
+
     out: dict[str, ReactionEnergy] = {}
     for reaction in model.reactions:
-        if reaction.id in boundary:
+        if is_boundary_reaction(reaction):  # exchanges and demands (one empty side) carry no energy
             continue
         source = str((reaction.notes or {}).get("energy_source") or "auto").strip()
         if source != "auto" and table.reconciliation is not None and \
