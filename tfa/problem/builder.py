@@ -45,6 +45,10 @@ DEFAULT_MIN_DRIVING_FORCE = 0.1
 #: Default time limit of one solve, s.
 DEFAULT_TIME_LIMIT = 300.0
 UNKNOWN_ENERGY_POLICIES = ("free", "block")
+#: Solver tolerances set on the model's solver: tight enough that thresholds agree with their
+#: analytic values to 1e-6 relative and that 0/1 variables are 0 or 1 to 1e-9 (so a blocked
+#: direction lets through at most 1e-9 * U of flux).
+SOLVER_TOLERANCES = {"feasibility": 1e-9, "integrality": 1e-9}
 
 
 @dataclass
@@ -146,11 +150,8 @@ class Solution:
 class ThermoProblem:
     """The thermodynamic flux problem attached to a ThermoModel's cobra model.
 
-    Use as a context manager (or call :meth:`remove`) so the model is left as it was.
-
-    Examples
-    --------
-    >>> # see tests/test_engine_small.py for hand-solved networks
+    Use as a context manager (or call :meth:`remove`) so the model is left as it was;
+    tests/test_engine_small.py solves hand-derived networks with it.
     """
 
     def __init__(self, thermo_model: ThermoModel, options: ProblemOptions | None = None) -> None:
@@ -279,11 +280,13 @@ class ThermoProblem:
         else:
             fwd_ok = self.big_m.forward_possible & (upper > 0)
             bwd_ok = self.big_m.backward_possible & (lower > 0)
-        self.f_vars = [var(f"tfa_f_{j}", lb=0, ub=1 if fwd_ok[j] else 0, type="binary")
+        # 0/1 variables are declared integer in [0, 1] (GLPK resets the bounds of a "binary"
+        # column to [0, 1], which would undo the fixing of an impossible direction at 0)
+        self.f_vars = [var(f"tfa_f_{j}", lb=0, ub=1 if fwd_ok[j] else 0, type="integer")
                        for j in range(n_e)]
-        self.b_vars = [var(f"tfa_b_{j}", lb=0, ub=1 if bwd_ok[j] else 0, type="binary")
+        self.b_vars = [var(f"tfa_b_{j}", lb=0, ub=1 if bwd_ok[j] else 0, type="integer")
                        for j in range(n_e)]
-        self.u_vars = ([var(f"tfa_u_{j}", lb=0, ub=1, type="binary") for j in range(n_e)]
+        self.u_vars = ([var(f"tfa_u_{j}", lb=0, ub=1, type="integer") for j in range(n_e)]
                        if opts.uphill else [])
         self.b_var = None
         if opts.driving_force:
@@ -295,6 +298,12 @@ class ThermoProblem:
                     + ([self.b_var] if self.b_var is not None else []))
         solver.add(new_vars)
         self._variables = new_vars
+        tolerances = solver.configuration.tolerances
+        for name, value in SOLVER_TOLERANCES.items():
+            try:
+                setattr(tolerances, name, value)
+            except Exception:  # noqa: BLE001 - an interface without that tolerance keeps its own
+                log.debug("solver %s has no %s tolerance", self.solver_name, name)
 
         con = iface.Constraint
         rows: list[tuple] = []   # (name, lb, ub, coefficients)

@@ -1,0 +1,203 @@
+"""Side-by-side timing of the feasibility engine against plain and loopless flux balance.
+
+Networks: the bundled ancestral network (when ``tfa.network.bundled`` and
+``tfa.network.energies`` are present) and cobra's bundled genome-scale E. coli model iJO1366.
+iJO1366 carries no reaction energies: the script gives it SYNTHETIC standard energies from a fixed
+seed, built so that a loopless flux solution is downhill at mid-range concentrations (so the
+instance is feasible and the timings mean something):
+
+1. a loopless flux solution v* (cobra's CycleFreeFlux LP) at the maximal growth rate;
+2. chemical potentials mu (kJ/mol) closest in L1 to random normal targets (seed 20240601,
+   sd 20 kJ/mol) such that every internal reaction carrying flux in v* has S_j^T mu <= -1 in its
+   direction (such mu exist because v* has no internal cycle, Schellenberger et al. 2011);
+3. Delta_r G'deg_j = S_j^T mu - RT sum_i S_ij ln(1e-4): at 0.1 mM of every compound
+   (mid-range of 1 uM .. 10 mM) each reaction carrying flux in v* is downhill by >= 1 kJ/mol.
+
+Timed, per network and per solver (GLPK, HiGHS): plain flux balance (LP), cobra's loopless flux
+balance (add_loopless, MILP), our feasibility (build + solve), our minimal uphill set (build +
+solve), a 20-point H2 scan (build once + 20 solves). Medians of repeated runs; ratios to plain
+flux balance and to loopless on the same solver.
+
+Usage: python scripts/bench_engine.py [--repeats 3] [--skip-genome] [--skip-bundled]
+       [--time-limit 300]
+"""
+
+from __future__ import annotations
+
+import argparse
+import logging
+import math
+import statistics
+import sys
+import time
+
+import numpy as np
+
+SEED = 20240601
+MID_CONCENTRATION = 1e-4
+CONC_RANGE = (1e-6, 1e-2)
+H2_RANGE = (1e-9, 1e-2)
+PROTON_AND_WATER = {"h_c", "h_p", "h_e", "h2o_c", "h2o_p", "h2o_e"}
+
+
+def synthetic_genome_model(solver_module):
+    """iJO1366 with synthetic, feasible-by-construction reaction energies (see module text)."""
+    import cobra
+    from cobra.flux_analysis import loopless_solution
+    from scipy.optimize import linprog
+    from scipy.sparse import coo_matrix, hstack, identity, vstack
+
+    from tfa.conditions import Conditions
+    from tfa.network.thermo_model import ReactionEnergy, ThermoModel
+
+    cobra.Configuration().solver = solver_module
+    model = cobra.io.load_model("iJO1366")
+    biomass = [r for r in model.reactions if r.objective_coefficient != 0][0]
+    optimum = model.slim_optimize()
+    v_star = loopless_solution(model).fluxes
+    boundary = {r.id for r in model.boundary}
+    internal = [r for r in model.reactions if r.id not in boundary and r.id != biomass.id]
+    mets = list(model.metabolites)
+    m_index = {m.id: i for i, m in enumerate(mets)}
+    carrying = [r for r in internal if abs(v_star[r.id]) > 1e-7]
+    rows, cols, vals = [], [], []
+    for k, r in enumerate(carrying):
+        sign = 1.0 if v_star[r.id] > 0 else -1.0
+        for m, c in r.metabolites.items():
+            rows.append(k)
+            cols.append(m_index[m.id])
+            vals.append(sign * c)
+    n_m, n_c = len(mets), len(carrying)
+    a_dir = coo_matrix((vals, (rows, cols)), shape=(n_c, n_m))
+    rng = np.random.default_rng(SEED)
+    target = rng.normal(0.0, 20.0, n_m)
+    eye = identity(n_m)
+    # variables [mu, t]; minimise sum t with t >= |mu - target|; direction rows: S^T mu <= -1
+    a_ub = vstack([hstack([a_dir, coo_matrix((n_c, n_m))]),
+                   hstack([eye, -eye]), hstack([-eye, -eye])]).tocsr()
+    b_ub = np.concatenate([-np.ones(n_c), target, -target])
+    cost = np.concatenate([np.zeros(n_m), np.ones(n_m)])
+    res = linprog(cost, A_ub=a_ub, b_ub=b_ub, bounds=[(-1000, 1000)] * n_m + [(0, None)] * n_m,
+                  method="highs")
+    if res.status != 0:
+        raise RuntimeError(f"synthetic potentials: {res.message}")
+    mu = res.x[:n_m]
+    conditions = Conditions()
+    rt = conditions.RT
+    x_mid = math.log(MID_CONCENTRATION)
+    energies = {}
+    for r in internal:
+        chem = sum(c * mu[m_index[m.id]] for m, c in r.metabolites.items())
+        activity = sum(c for m, c in r.metabolites.items() if m.id not in PROTON_AND_WATER)
+        energies[r.id] = ReactionEnergy(r.id, chem - rt * activity * x_mid, 2.0, "placeholder",
+                                        f"SYNTHETIC energy (seed {SEED}), not data")
+    lo, hi = math.log(CONC_RANGE[0]), math.log(CONC_RANGE[1])
+    log_bounds = {m.id: (lo, hi) for m in mets}
+    biomass.lower_bound = 0.5 * optimum
+    tm = ThermoModel(model, conditions, energies, log_bounds, no_activity=set(PROTON_AND_WATER),
+                     mode="native", environment_name="iJO1366, synthetic energies",
+                     demand_id=biomass.id, feed_ids={"H2": "h2_c"})
+    return tm
+
+
+def timed(func, repeats: int) -> tuple[float, object]:
+    """Median wall time of ``repeats`` calls, and the last result."""
+    times = []
+    result = None
+    for _ in range(repeats):
+        t = time.perf_counter()
+        result = func()
+        times.append(time.perf_counter() - t)
+    return statistics.median(times), result
+
+
+def bench_network(label: str, tm, solver: str, repeats: int, time_limit: float) -> dict:
+    """Time the six tasks on one ThermoModel with one solver."""
+    from cobra.flux_analysis.loopless import add_loopless
+
+    from tfa.analyses.feasibility import feasibility
+    from tfa.analyses.hydrogen import h2_scan
+    from tfa.analyses.uphill import minimal_uphill_set
+    from tfa.problem import ProblemOptions, ThermoProblem
+    from tfa.problem.solvers import use_solver
+
+    model = tm.model
+    use_solver(model, solver)
+    opts = ProblemOptions(solver=solver, time_limit=time_limit)
+    out = {}
+
+    out["flux balance (LP)"], _ = timed(lambda: model.slim_optimize(), repeats)
+
+    def loopless():
+        with model:
+            add_loopless(model)
+            return model.slim_optimize()
+
+    out["loopless flux balance (MILP)"], _ = timed(loopless, repeats)
+
+    def build_only():
+        problem = ThermoProblem(tm, opts)
+        seconds = problem.build_seconds
+        problem.remove()
+        return seconds
+
+    builds = [build_only() for _ in range(repeats)]
+    out["  build of our problem"] = statistics.median(builds)
+    out["our feasibility"], res = timed(lambda: feasibility(tm, opts), repeats)
+    out["  (feasible)"] = res.feasible
+    out["our minimal uphill set"], res = timed(lambda: minimal_uphill_set(tm, opts), repeats)
+    out["  (uphill set size)"] = len(res.sets[0]) if res.sets else None
+    h2 = tm.feed_ids.get("H2")
+    if h2:
+        levels = np.logspace(math.log10(H2_RANGE[0]), math.log10(H2_RANGE[1]), 20)
+        out["our 20-point H2 scan"], res = timed(
+            lambda: h2_scan(tm, levels, opts, with_driving_force=False, with_uphill=False), 1)
+        out["  (feasible points)"] = int(sum(res.table["feasible"]))
+    return out
+
+
+def main(argv=None) -> int:
+    parser = argparse.ArgumentParser(description=__doc__.split("\n")[0])
+    parser.add_argument("--repeats", type=int, default=3)
+    parser.add_argument("--skip-genome", action="store_true")
+    parser.add_argument("--skip-bundled", action="store_true")
+    parser.add_argument("--solvers", default="glpk,highs")
+    parser.add_argument("--time-limit", type=float, default=300.0)
+    args = parser.parse_args(argv)
+    logging.basicConfig(level=logging.WARNING)
+    from tfa.problem.solvers import resolve_solver
+
+    networks = []
+    if not args.skip_bundled:
+        try:
+            from tfa.network.bundled import load_bundled_network
+            from tfa.network.energies import prepare
+            from tfa.network.environment import bundled_environment
+            networks.append(("bundled ancestral network", lambda solver: prepare(
+                load_bundled_network(), bundled_environment(), "native")))
+        except ImportError as err:
+            print(f"bundled network skipped: {err}")
+    if not args.skip_genome:
+        networks.append(("iJO1366 (SYNTHETIC energies, seed %d)" % SEED,
+                         lambda solver: synthetic_genome_model(resolve_solver(solver)[1])))
+    rows = []
+    for label, make in networks:
+        for solver in args.solvers.split(","):
+            tm = make(solver)
+            print(f"\n== {label}, solver {solver}: {len(tm.model.reactions)} reactions, "
+                  f"{len(tm.energies)} with energy", flush=True)
+            result = bench_network(label, tm, solver, args.repeats, args.time_limit)
+            fba = result["flux balance (LP)"]
+            ll = result["loopless flux balance (MILP)"]
+            for task, value in result.items():
+                if isinstance(value, float) and not task.startswith("  ("):
+                    print(f"  {task:34s} {value:9.3f} s   x{value / fba:9.1f} FBA   "
+                          f"x{value / ll:7.2f} loopless", flush=True)
+                else:
+                    print(f"  {task:34s} {value}", flush=True)
+            rows.append((label, solver, result))
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())

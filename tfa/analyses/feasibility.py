@@ -1,0 +1,188 @@
+"""Feasibility: does a steady state exist that meets the demand from the feed, with every
+reaction that carries flux running downhill (Delta_r G' <= -delta in its direction)?
+
+The thermodynamics-based flux problem of Henry, Broadbelt & Hatzimanikatis (2007, Biophys. J.
+92:1792) with the direction binaries of loopless flux balance (Schellenberger, Lewis & Palsson
+2011, Biophys. J. 100:544), built by :class:`tfa.problem.builder.ThermoProblem`. When no such
+steady state exists, the diagnosis is the minimal uphill set (:mod:`tfa.analyses.uphill`); when
+even the stoichiometry cannot meet the demand, the message says so with the largest possible
+demand flux.
+"""
+
+from __future__ import annotations
+
+import logging
+from dataclasses import dataclass, field
+from typing import Callable, Iterable
+
+import pandas as pd
+
+from ..network.thermo_model import MODES, ThermoModel
+from ..problem.builder import ProblemOptions, Solution, ThermoProblem
+from ..problem.solvers import InfeasibleProblem
+from .results import (AnalysisResult, concentration_table, certify, provenance_of,
+                      reaction_table)
+from .uphill import ImpossibleDemandError, UphillResult, minimal_uphill_set
+
+log = logging.getLogger(__name__)
+
+
+@dataclass(kw_only=True)
+class FeasibilityResult(AnalysisResult):
+    """Answer of the feasibility question for one mode.
+
+    Attributes
+    ----------
+    feasible : bool
+    mode : str
+    message : str
+        Plain words: the answer and, when infeasible, the diagnosis.
+    solution : Solution or None
+        A certified steady state (feasible only).
+    diagnosis : UphillResult or None
+        The minimal uphill set when infeasible (None when the demand is impossible outright).
+    demand_impossible : bool
+        True when even the stoichiometry cannot meet the demand.
+    reactions_without_energy : list of str
+        Internal reactions left free (or blocked) for want of an energy.
+    """
+
+    feasible: bool = False
+    mode: str = "native"
+    message: str = ""
+    solution: Solution | None = None
+    diagnosis: UphillResult | None = None
+    demand_impossible: bool = False
+    reactions_without_energy: list[str] = field(default_factory=list)
+    _reactions: pd.DataFrame | None = None
+    _concentrations: pd.DataFrame | None = None
+    analysis: str = "feasibility"
+
+    def to_frame(self) -> pd.DataFrame:
+        """Per reaction: flux, Delta_r G'deg, recomputed Delta_r G' and direction (feasible), or
+        the minimal uphill set (infeasible)."""
+        if self._reactions is not None:
+            return self._reactions
+        if self.diagnosis is not None:
+            return self.diagnosis.to_frame()
+        return pd.DataFrame(columns=["reaction", "flux", "dg0_prime_kJ", "dg_prime_kJ", "direction"])
+
+    def concentrations(self) -> pd.DataFrame:
+        """Per compound: ln c and c at the certified steady state (empty when infeasible)."""
+        return self._concentrations if self._concentrations is not None else pd.DataFrame()
+
+    def summary(self) -> str:
+        return f"{self.mode}: {self.message}"
+
+
+def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
+                diagnose: bool = True) -> FeasibilityResult:
+    """Is there a steady state meeting the demand with every reaction carrying flux downhill?
+
+    Parameters
+    ----------
+    tm : ThermoModel
+    options : ProblemOptions
+    diagnose : bool
+        When infeasible, compute the minimal uphill set as the diagnosis.
+
+    Returns
+    -------
+    FeasibilityResult
+        Certified solution when feasible; plain-words message and diagnosis when not.
+
+    Raises
+    ------
+    UndeterminedError
+        When the time limit stops the solver before an answer ("undetermined within N s").
+    """
+    options = options or ProblemOptions()
+    result = FeasibilityResult(conditions=tm.conditions, mode=tm.mode)
+    infeasible = False
+    with ThermoProblem(tm, options) as problem:
+        result.provenance = provenance_of(tm, options, problem)
+        result.reactions_without_energy = list(problem.unknown_energy_ids)
+        try:
+            sol = problem.solve(f"feasibility ({tm.mode})")
+        except InfeasibleProblem:
+            infeasible = True
+        else:
+            cert = certify(problem, sol)
+            result.certificates.append(cert)
+            result.feasible = True
+            result.solution = sol
+            result._reactions = reaction_table(problem, sol, cert)
+            result._concentrations = concentration_table(sol)
+            free = len(problem.unknown_energy_ids)
+            result.message = ("feasible: a steady state meets the demand with every reaction that "
+                              "carries flux running downhill"
+                              + (f" ({free} reaction(s) without an energy were left "
+                                 f"{'free' if options.unknown_energy == 'free' else 'blocked'})"
+                                 if free else ""))
+    if infeasible:
+        result.feasible = False
+        if not diagnose:
+            result.message = ("infeasible: no steady state meets the demand with every reaction "
+                              "downhill")
+            return result
+        try:
+            diagnosis = minimal_uphill_set(tm, options)
+        except ImpossibleDemandError as err:
+            result.demand_impossible = True
+            result.message = f"infeasible: {err}"
+            return result
+        result.diagnosis = diagnosis
+        result.certificates.extend(diagnosis.certificates)
+        members = diagnosis.sets[0] if diagnosis.sets else []
+        amounts = diagnosis.uphill_by[0] if diagnosis.uphill_by else {}
+        listed = ", ".join(f"{r} (uphill by {amounts.get(r, float('nan')):.1f} kJ/mol)"
+                           for r in members)
+        result.message = (f"infeasible: no steady state meets the demand with every reaction "
+                          f"downhill; at least {diagnosis.size} reaction(s) must be driven uphill "
+                          f"(coupled to an energy source): {listed}")
+    return result
+
+
+@dataclass(kw_only=True)
+class ModeFeasibilityResult(AnalysisResult):
+    """Feasibility in several modes (native, H2 only, no ATP strict, no ATP bare chemistry)."""
+
+    results: list[FeasibilityResult] = field(default_factory=list)
+    analysis: str = "feasibility by mode"
+
+    def to_frame(self) -> pd.DataFrame:
+        rows = []
+        for r in self.results:
+            size = r.diagnosis.size if r.diagnosis is not None else (0 if r.feasible else None)
+            rows.append({"mode": r.mode, "feasible": r.feasible, "uphill_set_size": size,
+                         "demand_impossible": r.demand_impossible, "message": r.message})
+        return pd.DataFrame(rows)
+
+    def summary(self) -> str:
+        return "; ".join(f"{r.mode}: {'feasible' if r.feasible else 'infeasible'}" for r in self.results)
+
+
+def feasibility_by_mode(model, environment, modes: Iterable[str] = MODES,
+                        options: ProblemOptions | None = None,
+                        prepare: Callable | None = None) -> ModeFeasibilityResult:
+    """Feasibility of one network in each mode; each mode's rewrite is undone afterwards.
+
+    ``prepare(model, environment, mode) -> ThermoModel`` defaults to
+    :func:`tfa.network.energies.prepare`, applied inside ``with model:``.
+    """
+    if prepare is None:
+        from ..network.energies import prepare as prepare_default
+
+        prepare = prepare_default
+    results = []
+    conditions = None
+    for mode in modes:
+        with model:
+            tm = prepare(model, environment, mode)
+            conditions = tm.conditions
+            results.append(feasibility(tm, options))
+    out = ModeFeasibilityResult(conditions=conditions, results=results)
+    for r in results:
+        out.certificates.extend(r.certificates)
+    out.provenance = {"modes": [r.provenance for r in results]}
+    return out

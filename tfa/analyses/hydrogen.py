@@ -1,0 +1,234 @@
+"""H2 comparison: a scan over H2 supply and the H2 threshold.
+
+Scan: for each H2 level (dissolved concentration in mol/L, or partial pressure in bar for a gas
+compound, log-spaced), the problem is built once over the whole range and only the bounds of
+ln[H2] change: lower = upper = ln(level). At each level the result says whether the network is
+feasible, its max-min driving force B (Noor et al. 2014, PLoS Comput. Biol. 10:e1003483;
+feasible iff B >= delta) and, where infeasible, the size of the minimal uphill set.
+
+Threshold: ln[H2] becomes a variable over the user's range and one MILP minimises it subject to
+feasibility (thermodynamics-based flux analysis, Henry, Broadbelt & Hatzimanikatis 2007,
+Biophys. J. 92:1792). For H2 + X <=> XH2 alone the answer is analytic:
+[H2]_min = [XH2]_min / ([X]_max K) with K = exp(-(Delta_r G'deg + delta)/RT).
+"""
+
+from __future__ import annotations
+
+import logging
+import math
+from dataclasses import dataclass, field, replace
+from typing import Sequence
+
+import numpy as np
+import pandas as pd
+
+from ..errors import InputError
+from ..network.thermo_model import ThermoModel
+from ..problem.builder import ProblemOptions, Solution, ThermoProblem
+from ..problem.solvers import InfeasibleProblem
+from .results import AnalysisResult, certify, provenance_of
+
+log = logging.getLogger(__name__)
+
+#: Default H2 range of the threshold search, mol/L (1 nM to 10 mM dissolved H2).
+DEFAULT_H2_RANGE = (1e-9, 1e-2)
+
+
+def _h2_id(tm: ThermoModel, h2_id: str | None) -> str:
+    h2 = h2_id or tm.feed_ids.get("H2")
+    if h2 is None:
+        raise InputError("the network names no H2 compound: give the H2 metabolite id (the "
+                         "environment's feed should list H2)")
+    if h2 not in [m.id for m in tm.model.metabolites]:
+        raise InputError(f"H2 compound {h2} is not in the network; give the metabolite id of H2")
+    return h2
+
+
+def _check_range(levels: Sequence[float]) -> np.ndarray:
+    arr = np.asarray(list(levels), float)
+    if arr.size == 0 or not np.all(np.isfinite(arr)) or np.any(arr <= 0):
+        raise InputError("H2 levels must be positive, finite concentrations (mol/L) or pressures "
+                         "(bar)")
+    return arr
+
+
+@dataclass(kw_only=True)
+class H2ScanResult(AnalysisResult):
+    """Feasibility, max-min driving force and minimal uphill set size at each H2 level."""
+
+    h2_id: str = ""
+    table: pd.DataFrame = field(default_factory=pd.DataFrame)
+    analysis: str = "H2 scan"
+
+    def to_frame(self) -> pd.DataFrame:
+        return self.table
+
+    def summary(self) -> str:
+        feasible = self.table[self.table["feasible"]] if len(self.table) else self.table
+        if len(feasible) == 0:
+            return f"infeasible at every scanned level of {self.h2_id}"
+        return (f"feasible at {len(feasible)} of {len(self.table)} levels of {self.h2_id}; lowest "
+                f"feasible level scanned {feasible['h2'].min():.3g}")
+
+
+def h2_scan(tm: ThermoModel, levels: Sequence[float], options: ProblemOptions | None = None,
+            h2_id: str | None = None, with_driving_force: bool = True,
+            with_uphill: bool = True) -> H2ScanResult:
+    """Scan H2 supply over the given levels (mol/L, or bar for a gas compound).
+
+    The problem is built once per kind (driving force or feasibility; uphill set for infeasible
+    levels); between levels only the bounds of ln[H2] change. Every solution is certified.
+    """
+    options = options or ProblemOptions()
+    h2 = _h2_id(tm, h2_id)
+    arr = _check_range(levels)
+    envelope = (math.log(arr.min()), math.log(arr.max()))
+    overrides = dict(options.log_bound_overrides)
+    overrides[h2] = envelope
+    result = H2ScanResult(conditions=tm.conditions, h2_id=h2)
+    rows = []
+    main = replace(options, driving_force=with_driving_force, uphill=False,
+                   log_bound_overrides=overrides)
+    with ThermoProblem(tm, main) as problem:
+        result.provenance = provenance_of(tm, main, problem)
+        if h2 not in problem.metabolite_index:
+            raise InputError(f"H2 compound {h2} takes part in no reaction with an energy, so its "
+                             "supply cannot change the answer")
+        if with_driving_force:
+            problem.set_objective({problem.b_var: 1.0}, "max")
+        for level in arr:
+            x = math.log(level)
+            problem.set_log_bounds(h2, x, x)
+            row = {"h2": float(level), "ln_h2": x}
+            try:
+                sol = problem.solve(f"H2 scan at {level:.3g}")
+            except InfeasibleProblem:
+                row.update(feasible=False, driving_force_kJ=float("nan"))
+            else:
+                if with_driving_force:
+                    b = float(sol.driving_force)
+                    result.certificates.append(certify(problem, sol, min_driving_force=b))
+                    row.update(feasible=b >= options.min_driving_force - 1e-9, driving_force_kJ=b)
+                else:
+                    result.certificates.append(certify(problem, sol))
+                    row.update(feasible=True, driving_force_kJ=float("nan"))
+            rows.append(row)
+    table = pd.DataFrame(rows)
+    table["uphill_set_size"] = np.where(table["feasible"], 0, -1)
+    table["uphill_set"] = ""
+    infeasible = [i for i, r in enumerate(rows) if not r["feasible"]]
+    if with_uphill and infeasible:
+        up = replace(options, uphill=True, driving_force=False, log_bound_overrides=overrides)
+        with ThermoProblem(tm, up) as problem:
+            problem.set_objective({v: 1.0 for v in problem.u_vars}, "min")
+            for i in infeasible:
+                x = rows[i]["ln_h2"]
+                problem.set_log_bounds(h2, x, x)
+                try:
+                    sol = problem.solve(f"minimal uphill set at H2 {rows[i]['h2']:.3g}")
+                except InfeasibleProblem:
+                    continue  # demand impossible at this level whatever the energies
+                result.certificates.append(certify(problem, sol, allowed_uphill=sol.uphill))
+                table.loc[i, "uphill_set_size"] = len(sol.uphill)
+                table.loc[i, "uphill_set"] = ", ".join(sorted(sol.uphill))
+    table.loc[table["uphill_set_size"] < 0, "uphill_set_size"] = np.nan
+    result.table = table
+    return result
+
+
+@dataclass(kw_only=True)
+class H2ThresholdResult(AnalysisResult):
+    """The least H2 at which the network is feasible."""
+
+    h2_id: str = ""
+    feasible: bool = False
+    threshold: float = float("nan")
+    search_range: tuple[float, float] = DEFAULT_H2_RANGE
+    message: str = ""
+    solution: Solution | None = None
+    analysis: str = "H2 threshold"
+
+    def to_frame(self) -> pd.DataFrame:
+        return pd.DataFrame([{"h2_compound": self.h2_id, "feasible": self.feasible,
+                              "threshold": self.threshold,
+                              "ln_threshold": math.log(self.threshold) if self.feasible else float("nan"),
+                              "range_low": self.search_range[0], "range_high": self.search_range[1]}])
+
+    def summary(self) -> str:
+        return self.message
+
+
+def h2_threshold(tm: ThermoModel, options: ProblemOptions | None = None, h2_id: str | None = None,
+                 h2_range: tuple[float, float] = DEFAULT_H2_RANGE) -> H2ThresholdResult:
+    """Least H2 (mol/L or bar) at which the network is feasible, by one MILP minimising ln[H2].
+
+    When the network is infeasible even at the top of the range, the message says so and the
+    minimal uphill set there is the diagnosis (use :func:`tfa.analyses.uphill.minimal_uphill_set`).
+    """
+    options = options or ProblemOptions()
+    h2 = _h2_id(tm, h2_id)
+    lo, hi = _check_range(h2_range)
+    if lo >= hi:
+        raise InputError(f"H2 range ({lo:g}, {hi:g}): the lower end must be below the upper end")
+    overrides = dict(options.log_bound_overrides)
+    overrides[h2] = (math.log(lo), math.log(hi))
+    opts = replace(options, log_bound_overrides=overrides, uphill=False, driving_force=False)
+    result = H2ThresholdResult(conditions=tm.conditions, h2_id=h2, search_range=(lo, hi))
+    with ThermoProblem(tm, opts) as problem:
+        result.provenance = provenance_of(tm, opts, problem)
+        if h2 not in problem.metabolite_index:
+            raise InputError(f"H2 compound {h2} takes part in no reaction with an energy, so there "
+                             "is no H2 threshold")
+        problem.set_objective({problem.x_vars[problem.metabolite_index[h2]]: 1.0}, "min")
+        try:
+            sol = problem.solve("H2 threshold")
+        except InfeasibleProblem:
+            result.message = (f"infeasible at every H2 level from {lo:.3g} to {hi:.3g}: no H2 supply "
+                              "in this range lets the network run downhill; see the minimal uphill "
+                              "set for which steps need driving")
+            return result
+        result.certificates.append(certify(problem, sol))
+        x = float(sol.log_conc[problem.metabolite_index[h2]])
+        result.feasible = True
+        result.threshold = math.exp(x)
+        result.solution = sol
+        at_floor = abs(x - math.log(lo)) < 1e-9
+        result.message = (f"the least H2 at which the network is feasible is {result.threshold:.4g}"
+                          + (" (the bottom of the range searched: lower it to look further)"
+                             if at_floor else ""))
+    return result
+
+
+def h2_threshold_by_bisection(tm: ThermoModel, options: ProblemOptions | None = None,
+                              h2_id: str | None = None,
+                              h2_range: tuple[float, float] = DEFAULT_H2_RANGE,
+                              relative_tolerance: float = 1e-8) -> float:
+    """The H2 threshold by bisection on ln[H2] over repeated feasibility checks (a cross-check of
+    :func:`h2_threshold`; assumes feasibility is monotone in H2). Returns nan when infeasible at
+    the top of the range."""
+    options = options or ProblemOptions()
+    h2 = _h2_id(tm, h2_id)
+    lo, hi = math.log(h2_range[0]), math.log(h2_range[1])
+    overrides = dict(options.log_bound_overrides)
+    overrides[h2] = (lo, hi)
+    opts = replace(options, log_bound_overrides=overrides, uphill=False, driving_force=False)
+    with ThermoProblem(tm, opts) as problem:
+        def feasible_at(x: float) -> bool:
+            problem.set_log_bounds(h2, x, x)
+            try:
+                certify(problem, problem.solve("bisection step"))
+            except InfeasibleProblem:
+                return False
+            return True
+
+        if not feasible_at(hi):
+            return float("nan")
+        if feasible_at(lo):
+            return math.exp(lo)
+        while hi - lo > relative_tolerance:
+            mid = 0.5 * (lo + hi)
+            if feasible_at(mid):
+                hi = mid
+            else:
+                lo = mid
+    return math.exp(hi)
