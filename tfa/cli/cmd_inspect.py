@@ -58,7 +58,7 @@ def _network_folder(path: Path) -> Path:
 def _load(args: argparse.Namespace):
     """(model, environment, literature path or None, description of what was read)."""
     from ..network.bundled import bundled_environment_path, bundled_folder
-    from ..network.energies import reaction_values_beside
+    from ..network.io_table import reaction_values_beside
     from ..network.environment import Environment
     from ..network.io_sbml import load_network
 

@@ -308,15 +308,6 @@ def bundled_reaction_values_path() -> Path | None:
     return Path(str(path)) if path.is_file() else None
 
 
-def reaction_values_beside(reactions_path: str | Path) -> Path | None:
-    """``reaction_values.tsv`` (or ``.csv``) in the folder of a reactions table, if present."""
-    folder = Path(reactions_path).parent
-    for name in (REACTION_VALUES_FILE, "reaction_values.csv"):
-        if (folder / name).is_file():
-            return folder / name
-    return None
-
-
 def _default_literature(model: cobra.Model) -> list[LiteratureValue]:
     path = (model.notes or {}).get("reaction_values_path")
     if not path:

@@ -388,8 +388,20 @@ def read_network(reactions_path: str | Path, compounds_path: str | Path | None =
     model.compartments = {COMPARTMENT: "cell"}
     model.add_metabolites(metabolites)
     model.add_reactions(reactions)
+    literature = reaction_values_beside(reactions_path)
+    if literature is not None:
+        model.notes["reaction_values_path"] = str(literature)
     logger.info("read %d reactions and %d compounds from %s", len(reactions), len(metabolites), reactions_path)
     return model
+
+
+def reaction_values_beside(reactions_path: str | Path) -> Path | None:
+    """``reaction_values.tsv`` (or ``.csv``) in the folder of a reactions table, if present."""
+    folder = Path(reactions_path).parent
+    for name in ("reaction_values.tsv", "reaction_values.csv"):
+        if (folder / name).is_file():
+            return folder / name
+    return None
 
 
 def _safe_id(text: str) -> str:

@@ -99,6 +99,7 @@ class ThermoModel:
         return self.conditions.RT
 
     def internal_reactions(self) -> list[cobra.Reaction]:
-        """Reactions that are not boundary (exchange, demand, sink) reactions."""
-        boundary = set(r.id for r in self.model.boundary)
-        return [r for r in self.model.reactions if r.id not in boundary]
+        """Reactions that are not boundary (exchange, demand, sink) reactions: one side empty."""
+        from .checks import is_boundary_reaction
+
+        return [r for r in self.model.reactions if not is_boundary_reaction(r)]
