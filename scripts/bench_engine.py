@@ -147,7 +147,7 @@ def bench_network(label: str, tm, solver: str, repeats: int, time_limit: float) 
     out["  (feasible)"] = res.feasible
     out["our minimal uphill set"], res = timed(lambda: minimal_uphill_set(tm, opts), repeats)
     out["  (uphill set size)"] = len(res.sets[0]) if res.sets else None
-    h2 = tm.feed_ids.get("H2")
+    h2 = {k.lower(): v for k, v in tm.feed_ids.items()}.get("h2")
     if h2:
         levels = np.logspace(math.log10(H2_RANGE[0]), math.log10(H2_RANGE[1]), 20)
         out["our 20-point H2 scan"], res = timed(

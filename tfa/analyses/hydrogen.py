@@ -35,7 +35,10 @@ DEFAULT_H2_RANGE = (1e-9, 1e-2)
 
 
 def _h2_id(tm: ThermoModel, h2_id: str | None) -> str:
-    h2 = h2_id or tm.feed_ids.get("H2")
+    h2 = h2_id
+    if h2 is None:
+        roles = {role.lower(): mid for role, mid in tm.feed_ids.items()}
+        h2 = roles.get("h2")
     if h2 is None:
         raise InputError("the network names no H2 compound: give the H2 metabolite id (the "
                          "environment's feed should list H2)")

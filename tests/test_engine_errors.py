@@ -1,0 +1,91 @@
+"""Impossible demands and contradictory input end with plain words, never a bare solver status."""
+
+from __future__ import annotations
+
+import math
+import sys
+from pathlib import Path
+
+import pytest
+from optlang import interface as optlang_status
+
+sys.path.insert(0, str(Path(__file__).parent))
+from engine_networks import build_thermo_model  # noqa: E402
+
+from tfa.analyses import feasibility, h2_threshold, minimal_uphill_set, ranges  # noqa: E402
+from tfa.analyses.uphill import ImpossibleDemandError  # noqa: E402
+from tfa.errors import InputError, MissingDataError, UndeterminedError  # noqa: E402
+from tfa.network.thermo_model import ReactionEnergy  # noqa: E402
+from tfa.problem import InfeasibleProblem, ProblemOptions, ThermoProblem, available_solvers  # noqa: E402
+from tfa.problem.solvers import check_status  # noqa: E402
+
+
+def net(solver="glpk", demand=1.0, a_supply=10.0, b_bounds=(1e-6, 1e-2)):
+    return build_thermo_model({"R1": ("A <=> B", -5.0, 1.0)}, {"A": (1e-3, 1e-3), "B": b_bounds},
+                              exchanges={"A": (-a_supply, a_supply)}, demand=("B", demand),
+                              solver=solver)
+
+
+@pytest.mark.parametrize("solver", available_solvers())
+def test_impossible_demand_is_explained(solver):
+    # the feed delivers at most 10 of A, the demand asks for 50 of B: stoichiometry alone forbids it
+    tm = net(solver, demand=50.0)
+    result = feasibility(tm, ProblemOptions(solver=solver))
+    assert not result.feasible and result.demand_impossible
+    assert "even ignoring thermodynamics" in result.message
+    assert "at most 10" in result.message and "at least 50" in result.message
+    with pytest.raises(ImpossibleDemandError, match="at most 10"):
+        minimal_uphill_set(tm, ProblemOptions(solver=solver))
+
+
+def test_contradictory_concentration_bounds_name_the_compound():
+    tm = net(b_bounds=(1e-2, 1e-6))
+    with pytest.raises(InputError, match="compound B: contradictory concentration bounds"):
+        feasibility(tm)
+
+
+def test_missing_bounds_and_bad_energy_are_named():
+    tm = net()
+    del tm.log_bounds["B"]
+    with pytest.raises(InputError, match="compound B has no concentration bounds"):
+        ThermoProblem(tm)
+    tm = net()
+    tm.energies["R1"] = ReactionEnergy("R1", float("nan"), 1.0, "estimated")
+    with pytest.raises(MissingDataError, match="reaction R1"):
+        ThermoProblem(tm)
+
+
+def test_unknown_solver_and_bad_options():
+    with pytest.raises(InputError, match="unknown solver"):
+        ThermoProblem(net(), ProblemOptions(solver="nonesuch"))
+    with pytest.raises(InputError, match="unknown_energy"):
+        ProblemOptions(unknown_energy="maybe")
+    with pytest.raises(InputError, match="time limit"):
+        ProblemOptions(time_limit=0)
+
+
+def test_time_limit_reads_undetermined_within_n_seconds():
+    with pytest.raises(UndeterminedError, match="undetermined within 5 s"):
+        check_status(optlang_status.TIME_LIMIT, "feasibility", 5.0)
+    with pytest.raises(InfeasibleProblem, match="no point satisfies"):
+        check_status(optlang_status.INFEASIBLE, "feasibility", 5.0)
+
+
+def test_ranges_of_infeasible_network_say_so():
+    tm = net(b_bounds=(0.5, 1.0))  # B >= 0.5 M: -5 + RT ln(500) = +10.4 > 0, uphill everywhere
+    with pytest.raises(InfeasibleProblem, match="infeasible, so there is no feasible set"):
+        ranges(tm)
+
+
+def test_h2_threshold_without_h2_is_an_input_error():
+    with pytest.raises(InputError, match="H2"):
+        h2_threshold(net())
+    assert math.isfinite(1.0)
+
+
+def test_model_left_as_it_was():
+    tm = net()
+    before = (len(tm.model.solver.variables), len(tm.model.solver.constraints))
+    feasibility(tm)
+    after = (len(tm.model.solver.variables), len(tm.model.solver.constraints))
+    assert before == after
