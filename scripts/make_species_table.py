@@ -371,8 +371,151 @@ def _amino_acids() -> list[ReactantDef]:
     return out
 
 
+# --------------------------------------------------------------------------------------------
+# Homologous series and other small organic compounds with peer-reviewed aqueous data. They
+# widen the training set of the group-contribution estimator (tfa/thermo/group_contribution.py):
+# a -CH2- increment can only be fitted from series that differ by -CH2- alone. Only aqueous
+# species, and only sources that sources.csv marks peer reviewed (checked in
+# tests/test_thermo_species.py). Sources (OBIGT keys): SH90 Shock & Helgeson 1990; PS01
+# Plyasunov & Shock 2001; Sho93 Shock 1993; SS93 Schulte & Shock 1993; Sho95 Shock 1995; DSM+97
+# Dale et al. 1997; SR04 Schulte & Rogers 2004; Sch10 Schulte 2010; Kit14 Kitadai 2014; LA16
+# LaRowe & Amend 2016; LA19 LaRowe & Amend 2019; RSS+24 Robinson et al. 2024.
+# Left out: chlorinated ethylenes and methylphenanthrenes (no metabolic relevance, groups of their
+# own), Gly-X-Gly tripeptides (no G in OBIGT), glutathione and cystine (thesis data).
+# --------------------------------------------------------------------------------------------
+
+#: Alkyl stems by carbon number; common names of the n-alkanoates.
+_STEM = {2: "eth", 3: "prop", 4: "but", 5: "pent", 6: "hex", 7: "hept", 8: "oct", 9: "non",
+         10: "dec", 11: "undec", 12: "dodec"}
+_FATTY_COMMON = {5: "valerate; valeric acid", 6: "caproate; caproic acid",
+                 7: "enanthate; enanthic acid", 8: "caprylate; caprylic acid",
+                 9: "pelargonate; pelargonic acid", 10: "caprate; capric acid",
+                 11: "undecylate", 12: "laurate; lauric acid"}
+_ALKYL = {1: "methyl", 2: "ethyl", 3: "propyl", 4: "butyl", 5: "pentyl", 6: "hexyl",
+          7: "heptyl", 8: "octyl"}
+
+
+def _homologous_series() -> list[ReactantDef]:
+    out: list[ReactantDef] = []
+    # n-alkanes (SH90; hexane PS01)
+    for n in range(2, 9):
+        name = {2: "ethane", 3: "propane"}.get(n, f"n-{_STEM[n]}ane")
+        obigt = {2: "ethane", 3: "propane"}.get(n, f"{_STEM[n]}ane")
+        out.append(R_(name, name, AQ, obigt if n > 3 else "", obigt))
+    # ethylene (PS01) and 1-alkenes (SH90)
+    out.append(R_("ethylene", "ethylene", AQ, "ethene", "ethylene"))
+    for n in range(3, 9):
+        obigt = f"{_STEM[n]}ene"
+        out.append(R_(f"1-{obigt}", f"1-{obigt}", AQ, f"{obigt}", obigt))
+    # aromatic hydrocarbons (PS01, SH90) and cyclohexane (PS01)
+    out.append(R_("benzene", "benzene", AQ, "", "benzene"))
+    out.append(R_("toluene", "toluene", AQ, "methylbenzene", "toluene"))
+    out.append(R_("ethylbenzene", "ethylbenzene", AQ, "", "ethylbenzene"))
+    for n in range(3, 9):
+        out.append(R_(f"n-{_STEM[n]}ylbenzene", f"n-{_STEM[n]}ylbenzene", AQ,
+                      f"{_STEM[n]}ylbenzene; 1-phenyl{_STEM[n]}ane", f"n-{_STEM[n]}ylbenzene"))
+    out.append(R_("cyclohexane", "cyclohexane", AQ, "", "cyclohexane"))
+    # primary alcohols (PS01 propanol, SH90 butanol to octanol)
+    for n in range(3, 9):
+        obigt = f"{_STEM[n]}anol"
+        out.append(R_(f"1-{obigt}", f"1-{obigt}", AQ, f"{obigt}; n-{obigt}; {_STEM[n]}an-1-ol",
+                      obigt))
+    out.append(R_("benzyl alcohol", "benzyl alcohol", AQ, "phenylmethanol", "benzyl alcohol"))
+    # aldehydes (SS93)
+    for n in range(3, 11):
+        obigt = f"{_STEM[n]}anal"
+        syn = {3: "propionaldehyde", 4: "butyraldehyde", 5: "valeraldehyde"}.get(n, "")
+        out.append(R_(obigt, obigt, AQ, syn, obigt))
+    # methyl ketones (SH90)
+    out.append(R_("acetone", "acetone", AQ, "propanone; 2-propanone", "acetone"))
+    out.append(R_("butanone", "butanone", AQ, "2-butanone; methyl ethyl ketone", "butanone"))
+    for n in range(5, 9):
+        obigt = f"2-{_STEM[n]}anone"
+        out.append(R_(obigt, obigt, AQ, f"{_STEM[n]}an-2-one", obigt))
+    # n-alkanoic acids C5-C12 and their anions (Sho95)
+    for n in range(5, 13):
+        anion, acid = f"{_STEM[n]}anoate", f"{_STEM[n]}anoic acid"
+        out.append(R_(anion, anion, AQ, f"{acid}; n-{anion}; n-{acid}; {_FATTY_COMMON[n]}",
+                      f"n-{acid}; n-{anion}"))
+    # long-chain fatty acid anions (LA16; OBIGT gives the anion only)
+    out.append(R_("myristate", "myristate", AQ, "tetradecanoate; myristic acid; "
+                  "tetradecanoic acid", "myristate"))
+    out.append(R_("palmitate", "palmitate", AQ, "hexadecanoate; palmitic acid; "
+                  "hexadecanoic acid", "palmitate"))
+    out.append(R_("palmitoleate", "palmitoleate", AQ, "palmitoleic acid", "palmitoleate"))
+    out.append(R_("oleate", "oleate", AQ, "oleic acid", "oleate"))
+    out.append(R_("3-hydroxymyristate", "3-hydroxymyristate", AQ,
+                  "beta-hydroxymyristate; 3-hydroxytetradecanoate", "β-hydroxymyristate"))
+    # alpha,omega-dicarboxylic acids C6-C10 (Sho95)
+    for stem, anion in (("adip", "adip"), ("pimel", "pimel"), ("suber", "suber"),
+                        ("azela", "azel"), ("sebac", "sebac")):
+        out.append(R_(f"{anion}ate", f"{anion}ate", AQ, f"{stem}ic acid",
+                      f"{stem}ic acid; H-{anion}ate; {anion}ate-2"))
+    # 2-hydroxy acids C4-C10 (Sho95)
+    for n in range(4, 11):
+        anion, acid = f"2-hydroxy{_STEM[n]}anoate", f"2-hydroxy{_STEM[n]}anoic acid"
+        out.append(R_(anion, anion, AQ, acid, f"{acid}; {anion}"))
+    # aromatic and alicyclic carboxylic acids (Sho95; LA19)
+    out.append(R_("benzoate", "benzoate", AQ, "benzoic acid", "n-benzoic acid; benzoate"))
+    for pos in ("o", "m", "p"):
+        out.append(R_(f"{pos}-toluate", f"{pos}-toluate", AQ, f"{pos}-toluic acid",
+                      f"{pos}-toluic acid; {pos}-toluate"))
+    out.append(R_("cyclohexanecarboxylate", "cyclohexanecarboxylate", AQ,
+                  "cyclohexanecarboxylic acid; cyclohexane carboxylic acid",
+                  "cyclohexane carboxylic acid; cyclohexane carboxylate"))
+    # phenols (DSM+97; LA19)
+    out.append(R_("phenol", "phenol", AQ, "hydroxybenzene", "phenol"))
+    for pos in ("o", "m", "p"):
+        out.append(R_(f"{pos}-cresol", f"{pos}-cresol", AQ, "", f"{pos}-cresol"))
+    for pos in ("2,3", "2,4", "2,5", "2,6", "3,4", "3,5"):
+        out.append(R_(f"{pos}-dimethylphenol", f"{pos}-dimethylphenol", AQ,
+                      f"{pos}-xylenol", f"{pos}-dimethylphenol"))
+    out.append(R_("resorcinol", "resorcinol", AQ, "1,3-dihydroxybenzene", "resorcinol"))
+    out.append(R_("phloroglucinol", "phloroglucinol", AQ, "1,3,5-trihydroxybenzene",
+                  "phloroglucinol"))
+    # n-alkanethiols (SR04; methanethiol is above)
+    out.append(R_("ethanethiol", "ethanethiol", AQ, "ethyl mercaptan", "ethanethiol"))
+    for n in range(3, 13):
+        obigt = f"n-{_STEM[n]}anethiol"
+        out.append(R_(f"1-{_STEM[n]}anethiol", f"1-{_STEM[n]}anethiol", AQ,
+                      f"{obigt}; {_STEM[n]}ane-1-thiol", obigt))
+    # dialkyl sulfides (Sch10)
+    for obigt, syn in (("dimethyl sulfide", "DMS; methylthiomethane"),
+                       ("methyl ethyl sulfide", "ethyl methyl sulfide"),
+                       ("diethyl sulfide", ""), ("dipropyl sulfide", ""),
+                       ("dibutyl sulfide", ""), ("dipentyl sulfide", ""),
+                       ("dihexyl sulfide", "")):
+        out.append(R_(obigt, obigt, AQ, syn, obigt))
+    # alkylamines and their aminium ions (RSS+24): primary, secondary, tertiary, C1-C8 chains
+    for n, alkyl in _ALKYL.items():
+        for prefix in ("", "di", "tri"):
+            base = f"{prefix}{alkyl}amine"
+            out.append(R_(base, base, AQ, f"{prefix}{alkyl}ammonium",
+                          f"{prefix}{alkyl}aminium; {base}"))
+    for prefix in ("", "di", "tri"):
+        base = f"{prefix}benzylamine"
+        out.append(R_(base, base, AQ, f"{prefix}benzylammonium", f"{prefix}benzylaminium; {base}"))
+    # amide, ester (Sho93)
+    out.append(R_("acetamide", "acetamide", AQ, "ethanamide", "acetamide"))
+    out.append(R_("ethyl acetate", "ethyl acetate", AQ, "ethylacetate; ethyl ethanoate",
+                  "ethylacetate"))
+    # amino acids beyond the twenty (SH90 zwitterion only; LA16) and glycine peptides (Kit14)
+    out.append(R_("2-aminobutanoate", "2-aminobutanoate", AQ,
+                  "2-aminobutyrate; alpha-aminobutyric acid; 2-aminobutanoic acid",
+                  "a-aminobutyric acid"))
+    out.append(R_("diaminopimelate", "2,6-diaminopimelate", AQ,
+                  "diaminopimelic acid; meso-diaminopimelate; DAP", "diaminopimelic acid"))
+    out.append(R_("diglycine", "glycylglycine", AQ, "Gly-Gly; glycylglycine",
+                  "diglycine+; diglycine; diglycine-"))
+    out.append(R_("triglycine", "glycylglycylglycine", AQ, "Gly-Gly-Gly; glycylglycylglycine",
+                  "triglycine+; triglycine; triglycine-"))
+    out.append(R_("diketopiperazine", "2,5-diketopiperazine", AQ,
+                  "glycine anhydride; cyclo(Gly-Gly); piperazine-2,5-dione", "diketopiperazine"))
+    return out
+
+
 def all_reactants() -> list[ReactantDef]:
-    return REACTANTS + _amino_acids() + _nucleotides()
+    return REACTANTS + _amino_acids() + _nucleotides() + _homologous_series()
 
 
 # --------------------------------------------------------------------------------------------
