@@ -147,7 +147,8 @@ def h2_feed_key(model, environment) -> str:
     from ..network.roles import single_with_role
 
     feed = dict(getattr(environment, "feed", {}) or {})
-    met = single_with_role(model, "h2", fallback_ids=("h2", "H2", "h2_c"))
+    met = (single_with_role(model, "h2", fallback_ids=("h2", "H2", "h2_c"))
+           if hasattr(model, "metabolites") else None)
     names = set()
     if met is not None:
         names = {met.id.lower(), str((met.notes or {}).get("thermo_key", "")).lower()}

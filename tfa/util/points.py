@@ -27,6 +27,14 @@ Executors
   worker processes (``dask_processes=False``: threads in this process); any other ``scheduler``
   is the address of a running Dask scheduler (``tcp://host:8786``).
 
+Identical results everywhere: the pool forks this process, so its workers share everything,
+including Python's string-hash seed. Dask workers are fresh interpreters; optlang's matrix
+interface (used for HiGHS) orders columns by string hashes, so the last digits of a solution
+can depend on ``PYTHONHASHSEED``. Workers of a local cluster get this process's
+``PYTHONHASHSEED`` (Dask would give them one of its own, and replaces 0 by it); the ``tfa``
+commands run with :data:`HASH_SEED`, and a Dask run warns when its workers hash differently
+from this process (start remote workers with the same ``PYTHONHASHSEED``).
+
 Workers build heavy objects (a network, a database) once per process through
 :func:`worker_cache`, not once per point.
 """
@@ -53,6 +61,8 @@ log = logging.getLogger(__name__)
 FORMAT = "tfa-points/1"
 #: Names of the executors.
 EXECUTORS = ("serial", "pool", "dask")
+#: PYTHONHASHSEED under which the ``tfa`` commands run (not 0, which Dask replaces).
+HASH_SEED = "7"
 
 _CACHE: dict[tuple[Any, int], Any] = {}
 _CACHE_LOCK = threading.Lock()
@@ -250,8 +260,16 @@ class _Dask:
             raise InputError("the Dask executor needs the 'cluster' extra: pip install 'tfa[cluster]'") from err
         self.cluster = None
         if scheduler == "local":
-            self.cluster = LocalCluster(n_workers=workers, threads_per_worker=1, processes=processes,
-                                        dashboard_address=None)
+            import dask
+
+            # Dask gives its worker processes a PYTHONHASHSEED of its own (it replaces 0 too);
+            # give them ours, set before they start
+            seed = os.environ.get("PYTHONHASHSEED")
+            settings = ({"distributed.nanny.pre-spawn-environ.PYTHONHASHSEED": seed}
+                        if seed and seed != "0" else {})
+            with dask.config.set(settings):
+                self.cluster = LocalCluster(n_workers=workers, threads_per_worker=1,
+                                            processes=processes, dashboard_address=None)
             self.client = Client(self.cluster)
             self.workers = workers
             self.name = f"dask local cluster ({workers} workers{'' if processes else ', threads'})"
@@ -263,6 +281,23 @@ class _Dask:
                                  "address (tcp://HOST:PORT) or use --scheduler local") from err
             self.workers = max(1, sum(self.client.nthreads().values()))
             self.name = f"dask at {scheduler} ({self.workers} threads)"
+
+        self._check_hash_seed()
+
+    def _check_hash_seed(self) -> None:
+        """Warn when the workers hash strings differently from this process: some solver
+        interfaces order variables by string hashes, so the last digits of a solution (and the
+        choice among equally good alternatives) could differ. Run everything with the same
+        ``PYTHONHASHSEED`` (the ``tfa`` commands use 0) for identical results."""
+        try:
+            seen = set(self.client.run(_hash_probe).values())
+        except Exception as err:  # noqa: BLE001 - a check only
+            log.info("could not compare string hashing with the Dask workers: %s", err)
+            return
+        if seen != {_hash_probe()}:
+            log.warning("the Dask workers hash strings differently from this process (set "
+                        "PYTHONHASHSEED=0 for this process and the workers): results may differ "
+                        "in the last digits from a serial or pool run")
 
     def submit(self, function, point):
         # pure=False: a point is computed exactly once per submission, never deduplicated away
@@ -280,6 +315,11 @@ class _Dask:
         self.client.close()
         if self.cluster is not None:
             self.cluster.close()
+
+
+def _hash_probe() -> int:
+    """A string hash: equal in two processes exactly when they share PYTHONHASHSEED."""
+    return hash("tfa-hash-probe")
 
 
 def _outcome(runner, future) -> dict:

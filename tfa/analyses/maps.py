@@ -1,0 +1,235 @@
+"""Condition maps: the answers of the analyses over a grid of two of temperature, pH, ionic
+strength, H2 supply and pressure.
+
+At each grid point and mode the environment is copied with the two conditions changed
+(:func:`tfa.analyses.jobs.changed_environment`), the network's energies are prepared there
+(:func:`tfa.network.energies.prepare`: temperature, pH, ionic strength and pressure enter the
+transformed energies; H2 supply the fixed H2 activity) and solved: feasibility, the size of the
+minimal uphill set, the max-min driving force of the network (Noor et al. 2014, PLoS Comput.
+Biol. 10:e1003483) and the H2 threshold. Points run through :mod:`tfa.util.points` (process
+pool by default, Dask on request) and are appended to a results file as they finish, so a map
+can be resumed.
+
+Units at the interface: temperature °C, ionic strength mol/L, pressure bar, H2 mol/L (bar when
+H2 is fed as a gas); energies kJ/mol.
+"""
+
+from __future__ import annotations
+
+import functools
+import logging
+import math
+import tempfile
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any, Callable, Sequence
+
+import numpy as np
+import pandas as pd
+
+from ..errors import InputError
+from ..network.thermo_model import MODES
+from ..util.points import RunSummary, read_results, run_points
+from .jobs import CONDITION_AXES, NetworkJob, outcome
+
+log = logging.getLogger(__name__)
+
+#: Columns of a map table besides the axes.
+MAP_COLUMNS = ("feasible", "uphill_size", "driving_force_kJ", "h2_threshold")
+
+
+def map_point(job: NetworkJob, point: dict) -> dict:
+    """Outcome at one grid point in one mode; runs in a worker."""
+    changes = {point["x_name"]: point["x"], point["y_name"]: point["y"]}
+    tm = job.thermo_model(point["mode"], changes)
+    return outcome(tm, job.problem_options(), job.options.get("parts", ("uphill", "threshold", "driving_force")))
+
+
+def axis_values(text: str) -> tuple[str, list[float]]:
+    """Parse an axis: ``NAME=START:STOP:COUNT`` (linear), ``NAME=START:STOP:COUNT:log``
+    (log-spaced) or ``NAME=V1,V2,...``.
+
+    >>> axis_values("temperature=40:90:6")
+    ('temperature', [40.0, 50.0, 60.0, 70.0, 80.0, 90.0])
+    >>> axis_values("h2=1e-6:1e-2:5:log")[1]
+    [1e-06, 1e-05, 0.0001, 0.001, 0.01]
+    >>> axis_values("pH=6.5,7,7.5")
+    ('ph', [6.5, 7.0, 7.5])
+    """
+    name, sep, spec = text.partition("=")
+    name = name.strip().lower().replace("-", "_")
+    name = {"t": "temperature", "i": "ionic_strength", "p": "pressure"}.get(name, name)
+    if not sep or name not in CONDITION_AXES:
+        raise InputError(f"axis '{text}': write NAME=START:STOP:COUNT[:log] or NAME=V1,V2,... with "
+                         f"NAME one of {', '.join(CONDITION_AXES)}")
+    try:
+        if ":" in spec:
+            parts = spec.split(":")
+            if len(parts) not in (3, 4) or (len(parts) == 4 and parts[3].strip().lower() not in ("log", "lin")):
+                raise ValueError
+            start, stop, count = float(parts[0]), float(parts[1]), int(parts[2])
+            if count < 1:
+                raise ValueError
+            if len(parts) == 4 and parts[3].strip().lower() == "log":
+                if start <= 0 or stop <= 0:
+                    raise ArithmeticError
+                values = np.logspace(math.log10(start), math.log10(stop), count)
+                values = [float(f"{v:.12g}") for v in values]
+            else:
+                values = [float(f"{v:.12g}") for v in np.linspace(start, stop, count)]
+        else:
+            values = [float(v) for v in spec.split(",") if v.strip()]
+    except ArithmeticError:
+        raise InputError(f"axis '{text}': a log-spaced axis needs positive ends") from None
+    except ValueError:
+        raise InputError(f"axis '{text}': '{spec}' is not START:STOP:COUNT[:log] nor a list of "
+                         "numbers; e.g. temperature=40:90:6 or h2=1e-6:1e-2:9:log") from None
+    if not values:
+        raise InputError(f"axis '{text}': no values")
+    if len(set(values)) != len(values):
+        raise InputError(f"axis '{text}': repeated values")
+    return name, values
+
+
+def map_points(x: tuple[str, Sequence[float]], y: tuple[str, Sequence[float]],
+               modes: Sequence[str]) -> list[dict]:
+    """Grid points, ids ``<mode>/<ix>-<iy>``.
+
+    >>> [p["id"] for p in map_points(("ph", [7, 8]), ("temperature", [50]), ["native"])]
+    ['native/0-0', 'native/1-0']
+    """
+    points = []
+    for mode in modes:
+        for ix, xv in enumerate(x[1]):
+            for iy, yv in enumerate(y[1]):
+                points.append({"id": f"{mode}/{ix}-{iy}", "mode": mode, "x_name": x[0], "x": float(xv),
+                               "y_name": y[0], "y": float(yv)})
+    return points
+
+
+@dataclass
+class MapResult:
+    """Answers at every grid point and mode.
+
+    Attributes
+    ----------
+    x_name, x_values, y_name, y_values : the axes (units: see the module docstring)
+    modes : list of str
+    records : one dict per (mode, x, y): the outcome keys and ``error`` (None when solved)
+    run : RunSummary of the execution
+    provenance : dict
+    """
+
+    x_name: str
+    x_values: list[float]
+    y_name: str
+    y_values: list[float]
+    modes: list[str]
+    records: list[dict]
+    run: RunSummary | None = None
+    provenance: dict = field(default_factory=dict)
+    analysis: str = "condition map"
+
+    def to_frame(self) -> pd.DataFrame:
+        """One row per grid point and mode: x, y, mode, feasible, uphill_size, driving_force_kJ,
+        h2_threshold, uphill (members of a minimal set, ';'-joined), error."""
+        rows = []
+        for r in self.records:
+            row = {"mode": r["mode"], self.x_name: r["x"], self.y_name: r["y"], "x": r["x"], "y": r["y"]}
+            for c in MAP_COLUMNS:
+                row[c] = r.get(c)
+            row["uphill"] = ";".join(r["uphill"]) if isinstance(r.get("uphill"), list) else None
+            row["error"] = r.get("error")
+            rows.append(row)
+        return pd.DataFrame(rows)
+
+    def summary(self) -> str:
+        """Per mode: feasible points out of solved points, and failures."""
+        lines = []
+        for mode in self.modes:
+            rec = [r for r in self.records if r["mode"] == mode]
+            solved = [r for r in rec if r.get("error") is None]
+            k = sum(1 for r in solved if r.get("feasible"))
+            lines.append(f"{mode}: feasible at {k} of {len(solved)} points"
+                         + (f"; {len(rec) - len(solved)} point(s) failed or not computed"
+                            if len(rec) > len(solved) else ""))
+        return "\n".join(lines)
+
+    def to_dict(self) -> dict:
+        """Plain dictionary for JSON output."""
+        return {"analysis": self.analysis, "summary": self.summary(),
+                "x": {"name": self.x_name, "values": self.x_values},
+                "y": {"name": self.y_name, "values": self.y_values}, "modes": self.modes,
+                "provenance": self.provenance,
+                "table": self.to_frame().drop(columns=["x", "y"]).to_dict(orient="records")}
+
+
+def _record(point: dict, line: dict | None) -> dict:
+    base = {"mode": point["mode"], "x": point["x"], "y": point["y"], "feasible": None,
+            "uphill_size": None, "uphill": None, "driving_force_kJ": None, "h2_threshold": None,
+            "error": None}
+    if line is None:
+        base["error"] = "not computed (run interrupted)"
+    elif "error" in line:
+        base["error"] = line["error"]
+    else:
+        base.update(line["result"])
+    return base
+
+
+def condition_map(model, environment, x: tuple[str, Sequence[float]] = ("temperature", (40.0, 70.0, 100.0)),
+                  y: tuple[str, Sequence[float]] = ("ph", (6.0, 7.0, 8.0)),
+                  modes: Sequence[str] = ("native",), *, executor: str = "pool",
+                  workers: int | None = None, scheduler: str | None = None,
+                  results_path: str | Path | None = None, resume: bool = False,
+                  overwrite: bool = False, threshold: bool = True, driving_force: bool = True,
+                  prepare: Callable | None = None, progress: Callable | None = None,
+                  **problem_options: Any) -> MapResult:
+    """Feasibility, uphill-set size, driving force and H2 threshold over a grid of two conditions.
+
+    Parameters
+    ----------
+    model, environment : the network (cobra.Model) and the setting (Environment)
+    x, y : (axis name, values); names from :data:`tfa.analyses.jobs.CONDITION_AXES`
+    modes : modes to solve at every point
+    executor, workers, scheduler : see :func:`tfa.util.points.run_points`
+    results_path : JSON-lines file (default: temporary); give one to ``resume``
+    threshold, driving_force : compute these two at every point (each is one more MILP)
+    prepare : replaces :func:`tfa.network.energies.prepare` (module-level function)
+    problem_options : ``min_driving_force``, ``solver``, ``time_limit``, ``unknown_energy``
+
+    Returns
+    -------
+    MapResult
+    """
+    (x_name, x_vals), (y_name, y_vals) = x, y
+    for name in (x_name, y_name):
+        if name not in CONDITION_AXES:
+            raise InputError(f"unknown map axis {name!r}; use two of {', '.join(CONDITION_AXES)}")
+    if x_name == y_name:
+        raise InputError(f"the two map axes must differ (both are {x_name})")
+    x_vals, y_vals = [float(v) for v in x_vals], [float(v) for v in y_vals]
+    if not x_vals or not y_vals:
+        raise InputError("each map axis needs at least one value")
+    modes = list(modes)
+    bad = [m for m in modes if m not in MODES]
+    if bad:
+        raise InputError(f"unknown mode(s) {', '.join(bad)}; use {', '.join(MODES)}")
+    parts = ["uphill"] + (["threshold"] if threshold else []) + (["driving_force"] if driving_force else [])
+    job = NetworkJob.create(model, environment, parts=parts, prepare=prepare, **problem_options)
+    points = map_points((x_name, x_vals), (y_name, y_vals), modes)
+    header = {"analysis": "map", "x": [x_name, x_vals], "y": [y_name, y_vals], "modes": modes,
+              **job.describe()}
+    function = functools.partial(map_point, job)
+    with tempfile.TemporaryDirectory(prefix="tfa-map-") as scratch:
+        path = Path(results_path) if results_path is not None else Path(scratch) / "map.jsonl"
+        summary = run_points(points, function, path, executor=executor, workers=workers,
+                             scheduler=scheduler, resume=resume, overwrite=overwrite, header=header,
+                             progress=progress)
+        _, lines = read_results(path)
+    records = [_record(p, lines.get(p["id"])) for p in points]
+    return MapResult(x_name, x_vals, y_name, y_vals, modes, records, run=summary,
+                     provenance={"executor": summary.executor, "seconds": summary.seconds,
+                                 "points_per_second": summary.points_per_second,
+                                 "results_file": str(results_path) if results_path else None,
+                                 "interrupted": summary.interrupted, **job.describe()})

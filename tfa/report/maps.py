@@ -1,0 +1,137 @@
+"""Heatmaps of a condition map: feasibility, uphill-set size, driving force and H2 threshold over
+two condition axes, one figure per mode (matplotlib, Agg backend), written as PNG and SVG through
+:func:`tfa.report.figures.save_figure` (atomic).
+
+Input: a :class:`pandas.DataFrame` with one row per grid point and mode and the columns ``x``,
+``y`` (axis values), ``mode``, ``feasible`` (bool or NaN where the point failed),
+``uphill_size``, ``driving_force_kJ`` and ``h2_threshold`` (mol/L; NaN where not computed).
+Axes are drawn by grid index with the values as tick labels, so log-spaced axes (H2 supply)
+stay evenly spaced. Colours: Okabe-Ito for feasibility, cividis (colour-vision-deficiency
+friendly, Nuñez, Anderton & Renslow, PLoS ONE 13 (2018) e0199239) for the numbers; failed or
+missing points are grey.
+"""
+
+from __future__ import annotations
+
+import logging
+import math
+from pathlib import Path
+from typing import Sequence
+
+import matplotlib
+
+matplotlib.use("Agg")
+
+import matplotlib.pyplot as plt  # noqa: E402
+import numpy as np  # noqa: E402
+import pandas as pd  # noqa: E402
+from matplotlib.colors import ListedColormap  # noqa: E402
+from matplotlib.figure import Figure  # noqa: E402
+from matplotlib.ticker import MaxNLocator  # noqa: E402
+
+from ..errors import InputError  # noqa: E402
+from .figures import _STYLE, FIGURE_WIDTH_IN, MODE_LABELS, OKABE_ITO, save_figure  # noqa: E402
+
+log = logging.getLogger(__name__)
+
+#: Panels of a map figure: column, title, how values are shown.
+PANELS = (
+    ("feasible", "feasible", "binary"),
+    ("uphill_size", "size of the minimal uphill set", "integer"),
+    ("driving_force_kJ", "max-min driving force, kJ/mol", "float"),
+    ("h2_threshold", "H2 threshold, log10(mol/L)", "log"),
+)
+#: Words for the condition axes.
+AXIS_LABELS = {
+    "temperature": "temperature, °C",
+    "ph": "pH",
+    "ionic_strength": "ionic strength, mol/L",
+    "h2": "H2 supply, mol/L",
+    "pressure": "pressure, bar",
+}
+#: Largest grid whose cells get their value written in.
+ANNOTATE_MAX_CELLS = 144
+_MISSING = "#BBBBBB"
+
+
+def _grid(frame: pd.DataFrame, column: str, xs: list, ys: list) -> np.ndarray:
+    values = np.full((len(ys), len(xs)), np.nan)
+    xi = {v: i for i, v in enumerate(xs)}
+    yi = {v: i for i, v in enumerate(ys)}
+    for x, y, v in zip(frame["x"], frame["y"], frame[column]):
+        if v is None or (isinstance(v, float) and math.isnan(v)):
+            continue
+        values[yi[y], xi[x]] = float(v)
+    return values
+
+
+def _ticks(values: Sequence[float]) -> list[str]:
+    return [f"{v:.3g}" for v in values]
+
+
+def map_figure(frame: pd.DataFrame, x_name: str, y_name: str, mode: str,
+               title: str | None = None) -> Figure:
+    """Four heatmaps (feasible, uphill-set size, driving force, H2 threshold) of one mode."""
+    needed = ["x", "y", "mode"] + [p[0] for p in PANELS]
+    missing = [c for c in needed if c not in frame.columns]
+    if missing:
+        raise InputError(f"map figure: the table lacks the column(s) {', '.join(missing)}")
+    rows = frame[frame["mode"] == mode]
+    if rows.empty:
+        raise InputError(f"map figure: no rows for mode {mode!r}; modes present: "
+                         f"{', '.join(sorted(frame['mode'].unique()))}")
+    xs = sorted(rows["x"].unique())
+    ys = sorted(rows["y"].unique())
+    annotate = len(xs) * len(ys) <= ANNOTATE_MAX_CELLS
+    with plt.rc_context(_STYLE):
+        fig, axes = plt.subplots(2, 2, figsize=(FIGURE_WIDTH_IN, FIGURE_WIDTH_IN * 0.78),
+                                 layout="constrained")
+        for ax, (column, label, kind) in zip(axes.ravel(), PANELS):
+            values = _grid(rows, column, xs, ys)
+            shown = values.copy()
+            if kind == "log":
+                with np.errstate(divide="ignore", invalid="ignore"):
+                    shown = np.where(values > 0, np.log10(values), np.nan)
+            if kind == "binary":
+                cmap = ListedColormap([OKABE_ITO["vermillion"], OKABE_ITO["blue"]])
+                cmap.set_bad(_MISSING)
+                image = ax.imshow(np.ma.masked_invalid(shown), origin="lower", aspect="auto",
+                                  cmap=cmap, vmin=0, vmax=1, interpolation="nearest")
+                bar = fig.colorbar(image, ax=ax, ticks=[0.25, 0.75], shrink=0.85)
+                bar.ax.set_yticklabels(["no", "yes"])
+            else:
+                cmap = plt.get_cmap("cividis").copy()
+                cmap.set_bad(_MISSING)
+                image = ax.imshow(np.ma.masked_invalid(shown), origin="lower", aspect="auto",
+                                  cmap=cmap, interpolation="nearest")
+                bar = fig.colorbar(image, ax=ax, shrink=0.85)
+                if kind == "integer":
+                    bar.locator = MaxNLocator(integer=True)
+                    bar.update_ticks()
+            if annotate:
+                finite = shown[np.isfinite(shown)]
+                middle = float(np.nanmean(finite)) if finite.size else 0.0
+                for (iy, ix), v in np.ndenumerate(shown):
+                    if not np.isfinite(v):
+                        continue
+                    text = {"binary": "yes" if v > 0.5 else "no", "integer": f"{v:.0f}",
+                            "float": f"{v:.1f}", "log": f"{v:.1f}"}[kind]
+                    colour = "white" if (kind == "binary" or v < middle) else "black"
+                    ax.text(ix, iy, text, ha="center", va="center", fontsize=8, color=colour)
+            ax.set_title(label)
+            ax.set_xticks(range(len(xs)), _ticks(xs), rotation=45 if len(xs) > 6 else 0)
+            ax.set_yticks(range(len(ys)), _ticks(ys))
+            ax.set_xlabel(AXIS_LABELS.get(x_name, x_name))
+            ax.set_ylabel(AXIS_LABELS.get(y_name, y_name))
+        fig.suptitle(title or f"condition map, {MODE_LABELS.get(mode, mode)} (grey: failed or not computed)")
+    return fig
+
+
+def write_map_figures(frame: pd.DataFrame, x_name: str, y_name: str, folder: str | Path,
+                      stem: str = "map") -> list[Path]:
+    """One PNG + SVG per mode, ``<folder>/<stem>_<mode>.png|svg``; returns the paths."""
+    paths: list[Path] = []
+    for mode in sorted(frame["mode"].unique()):
+        fig = map_figure(frame, x_name, y_name, mode)
+        paths.extend(save_figure(fig, Path(folder) / f"{stem}_{mode}"))
+    return paths
