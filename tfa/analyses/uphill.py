@@ -4,7 +4,8 @@ energy source) for the demand to be met.
 Binaries u_j relax the thermodynamic direction constraint of reaction j
 (v_fwd_j <= U_j (f_j + u_j), v_rev_j <= L_j (b_j + u_j)); the MILP minimises sum_j u_j.
 Alternative optima come from integer cuts sum_{j in S} u_j <= |S| - 1 (Balas & Jeroslow 1972,
-SIAM J. Appl. Math. 23:61). For each set, a second MILP with the set fixed finds the
+SIAM J. Appl. Math. 23:61). For each set, a second problem with the set and the flux
+pattern of the first solution fixed (all 0/1 variables fixed: a linear program) finds the
 concentrations that minimise the total uphill energy sum_{j in S} d_j g_j (d_j the flux
 direction), and reports each member's d_j g_j (kJ/mol; positive = uphill).
 Formulation after thermodynamics-based flux analysis (Henry, Broadbelt & Hatzimanikatis 2007,
@@ -111,13 +112,16 @@ def _uphill_amounts(problem: ThermoProblem, members: list[str], sol: Solution,
     directions = {}
     for rid in members:
         directions[rid] = 1 if sol.flux(rid) >= 0 else -1
-    saved = [(v, v.lb, v.ub) for v in problem.u_vars]
+    # fix every 0/1 variable at its value in the minimal-set solution: what remains is a linear
+    # program over concentrations and fluxes (the best concentrations for this flux pattern)
     member_set = set(members)
-    for j, v in enumerate(problem.u_vars):
-        if problem.energy_ids[j] in member_set:
-            v.set_bounds(1, 1)
-        else:
-            v.set_bounds(0, 0)
+    fixed = [(v, 1.0 if problem.energy_ids[j] in member_set else 0.0)
+             for j, v in enumerate(problem.u_vars)]
+    fixed += [(v, 1.0 if on else 0.0) for v, on in zip(problem.f_vars, sol.forward)]
+    fixed += [(v, 1.0 if on else 0.0) for v, on in zip(problem.b_vars, sol.backward)]
+    saved = [(v, v.lb, v.ub) for v, _ in fixed]
+    for v, value in fixed:
+        v.set_bounds(value, value)
     try:
         problem.set_objective({problem.g_vars[index[r]]: float(directions[r]) for r in members}, "min")
         best = problem.solve("least uphill energy of the set")
