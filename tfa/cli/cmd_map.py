@@ -1,0 +1,99 @@
+"""``tfa map``: feasibility, minimal-uphill-set size, max-min driving force and H2 threshold over a
+grid of two conditions (temperature, pH, ionic strength, H2 supply, pressure), with heatmaps.
+
+Axes: ``--x temperature=40:90:6`` (six values from 40 to 90 °C), ``--y h2=1e-6:1e-2:9:log``
+(nine log-spaced H2 levels, mol/L; bar for a gas feed) or a list ``--y pH=6.5,7,7.5``. Points run
+on the local process pool by default, on Dask with ``--scheduler``; with ``--out DIR`` each
+finished point is appended to ``DIR/map.jsonl`` at once, so ``--resume`` continues an interrupted
+map, and the tables and heatmaps (PNG and SVG, one per mode) are written there.
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from pathlib import Path
+
+from ..errors import InputError
+from ..network.thermo_model import MODES
+from .cmd_robustness import (
+    add_execution_options,
+    add_network_options,
+    execution_kwargs,
+    load_network,
+    parse_modes,
+    progress_printer,
+    same_hash_seed,
+)
+from .common import add_common_options, print_json, print_table
+
+
+def register(subparsers) -> None:
+    parser = subparsers.add_parser(
+        "map",
+        help="feasibility, uphill-set size, driving force and H2 threshold over two conditions",
+        description="Solve the network at every point of a grid over two of temperature (degC), "
+        "pH, ionic strength (mol/L), H2 supply (mol/L) and pressure (bar); write tables and "
+        "heatmaps.",
+        epilog="example: tfa map --x temperature=40:90:6 --y h2=1e-6:1e-2:9:log --modes native "
+        "--out runs/map",
+    )
+    add_network_options(parser)
+    parser.add_argument("--x", required=True, metavar="AXIS",
+                        help="NAME=START:STOP:COUNT[:log] or NAME=V1,V2,...; NAME one of "
+                        "temperature, ph, ionic_strength, h2, pressure")
+    parser.add_argument("--y", required=True, metavar="AXIS", help="the second axis, as --x")
+    parser.add_argument("--modes", default="native", metavar="LIST",
+                        help=f"comma-separated modes ({', '.join(MODES)}) or 'all' (default native)")
+    parser.add_argument("--no-threshold", action="store_true", help="skip the H2 threshold")
+    parser.add_argument("--no-driving-force", action="store_true", help="skip the max-min driving force")
+    add_execution_options(parser)
+    add_common_options(parser)
+    parser.set_defaults(run=run)
+
+
+def run(args: argparse.Namespace) -> int:
+    from ..analyses.maps import axis_values, condition_map
+    from ..report.maps import write_map_figures
+    from ..report.tables import write_table
+    from ..util.files import write_json
+
+    x = axis_values(args.x)
+    y = axis_values(args.y)
+    if x[0] == y[0]:
+        raise InputError(f"--x and --y are both {x[0]}; give two different conditions")
+    modes = parse_modes(args.modes)
+    execution = execution_kwargs(args)
+    same_hash_seed(args)
+    model, environment, env_path = load_network(args)
+    out = Path(args.out) if args.out else None
+    result = condition_map(model, environment, x, y, modes,
+                           threshold=not args.no_threshold, driving_force=not args.no_driving_force,
+                           results_path=out / "map.jsonl" if out else None,
+                           progress=progress_printer(args.quiet, "point"), **execution)
+    frame = result.to_frame()
+    figures = []
+    if out is not None:
+        write_table(frame.drop(columns=["x", "y"]), out / "map")
+        write_json(out / "map.json", result.to_dict())
+        drawable = frame[frame["error"].isna()]
+        if not drawable.empty:
+            figures = write_map_figures(frame, x[0], y[0], out)
+    if args.json:
+        print_json(result.to_dict())
+    else:
+        sys.stdout.write(f"map of {model.id} at {environment.name}: {x[0]} × {y[0]}, "
+                         f"{len(result.records)} points; {result.run.executor}, "
+                         f"{result.run.seconds:.1f} s\n\n")
+        sys.stdout.write(result.summary() + "\n\n")
+        columns = ["mode", x[0], y[0], "feasible", "uphill_size", "driving_force_kJ", "h2_threshold", "error"]
+        print_table(frame[columns], "{:.4g}")
+        if out is not None:
+            sys.stdout.write(f"\nfiles in {out}" + (f" (heatmaps: {len(figures) // 2} per-mode PNG+SVG)"
+                                                     if figures else "") + "\n")
+    if result.run.interrupted:
+        sys.stderr.write("tfa map: interrupted; finished points are saved"
+                         + (f", continue with --resume --out {out}\n" if out else
+                            " only with --out (give --out DIR to be able to resume)\n"))
+        return 1
+    return 0

@@ -1,0 +1,189 @@
+"""``tfa robustness``: how sure are the conclusions, given the uncertainty of the energies?
+
+Draws the reactions' ΔrG'° N times from their correlated distribution (reactions that share a
+compound vary together) and solves each mode again for every draw: the probability that the
+network is feasible (with its binomial standard error), how often each reaction is in the minimal
+uphill set, and the distribution of the H2 threshold. The same ``--seed`` gives the same draws
+serially, on the local process pool (default) or on Dask. With ``--out DIR`` every finished draw
+is appended to ``DIR/robustness.jsonl`` at once, so ``--resume`` continues an interrupted run.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+from pathlib import Path
+
+from ..errors import InputError
+from ..network.thermo_model import MODES
+from ..util.points import HASH_SEED
+from .common import add_common_options, add_conditions_options, print_json, print_table
+
+#: Draws of ``tfa robustness`` when ``--draws`` is not given.
+DEFAULT_DRAWS = 100
+
+
+def add_network_options(parser: argparse.ArgumentParser) -> None:
+    """NETWORK, --environment, --compounds and the condition overrides (as ``tfa inspect``)."""
+    parser.add_argument("network", metavar="NETWORK", nargs="?",
+                        help="reactions table (.tsv/.csv), a folder with one, or SBML/JSON; "
+                        "default: the bundled network")
+    parser.add_argument("--environment", metavar="FILE",
+                        help="environment file (TOML); default: environment.toml beside the network, "
+                        "else the bundled one")
+    parser.add_argument("--compounds", metavar="FILE",
+                        help="compounds table, when it is not compounds.tsv beside the reactions table")
+    add_conditions_options(parser)
+
+
+def add_execution_options(parser: argparse.ArgumentParser) -> None:
+    """--workers, --scheduler, --serial, --out, --resume, --overwrite."""
+    group = parser.add_argument_group("execution")
+    group.add_argument("--workers", type=int, metavar="N",
+                       help="worker processes (default: one per core)")
+    group.add_argument("--scheduler", metavar="ADDRESS",
+                       help="run on Dask: 'local' starts a local Dask cluster with --workers "
+                       "workers, an address (tcp://HOST:PORT) uses a running scheduler")
+    group.add_argument("--serial", action="store_true", help="run in this process, one point after another")
+    group.add_argument("--out", metavar="DIR", help="folder for the results file, tables and figures")
+    group.add_argument("--resume", action="store_true",
+                       help="continue the results file in --out, skipping finished points")
+    group.add_argument("--overwrite", action="store_true",
+                       help="start again when --out already holds a results file")
+
+
+def parse_modes(text: str) -> list[str]:
+    """``native,h2_only`` or ``all`` -> list of modes.
+
+    >>> parse_modes("all") == list(MODES)
+    True
+    >>> parse_modes("native, no_atp_bare")
+    ['native', 'no_atp_bare']
+    """
+    if text.strip().lower() == "all":
+        return list(MODES)
+    modes = [m.strip() for m in text.split(",") if m.strip()]
+    bad = [m for m in modes if m not in MODES]
+    if bad or not modes:
+        raise InputError(f"--modes '{text}': unknown mode(s) {', '.join(bad) or '(none given)'}; "
+                         f"use a comma-separated list of {', '.join(MODES)} or 'all'")
+    return modes
+
+
+def execution_kwargs(args: argparse.Namespace) -> dict:
+    """Keyword arguments of the analyses for the execution options."""
+    if args.serial and args.scheduler:
+        raise InputError("--serial and --scheduler exclude each other; give one")
+    if args.resume and not args.out:
+        raise InputError("--resume needs --out DIR: the folder of the run to continue")
+    if args.workers is not None and args.workers < 1:
+        raise InputError(f"--workers {args.workers}: give at least 1")
+    return {"executor": "serial" if args.serial else "pool", "workers": args.workers,
+            "scheduler": args.scheduler, "resume": args.resume, "overwrite": args.overwrite}
+
+
+def same_hash_seed(args: argparse.Namespace) -> None:
+    """Re-run this command under PYTHONHASHSEED=:data:`~tfa.util.points.HASH_SEED` when it was
+    started from the command line without it, so that every executor (and every later
+    ``--resume``) gives identical numbers (see :mod:`tfa.util.points`). Called programmatically
+    (``tfa.cli.main([...])``) nothing happens."""
+    if os.environ.get("PYTHONHASHSEED") == HASH_SEED or sys.argv[1:2] != [args.command]:
+        return
+    env = dict(os.environ, PYTHONHASHSEED=HASH_SEED)
+    sys.stdout.flush()
+    sys.stderr.flush()
+    os.execve(sys.executable, [sys.executable, "-m", "tfa", *sys.argv[1:]], env)
+
+
+def progress_printer(quiet: bool, label: str):
+    """A progress callback writing one line per finished point on stderr (None when quiet)."""
+    if quiet:
+        return None
+
+    def show(done: int, total: int, line: dict) -> None:
+        state = "failed" if "error" in line else "done"
+        sys.stderr.write(f"{label} {done}/{total} {line['id']} {state}\n")
+        sys.stderr.flush()
+
+    return show
+
+
+def load_network(args: argparse.Namespace):
+    """(model, environment, environment path) as ``tfa inspect`` reads them."""
+    from .cmd_inspect import _load
+
+    model, environment, _, env_path = _load(args)
+    return model, environment, env_path
+
+
+def register(subparsers) -> None:
+    parser = subparsers.add_parser(
+        "robustness",
+        help="probability of each conclusion under the uncertainty of the reaction energies",
+        description="Draw the reaction energies from their correlated uncertainty and solve "
+        "again: probability of feasibility per mode, how often each reaction is in the minimal "
+        "uphill set, and the distribution of the H2 threshold.",
+        epilog="example: tfa robustness --draws 200 --seed 7 --modes native,no_atp_bare "
+        "--workers 2 --out runs/robust",
+    )
+    add_network_options(parser)
+    parser.add_argument("--draws", type=int, default=DEFAULT_DRAWS, metavar="N",
+                        help=f"draws of the energies per mode (default {DEFAULT_DRAWS})")
+    parser.add_argument("--seed", type=int, default=0, metavar="S", help="seed of the draws (default 0)")
+    parser.add_argument("--modes", default="all", metavar="LIST",
+                        help=f"comma-separated modes ({', '.join(MODES)}) or 'all' (default)")
+    parser.add_argument("--sigma-scale", type=float, default=1.0, metavar="F",
+                        help="multiply every uncertainty by F (0: every draw is the deterministic "
+                        "answer; default 1)")
+    parser.add_argument("--no-threshold", action="store_true", help="skip the H2 threshold of each draw")
+    add_execution_options(parser)
+    add_common_options(parser)
+    parser.set_defaults(run=run)
+
+
+def run(args: argparse.Namespace) -> int:
+    from ..analyses.robustness import robustness
+    from ..report.tables import write_table
+    from ..util.files import write_json
+
+    modes = parse_modes(args.modes)
+    execution = execution_kwargs(args)
+    if args.draws < 1:
+        raise InputError(f"--draws {args.draws}: give at least 1")
+    if args.seed < 0:
+        raise InputError(f"--seed {args.seed}: give a whole number >= 0")
+    same_hash_seed(args)
+    model, environment, env_path = load_network(args)
+    out = Path(args.out) if args.out else None
+    result = robustness(model, environment, n_draws=args.draws, seed=args.seed, modes=modes,
+                        sigma_scale=args.sigma_scale, threshold=not args.no_threshold,
+                        results_path=out / "robustness.jsonl" if out else None,
+                        progress=progress_printer(args.quiet, "draw"), **execution)
+    if out is not None:
+        for name, frame in result.frames().items():
+            write_table(frame, out / f"robustness_{name}")
+        write_json(out / "robustness.json", result.to_dict())
+    if args.json:
+        print_json(result.to_dict())
+    else:
+        sys.stdout.write(f"robustness of {model.id} at {environment.name} ({environment.conditions.describe()})\n")
+        sys.stdout.write(f"{args.draws} draws per mode, seed {args.seed}, σ × {args.sigma_scale:g}; "
+                         f"{result.run.executor}, {result.run.seconds:.1f} s\n\n")
+        sys.stdout.write(result.summary() + "\n\n")
+        print_table(result.feasibility_frame(), "{:.3f}")
+        uphill = result.uphill_frame()
+        if not uphill.empty:
+            sys.stdout.write("\nminimal uphill set: how often each reaction is in it\n")
+            print_table(uphill, "{:.3f}")
+        if not args.no_threshold:
+            sys.stdout.write("\nH2 threshold (mol/L; gases bar) over the draws where it exists\n")
+            print_table(result.threshold_frame(), "{:.3g}")
+        if out is not None:
+            sys.stdout.write(f"\nfiles in {out}\n")
+    if result.run.interrupted:
+        sys.stderr.write("tfa robustness: interrupted; finished draws are saved"
+                         + (f", continue with --resume --out {out}\n" if out else
+                            " only with --out (give --out DIR to be able to resume)\n"))
+        return 1
+    return 0
