@@ -40,6 +40,28 @@ Hydrated CO2
     The total-CO2 reactant uses the hydrated convention: its neutral member is the composite
     row ``CO2(aq)+H2O`` whose G, H, S, Cp and V are the sums of CO2(aq) and liquid water
     (formula H2CO3, n_h 2), a pseudoisomer of HCO3− and CO3−2.
+Hydrated formaldehyde
+    In water formaldehyde is almost entirely methanediol, CH2(OH)2; OBIGT's ``formaldehyde``
+    (Schulte & Shock 1993, SS93) is the unhydrated HCHO(aq) species, while biochemical tables
+    (Thauer et al. 1977) and concentration bounds refer to total formaldehyde. The
+    ``formaldehyde`` reactant therefore carries, besides HCHO(aq), the composite row
+    ``methanediol-H2O`` (methanediol minus one water: formula CH2O like HCHO, same charge and n_h,
+    so both are members of one pseudoisomer group and equations keep their water) with
+
+        G = G(HCHO) − RT ln K_h,   H = H(HCHO) + ΔH_h,   S = S(HCHO) + (ΔH_h + RT ln K_h)/T,
+        Cp = Cp(HCHO) (ΔCp_h = 0),   V = V(HCHO) (ΔV_h = 0)
+
+    at T = 298.15 K, where K_h = [CH2(OH)2]/[HCHO] (water activity 1) is the hydration constant
+    and ΔH_h its enthalpy: K_h = 2.0e3 at 25 degC (Bell 1966, Adv. Phys. Org. Chem. 4:1, review
+    of the measurements, which range about 1.3e3-2.3e3; from memory) and ΔH_h = −33 kJ/mol
+    (van 't Hoff slope of the measurements between about 20 and 80 degC, Winkelman et al. 2002,
+    Chem. Eng. Sci. 57:4067, about −31 kJ/mol; older values up to −36; from memory). Constant
+    ΔH_h is the van 't Hoff form in which such data are fitted, hence ΔCp_h = 0; ΔV_h is not
+    known to us and is neglected (a few cm3/mol move G by less than 0.2 kJ/mol at 250 bar). The
+    hydrate holds K_h/(1 + K_h) = 99.95 % of total formaldehyde at 25 degC and about 99.7 % at
+    70 degC, so the reactant's ΔfG'° is that of total formaldehyde, −128.2 kJ/mol at 25 degC
+    (Thauer et al. 1977 give −130.5 kJ/mol, from memory). Source keys of the row: SS93 and
+    Bel66 (both in the sources tables; Bel66 and WVO+02 in tfa/data/literature_sources.csv).
 Species ids
     Aqueous species keep their OBIGT name (unique within state aq); gases get ``<formula>(g)``
     with the formula as OBIGT writes it (NH3(g)),
@@ -92,6 +114,15 @@ WATER_CHECK = {"G": -237.18, "H": -285.83, "S": 69.91, "Cp": 75.35, "V": 18.07}
 
 COMPOSITE_CO2 = "CO2(aq)+H2O"
 WATER_ID = "H2O(l)"
+
+#: Hydrated formaldehyde (methanediol minus one water); see the module docstring.
+COMPOSITE_HCHO = "methanediol-H2O"
+#: Hydration constant K_h = [CH2(OH)2]/[HCHO] at 298.15 K (Bell 1966, from memory).
+HCHO_HYDRATION_K = 2.0e3
+#: Hydration enthalpy, kJ/mol (Winkelman et al. 2002, van 't Hoff fit, from memory).
+HCHO_HYDRATION_H_KJ = -33.0
+#: Source key of the hydration data (in tfa/data/literature_sources.csv, not in OBIGT).
+HCHO_HYDRATION_SOURCE = "Bel66"
 
 
 # --------------------------------------------------------------------------------------------
@@ -166,7 +197,9 @@ REACTANTS: list[ReactantDef] = [
        "n-butanoic acid; n-butanoate"),
     R_("methanol", "methanol", AQ, "methyl alcohol; CH3OH", "methanol"),
     R_("ethanol", "ethanol", AQ, "ethyl alcohol", "ethanol"),
-    R_("formaldehyde", "formaldehyde", AQ, "methanal; HCHO", "formaldehyde"),
+    R_("formaldehyde", "formaldehyde (total: methanediol and HCHO)", AQ,
+       "methanal; HCHO; methanediol; methylene glycol; formaldehyde hydrate",
+       f"formaldehyde; {COMPOSITE_HCHO}"),
     R_("acetaldehyde", "acetaldehyde", AQ, "ethanal", "acetaldehyde"),
     R_("methanethiol", "methanethiol", AQ, "methyl mercaptan; CH3SH", "methanethiol"),
     R_("HCN", "hydrogen cyanide", AQ, "hydrogen cyanide; hydrocyanic acid", "HCN"),
@@ -671,6 +704,24 @@ def water_properties() -> dict[str, float]:
     return props
 
 
+def hydrated_formaldehyde(hcho: dict, reactant: str) -> SpeciesRow:
+    """The composite row of hydrated formaldehyde from OBIGT's HCHO(aq) row (module docstring).
+
+    G = G(HCHO) − RT ln K_h, H = H(HCHO) + ΔH_h, S = S(HCHO) + (ΔH_h − ΔG_h)/T with
+    ΔG_h = −RT ln K_h at 298.15 K; Cp and V those of HCHO (ΔCp_h = ΔV_h = 0). kJ/mol, J/mol/K.
+    """
+    f = CALORIE if hcho["E_units"] == "cal" else 1.0
+    G, H, S, Cp = (_num(hcho[k]) * f for k in ("G", "H", "S", "Cp"))
+    dg = -R_KJ * T_REF * math.log(HCHO_HYDRATION_K)            # kJ/mol
+    dh = HCHO_HYDRATION_H_KJ
+    ds = (dh - dg) / T_REF * 1000.0                               # J/mol/K
+    counts, charge = parse_formula(str(hcho["formula"]))
+    return SpeciesRow(COMPOSITE_HCHO, reactant, hill_formula(counts), "aq", charge,
+                      counts.get("H", 0), 0, G / 1000.0 + dg, H / 1000.0 + dh, S + ds, Cp,
+                      _num(hcho["V"]), _str(hcho["ref1"]), HCHO_HYDRATION_SOURCE,
+                      "formaldehyde+hydration")
+
+
 def build_species(reactants: list[ReactantDef], obigt: dict) -> list[SpeciesRow]:
     rows: list[SpeciesRow] = []
     seen: dict[str, str] = {}
@@ -703,6 +754,9 @@ def build_species(reactants: list[ReactantDef], obigt: dict) -> list[SpeciesRow]
                                vals["S"] * f + water["S"], vals["Cp"] * f + water["Cp"],
                                vals["V"] + water["V"], _str(co2["ref1"]),
                                _str(water_row_src["ref1"]), "CO2+water"))
+                continue
+            if spec == COMPOSITE_HCHO:
+                add(hydrated_formaldehyde(obigt[("formaldehyde", "aq")], reac.id))
                 continue
             name, _, state = spec.partition("|")
             state = state or "aq"
@@ -777,12 +831,18 @@ def is_peer_reviewed(key: str, citation: str) -> bool:
     return not any(p in text for p in UNREVIEWED_PATTERNS)
 
 
+#: Source keys of rows this script builds from non-OBIGT data; they are listed in
+#: tfa/data/literature_sources.csv (merged with sources.csv at runtime), not here.
+NON_OBIGT_SOURCES = frozenset({HCHO_HYDRATION_SOURCE})
+
+
 def build_sources(rows: list[SpeciesRow], extdata: Path) -> list[dict]:
     refs = pd.read_csv(extdata / "thermo" / "refs.csv", dtype=str, keep_default_na=False)
     by_key = {}
     for rec in refs.to_dict("records"):
         by_key.setdefault(rec["key"], rec)
-    keys = sorted({k for r in rows for k in (r.source, r.source2) if k})
+    keys = sorted({k for r in rows for k in (r.source, r.source2)
+                   if k and k not in NON_OBIGT_SOURCES})
     out = []
     for key in keys:
         rec = by_key.get(key)
