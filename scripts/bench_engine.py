@@ -140,7 +140,14 @@ def bench_network(label: str, tm, solver: str, repeats: int, time_limit: float) 
     model = tm.model
     use_solver(model, solver)
     opts = ProblemOptions(solver=solver, time_limit=time_limit)
-    out = {}
+
+    class _Printing(dict):
+        def __setitem__(self, key, value):
+            super().__setitem__(key, value)
+            shown = f"{value:.3f} s" if isinstance(value, float) and not key.startswith("  (") else value
+            logging.getLogger("bench").info("%s, %s: %s %s", label, solver, key, shown)
+
+    out = _Printing()
 
     out["flux balance (LP)"], _ = timed(lambda: model.slim_optimize(), repeats)
 
@@ -186,7 +193,8 @@ def main(argv=None) -> int:
     parser.add_argument("--solvers", default="glpk,highs")
     parser.add_argument("--time-limit", type=float, default=300.0)
     args = parser.parse_args(argv)
-    logging.basicConfig(level=logging.WARNING)
+    logging.basicConfig(level=logging.WARNING, format="%(message)s")
+    logging.getLogger("bench").setLevel(logging.INFO)
     from tfa.problem.solvers import resolve_solver
 
     networks = []

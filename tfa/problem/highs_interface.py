@@ -75,6 +75,39 @@ class HighsProblem(mi.MatrixProblem):
         options.random_seed = 0
         return options
 
+    def build(self, add_variable_constraints: bool = False) -> mi.SparseProblem:
+        """The matrix form, assembled with numpy (same result as optlang's generic build for a
+        linear problem, a few times faster on genome-scale models)."""
+        if self.obj_quadratic_coefs or add_variable_constraints:
+            return super().build(add_variable_constraints)
+        from scipy.sparse import csc_matrix
+
+        variables = list(self.variables)
+        constraints = list(self.constraints)
+        vmap = {name: i for i, name in enumerate(variables)}
+        cmap = {name: i for i, name in enumerate(constraints)}
+        nv, nc = len(variables), len(constraints)
+        q = np.zeros(nv)
+        for name, coef in self.obj_linear_coefs.items():
+            q[vmap[name]] = coef
+        q *= self.direction
+        vbounds = np.empty((nv, 2))
+        vbounds[:, 0] = np.fromiter((self.variable_lbs[n] for n in variables), float, count=nv)
+        vbounds[:, 1] = np.fromiter((self.variable_ubs[n] for n in variables), float, count=nv)
+        integer = np.fromiter((n in self.integer_vars for n in variables), int, count=nv)
+        if nc == 0 or not self.constraint_coefs:
+            return mi.SparseProblem(None, q, None, None, vbounds, integer)
+        keys = list(self.constraint_coefs)
+        n = len(keys)
+        rows = np.fromiter((cmap[k[0]] for k in keys), np.int64, count=n)
+        cols = np.fromiter((vmap[k[1]] for k in keys), np.int64, count=n)
+        vals = np.fromiter(self.constraint_coefs.values(), float, count=n)
+        a = csc_matrix((vals, (rows, cols)), shape=(nc, nv))
+        bounds = np.empty((nc, 2))
+        bounds[:, 0] = np.fromiter((self.constraint_lbs[c] for c in constraints), float, count=nc)
+        bounds[:, 1] = np.fromiter((self.constraint_ubs[c] for c in constraints), float, count=nc)
+        return mi.SparseProblem(None, q, a, bounds, vbounds, integer)
+
     def solve(self) -> None:
         if self.obj_quadratic_coefs:
             raise SolverError("the HiGHS interface of tfa solves linear problems only")
