@@ -307,7 +307,7 @@ def test_every_internal_reaction_has_an_energy_at_the_demo_setting():
         assert r.provenance, r.reaction_id
     assert report.reviewed_or_cited_fraction >= 0.85, report.counts
     by_id = {r.reaction_id: r for r in report.reactions}
-    for rid in ("AK", "ASD", "G5K", "G5SD", "P5CS", "ATCase", "DHOase"):
+    for rid in ("AK", "ASD", "G5K", "G5SD", "P5CS", "ATCase", "DHOase", "DHODH"):
         assert by_id[rid].source == "literature", rid
     # pyrroline-5-carboxylate reductase has no value of its own: the three glutamate-branch values
     # and the species data of glutamate and proline close the chain
