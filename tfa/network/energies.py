@@ -56,6 +56,7 @@ References
 from __future__ import annotations
 
 import contextlib
+import dataclasses
 import logging
 import math
 from dataclasses import dataclass, field
@@ -707,8 +708,8 @@ def _thermo_model(model: cobra.Model, environment, mode: str, db: ThermoDatabase
                      no_activity=no_activity, mode=mode,
                      environment_name=str(_env_get(environment, "name", default="") or ""),
                      demand_id=demand_id, feed_ids=feed_ids)
-    tm.compound_table = table  # type: ignore[attr-defined]  # for coverage and reports
-    tm.all_energies = energies  # type: ignore[attr-defined]
+    tm.compound_table = table
+    tm.all_energies = energies
     return tm
 
 
@@ -737,19 +738,11 @@ def prepare(model: cobra.Model, environment, mode: str = "native", db: ThermoDat
             literature=None) -> ThermoModel:
     """A :class:`ThermoModel` on a *copy* of ``model`` rewritten for ``mode``; ``model`` is untouched.
 
-    Use :func:`prepared` to work on the model itself inside a ``with`` block instead.
+    The network is rewritten inside :func:`prepared`, copied in its rewritten state (a plain
+    model with no pending undo) and restored. Use :func:`prepared` to work on the model itself
+    inside a ``with`` block instead.
     """
-    from .rewrites import apply_mode
-
-    db = db or ThermoDatabase.load()
-    if literature is None:
-        literature = _default_literature(model)
-    copy = model.copy()
-    copy.notes = dict(model.notes or {})
-    context = apply_mode(copy, mode)
-    context.__enter__()  # the copy keeps the rewrite for good
-    tm = _thermo_model(copy, environment, mode, db, literature)
-    # keep the open context alive with the model it belongs to: were it garbage-collected, the
-    # generator would close and undo the rewrite and the environment's bounds on the copy
-    tm._rewrite_context = context  # type: ignore[attr-defined]
-    return tm
+    with prepared(model, environment, mode, db, literature) as tm:
+        frozen = tm.model.copy()
+        frozen.notes = dict(tm.model.notes or {})
+    return dataclasses.replace(tm, model=frozen)

@@ -81,6 +81,13 @@ class ThermoModel:
         Id of the demand reaction whose lower bound expresses the required output.
     feed_ids : dict[str, str]
         Role -> metabolite id for the fed compounds ("H2", "CO2", "H2S", "phosphate", "ammonia").
+    compound_table : object or None
+        The per-compound energies behind ``energies`` (a
+        :class:`tfa.network.energies.CompoundEnergyTable`), for coverage, correlated
+        uncertainties and reports.
+    all_energies : dict[str, ReactionEnergy]
+        Every internal reaction's energy record, including those without a value (source
+        "placeholder" or "none", standard NaN), for reports.
     """
 
     model: cobra.Model
@@ -92,6 +99,8 @@ class ThermoModel:
     environment_name: str = ""
     demand_id: str | None = None
     feed_ids: dict[str, str] = field(default_factory=dict)
+    compound_table: object | None = None
+    all_energies: dict[str, ReactionEnergy] = field(default_factory=dict)
 
     @property
     def RT(self) -> float:  # noqa: N802
