@@ -11,7 +11,9 @@ max-min driving force), each certified there.
 A :class:`NetworkJob` holds the model and environment as bytes (``pickle`` of objects this
 process built, never of a user file); a worker unpickles them once per process
 (:func:`tfa.util.points.worker_cache`, keyed by the content hash) and caches the prepared model
-of the last few (mode, conditions), so a robustness run prepares each mode once per worker.
+of the last few (mode, conditions), so a robustness run prepares each mode once per worker. Each
+point gets a fresh copy of the cached model (:func:`fresh_copy`), so its answer does not depend
+on which points the worker solved before.
 """
 
 from __future__ import annotations
@@ -21,7 +23,7 @@ import logging
 import math
 import pickle
 from collections import OrderedDict
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any, Mapping
 
 from ..errors import InputError
@@ -108,18 +110,32 @@ class NetworkJob:
             raise InputError(f"unknown mode {mode!r}; use one of {', '.join(MODES)}")
         key = (mode, tuple(sorted((changes or {}).items())))
         cache: OrderedDict = worker_cache(("prepared", self.token), OrderedDict)
-        if key in cache:
-            cache.move_to_end(key)
-            return cache[key]
-        from ..network.energies import prepare
+        if key not in cache:
+            from ..network.energies import prepare
 
-        model, environment, custom = self.objects()
-        env = changed_environment(model, environment, changes or {})
-        tm = (custom or prepare)(model, env, mode)
-        cache[key] = tm
-        while len(cache) > PREPARED_CACHE_SIZE:
-            cache.popitem(last=False)
-        return tm
+            model, environment, custom = self.objects()
+            env = changed_environment(model, environment, changes or {})
+            tm = (custom or prepare)(model, env, mode)
+            cache[key] = (tm, pickle.dumps(tm.model, protocol=pickle.HIGHEST_PROTOCOL))
+            while len(cache) > PREPARED_CACHE_SIZE:
+                cache.popitem(last=False)
+        cache.move_to_end(key)
+        return fresh_copy(*cache[key])
+
+
+def fresh_copy(tm: ThermoModel, model_bytes: bytes) -> ThermoModel:
+    """``tm`` on a new cobra model unpickled from ``model_bytes`` (pickled from the pristine
+    prepared model in this process).
+
+    Each point starts from the same solver state: the solver interfaces order their variables
+    partly by the history of additions and removals, so a model reused after other problems
+    were built on it can give a solution that differs in the last digits.
+    """
+    copy = replace(tm, model=pickle.loads(model_bytes))
+    for extra in ("compound_table", "all_energies"):
+        if hasattr(tm, extra):
+            setattr(copy, extra, getattr(tm, extra))
+    return copy
 
 
 def fingerprint(model, environment, prepare=None) -> str:
