@@ -163,3 +163,16 @@ def test_census_one_reaction():
     assert row["dg_ratio_kJ"] == pytest.approx(5.0 - RT * math.log(100.0), abs=1e-9)
     counts = res.counts()
     assert counts["exergonic at 1 mM"] == 0 and counts["exergonic at ratio 100:1"] == 1
+
+
+@pytest.mark.parametrize("solver", SOLVERS)
+def test_h2_scan_without_driving_force_reuses_patterns_and_agrees(solver):
+    # feasibility alone (the previous level's certified pattern tried first as an LP) must give
+    # the same yes/no as the analytic threshold H2 >= 1.8434e-5 at every level, high to low and
+    # low to high
+    tm = hydrogenation(solver)
+    for levels in (np.logspace(-9, -2, 8), np.logspace(-2, -9, 8)):
+        scan = h2_scan(tm, levels, ProblemOptions(solver=solver), with_driving_force=False,
+                       with_uphill=False).to_frame()
+        assert list(scan["feasible"]) == [bool(h >= H2_THRESHOLD) for h in levels]
+        assert scan["driving_force_kJ"].isna().all()

@@ -427,6 +427,27 @@ class ThermoProblem:
         check_status(status, what, self.options.time_limit)
         return self._read_solution(seconds)
 
+    def solve_with_pattern(self, forward: np.ndarray, backward: np.ndarray,
+                           what: str = "the thermodynamic flux problem") -> Solution:
+        """Solve with every direction binary fixed to a given flux pattern (a linear program).
+
+        A solution found this way is a solution of the full problem (the pattern is one of its
+        choices), so it proves feasibility; InfeasibleProblem here proves nothing about other
+        patterns. Used to carry a certified pattern from one scan point to the next.
+        """
+        saved = [(v, v.lb, v.ub) for v in self.f_vars + self.b_vars]
+        try:
+            for v, on in zip(self.f_vars, forward):
+                value = 1.0 if on and v.ub >= 1 else 0.0
+                v.set_bounds(value, value)
+            for v, on in zip(self.b_vars, backward):
+                value = 1.0 if on and v.ub >= 1 else 0.0
+                v.set_bounds(value, value)
+            return self.solve(what)
+        finally:
+            for v, lb, ub in saved:
+                v.set_bounds(lb, ub)
+
     def _read_solution(self, seconds: float) -> Solution:
         primal = self.solver.primal_values
         fluxes = np.array([primal[r.id] - primal[r.reverse_id] for r in self.reactions], float)

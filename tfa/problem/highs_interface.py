@@ -73,6 +73,8 @@ class HighsProblem(mi.MatrixProblem):
         options.output_flag = self.settings["verbose"] > 0
         options.threads = self.settings["threads"]
         options.random_seed = 0
+        for name, value in self.settings.get("highs_options", {}).items():
+            setattr(options, name, value)
         return options
 
     def build(self, add_variable_constraints: bool = False) -> mi.SparseProblem:
