@@ -48,14 +48,14 @@ DEFAULT_H2_LEVELS = tuple(float(v) for v in np.logspace(-9, -2, 8))
 #: Range searched for the H2 threshold (mol/L; bar for a gas feed).
 DEFAULT_H2_RANGE = (1e-9, 1e-2)
 #: Draws per mode of the robustness run of an assessment (kept small: about 1.5 s per draw).
-DEFAULT_ROBUSTNESS_DRAWS = 5
+DEFAULT_ROBUSTNESS_DRAWS = 4
 #: Alternative minimal uphill sets asked for per mode (integer cuts).
 DEFAULT_ALTERNATIVES = 2
 #: Pathway tags (lower case, substrings) of the carbon-fixation route from H2 + CO2 to pyruvate.
 ROUTE_PATHWAYS = ("acetyl-coa pathway (methyl branch)", "acetyl-coa pathway (carbonyl branch)",
                   "pyruvate")
 #: Reactions chunked per ranges call, so that progress can be shown.
-RANGES_CHUNK = 20
+RANGES_CHUNK = 50
 
 #: Base names of the files :meth:`Assessment.write` produces (tables: .csv + .json; figures:
 #: .png + .svg).
@@ -373,6 +373,8 @@ class Assessment:
     route_source: str = ""
     ranges: Any = None
     ranges_relaxed: list = field(default_factory=list)
+    reference: Any = None
+    reference_words: str = ""
     robustness: Any = None
     notes: list = field(default_factory=list)
     timings: dict = field(default_factory=dict)
@@ -497,8 +499,7 @@ class Assessment:
 
         made: dict[str, tuple[Path, Path]] = {}
         if len(self.profile):
-            title = (f"Energy profile from H2 + CO2 to pyruvate ({self.route_source}), "
-                     f"{self.mode} mode")
+            title = f"Energy profile along the route, {self.mode} mode"
             made["energy_profile"] = fig.save_figure(
                 fig.energy_profile_figure(self.profile[["step", "dg_prime", "dg_standard"]], title),
                 out / "energy_profile")
@@ -516,7 +517,7 @@ class Assessment:
                 out / "census")
         if self.ranges is not None and len(self.ranges.reactions):
             made["ranges"] = fig.save_figure(
-                fig.ranges_figure(ranges_for_figure(self.ranges, self.driving_force),
+                fig.ranges_figure(ranges_for_figure(self.ranges, self.reference),
                                   title=f"Feasible ΔrG' per reaction, {self.mode} mode"),
                 out / "ranges")
         return made
@@ -584,8 +585,7 @@ class Assessment:
             sections.append(ReportSection(
                 "Energy profile",
                 f"Route ({self.route_source}): " + ", ".join(self.profile["step"]) + ". dG' at "
-                "the concentrations of the max-min driving-force solution of the whole network; "
-                "dG'0 dashed.", self.profile, figure_paths=stem("energy_profile"),
+                f"the concentrations of {self.reference_words}; dG'0 dashed.", self.profile, figure_paths=stem("energy_profile"),
                 figure_captions=["Cumulative dG' along the route (kJ/mol)"],
                 table_caption="Route steps (kJ/mol)"))
         if "ranges" in tables:
@@ -596,7 +596,8 @@ class Assessment:
                           " (the minimal uphill set) may run uphill.")
             sections.append(ReportSection(
                 "Ranges", words, tables["ranges"], figure_paths=stem("ranges"),
-                figure_captions=["Interval of dG' per reaction over the feasible set (kJ/mol)"],
+                figure_captions=["Interval of dG' per reaction over the feasible set (kJ/mol); "
+                                 f"ticks: {self.reference_words}"],
                 table_caption="Ranges (reactions kJ/mol; compounds mol/L or bar)"))
         if "census" in figures or "census_counts" in tables:
             sections.append(ReportSection(
@@ -802,6 +803,55 @@ def assess(network: Any = None, environment: Any = None, out: str | Path | None 
     clock.start("driving force")
     result.driving_force = _attempt(result, "driving force",
                                     lambda: network_driving_force(tm, options))
+    result.reference, result.reference_words = _reference_solution(result, tm, options)
+    concentrations: dict[str, float] = {}
+    if result.reference is not None:
+        ref = result.reference.concentrations
+        concentrations = dict(zip(ref["compound"], ref["ln_c"]))
+    if user_route is not None:
+        unknown = [rid for rid, _ in user_route if rid not in model.reactions]
+        if unknown:
+            raise InputError(f"route: reaction(s) {', '.join(unknown)} not in network {model.id}; "
+                             "give ids of its reactions, separated by commas")
+    db = ThermoDatabase.load(include_unreviewed=include_unreviewed)
+    result = Assessment(network=model, environment=env, network_source=inputs.network_source,
+                        environment_source=inputs.environment_source, mode=mode, options=options)
+    result.network_sources = _network_sources(inputs.network_folder)
+    literature = inputs.literature_path
+
+    clock.start("data coverage")
+    from .network.coverage import coverage
+
+    result.coverage = coverage(model, env, db, literature if literature else [])
+
+    thermo_models = {}
+    for m in dict.fromkeys([*modes, mode]):
+        if m in modes:
+            clock.start(f"feasibility: {m}")
+        thermo_models[m] = prepare(model, env, m, db=db)
+        if m in modes:
+            result.feasibility[m] = _feasibility(thermo_models[m], options, alternatives)
+    tm = thermo_models[mode]
+    result.bounds = dict(tm.log_bounds)
+    result.sources_used = _used_sources(tm)
+    result.h2_unit = _h2_unit(tm, db)
+
+    clock.start("census")
+    for m in modes:
+        result.census[m] = census(thermo_models[m])
+
+    from .analyses.driving_force import network_driving_force
+    from .analyses.hydrogen import h2_scan, h2_threshold
+    from .problem.solvers import InfeasibleProblem
+
+    clock.start("H2 scan")
+    result.h2_scan = _attempt(result, "H2 scan", lambda: h2_scan(tm, levels, options))
+    clock.start("H2 threshold")
+    result.h2_threshold = _attempt(result, "H2 threshold",
+                                   lambda: h2_threshold(tm, options, h2_range=h2_range))
+    clock.start("driving force")
+    result.driving_force = _attempt(result, "driving force",
+                                    lambda: network_driving_force(tm, options))
     concentrations: dict[str, float] = {}
     if result.driving_force is not None:
         df = result.driving_force
@@ -871,6 +921,32 @@ def _attempt(result: Assessment, what: str, call: Callable[[], Any]) -> Any:
         return None
 
 
+def relax(tm, reactions: Sequence[str]):
+    """The ThermoModel with the energies of ``reactions`` left out: they may then run either way
+    (as if coupled to an energy source), which is what a minimal uphill set allows."""
+    drop = set(reactions)
+    return dataclasses.replace(tm, energies={k: v for k, v in tm.energies.items() if k not in drop})
+
+
+def _reference_solution(result: Assessment, tm, options):
+    """The steady state whose concentrations the energy profile and the ranges figure show: the
+    max-min driving-force solution of the network when it is feasible, else of the network with
+    its first minimal uphill set allowed to run uphill (the best concentrations of the
+    minimal-uphill solution)."""
+    from .analyses.driving_force import network_driving_force
+
+    feas = result.feasibility.get(tm.mode)
+    if feas is None or feas.feasible:
+        return result.driving_force, "the max-min driving-force solution of the network"
+    if feas.diagnosis is None or not feas.diagnosis.sets or not feas.diagnosis.sets[0]:
+        return result.driving_force, "the max-min driving-force solution of the network"
+    members = feas.diagnosis.sets[0]
+    reference = _attempt(result, "driving force with the minimal uphill set allowed",
+                         lambda: network_driving_force(relax(tm, members), options))
+    return reference, ("the max-min driving-force solution of the network in which "
+                       + ", ".join(members) + " (the minimal uphill set) may run uphill")
+
+
 def _feasibility(tm, options, alternatives: int):
     """Feasibility with up to ``alternatives`` minimal uphill sets as the diagnosis."""
     from .analyses.feasibility import feasibility
@@ -921,8 +997,7 @@ def _ranges(result: Assessment, tm, options, with_compounds: bool, clock: _Clock
                                 "that meets the demand")
             return None
         relaxed = feas.diagnosis.sets[0]
-        target = dataclasses.replace(tm, energies={k: v for k, v in tm.energies.items()
-                                                   if k not in relaxed})
+        target = relax(tm, relaxed)
         result.ranges_relaxed = list(relaxed)
         result.notes.append("ranges: the network is infeasible in this mode; ranges are over the "
                             f"steady states in which {', '.join(relaxed)} may run uphill")

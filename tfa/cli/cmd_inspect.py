@@ -56,39 +56,12 @@ def _network_folder(path: Path) -> Path:
 
 
 def _load(args: argparse.Namespace):
-    """(model, environment, literature path or None, description of what was read)."""
-    from ..network.bundled import bundled_environment_path, bundled_folder
-    from ..network.io_table import reaction_values_beside
-    from ..network.environment import Environment
-    from ..network.io_sbml import load_network
+    """(model, environment, literature path or None, environment path), as every subcommand
+    resolves them (:func:`tfa.cli.common.load_inputs`)."""
+    from .common import load_inputs
 
-    if args.network:
-        path = Path(args.network)
-        if not path.exists():
-            raise InputError(f"{path}: no such file or folder; give a reactions table, a folder "
-                             "holding reactions.tsv, or an SBML/JSON file")
-        model = load_network(path, args.compounds, require_balanced=False)
-        folder = _network_folder(path)
-        literature = reaction_values_beside(folder / "reactions.tsv")
-        default_env = folder / "environment.toml"
-        if not default_env.is_file():
-            default_env = bundled_environment_path()
-    else:
-        folder = bundled_folder()
-        model = load_network(folder / "reactions.tsv", require_balanced=False)
-        literature = reaction_values_beside(folder / "reactions.tsv")
-        default_env = bundled_environment_path()
-    env_path = Path(args.environment) if args.environment else default_env
-    environment = Environment.from_toml(env_path)
-    changes = {}
-    for option, key in (("temperature", "celsius"), ("ph", "ph"), ("ionic_strength", "ionic_strength"),
-                        ("pressure", "pressure"), ("pmg", "pmg")):
-        value = getattr(args, option, None)
-        if value is not None:
-            changes[key] = value
-    if changes:
-        environment = environment.with_conditions(**changes)
-    return model, environment, literature, env_path
+    inputs = load_inputs(args, require_balanced=False)
+    return inputs.model, inputs.environment, inputs.literature_path, Path(inputs.environment_source)
 
 
 def _fmt(value: float) -> str:
