@@ -6,7 +6,7 @@ feasibility in the four modes, minimal uphill sets, H2 scan and threshold, drivi
 profile, ranges and a small robustness run, each as CSV and JSON; figures as PNG and SVG; one
 self-contained HTML report; and prints the answer in plain words. Bad input (exit 2) writes
 nothing; every file is written atomically, so an interrupted run leaves only complete files.
-A thin layer over :func:`tfa.assess.assess`.
+A thin layer over :func:`tfa.api.assess`.
 """
 
 from __future__ import annotations
@@ -15,7 +15,7 @@ import argparse
 import sys
 from pathlib import Path
 
-from ..assess import DEFAULT_OUT, DEFAULT_ROBUSTNESS_DRAWS, REPORT_FILE, assess
+from ..api import DEFAULT_OUT, DEFAULT_ROBUSTNESS_DRAWS, REPORT_FILE, assess
 from .common import (add_common_options, add_network_options, add_problem_options, check_out,
                      condition_overrides, print_json, problem_options,
                      solver_output_silenced)

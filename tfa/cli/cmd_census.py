@@ -40,7 +40,7 @@ def run(args: argparse.Namespace) -> int:
     import pandas as pd
 
     from ..analyses.census import census
-    from ..assess import census_long
+    from ..api import census_long
     from ..errors import InputError
     from ..network.energies import prepare
     from ..thermo.database import ThermoDatabase

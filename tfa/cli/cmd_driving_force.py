@@ -36,7 +36,7 @@ def register(subparsers) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from ..analyses.driving_force import network_driving_force, pathway_driving_force
-    from ..assess import parse_route
+    from ..api import parse_route
 
     pathway = parse_route(args.pathway) if args.pathway else None
     check_out(args)

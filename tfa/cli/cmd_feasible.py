@@ -40,7 +40,7 @@ def register(subparsers) -> None:
 def run(args: argparse.Namespace) -> int:
     import pandas as pd
 
-    from ..assess import _feasibility
+    from ..api import _feasibility
     from ..errors import InputError
     from ..network.energies import prepare
     from ..thermo.database import ThermoDatabase

@@ -65,7 +65,7 @@ def run(args: argparse.Namespace) -> int:
     from pathlib import Path
 
     from ..analyses.hydrogen import h2_scan
-    from ..assess import _h2_unit, h2_scan_for_figure
+    from ..api import _h2_unit, h2_scan_for_figure
     from ..thermo.database import ThermoDatabase
 
     levels = parse_levels(args.levels)

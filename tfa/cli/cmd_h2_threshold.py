@@ -49,7 +49,7 @@ def register(subparsers) -> None:
 
 def run(args: argparse.Namespace) -> int:
     from ..analyses.hydrogen import h2_threshold
-    from ..assess import _h2_unit
+    from ..api import _h2_unit
     from ..thermo.database import ThermoDatabase
 
     h2_range = parse_range(args.range)

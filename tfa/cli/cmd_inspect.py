@@ -15,7 +15,6 @@ import math
 import sys
 from pathlib import Path
 
-from ..errors import InputError
 from ..thermo.database import ThermoDatabase
 from .common import add_common_options, add_conditions_options, print_json, print_table
 

@@ -42,7 +42,7 @@ def run(args: argparse.Namespace) -> int:
 
     from ..analyses.ranges import ranges
     from ..analyses.uphill import minimal_uphill_set
-    from ..assess import ranges_for_figure, relax
+    from ..api import ranges_for_figure, relax
     from ..errors import InputError
     from ..problem.solvers import InfeasibleProblem
 

@@ -95,8 +95,8 @@ def condition_overrides(args: argparse.Namespace) -> dict:
 
 
 def load_inputs(args: argparse.Namespace, require_balanced: bool = True):
-    """The network and environment named on the command line (see :func:`tfa.assess.resolve_inputs`)."""
-    from ..assess import resolve_inputs
+    """The network and environment named on the command line (see :func:`tfa.api.resolve_inputs`)."""
+    from ..api import resolve_inputs
 
     return resolve_inputs(getattr(args, "network", None), getattr(args, "environment", None),
                           getattr(args, "compounds", None), require_balanced=require_balanced,

@@ -7,7 +7,7 @@ commands print nothing. With ``verbose`` every step is logged as a line of its o
 (also when stderr is not a terminal); with ``quiet`` nothing is shown. No dependency beyond the
 standard library.
 
-Use it as the ``progress`` callback of :func:`tfa.assess.assess` (``progress(step, done,
+Use it as the ``progress`` callback of :func:`tfa.api.assess` (``progress(step, done,
 total)``) or around any slow call::
 
     with Progress(total=1, quiet=args.quiet, verbose=args.verbose) as bar:

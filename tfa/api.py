@@ -725,7 +725,7 @@ def assess(network: Any = None, environment: Any = None, out: str | Path | None 
     InputError
         Bad network, environment, mode, route or option (nothing is written).
     """
-    from .analyses.census import ModeCensusResult, census  # noqa: F401
+    from .analyses.census import census
     from .network.energies import prepare
     from .problem.builder import ProblemOptions
     from .thermo.database import ThermoDatabase
