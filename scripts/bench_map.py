@@ -80,8 +80,17 @@ def main() -> int:
             if workers > 1:
                 speedup = base / seconds
                 print(f"  {name:<24} speed-up {speedup:5.2f}  efficiency {speedup / workers:5.2f}")
-    records = [json.dumps(r[2], sort_keys=True) for r in results.values()]
-    print("identical results across executors:", all(rec == records[0] for rec in records))
+    names = list(results)
+    same = True
+    for other in names[1:]:
+        diffs = [(a["x"], a["y"], k, a[k], b[k]) for a, b in zip(results[names[0]][2], results[other][2])
+                 for k in a if json.dumps(a[k]) != json.dumps(b[k])]
+        same = same and not diffs
+        if diffs:
+            print(f"{other} differs from {names[0]} at {len(diffs)} field(s); first ones:")
+            for d in diffs[:5]:
+                print("   ", d)
+    print("identical results across executors:", same)
     return 0
 
 
