@@ -176,3 +176,14 @@ def test_h2_scan_without_driving_force_reuses_patterns_and_agrees(solver):
                        with_uphill=False).to_frame()
         assert list(scan["feasible"]) == [bool(h >= H2_THRESHOLD) for h in levels]
         assert scan["driving_force_kJ"].isna().all()
+
+
+@pytest.mark.parametrize("solver", SOLVERS)
+def test_uphill_set_of_a_feasible_network_is_empty_either_way(solver):
+    # b_low = 1e-4 < 1.278e-4: A <=> B can run downhill, so no step needs driving; the
+    # downhill-first shortcut and the plain minimisation must agree on size 0
+    tm = one_step(1e-4, solver)
+    for first in (True, False):
+        result = minimal_uphill_set(tm, ProblemOptions(solver=solver), try_downhill_first=first)
+        assert result.size == 0 and result.sets == [[]]
+        assert result.certificates and all(c.passed for c in result.certificates)

@@ -126,7 +126,7 @@ def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
                               "downhill")
             return result
         try:
-            diagnosis = minimal_uphill_set(tm, options)
+            diagnosis = minimal_uphill_set(tm, options, try_downhill_first=False)
         except ImpossibleDemandError as err:
             result.demand_impossible = True
             result.message = f"infeasible: {err}"

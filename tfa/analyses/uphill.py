@@ -133,7 +133,7 @@ def _uphill_amounts(problem: ThermoProblem, members: list[str], sol: Solution,
 
 
 def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
-                       alternatives: int = 1) -> UphillResult:
+                       alternatives: int = 1, try_downhill_first: bool = True) -> UphillResult:
     """Fewest reactions that must run against their gradient for the demand to be met.
 
     Parameters
@@ -142,6 +142,10 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
     options : ProblemOptions
     alternatives : int
         Up to this many alternative minimal sets (integer cuts).
+    try_downhill_first : bool
+        First solve with every u_j fixed at 0 (the plain feasibility problem, on the same build):
+        when that is feasible the minimal set is empty and proven so at once; the minimisation
+        follows only when it is not (pass False when infeasibility is already known).
 
     Raises
     ------
@@ -156,6 +160,21 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
         result.provenance = provenance_of(tm, options, problem)
         count = {v: 1.0 for v in problem.u_vars}
         size = None
+        if try_downhill_first:
+            for v in problem.u_vars:
+                v.set_bounds(0, 0)
+            try:
+                sol = problem.solve("feasibility without uphill steps")
+            except InfeasibleProblem:
+                sol = None
+            finally:
+                for v in problem.u_vars:
+                    v.set_bounds(0, 1)
+            if sol is not None:
+                result.certificates.append(certify(problem, sol))
+                result.sets, result.uphill_by, result.directions = [[]], [{}], [{}]
+                result.exhausted = True
+                return result
         for k in range(max(1, alternatives)):
             problem.set_objective(count, "min")
             try:
