@@ -62,6 +62,18 @@ Hydrated formaldehyde
     70 degC, so the reactant's ΔfG'° is that of total formaldehyde, −128.2 kJ/mol at 25 degC
     (Thauer et al. 1977 give −130.5 kJ/mol, from memory). Source keys of the row: SS93 and
     Bel66 (both in the sources tables; Bel66 and WVO+02 in tfa/data/literature_sources.csv).
+Protons of the outer fluid
+    A cell (or a mineral compartment) bathed by a fluid of another pH sees two proton pools. The
+    compound ``H+`` (kind proton) is the inner pool: fixed by the pH of the conditions, transformed
+    energy 0, never an activity. The compound ``H+(outside)`` (kind aqueous) is the outer pool: its
+    one species ``H+(outside)`` is a copy of OBIGT's H+ row (ΔfG° = ΔfH° = S° = Cp° = V° = 0 by
+    convention, z = +1, nH = 1), so Alberty's transform at the inner pH gives
+    ΔfG'° = RT ln10 pH_in (the extended Debye-Hückel term vanishes since z² − nH = 0), and with
+    its activity fixed at 10^(−pH_out) by the environment its transformed chemical potential is
+    μ'_out = RT ln10 (pH_in − pH_out): moving one proton in, H+(outside) -> H+, has
+    ΔrG' = −RT ln10 (pH_in − pH_out), the chemical part of the proton-motive force (Mitchell's
+    chemiosmotic relation; Nicholls & Ferguson, Bioenergetics, 4th ed. 2013, from memory). The
+    electrical part (membrane potential) is not represented and is thereby taken as 0.
 Species ids
     Aqueous species keep their OBIGT name (unique within state aq); gases get ``<formula>(g)``
     with the formula as OBIGT writes it (NH3(g)),
@@ -115,6 +127,9 @@ WATER_CHECK = {"G": -237.18, "H": -285.83, "S": 69.91, "Cp": 75.35, "V": 18.07}
 COMPOSITE_CO2 = "CO2(aq)+H2O"
 WATER_ID = "H2O(l)"
 
+#: Protons of the outer fluid: a copy of OBIGT's H+ row under its own id (module docstring).
+OUTER_PROTON = "H+(outside)"
+
 #: Hydrated formaldehyde (methanediol minus one water); see the module docstring.
 COMPOSITE_HCHO = "methanediol-H2O"
 #: Hydration constant K_h = [CH2(OH)2]/[HCHO] at 298.15 K (Bell 1966, from memory).
@@ -155,6 +170,8 @@ REACTANTS: list[ReactantDef] = [
     # --- water, proton, inorganic feed compounds ---------------------------------------------
     R_("H2O", "water", WATER, "water; H2O(l)", WATER_ID),
     R_("H+", "proton", PROTON, "proton; hydrogen ion; H(+)", "H+"),
+    R_(OUTER_PROTON, "hydrogen ion of the outer fluid", AQ,
+       "outer proton; proton of the outer fluid; external proton", OUTER_PROTON),
     R_("H2", "hydrogen (dissolved)", AQ, "dihydrogen; H2(aq); hydrogen", "H2"),
     R_("H2(g)", "hydrogen gas", GAS, "hydrogen gas; dihydrogen gas", "hydrogen|gas"),
     R_("CO2", "carbon dioxide (dissolved, unhydrated)", AQ, "CO2(aq); carbon dioxide", "CO2"),
@@ -758,6 +775,9 @@ def build_species(reactants: list[ReactantDef], obigt: dict) -> list[SpeciesRow]
             if spec == COMPOSITE_HCHO:
                 add(hydrated_formaldehyde(obigt[("formaldehyde", "aq")], reac.id))
                 continue
+            sid = None
+            if spec == OUTER_PROTON:                    # OBIGT's H+ row under its own id
+                spec, sid = "H+", OUTER_PROTON
             name, _, state = spec.partition("|")
             state = state or "aq"
             rec = obigt.get((name, state))
@@ -776,7 +796,7 @@ def build_species(reactants: list[ReactantDef], obigt: dict) -> list[SpeciesRow]
                 missing.append(f"{reac.id}: {name} ({state}) has no G")
                 continue
             H, S, Cp, V = (_num(rec[k]) for k in ("H", "S", "Cp", "V"))
-            sid = f"{rec['formula']}(g)" if state == "gas" else name
+            sid = sid or (f"{rec['formula']}(g)" if state == "gas" else name)
             row = SpeciesRow(sid, reac.id, hill_formula(counts), state, charge,
                              counts.get("H", 0), counts.get("Mg", 0), G * f / 1000.0,
                              None if H is None else H * f / 1000.0,

@@ -239,3 +239,39 @@ def test_formaldehyde_transform_picks_the_hydrate(db):
     k_70 = hot["methanediol-H2O"] / hot["formaldehyde"]
     assert 190.0 <= k_70 <= 450.0
     assert max(hot, key=hot.get) == "methanediol-H2O"
+
+
+# Mitchell's chemiosmotic relation (Nicholls & Ferguson, Bioenergetics, 4th ed. 2013, ch. 3,
+# from memory): moving one H+ from a fluid at pH_out into a cell at pH_in (membrane potential
+# zero) has dG = -2.303 RT (pH_in - pH_out), i.e. -5.71 kJ/mol per pH unit at 25 degC (59 mV).
+# R = 8.314462618 J/(mol K), CODATA 2018, independent of tfa's constants.
+R_CODATA_KJ = 8.314462618e-3
+
+
+def test_proton_inflow_along_a_ph_gradient_follows_mitchell(db):
+    inside = Conditions.from_celsius(25, ph=8.0, ionic_strength=0.0)
+    r = db.reaction_energy("H+(outside) <=> H+", inside, activities={"H+(outside)": 1e-6})
+    expected = -R_CODATA_KJ * 298.15 * math.log(10) * (8.0 - 6.0)
+    assert expected == pytest.approx(-11.4, abs=0.05)
+    assert r.actual == pytest.approx(expected, abs=1e-6)
+    assert r.balance.ok and r.balance.implicit_protons == 0
+    # no gradient (pH_out = pH_in): no driving force; the inner H+ stays the transformed-zero proton
+    same = db.reaction_energy("H+(outside) <=> H+", inside, activities={"H+(outside)": 1e-8})
+    assert same.actual == pytest.approx(0.0, abs=1e-9)
+    assert db.compound("H+").kind == "proton" and db.compound("H+(outside)").kind == "aqueous"
+    # the check can fail: treating the outer proton like the buffered one (energy 0, no
+    # activity term) would give 0, and a sign slip +11.4
+    assert abs(r.actual) > 10.0 and r.actual < 0
+
+
+def test_outer_proton_transform_has_no_ionic_strength_term(db):
+    """Alberty 2003 eq. 4.4-10: DfG'0 = DfG0 + nH RT ln10 pH - RT alpha (z^2 - nH) sqrt(I)/(1 + B sqrt(I));
+    for H+ (DfG0 = 0 by convention, z = nH = 1) only the pH term is left, at any I and T."""
+    for celsius, ph, ionic in ((25, 7.0, 0.0), (25, 7.0, 0.25), (70, 7.5, 0.25)):
+        c = Conditions.from_celsius(celsius, ph=ph, ionic_strength=ionic)
+        fe = db.formation_energy("H+(outside)", c)
+        assert fe.value == pytest.approx(R_CODATA_KJ * (celsius + 273.15) * math.log(10) * ph, abs=1e-6)
+    # the inner proton keeps transformed energy 0 and refuses an activity; the outer one takes one
+    assert db.formation_energy("H+", PH7).value == 0.0
+    with pytest.raises(InputError, match="fixed by the pH"):
+        db.reaction_energy("H+(outside) <=> H+", PH7, activities={"H+": 1e-7})
