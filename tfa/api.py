@@ -809,54 +809,6 @@ def assess(network: Any = None, environment: Any = None, out: str | Path | None 
         ref = result.reference.concentrations
         concentrations = dict(zip(ref["compound"], ref["ln_c"]))
     if user_route is not None:
-        unknown = [rid for rid, _ in user_route if rid not in model.reactions]
-        if unknown:
-            raise InputError(f"route: reaction(s) {', '.join(unknown)} not in network {model.id}; "
-                             "give ids of its reactions, separated by commas")
-    db = ThermoDatabase.load(include_unreviewed=include_unreviewed)
-    result = Assessment(network=model, environment=env, network_source=inputs.network_source,
-                        environment_source=inputs.environment_source, mode=mode, options=options)
-    result.network_sources = _network_sources(inputs.network_folder)
-    literature = inputs.literature_path
-
-    clock.start("data coverage")
-    from .network.coverage import coverage
-
-    result.coverage = coverage(model, env, db, literature if literature else [])
-
-    thermo_models = {}
-    for m in dict.fromkeys([*modes, mode]):
-        if m in modes:
-            clock.start(f"feasibility: {m}")
-        thermo_models[m] = prepare(model, env, m, db=db)
-        if m in modes:
-            result.feasibility[m] = _feasibility(thermo_models[m], options, alternatives)
-    tm = thermo_models[mode]
-    result.bounds = dict(tm.log_bounds)
-    result.sources_used = _used_sources(tm)
-    result.h2_unit = _h2_unit(tm, db)
-
-    clock.start("census")
-    for m in modes:
-        result.census[m] = census(thermo_models[m])
-
-    from .analyses.driving_force import network_driving_force
-    from .analyses.hydrogen import h2_scan, h2_threshold
-    from .problem.solvers import InfeasibleProblem
-
-    clock.start("H2 scan")
-    result.h2_scan = _attempt(result, "H2 scan", lambda: h2_scan(tm, levels, options))
-    clock.start("H2 threshold")
-    result.h2_threshold = _attempt(result, "H2 threshold",
-                                   lambda: h2_threshold(tm, options, h2_range=h2_range))
-    clock.start("driving force")
-    result.driving_force = _attempt(result, "driving force",
-                                    lambda: network_driving_force(tm, options))
-    concentrations: dict[str, float] = {}
-    if result.driving_force is not None:
-        df = result.driving_force
-        concentrations = dict(zip(df.concentrations["compound"], df.concentrations["ln_c"]))
-    if user_route is not None:
         result.route, result.route_source = user_route, "given with --route"
     else:
         result.route = route_reactions(tm.model, tm.demand_id)

@@ -1,0 +1,112 @@
+"""``tfa.assess`` on the bundled defaults (run once per module; small robustness and H2 scan to keep
+the suite fast): every file exists, every JSON parses, JSON and CSV agree, the summary answers
+the ATP question, and the energy profile is recomputed from the reference concentrations with
+ΔrG' = ΔrG'° + RT Σ ν_i ln c_i (Alberty 2003, Thermodynamics of Biochemical Reactions,
+eq. 4.1-4).
+"""
+
+from __future__ import annotations
+
+import json
+
+import pytest
+
+import tfa
+from tfa.api import FIGURE_FILES, REPORT_FILE, SUMMARY_FILE, TABLE_FILES, order_route, parse_route
+from tfa.report.tables import compare_table_files
+
+
+@pytest.fixture(scope="module")
+def run(tmp_path_factory):
+    out = tmp_path_factory.mktemp("assess") / "results"
+    result = tfa.assess(out=out, h2_levels=[1e-6, 1e-3], robustness_draws=1)
+    return result, out
+
+
+def test_every_file_written(run):
+    result, out = run
+    for name in TABLE_FILES:
+        assert (out / f"{name}.csv").is_file(), name
+        assert (out / f"{name}.json").is_file(), name
+    for name in FIGURE_FILES:
+        assert (out / f"{name}.png").stat().st_size > 1000, name
+        assert (out / f"{name}.svg").stat().st_size > 1000, name
+    page = (out / REPORT_FILE).read_text()
+    assert page.count("data:image/svg+xml") >= len(FIGURE_FILES)
+    assert "http://" not in page and "https://" not in page
+    assert not [p for p in out.iterdir() if p.name.endswith(".part")]
+
+
+def test_json_parses_and_agrees_with_csv(run):
+    _, out = run
+    for name in TABLE_FILES:
+        json.loads((out / f"{name}.json").read_text())
+        assert compare_table_files(out / f"{name}.csv", out / f"{name}.json") == [], name
+    summary = json.loads((out / SUMMARY_FILE).read_text())
+    assert set(summary["feasible"]) == {"native", "h2_only", "no_atp_strict", "no_atp_bare"}
+
+
+def test_summary_answers_the_atp_question(run):
+    result, _ = run
+    text = result.summary()
+    assert "runs without ATP: " in text
+    feasible = result.summary_data()["feasible"]["no_atp_strict"]
+    assert ("runs without ATP: yes" in text) == bool(feasible)
+
+
+def test_energy_profile_recomputed(run):
+    """Each step's ΔrG' from the reference solution's concentrations (Alberty 2003 eq. 4.1-4)."""
+    result, _ = run
+    profile = result.profile
+    assert len(profile) >= 3
+    tm_conc = dict(zip(result.reference.concentrations["compound"],
+                       result.reference.concentrations["ln_c"]))
+    rt = 8.314462618e-3 * result.environment.conditions.temperature  # R: CODATA 2018
+    model = result.network
+    for row in profile.itertuples():
+        reaction = model.reactions.get_by_id(row.reaction)
+        d = 1 if row.direction == "forward" else -1
+        term = sum(c * tm_conc[m.id] for m, c in reaction.metabolites.items()
+                   if m.id not in ("h", "h2o"))
+        assert row.dg_prime == pytest.approx(d * (row.dg_standard * d + rt * term), abs=1e-6)
+    assert profile["cumulative"].iloc[-1] == pytest.approx(profile["dg_prime"].sum())
+    # the route ends by making pyruvate
+    last = model.reactions.get_by_id(profile["reaction"].iloc[-1])
+    d = 1 if profile["direction"].iloc[-1] == "forward" else -1
+    assert any(m.id == "pyr" and c * d > 0 for m, c in last.metabolites.items())
+
+
+def test_ranges_contain_the_reference_solution(run):
+    """The reference steady state lies in the feasible set, so each ΔrG' it has lies inside the
+    reaction's range (the ranges are over that set)."""
+    result, _ = run
+    at = dict(zip(result.reference.table["reaction"], result.reference.table["dg_prime_kJ"]))
+    ranges = result.ranges.reactions.set_index("reaction")
+    checked = 0
+    for rid, g in at.items():
+        if rid in ranges.index:
+            lo, hi = ranges.loc[rid, "dg_min_kJ"], ranges.loc[rid, "dg_max_kJ"]
+            assert lo - 1e-5 <= g <= hi + 1e-5, rid
+            checked += 1
+    assert checked > 10
+
+
+def test_route_order_follows_the_carbon():
+    """A chain written out of order is put back in the order its substrates appear; the
+    carrier (tetrahydrofolate) does not hold a step back."""
+    model = tfa.load_network()
+    route = order_route(model, parse_route("ACS,MTHFR,HCHO_THF,-FALDH,CODH,HDCR"))
+    names = [r for r, _ in route]
+    assert names.index("HDCR") < names.index("FALDH") < names.index("HCHO_THF") < names.index("MTHFR")
+    assert names.index("MTHFR") < names.index("ACS") and names.index("CODH") < names.index("ACS")
+
+
+def test_bad_input_raises_before_anything_is_written(tmp_path):
+    from tfa.errors import InputError
+
+    out = tmp_path / "never"
+    with pytest.raises(InputError, match="sideways"):
+        tfa.assess(out=out, modes=["native", "sideways"])
+    with pytest.raises(InputError, match="no such file"):
+        tfa.assess("no/such/reactions.tsv", out=out)
+    assert not out.exists()
