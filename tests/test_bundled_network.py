@@ -11,6 +11,10 @@ Sources of the checks
   Nat. Biotechnol. 28:245, "What is flux balance analysis?"): without an electron donor (H2) or
   a carbon source (CO2) no carbon can be reduced, so the demand must be impossible; with every
   feed closed, no ATP or H2 may be made (a stoichiometric loop would be a defect of the network).
+- Energy conservation by the geochemical proton gradient: Mitchell's chemiosmotic relation,
+  dG = -2.303 RT (pH_in - pH_out) per H+ entering with the membrane potential taken as 0
+  (Nicholls & Ferguson, Bioenergetics, 4th ed. 2013, ch. 3, from memory); H+/ATP of the
+  F-type ATP synthase 3-5, set by the c-ring size (common practice).
 - Phosphoryl-transfer values are compared with the ATP hydrolysis energy of Alberty 2003 (pH 7,
   I = 0.25 M, -36.0 kJ/mol in tfa/data/reaction_values.csv) only through their documented sums.
 """
@@ -147,7 +151,7 @@ def test_required_pathways_and_compounds(compounds, reactions):
 
 def test_boundary_reactions(reactions):
     boundary = {r["id"]: r for r in reactions if r["pathway"] == "boundary"}
-    for cid in ("h2", "co2", "h2s", "pi", "nh4", "h2o", "h", "ac", "for"):
+    for cid in ("h2", "co2", "h2s", "pi", "nh4", "h2o", "h", "h_out", "ac", "for"):
         assert f"EX_{cid}" in boundary
     for outlet in ("EX_ac", "EX_for"):
         assert float(boundary[outlet]["lower_bound"]) == 0.0  # export only
@@ -184,7 +188,7 @@ def test_smiles_match_formula_and_charge(compounds):
         mol = Chem.MolFromSmiles(row["smiles"])
         assert mol is not None, cid
         counts, _ = parse_formula(re.sub(r"[+-]\d*$", "", CalcMolFormula(mol)))
-        if cid == "h":
+        if cid in ("h", "h_out"):
             counts = {"H": 1}
         assert counts == parse_formula(row["formula"])[0], cid
         assert Chem.GetFormalCharge(mol) == int(row["charge"]), cid
@@ -321,10 +325,73 @@ def test_environment_is_the_invented_demo_setting(compounds):
     assert "invented" in env["environment"]["description"].lower()
     c = env["conditions"]
     assert 0 < c["temperature_C"] < 150 and 5 < c["pH"] < 11 and 0 <= c["ionic_strength_M"] < 1
-    assert set(env["feed"]) == {"h2", "co2", "h2s", "pi", "nh4"}
+    assert set(env["feed"]) == {"h2", "co2", "h2s", "pi", "nh4", "h_out"}
+    # the outer fluid is more acidic than the cell (the ocean side of an alkaline vent), within
+    # the range the demo assumes (pH 5.5-6.5)
+    ph_out = -math.log10(env["feed"]["h_out"])
+    assert 5.5 - 1e-6 <= ph_out <= 6.5 and ph_out < c["pH"]
     assert all(k in compounds for k in env["bounds"] if k != "default")
     assert env["demand"]["reaction"] == "demand_precursors"
     assert set(env["outlets"]["allowed"]) <= set(compounds)
+
+
+# ----------------------------------------------------------------------------- gradient module
+GRADIENT_PATHWAY = "energy conservation (geochemical proton gradient)"
+
+
+def test_gradient_module_is_present_balanced_and_the_only_user_of_h_out(compounds, reactions):
+    row = compounds["h_out"]
+    assert row["thermo_key"] == "H+(outside)" and row["formula"] == "H" and int(row["charge"]) == 1
+    assert row["role"] == ""   # not the buffered proton: it has an activity of its own
+    module = [r for r in reactions if r["pathway"] == GRADIENT_PATHWAY]
+    assert [r["id"] for r in module] == ["ATPS_GRAD"]
+    atps = module[0]
+    assert atps["ec"] == "7.1.2.2" and "assumption" in atps["notes"]
+    stoich = _stoich(atps["equation"], "ATPS_GRAD")
+    # ADP + Pi -> ATP + H2O with n H+ taken from outside, n within the common-practice 3-5
+    assert stoich["adp"] == -1 and stoich["pi"] == -1 and stoich["atp"] == 1 and stoich["h2o"] == 1
+    assert 3 <= -stoich["h_out"] <= 5
+    report = check_balance(stoich, _formulas(compounds))
+    assert report.ok and report.hydrogen_residual == 0 and report.charge_residual == 0, report.message
+    # protons written explicitly: without the 3 inner H+ the buffer would have to supply 3
+    short = check_balance({k: v for k, v in stoich.items() if k != "h"}, _formulas(compounds))
+    assert short.hydrogen_residual == short.charge_residual == -3.0
+    users = {r["id"] for r in reactions if "h_out" in _stoich(r["equation"], r["id"])}
+    assert users == {"ATPS_GRAD", "EX_h_out"}
+
+
+def test_outer_protons_pay_for_atp_at_the_demo_setting():
+    """Mitchell's relation at the demo setting: n H+ entering from pH_out to pH_in release
+    n RT ln10 (pH_in - pH_out); within the bounds of the environment (ATP >= min, ADP <= max, Pi
+    fed) this must exceed the cost of ADP + Pi -> ATP + H2O, else the module could not make ATP.
+    The reaction energy is recomputed here from RT ln Q with R of CODATA 2018."""
+    energies = pytest.importorskip("tfa.network.energies")
+    bundled = pytest.importorskip("tfa.network.bundled")
+    environment = pytest.importorskip("tfa.network.environment")
+    model, env = bundled.load_bundled_network(), environment.bundled_environment()
+    with model:
+        tm = energies.prepare(model, env, "native")
+        g0 = tm.energies["ATPS_GRAD"].standard
+        stoich = {m.id: c for m, c in tm.model.reactions.ATPS_GRAD.metabolites.items()}
+    c = env.conditions
+    rt = 8.314462618e-3 * c.temperature
+    ph_out = -math.log10(env.feed["h_out"])
+    n = -stoich["h_out"]
+    # the standard term is ATP synthesis plus n outer protons at -RT ln10 pH_in each (Alberty's
+    # transform of H+, no ionic-strength term); ATP synthesis itself near Alberty's +36.0 kJ/mol
+    # (pH 7, 25 degC, I = 0.25 M; tfa/data/reaction_values.csv), a few kJ/mol more at 70 degC
+    from tfa.thermo import ThermoDatabase
+    synthesis = ThermoDatabase.load().reaction_energy("ADP + phosphate <=> ATP + H2O", c).standard
+    assert g0 == pytest.approx(synthesis - n * rt * math.log(10) * c.ph, abs=1e-6)
+    assert 30.0 < synthesis < 50.0
+    atp_min, adp_max = env.bounds["atp"][0], env.bounds["adp"][1]
+    best = g0 + rt * (math.log(atp_min) - math.log(adp_max) - math.log(env.feed["pi"])
+                      - n * math.log(env.feed["h_out"]))
+    gain = n * rt * math.log(10) * (c.ph - ph_out)
+    assert best < -1.0, f"ATP synthesis uphill by {best:.1f} kJ/mol at best"
+    # the same number split as Mitchell writes it: phosphorylation cost minus proton gain
+    cost = best + gain
+    assert 40.0 < cost < 60.0    # ATP synthesis at these bounds (in vivo 45-55, common practice)
 
 
 # ----------------------------------------------------------------------------- flux balance
@@ -350,6 +417,22 @@ def test_no_demand_without_a_feed(model, withheld):
     model.objective = "demand_precursors"
     value = model.slim_optimize(error_value=0.0)
     assert value == pytest.approx(0.0, abs=1e-7)
+
+
+def test_the_gradient_alone_makes_no_demand_and_no_reductant(model):
+    """With only the outer protons fed (and water, H+), ATP may be made from the gradient, but
+    no carbon can be fixed and no H2 made: the module adds energy, not matter."""
+    import cobra
+
+    _close(model, *[r.id for r in model.boundary if r.id not in ("EX_h2o", "EX_h", "EX_h_out")])
+    sink = cobra.Reaction("test_h2_sink", lower_bound=0.0, upper_bound=1000.0)
+    sink.add_metabolites({model.metabolites.get_by_id("h2"): -1})
+    model.add_reactions([sink])
+    for objective in ("test_h2_sink", "demand_precursors"):
+        model.objective = objective
+        assert model.slim_optimize(error_value=0.0) == pytest.approx(0.0, abs=1e-7), objective
+    model.objective = "ATPM"   # the gradient does drive ATP hydrolysis (the check can fail)
+    assert model.slim_optimize(error_value=0.0) > 1.0
 
 
 def test_no_atp_or_reductant_from_nothing(model):
