@@ -30,7 +30,7 @@ import time
 import warnings
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Any, Callable, Sequence
+from typing import Any, Callable, Mapping, Sequence
 
 import numpy as np
 import pandas as pd
@@ -185,7 +185,8 @@ def resolve_inputs(network: Any = None, environment: Any = None,
 
 # ------------------------------------------------------------------------------------ route
 def route_reactions(model, demand_id: str | None = None,
-                    pathways: Sequence[str] = ROUTE_PATHWAYS) -> list[tuple[str, int]]:
+                    pathways: Sequence[str] = ROUTE_PATHWAYS,
+                    fluxes: Mapping[str, float] | None = None) -> list[tuple[str, int]]:
     """The main carbon-fixation route from H2 + CO2 to pyruvate: (reaction id, direction), in
     route order.
 
@@ -195,12 +196,18 @@ def route_reactions(model, demand_id: str | None = None,
     pyruvate from the feed (parsimonious flux balance, Lewis et al. 2010, Mol. Syst. Biol.
     6:390; the network's own demand switched off). They are put in order by
     :func:`order_route`. Empty when the network has no pyruvate or cannot make it.
+
+    When ``fluxes`` (reaction id -> flux of a certified steady state) is given, the route is
+    read from that steady state instead, so the profile's steps and its concentrations come
+    from one and the same solution.
     """
     import cobra
 
     pyruvate = [m for m in model.metabolites if _is_pyruvate(m)]
     if not pyruvate:
         return []
+    if fluxes is not None:
+        return _route_from_fluxes(model, fluxes, pathways)
     with model:
         if demand_id is not None and demand_id in model.reactions:
             model.reactions.get_by_id(demand_id).bounds = (0.0, 0.0)
@@ -212,6 +219,12 @@ def route_reactions(model, demand_id: str | None = None,
         except Exception as err:  # an infeasible LP: cobra raises its own errors
             log.info("route: pyruvate cannot be made from the feed (%s)", err)
             return []
+    return _route_from_fluxes(model, fluxes, pathways)
+
+
+def _route_from_fluxes(model, fluxes: Mapping[str, float],
+                       pathways: Sequence[str]) -> list[tuple[str, int]]:
+    """Route steps (tagged reactions that carry flux, in their direction), in carbon order."""
     chosen = []
     for reaction in model.reactions:
         tag = str((reaction.notes or {}).get("pathway") or reaction.subsystem or "").lower()
@@ -245,8 +258,9 @@ def order_route(model, steps: Sequence[tuple[str, int]]) -> list[tuple[str, int]
     is fed or made by an earlier step (ties: order of the network file).
 
     Carrier moieties (tetrahydrofolate, coenzyme A: a compound of at least six carbons that
-    another route compound contains whole and that contains no such compound itself) count as
-    present from the start, since the route regenerates them. When the remaining steps wait on
+    another route compound contains whole and that contains no such compound itself) and
+    compounds with a role in the compounds table (electron carriers, ATP, phosphate, water)
+    count as present from the start, since the network regenerates them. When the remaining steps wait on
     each other, the first of them in the file goes next.
     """
     if not steps:
@@ -265,7 +279,10 @@ def order_route(model, steps: Sequence[tuple[str, int]]) -> list[tuple[str, int]
     carriers = {m for m in big
                 if any(_contains(formulas[o], formulas[m]) for o in involved if o != m)
                 and not any(_contains(formulas[m], formulas[o]) for o in big if o != m)}
-    available = (involved - made) | carriers
+    # compounds with a role (electron carriers, ATP/ADP/AMP, phosphate, water, H+) are
+    # regenerated elsewhere in the network: they never hold a carbon step back
+    cofactors = {m for m in involved if (model.metabolites.get_by_id(m).notes or {}).get("role")}
+    available = (involved - made) | carriers | cofactors
     ordered: list[tuple[str, int]] = []
     remaining = list(steps)
     while remaining:
@@ -811,7 +828,11 @@ def assess(network: Any = None, environment: Any = None, out: str | Path | None 
     if user_route is not None:
         result.route, result.route_source = user_route, "given with --route"
     else:
-        result.route = route_reactions(tm.model, tm.demand_id)
+        reference_fluxes = None
+        if result.reference is not None:
+            frame = result.reference.to_frame()
+            reference_fluxes = dict(zip(frame["reaction"], frame["flux"]))
+        result.route = route_reactions(tm.model, tm.demand_id, fluxes=reference_fluxes)
         result.route_source = "acetyl-CoA pathway to pyruvate"
         if not result.route:
             result.notes.append("no route from the feed to pyruvate through reactions tagged "
