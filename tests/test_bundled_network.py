@@ -394,6 +394,31 @@ def test_outer_protons_pay_for_atp_at_the_demo_setting():
     assert 40.0 < cost < 60.0    # ATP synthesis at these bounds (in vivo 45-55, common practice)
 
 
+def test_the_gradient_solves_the_energy_coupling_problem_of_the_native_network():
+    """Acetogens gain no net ATP by substrate-level phosphorylation alone and must conserve energy
+    through an ion gradient (Schuchmann & Mueller 2014, Nat. Rev. Microbiol. 12:809, from memory).
+    The bundled network shows both sides: with the outer protons fed, the native mode has a
+    certified steady state with every reaction downhill; without them it needs the formaldehyde
+    shunt driven uphill (formate reduced by NADH, FALDH), and nothing else."""
+    energies = pytest.importorskip("tfa.network.energies")
+    bundled = pytest.importorskip("tfa.network.bundled")
+    environment = pytest.importorskip("tfa.network.environment")
+    from tfa.analyses import feasibility
+    from tfa.problem import ProblemOptions
+
+    model, env = bundled.load_bundled_network(), environment.bundled_environment()
+    options = ProblemOptions(time_limit=120)
+    with model:
+        with_gradient = feasibility(energies.prepare(model, env, "native"), options)
+    assert with_gradient.feasible and all(c.passed for c in with_gradient.certificates)
+    fluxes = with_gradient.to_frame().set_index("reaction")["flux"]
+    assert fluxes["ATPS_GRAD"] > 1e-6          # ATP is made from the gradient
+    with model:
+        without = feasibility(energies.prepare(model, env.without_feed("h_out"), "native"), options)
+    assert not without.feasible and not without.demand_impossible
+    assert without.diagnosis.sets[0] == ["FALDH"]
+
+
 # ----------------------------------------------------------------------------- flux balance
 @pytest.fixture()
 def model():
