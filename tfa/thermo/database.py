@@ -59,7 +59,8 @@ from .legendre import reactant_energy, species_fractions, transformed_species_en
 from .potentials import CarrierCouple, load_potentials
 from .species import Source, Species, load_compound_rows, load_sources, load_species
 from .temperature import IntegrationFlag, standard_gibbs
-from .uncertainty import base_sigma, reaction_sigma, reactant_sigma, species_sigma
+from .uncertainty import (base_sigma, is_conventional_zero, reaction_sigma, reactant_sigma,
+                          species_sigma)
 
 logger = logging.getLogger(__name__)
 
@@ -341,9 +342,12 @@ class ThermoDatabase:
         for sp, flag_bits in zip(members, int_flags):
             flag = IntegrationFlag(int(flag_bits))
             reviewed = self.is_reviewed(sp.source)
-            sigmas.append(species_sigma(
-                base_sigma(sp.state, _carbon_atoms(sp.formula), reviewed, sp.sigma_G),
-                c.temperature, constant_cp=not (flag & IntegrationFlag.NO_CP)))
+            if is_conventional_zero(sp):
+                sigmas.append(0.0)
+            else:
+                sigmas.append(species_sigma(
+                    base_sigma(sp.state, _carbon_atoms(sp.formula), reviewed, sp.sigma_G),
+                    c.temperature, constant_cp=not (flag & IntegrationFlag.NO_CP)))
             for key in (sp.source, sp.source2):
                 if key and key not in sources:
                     sources.append(key)

@@ -7,7 +7,7 @@ named; they are the project's choice, not measurements):
   known to about 0.04 kJ/mol; Cox, Wagman & Medvedev 1989), gases 0.3 kJ/mol, aqueous species with
   at most one carbon atom 0.5 kJ/mol, larger aqueous (organic) species 1.0 kJ/mol; species from an
   unreviewed source 2.0 kJ/mol. A species that carries its own ``sigma_G`` (reconciled or estimated
-  species) uses that value.
+  species) uses that value. The hydrogen ion is zero by convention and has σ = 0.
 - Temperature: integration from 298.15 K with a constant heat capacity ignores dCp/dT, whose error
   grows about as (T − Tr)²; the project takes 0.3 kJ/mol per species at ΔT = 55 K (80 °C), so
   that a typical reaction stays near the 0.5 kJ/mol drift against the HKF equations of state
@@ -72,6 +72,18 @@ def base_sigma(state: str, carbon_atoms: int, reviewed: bool = True, own_sigma: 
     if state == "gas":
         return SIGMA_GAS
     return SIGMA_AQUEOUS_SMALL if carbon_atoms <= 1 else SIGMA_AQUEOUS_ORGANIC
+
+
+def is_conventional_zero(species) -> bool:
+    """True for the aqueous hydrogen ion, whose ΔfG°, ΔfH°, S° and Cp° are zero at every
+    temperature by the convention of aqueous thermodynamics (Alberty 2003, sec. 3.1): its energy
+    carries no uncertainty (the protons of an outer fluid included).
+
+    >>> from types import SimpleNamespace as S
+    >>> is_conventional_zero(S(formula="H", charge=1, G=0.0)), is_conventional_zero(S(formula="H2", charge=0, G=17.7))
+    (True, False)
+    """
+    return str(species.formula) in ("H", "H+") and int(species.charge) == 1 and float(species.G) == 0.0
 
 
 def temperature_sigma(temperature: float, constant_cp: bool) -> float:
