@@ -43,10 +43,10 @@ log = logging.getLogger(__name__)
 ALL_MODES = ("native", "h2_only", "no_atp_strict", "no_atp_bare")
 #: Default output folder of :func:`assess` and ``tfa assess``.
 DEFAULT_OUT = "tfa-results"
-#: H2 levels of the scan: one per decade from 1 nM to 10 mM (mol/L; bar for a gas feed).
-DEFAULT_H2_LEVELS = tuple(float(v) for v in np.logspace(-9, -2, 8))
+#: H2 levels of the scan: one per decade from 1 pM to 10 mM (mol/L; bar for a gas feed).
+DEFAULT_H2_LEVELS = tuple(float(v) for v in np.logspace(-12, -2, 11))
 #: Range searched for the H2 threshold (mol/L; bar for a gas feed).
-DEFAULT_H2_RANGE = (1e-9, 1e-2)
+DEFAULT_H2_RANGE = (1e-12, 1e-2)
 #: Draws per mode of the robustness run of an assessment (kept small: about 1.5 s per draw).
 DEFAULT_ROBUSTNESS_DRAWS = 4
 #: Alternative minimal uphill sets asked for per mode (integer cuts).

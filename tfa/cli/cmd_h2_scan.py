@@ -50,7 +50,7 @@ def register(subparsers) -> None:
         epilog="example: tfa h2-scan --levels 1e-9:1e-2:15 --out runs/scan",
     )
     add_network_options(parser)
-    parser.add_argument("--levels", default="1e-9:1e-2:8", metavar="LOW:HIGH:N",
+    parser.add_argument("--levels", default="1e-12:1e-2:11", metavar="LOW:HIGH:N",
                         help="H2 levels: LOW:HIGH:N log-spaced, or V1,V2,... (mol/L; gas feed: bar; "
                         "default 1e-9:1e-2:8)")
     parser.add_argument("--no-uphill", action="store_true",

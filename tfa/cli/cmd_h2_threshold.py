@@ -39,8 +39,8 @@ def register(subparsers) -> None:
         epilog="example: tfa h2-threshold --range 1e-9:1e-2 --mode h2_only",
     )
     add_network_options(parser)
-    parser.add_argument("--range", default="1e-9:1e-2", metavar="LOW:HIGH",
-                        help="H2 range searched (mol/L; gas feed: bar; default 1e-9:1e-2)")
+    parser.add_argument("--range", default="1e-12:1e-2", metavar="LOW:HIGH",
+                        help="H2 range searched (mol/L; gas feed: bar; default 1e-12:1e-2)")
     add_problem_options(parser)
     add_out_option(parser)
     add_common_options(parser)

@@ -114,6 +114,8 @@ def summary_lines(results: Mapping[str, Any]) -> list[str]:
     runs without ATP: no; three steps must be driven uphill: fdh, mtr, acs
     H2 needed: at least 2.30e-05 mol/L
     max-min driving force: 1.84 kJ/mol
+    >>> summary_lines({"h2_threshold": 1e-9, "h2_range": [1e-9, 1e-2]})
+    ['H2 needed: less than the lowest level searched; the network runs down to 1.00e-09 mol/L']
     """
     lines: list[str] = []
     network = results.get("network")
@@ -148,7 +150,14 @@ def summary_lines(results: Mapping[str, Any]) -> list[str]:
                      if searched else "")
             lines.append(f"H2 needed: no amount{where} lets the network run")
         else:
-            lines.append(f"H2 needed: at least {_quantity(float(threshold), unit)}")
+            searched = results.get("h2_range")
+            value = float(threshold)
+            if searched and value <= float(searched[0]) * (1 + 1e-6):
+                # the least H2 searched already suffices: no threshold inside the range
+                lines.append(f"H2 needed: less than the lowest level searched; the network runs "
+                             f"down to {_quantity(float(searched[0]), unit)}")
+            else:
+                lines.append(f"H2 needed: at least {_quantity(value, unit)}")
     force = results.get("driving_force")
     if force is not None and not (isinstance(force, float) and math.isnan(force)):
         line = f"max-min driving force: {force:.3g} kJ/mol"
