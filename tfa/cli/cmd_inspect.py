@@ -16,7 +16,7 @@ import sys
 from pathlib import Path
 
 from ..thermo.database import ThermoDatabase
-from .common import add_common_options, add_conditions_options, print_json, print_table
+from .common import add_common_options, add_network_options, print_json, print_table
 
 #: Provenance text is cut to this many characters in the text output (JSON keeps all of it).
 PROVENANCE_WIDTH = 70
@@ -33,15 +33,7 @@ def register(subparsers) -> None:
         "is inspected at its own environment.",
         epilog="example: tfa inspect models/ancestral_core/reactions.tsv --environment my_vent.toml --json",
     )
-    parser.add_argument("network", metavar="NETWORK", nargs="?",
-                        help="reactions table (.tsv/.csv), a folder with one, or SBML/JSON; "
-                        "default: the bundled network")
-    parser.add_argument("--environment", metavar="FILE",
-                        help="environment file (TOML); default: environment.toml beside the network, "
-                        "else the bundled one")
-    parser.add_argument("--compounds", metavar="FILE",
-                        help="compounds table, when it is not compounds.tsv beside the reactions table")
-    add_conditions_options(parser)
+    add_network_options(parser)
     parser.add_argument("--include-unreviewed", action="store_true",
                         help="also use data from sources that are not peer reviewed")
     parser.add_argument("--no-estimates", action="store_true",

@@ -18,14 +18,13 @@ from ..errors import InputError
 from ..network.thermo_model import MODES
 from .cmd_robustness import (
     add_execution_options,
-    add_network_options,
     execution_kwargs,
     load_network,
     parse_modes,
     progress_printer,
     same_hash_seed,
 )
-from .common import add_common_options, print_json, print_table
+from .common import add_common_options, add_network_options, print_json, print_table
 
 
 def register(subparsers) -> None:

@@ -18,23 +18,10 @@ from pathlib import Path
 from ..errors import InputError
 from ..network.thermo_model import MODES
 from ..util.points import HASH_SEED
-from .common import add_common_options, add_conditions_options, print_json, print_table
+from .common import add_common_options, add_network_options, print_json, print_table
 
 #: Draws of ``tfa robustness`` when ``--draws`` is not given.
 DEFAULT_DRAWS = 100
-
-
-def add_network_options(parser: argparse.ArgumentParser) -> None:
-    """NETWORK, --environment, --compounds and the condition overrides (as ``tfa inspect``)."""
-    parser.add_argument("network", metavar="NETWORK", nargs="?",
-                        help="reactions table (.tsv/.csv), a folder with one, or SBML/JSON; "
-                        "default: the bundled network")
-    parser.add_argument("--environment", metavar="FILE",
-                        help="environment file (TOML); default: environment.toml beside the network, "
-                        "else the bundled one")
-    parser.add_argument("--compounds", metavar="FILE",
-                        help="compounds table, when it is not compounds.tsv beside the reactions table")
-    add_conditions_options(parser)
 
 
 def add_execution_options(parser: argparse.ArgumentParser) -> None:
@@ -110,11 +97,11 @@ def progress_printer(quiet: bool, label: str):
 
 
 def load_network(args: argparse.Namespace):
-    """(model, environment, environment path) as ``tfa inspect`` reads them."""
-    from .cmd_inspect import _load
+    """(model, environment, environment path) as every subcommand reads them."""
+    from .common import load_inputs
 
-    model, environment, _, env_path = _load(args)
-    return model, environment, env_path
+    inputs = load_inputs(args, require_balanced=False)
+    return inputs.model, inputs.environment, Path(inputs.environment_source)
 
 
 def register(subparsers) -> None:
