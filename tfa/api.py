@@ -926,37 +926,15 @@ def _reference_solution(result: Assessment, tm, options):
 def _feasibility(tm, options, alternatives: int):
     """Feasibility with up to ``alternatives`` minimal uphill sets as the diagnosis."""
     from .analyses.feasibility import feasibility
-    from .analyses.uphill import ImpossibleDemandError, minimal_uphill_set
     from .errors import UndeterminedError
 
     try:
-        result = feasibility(tm, options, diagnose=False)
+        return feasibility(tm, options, alternatives=alternatives)
     except UndeterminedError as err:
         from .analyses.feasibility import FeasibilityResult
 
         return FeasibilityResult(conditions=tm.conditions, mode=tm.mode, feasible=False,
                                  message=f"undetermined: {err}")
-    if result.feasible:
-        return result
-    try:
-        diagnosis = minimal_uphill_set(tm, options, alternatives=alternatives)
-    except ImpossibleDemandError as err:
-        result.demand_impossible = True
-        result.message = f"infeasible: {err}"
-        return result
-    except UndeterminedError as err:
-        result.message = f"infeasible; minimal uphill set undetermined: {err}"
-        return result
-    result.diagnosis = diagnosis
-    result.certificates.extend(diagnosis.certificates)
-    members = diagnosis.sets[0] if diagnosis.sets else []
-    amounts = diagnosis.uphill_by[0] if diagnosis.uphill_by else {}
-    listed = ", ".join(f"{r} (uphill by {amounts.get(r, float('nan')):.1f} kJ/mol)" for r in members)
-    result.message = (f"infeasible: at least {diagnosis.size} reaction(s) must be driven uphill "
-                      f"(coupled to an energy source): {listed}"
-                      + (f"; {len(diagnosis.sets)} alternative minimal sets"
-                         if len(diagnosis.sets) > 1 else ""))
-    return result
 
 
 def _ranges_task(task) -> Any:

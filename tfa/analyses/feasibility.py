@@ -76,7 +76,7 @@ class FeasibilityResult(AnalysisResult):
 
 
 def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
-                diagnose: bool = True) -> FeasibilityResult:
+                diagnose: bool = True, alternatives: int = 1) -> FeasibilityResult:
     """Is there a steady state meeting the demand with every reaction carrying flux downhill?
 
     Parameters
@@ -85,6 +85,8 @@ def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
     options : ProblemOptions
     diagnose : bool
         When infeasible, compute the minimal uphill set as the diagnosis.
+    alternatives : int
+        Up to this many minimal uphill sets of the same size in the diagnosis (integer cuts).
 
     Returns
     -------
@@ -126,7 +128,8 @@ def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
                               "downhill")
             return result
         try:
-            diagnosis = minimal_uphill_set(tm, options, try_downhill_first=False)
+            diagnosis = minimal_uphill_set(tm, options, alternatives=alternatives,
+                                           try_downhill_first=False)
         except ImpossibleDemandError as err:
             result.demand_impossible = True
             result.message = f"infeasible: {err}"
@@ -139,7 +142,9 @@ def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
                            for r in members)
         result.message = (f"infeasible: no steady state meets the demand with every reaction "
                           f"downhill; at least {diagnosis.size} reaction(s) must be driven uphill "
-                          f"(coupled to an energy source): {listed}")
+                          f"(coupled to an energy source): {listed}"
+                          + (f"; {len(diagnosis.sets)} alternative minimal sets"
+                             if len(diagnosis.sets) > 1 else ""))
     return result
 
 
