@@ -1,4 +1,9 @@
-"""Impossible demands and contradictory input end with plain words, never a bare solver status."""
+"""Impossible demands and contradictory input end with plain words, never a bare solver status.
+
+The problem is the thermodynamics-based flux problem of Henry, Broadbelt & Hatzimanikatis 2007
+(Biophys. J. 92:1792); a demand that mass balance alone cannot meet is infeasible for it too
+(Orth, Thiele & Palsson 2010, Nat. Biotechnol. 28:245), which the messages must say.
+"""
 
 from __future__ import annotations
 

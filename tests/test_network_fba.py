@@ -1,7 +1,8 @@
 """Plain flux balance on the bundled network in the bundled environment (acceptance of issue 3):
 the native network makes the precursor set from the feed alone, and cannot when H2 or CO2 is
 withheld. Mass balance only (no thermodynamics): a necessary condition the bundled network must
-meet before any energy is asked of it.
+meet before any energy is asked of it. Flux balance as defined by J. D. Orth, I. Thiele and
+B. O. Palsson, Nat. Biotechnol. 28 (2010) 245-248 (steady state S v = 0 within flux bounds).
 """
 
 from __future__ import annotations
