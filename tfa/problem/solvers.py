@@ -57,7 +57,13 @@ def resolve_solver(name: str | None) -> tuple[str, ModuleType]:
         For an unknown name or a solver that is not installed, naming the alternatives.
     """
     if name in (None, "", "auto"):
-        name = DEFAULT_SOLVER if DEFAULT_SOLVER in available_solvers() else "glpk"
+        if DEFAULT_SOLVER in available_solvers():
+            name = DEFAULT_SOLVER
+        else:
+            log.warning("the default solver %s cannot be imported (install the package's "
+                        "dependencies: highspy, scipy); falling back to GLPK, which is much slower "
+                        "on minimal uphill sets", DEFAULT_SOLVER)
+            name = "glpk"
     name = name.lower()
     if name == "glpk":
         import optlang.glpk_interface as glpk_interface
