@@ -19,7 +19,8 @@ def _rows() -> list[dict]:
     if not COMPOUNDS.exists():
         pytest.skip(f"{COMPOUNDS} does not exist yet (bundled network not built)")
     with open(COMPOUNDS, newline="", encoding="utf-8") as handle:
-        rows = [r for r in csv.DictReader(handle, delimiter="\t") if (r.get("smiles") or "").strip()]
+        lines = [line for line in handle if not line.startswith("#")]  # comment lines on top
+    rows = [r for r in csv.DictReader(lines, delimiter="\t") if (r.get("smiles") or "").strip()]
     if not rows:
         pytest.skip(f"{COMPOUNDS} has no 'smiles' entries yet")
     return rows
