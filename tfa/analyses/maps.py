@@ -19,7 +19,6 @@ from __future__ import annotations
 import functools
 import logging
 import math
-import tempfile
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Callable, Sequence
@@ -29,7 +28,7 @@ import pandas as pd
 
 from ..errors import InputError
 from ..network.thermo_model import MODES
-from ..util.points import RunSummary, read_results, run_points
+from ..util.points import RunSummary, run_and_read
 from .jobs import CONDITION_AXES, NetworkJob, outcome
 
 log = logging.getLogger(__name__)
@@ -221,12 +220,9 @@ def condition_map(model, environment, x: tuple[str, Sequence[float]] = ("tempera
     header = {"analysis": "map", "x": [x_name, x_vals], "y": [y_name, y_vals], "modes": modes,
               **job.describe()}
     function = functools.partial(map_point, job)
-    with tempfile.TemporaryDirectory(prefix="tfa-map-") as scratch:
-        path = Path(results_path) if results_path is not None else Path(scratch) / "map.jsonl"
-        summary = run_points(points, function, path, executor=executor, workers=workers,
-                             scheduler=scheduler, resume=resume, overwrite=overwrite, header=header,
-                             progress=progress)
-        _, lines = read_results(path)
+    summary, lines = run_and_read(points, function, results_path, "map.jsonl", executor=executor,
+                                  workers=workers, scheduler=scheduler, resume=resume,
+                                  overwrite=overwrite, header=header, progress=progress)
     records = [_record(p, lines.get(p["id"])) for p in points]
     return MapResult(x_name, x_vals, y_name, y_vals, modes, records, run=summary,
                      provenance={"executor": summary.executor, "seconds": summary.seconds,

@@ -27,7 +27,6 @@ from __future__ import annotations
 import functools
 import logging
 import math
-import tempfile
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Callable, Sequence
@@ -38,7 +37,7 @@ import pandas as pd
 from ..conditions import Conditions
 from ..errors import InputError
 from ..network.thermo_model import MODES
-from ..util.points import RunSummary, read_results, run_points
+from ..util.points import RunSummary, run_and_read
 from .jobs import NetworkJob, outcome
 from .uncertainty import energy_covariance, with_energies
 
@@ -262,12 +261,9 @@ def robustness(model, environment, n_draws: int = 100, seed: int = 0, modes: Seq
     header = {"analysis": "robustness", "seed": int(seed), "n_draws": int(n_draws), "modes": modes,
               "sigma_scale": float(sigma_scale), **job.describe()}
     function = functools.partial(robustness_point, job)
-    with tempfile.TemporaryDirectory(prefix="tfa-robustness-") as scratch:
-        path = Path(results_path) if results_path is not None else Path(scratch) / "draws.jsonl"
-        summary = run_points(points, function, path, executor=executor, workers=workers,
-                             scheduler=scheduler, resume=resume, overwrite=overwrite, header=header,
-                             progress=progress)
-        _, lines = read_results(path)
+    summary, lines = run_and_read(points, function, results_path, "draws.jsonl", executor=executor,
+                                  workers=workers, scheduler=scheduler, resume=resume,
+                                  overwrite=overwrite, header=header, progress=progress)
     records = [_record(p, lines.get(p["id"])) for p in points]
     conditions = getattr(environment, "conditions", None)
     return RobustnessResult(modes=modes, n_draws=int(n_draws), seed=int(seed),
