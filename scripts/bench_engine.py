@@ -8,7 +8,7 @@ instance is feasible and the timings mean something):
 
 1. a loopless flux solution v* (cobra's CycleFreeFlux LP) at the maximal growth rate;
 2. chemical potentials mu (kJ/mol) closest in L1 to random normal targets (seed 20240601,
-   sd 20 kJ/mol) such that every internal reaction carrying flux in v* has S_j^T mu <= -1 in its
+   sd 20 kJ/mol; other seeds with --seeds) such that every internal reaction carrying flux in v* has S_j^T mu <= -1 in its
    direction (such mu exist because v* has no internal cycle, Schellenberger et al. 2011);
 3. Delta_r G'deg_j = S_j^T mu - RT sum_i S_ij ln(1e-4): at 0.1 mM of every compound
    (mid-range of 1 uM .. 10 mM) each reaction carrying flux in v* is downhill by >= 1 kJ/mol.
@@ -18,8 +18,12 @@ balance (add_loopless, MILP), our feasibility (build + solve), our minimal uphil
 solve), a 20-point H2 scan (build once + 20 solves). Medians of repeated runs; ratios to plain
 flux balance and to loopless on the same solver.
 
+A summary at the end gives, per network and solver, the ratios the engine is judged by: our
+feasibility against loopless flux balance on the same solver, the build time, and the 20-point
+scan against one feasibility solve.
+
 Usage: python scripts/bench_engine.py [--repeats 3] [--skip-genome] [--skip-bundled]
-       [--time-limit 300]
+       [--time-limit 300] [--seeds 20240601,7,3] [--solvers glpk,highs]
 """
 
 from __future__ import annotations
@@ -40,7 +44,7 @@ H2_RANGE = (1e-9, 1e-2)
 PROTON_AND_WATER = {"h_c", "h_p", "h_e", "h2o_c", "h2o_p", "h2o_e"}
 
 
-def synthetic_genome_model(solver_module):
+def synthetic_genome_model(solver_module, seed: int = SEED):
     """iJO1366 with synthetic, feasible-by-construction reaction energies (see module text)."""
     import cobra
     from cobra.flux_analysis import loopless_solution
@@ -69,7 +73,7 @@ def synthetic_genome_model(solver_module):
             vals.append(sign * c)
     n_m, n_c = len(mets), len(carrying)
     a_dir = coo_matrix((vals, (rows, cols)), shape=(n_c, n_m))
-    rng = np.random.default_rng(SEED)
+    rng = np.random.default_rng(seed)
     target = rng.normal(0.0, 20.0, n_m)
     eye = identity(n_m)
     # variables [mu, t]; minimise sum t with t >= |mu - target|; direction rows: S^T mu <= -1
@@ -90,7 +94,7 @@ def synthetic_genome_model(solver_module):
         chem = sum(c * mu[m_index[m.id]] for m, c in r.metabolites.items())
         activity = sum(c for m, c in r.metabolites.items() if m.id not in PROTON_AND_WATER)
         energies[r.id] = ReactionEnergy(r.id, chem - rt * activity * x_mid, 2.0, "placeholder",
-                                        f"SYNTHETIC energy (seed {SEED}), not data")
+                                        f"SYNTHETIC energy (seed {seed}), not data")
     lo, hi = math.log(CONC_RANGE[0]), math.log(CONC_RANGE[1])
     log_bounds = {m.id: (lo, hi) for m in mets}
     biomass.lower_bound = 0.5 * optimum
@@ -192,6 +196,8 @@ def main(argv=None) -> int:
     parser.add_argument("--skip-bundled", action="store_true")
     parser.add_argument("--solvers", default="glpk,highs")
     parser.add_argument("--time-limit", type=float, default=300.0)
+    parser.add_argument("--seeds", default=str(SEED),
+                        help="comma-separated seeds of the synthetic iJO1366 energies")
     args = parser.parse_args(argv)
     logging.basicConfig(level=logging.WARNING, format="%(message)s")
     logging.getLogger("bench").setLevel(logging.INFO)
@@ -208,8 +214,10 @@ def main(argv=None) -> int:
         except ImportError as err:
             print(f"bundled network skipped: {err}")
     if not args.skip_genome:
-        networks.append(("iJO1366 (SYNTHETIC energies, seed %d)" % SEED,
-                         lambda solver: synthetic_genome_model(resolve_solver(solver)[1])))
+        for seed in (int(s) for s in args.seeds.split(",")):
+            networks.append((f"iJO1366 (SYNTHETIC energies, seed {seed})",
+                             lambda solver, seed=seed: synthetic_genome_model(
+                                 resolve_solver(solver)[1], seed)))
     rows = []
     for label, make in networks:
         for solver in args.solvers.split(","):
@@ -227,7 +235,30 @@ def main(argv=None) -> int:
                 else:
                     print(f"  {task:34s} {value}", flush=True)
             rows.append((label, solver, result))
+    print_summary(rows)
     return 0
+
+
+def print_summary(rows: list) -> None:
+    """One line per network and solver: the three ratios the engine is judged by."""
+    def ratio(a, b):
+        return f"{a / b:8.2f}" if isinstance(a, float) and isinstance(b, float) and b > 0 else \
+            f"{'n/a':>8s}"
+
+    print("\n== summary (times in s; 'n/a' where a task hit its time limit)")
+    print(f"  {'network':44s} {'solver':6s} {'loopless':>9s} {'ours':>9s} {'ours/ll':>8s} "
+          f"{'build':>7s} {'scan':>9s} {'scan/ours':>9s}")
+    for label, solver, result in rows:
+        ll = result.get("loopless flux balance (MILP)")
+        ours = result.get("our feasibility")
+        scan = result.get("our 20-point H2 scan")
+        build = result.get("  build of our problem")
+
+        def shown(value):
+            return f"{value:9.2f}" if isinstance(value, float) else f"{'undet.':>9s}"
+
+        print(f"  {label[:44]:44s} {solver:6s} {shown(ll)} {shown(ours)} {ratio(ours, ll)} "
+              f"{build:7.2f} {shown(scan)} {ratio(scan, ours):>9s}")
 
 
 if __name__ == "__main__":

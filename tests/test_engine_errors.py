@@ -94,3 +94,37 @@ def test_model_left_as_it_was():
     feasibility(tm)
     after = (len(tm.model.solver.variables), len(tm.model.solver.constraints))
     assert before == after
+
+
+def test_glpk_answers_infeasible_with_one_branch_and_bound(monkeypatch):
+    # optlang's own GLPK optimize solves the relaxation first and repeats the whole solve when
+    # the answer is not "optimal"; tfa.problem.solvers.optimize calls glp_intopt once, so a
+    # "no" costs what a "yes" costs. B >= 0.5 M makes R1 uphill everywhere: -5 + RT ln(500)
+    # = +10.4 kJ/mol at 298.15 K (Alberty 2003, eq. 4.1-4).
+    import swiglpk
+
+    calls = []
+    real = swiglpk.glp_intopt
+    monkeypatch.setattr(swiglpk, "glp_intopt", lambda lp, parm: calls.append(1) or real(lp, parm))
+    with ThermoProblem(net("glpk", b_bounds=(0.5, 1.0)), ProblemOptions(solver="glpk")) as problem:
+        with pytest.raises(InfeasibleProblem, match="no point satisfies"):
+            problem.solve()
+    assert calls == [1]
+
+
+def test_glpk_time_limit_is_reported_as_undetermined(monkeypatch):
+    # a branch and bound stopped by its time limit (GLPK's return code GLP_ETMLIM) must read
+    # "undetermined within N s", never a guess and never a silent second run
+    import swiglpk
+
+    calls = []
+
+    def stopped(lp, parm):
+        calls.append(parm.tm_lim)
+        return swiglpk.GLP_ETMLIM
+
+    monkeypatch.setattr(swiglpk, "glp_intopt", stopped)
+    with ThermoProblem(net("glpk"), ProblemOptions(solver="glpk", time_limit=3)) as problem:
+        with pytest.raises(UndeterminedError, match="undetermined within 3 s"):
+            problem.solve()
+    assert calls == [3000]

@@ -12,7 +12,6 @@ the most uphill step can be made.
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field, replace
 
 import numpy as np
@@ -22,7 +21,7 @@ from optlang.symbolics import Zero
 from ..errors import InputError, MissingDataError
 from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions, ThermoProblem
-from ..problem.solvers import InfeasibleProblem, check_status, resolve_solver
+from ..problem.solvers import InfeasibleProblem, check_status, optimize, resolve_solver
 from ..verify.certificate import CertificateInput, check_solution
 from .results import AnalysisResult, certify, provenance_of
 
@@ -129,9 +128,7 @@ def pathway_driving_force(tm: ThermoModel, directions: dict[str, int],
         c.set_linear_coefficients(cf)
     lp.objective = module.Objective(Zero, direction="max", sloppy=True)
     lp.objective.set_linear_coefficients({bvar: 1.0})
-    if options.time_limit is not None:
-        lp.configuration.timeout = int(math.ceil(options.time_limit))
-    status = lp.optimize()
+    status = optimize(lp, options.time_limit)
     check_status(status, "driving force of the pathway", options.time_limit)
     b = float(bvar.primal)
     x = np.array([v.primal for v in xs], float)
