@@ -1,0 +1,62 @@
+"""How tfa calls the two solvers: one solver call per question, HiGHS with its presolve on, and
+a yes/no question answered by the first point found.
+
+These guard measured choices (scripts/bench_engine.py: on iJO1366 with synthetic energies HiGHS
+without presolve took 8.0 s where it takes 2.1 s with it; GLPK without the first-point search
+took 13-60+ s where it takes about 4 s). The answers themselves are checked against hand-derived
+values in tests/test_engine_small.py.
+"""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+import pytest
+
+sys.path.insert(0, str(Path(__file__).parent))
+from engine_networks import build_thermo_model  # noqa: E402
+
+from tfa.analyses import feasibility, minimal_uphill_set  # noqa: E402
+from tfa.problem import ProblemOptions, available_solvers  # noqa: E402
+from tfa.problem.solvers import GLPK_ANY_POINT_GAP  # noqa: E402
+
+
+def one_step(solver: str, b_bounds: tuple = (1e-6, 1e-2)):
+    # A (fed at 1 mM) <=> B with Delta_r G'deg = -5 kJ/mol; B drained by a demand of 1. With
+    # B down to 1 uM the step is downhill: -5 + RT ln(1e-6 / 1e-3) = -22.1 kJ/mol at 298.15 K
+    # (Alberty 2003, eq. 4.1-4), so the network is feasible.
+    return build_thermo_model({"R1": ("A <=> B", -5.0, 1.0)}, {"A": (1e-3, 1e-3), "B": b_bounds},
+                              exchanges={"A": (-10, 10)}, demand=("B", 1.0), solver=solver)
+
+
+@pytest.mark.skipif("highs" not in available_solvers(), reason="highspy is a declared dependency")
+def test_highs_runs_with_its_presolve():
+    from tfa.problem import highs_interface
+
+    model = highs_interface.Model()
+    assert model.configuration.presolve == "auto"
+    assert model.problem._options().presolve == "choose"   # HiGHS: "choose" = presolve on
+
+
+def test_glpk_stops_at_the_first_point_only_for_yes_no_questions(monkeypatch):
+    import swiglpk
+
+    seen = []
+    real = swiglpk.glp_intopt
+
+    def spy(lp, parm):
+        seen.append((parm.mip_gap, parm.bt_tech))
+        return real(lp, parm)
+
+    monkeypatch.setattr(swiglpk, "glp_intopt", spy)
+    answer = feasibility(one_step("glpk"), ProblemOptions(solver="glpk"))
+    assert answer.feasible and answer.certificates[0].passed
+    assert seen == [(GLPK_ANY_POINT_GAP, swiglpk.GLP_BT_BPH)]
+    seen.clear()
+    # the minimal uphill set first asks the yes/no question (is it feasible as it stands?), then
+    # minimises the number of uphill steps: that optimisation must be proven, not cut short
+    uphill = minimal_uphill_set(one_step("glpk", b_bounds=(0.5, 1.0)), ProblemOptions(solver="glpk"))
+    assert uphill.size == 1      # B >= 0.5 M: -5 + RT ln(500) = +10.4 kJ/mol, uphill everywhere
+    assert seen[0][0] == GLPK_ANY_POINT_GAP
+    assert len(seen) >= 2 and all(gap < 1.0 for gap, _ in seen[1:])
