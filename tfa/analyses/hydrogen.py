@@ -117,7 +117,7 @@ def h2_scan(tm: ThermoModel, levels: Sequence[float], options: ProblemOptions | 
                         sol = None
                 if sol is None:
                     sol = problem.solve(f"H2 scan at {level:.3g}")
-                pattern = (sol.forward, sol.backward)
+                pattern = problem.flux_pattern(sol)
             except InfeasibleProblem:
                 row.update(feasible=False, driving_force_kJ=float("nan"))
             else:
