@@ -60,3 +60,28 @@ def test_glpk_stops_at_the_first_point_only_for_yes_no_questions(monkeypatch):
     assert uphill.size == 1      # B >= 0.5 M: -5 + RT ln(500) = +10.4 kJ/mol, uphill everywhere
     assert seen[0][0] == GLPK_ANY_POINT_GAP
     assert len(seen) >= 2 and all(gap < 1.0 for gap, _ in seen[1:])
+
+
+@pytest.mark.skipif("highs" not in available_solvers(), reason="highspy is a declared dependency")
+def test_highs_removal_keeps_expressions_so_a_row_can_come_back():
+    # tfa's HiGHS interface removes rows in one pass; a removed row must keep its expression, as
+    # cobra re-adds removed constraints when a `with model:` block ends. Reference value: the
+    # E. coli core model grows at 0.874 /h on glucose (Orth, Thiele & Palsson 2010, Nat.
+    # Biotechnol. 28:245, the textbook model bundled with cobra).
+    import cobra
+
+    from tfa.problem.solvers import use_solver
+
+    model = cobra.io.load_model("textbook")
+    use_solver(model, "highs")
+    assert model.slim_optimize() == pytest.approx(0.8739, abs=1e-4)
+    row = model.solver.constraints["pyr_c"]
+    coefficients = {v.name: c for v, c in row.get_linear_coefficients(row.variables).items()}
+    model.solver.remove([row])
+    assert "pyr_c" not in model.solver.constraints
+    # without the pyruvate balance, pyruvate comes from nothing and growth rises
+    assert model.slim_optimize() > 0.8739 + 0.1
+    kept = {v.name: float(c) for v, c in row.expression.as_coefficients_dict().items()}
+    assert kept == pytest.approx(coefficients)
+    model.solver.add([row])
+    assert model.slim_optimize() == pytest.approx(0.8739, abs=1e-4)

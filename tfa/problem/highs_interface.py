@@ -197,5 +197,51 @@ class Configuration(mi.Configuration):
 
 
 class Model(mi.Model):
+    """optlang's matrix model with HiGHS, and removal of many rows and columns in one pass.
+
+    optlang's matrix interface re-reads each removed constraint's expression by scanning every
+    coefficient of the matrix, and re-indexes its containers after each removed item: taking the
+    7,800 rows and 9,000 columns of the thermodynamic problem of iJO1366 off again took 180 s
+    (the solve took 0.6 s). Here the removed rows' expressions are collected in one pass over
+    the coefficients (detached constraints keep correct expressions, so cobra can add them back)
+    and the containers are rebuilt once.
+    """
+
     ProblemClass = HighsProblem
     status_map = _STATUS_MAP
+
+    def _remove_constraints(self, constraints) -> None:
+        from optlang.container import Container
+        from optlang.symbolics import Real, Zero, add, mul
+
+        names = {c.name for c in constraints}
+        for name in names:
+            if name not in self._constraints:
+                raise LookupError(f"Constraint {name} not in solver")
+        terms: dict[str, list] = {name: [] for name in names}
+        variables = self._variables
+        for (cname, vname), coef in self.problem.constraint_coefs.items():
+            if cname in names:
+                terms[cname].append(mul((Real(coef), variables[vname])))
+        for c in constraints:
+            c._expression = add(terms[c.name]) if terms[c.name] else Zero
+            c._problem = None
+        self._constraints = Container(c for c in self._constraints if c.name not in names)
+        for name in names:
+            self.problem.constraints.discard(name)
+        self.problem.prune()
+
+    def _remove_variables(self, variables) -> None:
+        from optlang.container import Container
+
+        names = {v.name for v in variables}
+        if self.objective is not None:
+            self.objective._expression = self.objective.expression.xreplace(
+                {v: 0 for v in variables})
+        for v in variables:
+            del self._variables_to_constraints_mapping[v.name]
+            v.problem = None
+        self._variables = Container(v for v in self._variables if v.name not in names)
+        for name in names:
+            self.problem.variables.discard(name)
+        self.problem.prune()
