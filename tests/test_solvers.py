@@ -3,7 +3,7 @@ a yes/no question answered by the first point found.
 
 These guard measured choices (scripts/bench_engine.py: on iJO1366 with synthetic energies HiGHS
 without presolve took 8.0 s where it takes 2.1 s with it; GLPK without the first-point search
-took 13-60+ s where it takes about 4 s). The answers themselves are checked against hand-derived
+took 13-60+ s with its default search where best projection takes about 4-5 s). The answers themselves are checked against hand-derived
 values in tests/test_engine_small.py.
 """
 
@@ -19,7 +19,6 @@ from engine_networks import build_thermo_model  # noqa: E402
 
 from tfa.analyses import feasibility, minimal_uphill_set  # noqa: E402
 from tfa.problem import ProblemOptions, available_solvers  # noqa: E402
-from tfa.problem.solvers import GLPK_ANY_POINT_GAP  # noqa: E402
 
 
 def one_step(solver: str, b_bounds: tuple = (1e-6, 1e-2)):
@@ -39,27 +38,27 @@ def test_highs_runs_with_its_presolve():
     assert model.problem._options().presolve == "choose"   # HiGHS: "choose" = presolve on
 
 
-def test_glpk_stops_at_the_first_point_only_for_yes_no_questions(monkeypatch):
+def test_glpk_searches_for_a_first_point_only_in_yes_no_questions(monkeypatch):
     import swiglpk
 
     seen = []
     real = swiglpk.glp_intopt
 
     def spy(lp, parm):
-        seen.append((parm.mip_gap, parm.bt_tech))
+        seen.append(parm.bt_tech)
         return real(lp, parm)
 
     monkeypatch.setattr(swiglpk, "glp_intopt", spy)
     answer = feasibility(one_step("glpk"), ProblemOptions(solver="glpk"))
     assert answer.feasible and answer.certificates[0].passed
-    assert seen == [(GLPK_ANY_POINT_GAP, swiglpk.GLP_BT_BPH)]
+    assert seen == [swiglpk.GLP_BT_BPH]
     seen.clear()
     # the minimal uphill set first asks the yes/no question (is it feasible as it stands?), then
     # minimises the number of uphill steps: that optimisation must be proven, not cut short
     uphill = minimal_uphill_set(one_step("glpk", b_bounds=(0.5, 1.0)), ProblemOptions(solver="glpk"))
     assert uphill.size == 1      # B >= 0.5 M: -5 + RT ln(500) = +10.4 kJ/mol, uphill everywhere
-    assert seen[0][0] == GLPK_ANY_POINT_GAP
-    assert len(seen) >= 2 and all(gap < 1.0 for gap, _ in seen[1:])
+    assert seen[0] == swiglpk.GLP_BT_BPH
+    assert len(seen) >= 2 and all(bt == swiglpk.GLP_BT_BLB for bt in seen[1:])
 
 
 @pytest.mark.skipif("highs" not in available_solvers(), reason="highspy is a declared dependency")

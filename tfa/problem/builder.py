@@ -54,13 +54,6 @@ HIGHS_HEURISTIC_EFFORT = 0.25
 #: GLPK feasibility pump (``fp_heur``) for our MILPs: off, as GLPK's default; measured on iJO1366
 #: with synthetic energies it changed nothing (45 s on, 44 s off).
 GLPK_FEASIBILITY_PUMP = False
-#: Guide GLPK's search in a pure feasibility problem by minimising the total flux, stopping at the
-#: first integer point (tfa.problem.solvers.optimize, first_point). Measured on iJO1366 with
-#: synthetic energies (scripts/bench_engine.py), GLPK 5.0, branch and bound alone, 60 s limit,
-#: seeds 20240601 / 7 / 3 / 11: 4.0 / 5.3 / 5.5 / 5.2 s guided; 20.7 / 13.2 / 12.9 / not solved
-#: in 60 s without objective (other branching rules did not help: best over the seeds 12-30 s).
-#: HiGHS is faster without it (seed 20240601: 8.7 s without, 12.9 s with), so it is GLPK only.
-GLPK_SEARCH_GUIDE = True
 
 
 @dataclass
@@ -391,17 +384,9 @@ class ThermoProblem:
 
     # ------------------------------------------------------------------ changes
     def set_objective(self, coefficients: dict, direction: str = "min") -> None:
-        """Replace the objective by a linear one (empty: a pure feasibility problem).
-
-        A pure feasibility problem stops at the first point found. With GLPK its search is
-        guided by the total flux sum_j (v_fwd_j + v_rev_j) (:data:`GLPK_SEARCH_GUIDE`); HiGHS gets
-        no objective. Either way the answer is any certified point, not an optimum.
-        """
+        """Replace the objective by a linear one (empty: a pure feasibility problem, whose
+        answer is the first point found)."""
         self._objective_is_zero = not coefficients
-        if not coefficients and self.solver_name == "glpk" and GLPK_SEARCH_GUIDE:
-            coefficients = {v: 1.0 for r in self.reactions
-                            for v in (r.forward_variable, r.reverse_variable)}
-            direction = "min"
         objective = self.solver.interface.Objective(Zero, direction=direction, sloppy=True)
         self.solver.objective = objective
         if coefficients:

@@ -27,15 +27,15 @@ DEFAULT_SOLVER = "highs"
 
 SOLVER_NAMES = ("glpk", "highs")
 
-#: Relative gap at which GLPK stops when the question is only "is there a point?": any gap, so
-#: the first integer point found ends the search (GLPK returns GLP_EMIPGAP with it).
-GLPK_ANY_POINT_GAP = 1e300
-#: GLPK backtracking for such searches: best projection (GLP_BT_BPH), which heads for integer
-#: points, instead of best local bound, which with the total-flux guide of
-#: tfa.problem.builder.GLPK_SEARCH_GUIDE wandered among low-flux nodes. Measured (feasibility,
-#: guided): bundled network, native mode 0.17 s (best local bound 24.8 s, depth first 0.47 s);
-#: iJO1366 with synthetic energies, seeds 20240601 / 11 / 7 / 3, branch and bound alone:
-#: 4.3 / 4.1 / 4.1 / 4.2 s (depth first 4.6 / 4.5 / 4.1 / 4.7 s).
+#: GLPK backtracking when the question is only "is there a point?" (the problem has no
+#: objective and the first integer point found ends the search): best projection (GLP_BT_BPH)
+#: instead of GLPK's default, best local bound, which with no objective has nothing to rank the
+#: open nodes by. Measured (scripts/bench_engine.py energies; GLPK 5.0, branch and bound alone):
+#: iJO1366 with synthetic energies, seeds 20240601 / 11 / 7 / 3: 5.0 / 4.2 / 4.2 / 5.2 s with best
+#: projection, 20.7 / not solved in 60 s / 13.2 / 12.9 s with best local bound; the bundled
+#: network at H2 1e-9 / 1e-5 / 1e-3 mol/L: 0.19 / 0.18 / 0.20 s (depth first 12.6 / 28.6 / >60 s).
+#: Guiding the search by the total flux gave the same on iJO1366 but up to 2 s on the bundled
+#: network, so there is no guide.
 GLPK_ANY_POINT_BACKTRACKING = "GLP_BT_BPH"
 
 
@@ -162,10 +162,10 @@ def optimize(model_solver, time_limit: float | None, first_point: bool = False) 
     answer is "infeasible" or the time limit is hit: an infeasible answer cost four times a
     feasible one and a time limit of N s could run for 4N s.
 
-    ``first_point``: the question is whether any point exists, the objective only guides the
-    search; GLPK stops at the first integer point (:data:`GLPK_ANY_POINT_GAP`) and the status is
-    OPTIMAL. Leave it False for a real optimisation. (HiGHS is given no objective for such
-    questions and stops at its first integer point by itself.)
+    ``first_point``: the question is whether any point exists (no objective); GLPK searches by
+    :data:`GLPK_ANY_POINT_BACKTRACKING` and the first integer point found is the answer (status
+    OPTIMAL). Leave it False for a real optimisation. HiGHS stops at its first integer point by
+    itself when there is no objective.
     """
     model_solver.configuration.timeout = None if time_limit is None else int(math.ceil(time_limit))
     if solver_name_of(model_solver) != "glpk":
@@ -198,7 +198,6 @@ def _optimize_glpk(model_solver, time_limit: float | None, first_point: bool) ->
         iocp.msg_lev = glpk.GLP_MSG_OFF
         iocp.tm_lim = limit_ms
         if first_point:
-            iocp.mip_gap = GLPK_ANY_POINT_GAP
             iocp.bt_tech = getattr(glpk, GLPK_ANY_POINT_BACKTRACKING)
         code = glpk.glp_intopt(lp, iocp)
         solved_status = glpk.glp_mip_status
