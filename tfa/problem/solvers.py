@@ -17,12 +17,11 @@ from ..errors import ComputationError, InputError, UndeterminedError
 
 log = logging.getLogger(__name__)
 
-#: Solver chosen when none is given, from scripts/bench_engine.py (2 shared cores, loaded):
-#: on the bundled network HiGHS solves every analysis in seconds (bare-chemistry uphill set,
-#: 2 alternatives + 20-point scan + threshold: ~7-11 s) where GLPK does not prove the
-#: bare-chemistry minimal uphill set within 120 s; on iJO1366 with synthetic energies GLPK is
-#: faster for one feasibility solve (28 s against 7-150 s for HiGHS, which varies with column
-#: order). The networks this tool is for are of the bundled kind, hence HiGHS when installed.
+#: Solver chosen when none is given, from scripts/bench_engine.py (2 shared cores, medians of 3,
+#: one run side by side, 2026-12-02). HiGHS: bundled network feasibility 0.16 s, 20-point H2 scan
+#: 0.61 s; iJO1366 with synthetic energies feasibility 2.2 s (cobra's loopless 3.6 s), scan 6.3 s.
+#: GLPK: bundled 0.28 s and 4.4 s; iJO1366 feasibility 29 s (4-60 s from run to run: its branch
+#: and bound depends on the starting basis) and the scan undetermined within 120 s. Hence HiGHS.
 DEFAULT_SOLVER = "highs"
 
 SOLVER_NAMES = ("glpk", "highs")
@@ -34,6 +33,8 @@ SOLVER_NAMES = ("glpk", "highs")
 #: iJO1366 with synthetic energies, seeds 20240601 / 11 / 7 / 3: 5.0 / 4.2 / 4.2 / 5.2 s with best
 #: projection, 20.7 / not solved in 60 s / 13.2 / 12.9 s with best local bound; the bundled
 #: network at H2 1e-9 / 1e-5 / 1e-3 mol/L: 0.19 / 0.18 / 0.20 s (depth first 12.6 / 28.6 / >60 s).
+#: These are first solves of a fresh problem; solved again after other solves (another starting
+#: basis) the iJO1366 problem of seed 20240601 took 19-26 s: GLPK stays erratic on it.
 #: Guiding the search by the total flux gave the same on iJO1366 but up to 2 s on the bundled
 #: network, so there is no guide.
 GLPK_ANY_POINT_BACKTRACKING = "GLP_BT_BPH"
