@@ -52,7 +52,7 @@ def register(subparsers) -> None:
     add_network_options(parser)
     parser.add_argument("--levels", default="1e-12:1e-2:11", metavar="LOW:HIGH:N",
                         help="H2 levels: LOW:HIGH:N log-spaced, or V1,V2,... (mol/L; gas feed: bar; "
-                        "default 1e-9:1e-2:8)")
+                        "default %(default)s)")
     parser.add_argument("--no-uphill", action="store_true",
                         help="skip the minimal-uphill-set size at infeasible levels (faster)")
     add_problem_options(parser)

@@ -40,7 +40,7 @@ def register(subparsers) -> None:
     )
     add_network_options(parser)
     parser.add_argument("--range", default="1e-12:1e-2", metavar="LOW:HIGH",
-                        help="H2 range searched (mol/L; gas feed: bar; default 1e-12:1e-2)")
+                        help="H2 range searched (mol/L; gas feed: bar; default %(default)s)")
     add_problem_options(parser)
     add_out_option(parser)
     add_common_options(parser)
