@@ -304,9 +304,10 @@ class ThermoProblem:
         solver.add(new_vars)
         self._variables = new_vars
         if self.solver_name == "highs":
-            # measured on iJO1366 with synthetic energies (scripts/bench_engine.py): a zero-
-            # objective feasibility MILP solved in 23 s with HiGHS's default heuristic effort
-            # (0.05) and in 6.7 s with 0.25
+            # measured on iJO1366 with synthetic energies (scripts/bench_engine.py), zero-
+            # objective feasibility MILP: without presolve 23 s with HiGHS's default heuristic
+            # effort (0.05), 6.7 s with 0.25; with presolve (now on) seeds 20240601 / 11 took
+            # 1.3 / 6.0 s with 0.05, 2.1 / 5.1 s with 0.25, 1.5 / 5.6 s with 1.0: kept at 0.25
             solver.problem.settings.setdefault("highs_options", {})["mip_heuristic_effort"] = \
                 HIGHS_HEURISTIC_EFFORT
         elif self.solver_name == "glpk":
