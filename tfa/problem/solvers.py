@@ -20,21 +20,20 @@ log = logging.getLogger(__name__)
 #: Solver chosen when none is given, from scripts/bench_engine.py (2 shared cores, medians of 3,
 #: one run side by side, 2026-12-02). HiGHS: bundled network feasibility 0.16 s, 20-point H2 scan
 #: 0.61 s; iJO1366 with synthetic energies feasibility 2.2 s (cobra's loopless 3.6 s), scan 6.3 s.
-#: GLPK: bundled 0.28 s and 4.4 s; iJO1366 feasibility 29 s (22-31 s in five runs; cobra's
+#: GLPK: bundled 0.28 s and 4.4 s; iJO1366 feasibility 29 s (28 and 31 s in two more runs; cobra's
 #: loopless 2.5 s) and the scan undetermined within 120 s. Hence HiGHS.
 DEFAULT_SOLVER = "highs"
 
 SOLVER_NAMES = ("glpk", "highs")
 
 #: GLPK backtracking when the question is only "is there a point?" (the problem has no
-#: objective and the first integer point found ends the search): best projection (GLP_BT_BPH)
-#: instead of GLPK's default, best local bound, which with no objective has nothing to rank the
-#: open nodes by. Measured through tfa.problem.builder (integrality tolerance 1e-9): the bundled
-#: network at H2 1e-9 / 1e-5 / 1e-3 mol/L: 0.19 / 0.18 / 0.20 s (depth first 12.6 / 28.6 / >60 s;
-#: best local bound 0.16-0.20 s here but 24.8 s in native mode with an objective-like guide).
-#: On iJO1366 with synthetic energies the branch and bound alone took 4-5 s with best projection
-#: and 13 to over 60 s with best local bound, but only at GLPK's default integrality tolerance
-#: (1e-5), whose solutions fail the certificate; at 1e-9 the whole feasibility takes 22-31 s.
+#: objective and the first integer point found ends the search): best projection (GLP_BT_BPH),
+#: which heads for integer points. Measured through tfa.problem.builder (integrality tolerance
+#: 1e-9), bundled network at H2 1e-9 / 1e-5 / 1e-3 mol/L: 0.19 / 0.18 / 0.20 s, against 0.16 /
+#: 0.18 / 0.20 s for GLPK's default (best local bound) and 12.6 / 28.6 / >60 s for depth first;
+#: iJO1366 with synthetic energies: 28-31 s, as with the default (28 s). No better choice was
+#: found; at GLPK's default integrality tolerance (1e-5) the iJO1366 search takes 4-5 s, but its
+#: solutions fail the certificate.
 GLPK_ANY_POINT_BACKTRACKING = "GLP_BT_BPH"
 
 
