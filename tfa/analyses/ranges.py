@@ -2,7 +2,8 @@
 over the feasible set (thermodynamic variability analysis, Henry, Broadbelt & Hatzimanikatis
 2007, Biophys. J. 92:1792). Two MILPs per quantity on one problem built once; each optimum is
 certified. A MILP is skipped when an earlier certified solution already sits on the bound of
-the quantity's box (nothing feasible lies beyond it), which saves most concentration solves. Units: kJ/mol and mol/L (or bar).
+the quantity's box (nothing feasible lies beyond it), which saves most concentration solves.
+Units: kJ/mol and mol/L (or bar).
 """
 
 from __future__ import annotations

@@ -19,7 +19,9 @@ import logging
 import numpy as np
 import optlang.matrix_interface as mi
 from optlang import interface
+from optlang.container import Container
 from optlang.exceptions import SolverError
+from optlang.symbolics import Real, Zero, add, mul
 
 import highspy as hs
 
@@ -211,9 +213,6 @@ class Model(mi.Model):
     status_map = _STATUS_MAP
 
     def _remove_constraints(self, constraints) -> None:
-        from optlang.container import Container
-        from optlang.symbolics import Real, Zero, add, mul
-
         names = {c.name for c in constraints}
         for name in names:
             if name not in self._constraints:
@@ -232,8 +231,6 @@ class Model(mi.Model):
         self.problem.prune()
 
     def _remove_variables(self, variables) -> None:
-        from optlang.container import Container
-
         names = {v.name for v in variables}
         if self.objective is not None:
             self.objective._expression = self.objective.expression.xreplace(
