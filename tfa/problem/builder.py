@@ -27,13 +27,15 @@ import time
 from dataclasses import dataclass, field
 
 import numpy as np
+from optlang import interface as optlang_status
 from optlang.symbolics import Zero
 
 from ..errors import InputError, MissingDataError
 from ..network.thermo_model import ThermoModel
 from ..verify.certificate import CertificateInput
 from .bigm import direction_big_m, energy_intervals
-from .solvers import check_status, optimize, solver_name_of, use_solver
+from .bulk import remove_rows_and_columns, set_rows
+from .solvers import InfeasibleProblem, check_status, optimize, solver_name_of, use_solver
 
 log = logging.getLogger(__name__)
 
@@ -80,6 +82,9 @@ class ProblemOptions:
     log_bound_overrides : dict
         Metabolite id -> (ln lo, ln hi) used instead of the model's bounds at build time (the
         envelope of an H2 scan or threshold; later bound changes must stay inside it).
+    least_flux_start : bool
+        For yes/no questions (no objective), first try the flux pattern of least total flux as a
+        linear program (:meth:`ThermoProblem.solve`); the MILP runs only when that finds no point.
     """
 
     solver: str | None = None
@@ -90,6 +95,7 @@ class ProblemOptions:
     uphill: bool = False
     driving_force: bool = False
     log_bound_overrides: dict[str, tuple[float, float]] = field(default_factory=dict)
+    least_flux_start: bool = True
 
     def __post_init__(self) -> None:
         if self.unknown_energy not in UNKNOWN_ENERGY_POLICIES:
@@ -109,6 +115,7 @@ class ProblemOptions:
             "uncertainty_k": self.uncertainty_k,
             "unknown_energy": self.unknown_energy,
             "time_limit_s": self.time_limit,
+            "least_flux_start": self.least_flux_start,
         }
 
 
@@ -372,7 +379,7 @@ class ThermoProblem:
         solver.add(constraints, sloppy=True)
         solver.update()
         self._constraints = constraints
-        _set_rows(solver, constraints, [r[3] for r in rows])
+        set_rows(solver, constraints, [r[3] for r in rows])
 
         if opts.unknown_energy == "block":
             for rid in self.unknown_energy_ids:
@@ -433,12 +440,63 @@ class ThermoProblem:
 
     # ------------------------------------------------------------------ solve
     def solve(self, what: str = "the thermodynamic flux problem") -> Solution:
-        """Solve; return the solution or raise InfeasibleProblem / UndeterminedError in plain words."""
+        """Solve; return the solution or raise InfeasibleProblem / UndeterminedError in plain words.
+
+        A yes/no question (no objective) first tries :meth:`_least_flux_point`, two linear
+        programs; the MILP runs within the time left when they find no point.
+        """
         started = time.perf_counter()
-        status = optimize(self.solver, self.options.time_limit, first_point=self._objective_is_zero)
-        seconds = time.perf_counter() - started
+        limit = self.options.time_limit
+        if (self._objective_is_zero and self.options.least_flux_start
+                and all(v.ub == 0 for v in self.u_vars)):
+            solution = self._least_flux_point(what)
+            elapsed = time.perf_counter() - started
+            if solution is not None:
+                solution.seconds = elapsed
+                return solution
+            if limit is not None:
+                limit = max(limit - elapsed, 1.0)
+        status = optimize(self.solver, limit, first_point=self._objective_is_zero)
         check_status(status, what, self.options.time_limit)
-        return self._read_solution(seconds)
+        return self._read_solution(time.perf_counter() - started)
+
+    def _least_flux_point(self, what: str) -> Solution | None:
+        """A point of the problem from the flux pattern of least total flux, or None.
+
+        1. The linear relaxation (direction binaries continuous in [0, 1]) minimising the total
+           flux sum_j (v_fwd_j + v_rev_j), the objective of parsimonious flux balance (Lewis et
+           al. 2010, Mol. Syst. Biol. 6:390), which leaves out most internal cycles. When it is
+           infeasible, so is the problem (a relaxation): InfeasibleProblem.
+        2. The directions that carry flux there, fixed as in :meth:`solve_with_pattern` (a linear
+           program). A point found is a point of the full problem, certified like any other;
+           when there is none, nothing is proven and None is returned.
+
+        Measured with scripts/bench_engine.py (iJO1366, synthetic energies, GLPK): 0.3 s for
+        both steps against 25-31 s for the MILP's first integer point.
+        """
+        relaxed = self.f_vars + self.b_vars
+        for v in relaxed:
+            v.type = "continuous"
+        try:
+            self.set_objective({v: 1.0 for r in self.reactions
+                                for v in (r.forward_variable, r.reverse_variable)})
+            status = optimize(self.solver, self.options.time_limit)
+            pattern = (self.flux_pattern(self._read_solution(0.0))
+                       if status == optlang_status.OPTIMAL else None)
+        finally:
+            for v in relaxed:
+                v.type = "integer"
+            self.set_objective({})
+        if status in (optlang_status.INFEASIBLE, optlang_status.INFEASIBLE_OR_UNBOUNDED):
+            check_status(status, what, self.options.time_limit)
+        if pattern is None:
+            log.debug("%s: the least-flux relaxation ended %s; solving the MILP", what, status)
+            return None
+        try:
+            return self.solve_with_pattern(*pattern, what=what)
+        except InfeasibleProblem:
+            log.debug("%s: the least-flux pattern is not downhill; solving the MILP", what)
+            return None
 
     def flux_pattern(self, solution: Solution, tolerance: float = 1e-9) -> tuple[np.ndarray, np.ndarray]:
         """The directions in which a solution's reactions with an energy carry flux (|v| > tolerance).
@@ -469,7 +527,10 @@ class ThermoProblem:
             for v, on in zip(self.b_vars, backward):
                 value = 1.0 if on and v.ub >= 1 else 0.0
                 v.set_bounds(value, value)
-            return self.solve(what)
+            started = time.perf_counter()
+            status = optimize(self.solver, self.options.time_limit)
+            check_status(status, what, self.options.time_limit)
+            return self._read_solution(time.perf_counter() - started)
         finally:
             for v, lb, ub in saved:
                 v.set_bounds(lb, ub)
@@ -528,10 +589,7 @@ class ThermoProblem:
             solver.objective = self._saved_objective
         except Exception:  # noqa: BLE001 - the saved objective may reference removed variables
             solver.objective = solver.interface.Objective(Zero, sloppy=True)
-        solver.remove(self._extra_constraints + self._constraints)
-        solver.update()
-        solver.remove(self._variables)
-        solver.update()
+        remove_rows_and_columns(solver, self._extra_constraints + self._constraints, self._variables)
 
     def __enter__(self) -> "ThermoProblem":
         return self
@@ -559,34 +617,3 @@ def _tune_glpk(solver) -> None:
     import swiglpk
 
     iocp.fp_heur = swiglpk.GLP_ON if GLPK_FEASIBILITY_PUMP else swiglpk.GLP_OFF
-
-
-def _set_rows(solver, constraints: list, coefficient_maps: list[dict]) -> None:
-    """Set the coefficients of freshly added (empty) rows in bulk.
-
-    GLPK: one ``glp_set_mat_row`` per row through swiglpk; the matrix interface (HiGHS): one dict
-    update; any other optlang interface: ``set_linear_coefficients`` per row.
-    """
-    name = solver_name_of(solver)
-    if name == "glpk":
-        import swiglpk
-
-        lp = solver.problem
-        for c, coefs in zip(constraints, coefficient_maps):
-            n = len(coefs)
-            ind = swiglpk.intArray(n + 1)
-            val = swiglpk.doubleArray(n + 1)
-            for k, (v, a) in enumerate(coefs.items(), start=1):
-                ind[k] = v._index
-                val[k] = float(a)
-            swiglpk.glp_set_mat_row(lp, c._index, n, ind, val)
-    elif hasattr(solver.problem, "constraint_coefs"):
-        solver.problem.reset()
-        table = solver.problem.constraint_coefs
-        for c, coefs in zip(constraints, coefficient_maps):
-            cname = c.name
-            for v, a in coefs.items():
-                table[(cname, v.name)] = float(a)
-    else:
-        for c, coefs in zip(constraints, coefficient_maps):
-            c.set_linear_coefficients(coefs)
