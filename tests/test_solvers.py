@@ -49,9 +49,9 @@ def test_glpk_searches_for_a_first_point_only_in_yes_no_questions(monkeypatch):
         return real(lp, parm)
 
     monkeypatch.setattr(swiglpk, "glp_intopt", spy)
-    # the MILP's own search is under test: the least-flux start (whose pattern LP is a
-    # glp_intopt call with every 0/1 variable fixed) is off; tests/test_least_flux_start.py
-    milp_only = ProblemOptions(solver="glpk", least_flux_start=False)
+    # the MILP's own search is under test: the quick routes (whose pattern LPs are
+    # glp_intopt calls with every 0/1 variable fixed) are off; tests/test_quick_routes.py
+    milp_only = ProblemOptions(solver="glpk", quick_routes=False)
     answer = feasibility(one_step("glpk"), milp_only)
     assert answer.feasible and answer.certificates[0].passed
     assert seen == [swiglpk.GLP_BT_BPH]

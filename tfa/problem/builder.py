@@ -35,10 +35,14 @@ from ..network.thermo_model import ThermoModel
 from ..verify.certificate import CertificateInput
 from .bigm import direction_big_m, energy_intervals
 from .bulk import remove_rows_and_columns, set_rows
+from .flux_ranges import flux_caps, steady_state_flux_ranges
 from .solvers import InfeasibleProblem, check_status, optimize, solver_name_of, use_solver
 
 log = logging.getLogger(__name__)
 
+#: Integrality tolerance of the loose search among the quick routes (GLPK's own default); its
+#: points are only candidates: their 0/1 values are fixed and the rest solved again exactly.
+LOOSE_INTEGRALITY = 1e-5
 #: Default least driving force delta, kJ/mol. It is four orders of magnitude above what solver
 #: tolerances (~1e-6 on variables, times RT*|S| ~ 10) can fake, so a certified sign is real, and
 #: well below the standard uncertainty of reaction energies (1-5 kJ/mol), so it does not move
@@ -53,6 +57,11 @@ UNKNOWN_ENERGY_POLICIES = ("free", "block")
 SOLVER_TOLERANCES = {"feasibility": 1e-9, "integrality": 1e-9}
 #: HiGHS ``mip_heuristic_effort`` for our MILPs (HiGHS default 0.05); see ThermoProblem._build.
 HIGHS_HEURISTIC_EFFORT = 0.25
+#: Flux caps of the direction rows: "ranges" (steady-state flux ranges, :mod:`tfa.problem.flux_ranges`),
+#: "bounds" (the reactions' own bounds) or "auto": ranges when at most this many reactions carry
+#: an energy (measured, scripts/bench_engine.py: see FLUX_CAP_POLICIES' note in docs/internals.md).
+FLUX_RANGES_AUTO_LIMIT = 1000
+FLUX_CAP_POLICIES = ("auto", "ranges", "bounds")
 #: GLPK feasibility pump (``fp_heur``) for our MILPs: off, as GLPK's default; measured on iJO1366
 #: with synthetic energies it changed nothing (45 s on, 44 s off).
 GLPK_FEASIBILITY_PUMP = False
@@ -82,9 +91,15 @@ class ProblemOptions:
     log_bound_overrides : dict
         Metabolite id -> (ln lo, ln hi) used instead of the model's bounds at build time (the
         envelope of an H2 scan or threshold; later bound changes must stay inside it).
-    least_flux_start : bool
-        For yes/no questions (no objective), first try the flux pattern of least total flux as a
-        linear program (:meth:`ThermoProblem.solve`); the MILP runs only when that finds no point.
+    quick_routes : bool
+        For yes/no questions (no objective), try two quick routes to a point before the exact
+        MILP (:meth:`ThermoProblem.solve`): the flux pattern of least total flux, and the MILP at
+        a loose integrality tolerance with its 0/1 values then fixed exactly.
+    flux_caps : str
+        U_j and L_j of the direction rows: "ranges" (the largest flux any steady state gives the
+        reaction, two linear programs per reaction with an energy), "bounds" (its flux bounds), or
+        "auto" (ranges up to :data:`FLUX_RANGES_AUTO_LIMIT` reactions with an energy). Computed
+        at build time: changing flux bounds later needs a new problem.
     """
 
     solver: str | None = None
@@ -95,9 +110,13 @@ class ProblemOptions:
     uphill: bool = False
     driving_force: bool = False
     log_bound_overrides: dict[str, tuple[float, float]] = field(default_factory=dict)
-    least_flux_start: bool = True
+    quick_routes: bool = True
+    flux_caps: str = "auto"
 
     def __post_init__(self) -> None:
+        if self.flux_caps not in FLUX_CAP_POLICIES:
+            raise InputError(f"flux_caps must be one of {', '.join(FLUX_CAP_POLICIES)}, got "
+                             f"{self.flux_caps!r}")
         if self.unknown_energy not in UNKNOWN_ENERGY_POLICIES:
             raise InputError(f"unknown_energy must be 'free' or 'block', got {self.unknown_energy!r}")
         if not (math.isfinite(self.min_driving_force) and self.min_driving_force >= 0):
@@ -115,7 +134,8 @@ class ProblemOptions:
             "uncertainty_k": self.uncertainty_k,
             "unknown_energy": self.unknown_energy,
             "time_limit_s": self.time_limit,
-            "least_flux_start": self.least_flux_start,
+            "quick_routes": self.quick_routes,
+            "flux_caps": self.flux_caps,
         }
 
 
@@ -283,8 +303,10 @@ class ThermoProblem:
                        for j in range(n_e)]
         self.eps_vars = [var(f"tfa_e_{j}", lb=-float(w), ub=float(w)) if w > 0 else None
                          for j, w in enumerate(self.slack_width)]
-        upper = np.array([max(self.reactions[j].upper_bound, 0.0) for j in self.energy_reaction_index])
-        lower = np.array([max(-self.reactions[j].lower_bound, 0.0) for j in self.energy_reaction_index])
+        flux_lower, flux_upper = self.flux_bounds()
+        bound_fwd = np.maximum(flux_upper[self.energy_reaction_index], 0.0)
+        bound_bwd = np.maximum(-flux_lower[self.energy_reaction_index], 0.0)
+        upper, lower = self._flux_caps(flux_lower, flux_upper, bound_fwd, bound_bwd)
         self.flux_cap_forward, self.flux_cap_backward = upper, lower
         if opts.driving_force:
             fwd_ok = upper > 0
@@ -346,12 +368,14 @@ class ThermoProblem:
             std = float(self.standard[j])
             rows.append((f"tfa_def_{j}", std, std, coefs))
             u = self.u_vars[j] if self.u_vars else None
-            if upper[j] > 0:
+            # a row wherever the bound lets flux through; a cap of 0 (no steady state uses the
+            # direction) makes it v <= 0
+            if bound_fwd[j] > 0:
                 c = {reaction.forward_variable: 1.0, self.f_vars[j]: -float(upper[j])}
                 if u is not None:
                     c[u] = -float(upper[j])
                 rows.append((f"tfa_fwd_{j}", None, 0.0, c))
-            if lower[j] > 0:
+            if bound_bwd[j] > 0:
                 c = {reaction.reverse_variable: 1.0, self.b_vars[j]: -float(lower[j])}
                 if u is not None:
                     c[u] = -float(lower[j])
@@ -442,25 +466,33 @@ class ThermoProblem:
     def solve(self, what: str = "the thermodynamic flux problem") -> Solution:
         """Solve; return the solution or raise InfeasibleProblem / UndeterminedError in plain words.
 
-        A yes/no question (no objective) first tries :meth:`_least_flux_point`, two linear
-        programs; the MILP runs within the time left when they find no point.
+        A yes/no question (no objective) first takes the quick routes, each ending in a linear
+        program with every 0/1 variable fixed, so any point they find is a point of the problem:
+
+        1. :meth:`_least_flux_point`, two linear programs;
+        2. :meth:`_loose_point`, the MILP at a loose integrality tolerance, then repaired.
+
+        The exact MILP runs within the time left when neither finds a point. A relaxation
+        without a point proves there is none (InfeasibleProblem) on the way.
         """
         started = time.perf_counter()
         limit = self.options.time_limit
-        if (self._objective_is_zero and self.options.least_flux_start
+
+        def time_left() -> float | None:
+            return None if limit is None else max(limit - (time.perf_counter() - started), 1.0)
+
+        if (self._objective_is_zero and self.options.quick_routes
                 and all(v.ub == 0 for v in self.u_vars)):
-            solution = self._least_flux_point(what)
-            elapsed = time.perf_counter() - started
-            if solution is not None:
-                solution.seconds = elapsed
-                return solution
-            if limit is not None:
-                limit = max(limit - elapsed, 1.0)
-        status = optimize(self.solver, limit, first_point=self._objective_is_zero)
+            for route in (self._least_flux_point, self._loose_point):
+                solution = route(what, time_left())
+                if solution is not None:
+                    solution.seconds = time.perf_counter() - started
+                    return solution
+        status = optimize(self.solver, time_left(), first_point=self._objective_is_zero)
         check_status(status, what, self.options.time_limit)
         return self._read_solution(time.perf_counter() - started)
 
-    def _least_flux_point(self, what: str) -> Solution | None:
+    def _least_flux_point(self, what: str, time_limit: float | None) -> Solution | None:
         """A point of the problem from the flux pattern of least total flux, or None.
 
         1. The linear relaxation (direction binaries continuous in [0, 1]) minimising the total
@@ -472,7 +504,8 @@ class ThermoProblem:
            when there is none, nothing is proven and None is returned.
 
         Measured with scripts/bench_engine.py (iJO1366, synthetic energies, GLPK): 0.3 s for
-        both steps against 25-31 s for the MILP's first integer point.
+        both steps against 25-31 s for the exact MILP's first integer point. On the bundled
+        network the least-flux pattern is never downhill (the shortest routes run uphill).
         """
         relaxed = self.f_vars + self.b_vars
         for v in relaxed:
@@ -480,7 +513,7 @@ class ThermoProblem:
         try:
             self.set_objective({v: 1.0 for r in self.reactions
                                 for v in (r.forward_variable, r.reverse_variable)})
-            status = optimize(self.solver, self.options.time_limit)
+            status = optimize(self.solver, time_limit)
             pattern = (self.flux_pattern(self._read_solution(0.0))
                        if status == optlang_status.OPTIMAL else None)
         finally:
@@ -490,12 +523,48 @@ class ThermoProblem:
         if status in (optlang_status.INFEASIBLE, optlang_status.INFEASIBLE_OR_UNBOUNDED):
             check_status(status, what, self.options.time_limit)
         if pattern is None:
-            log.debug("%s: the least-flux relaxation ended %s; solving the MILP", what, status)
+            log.debug("%s: the least-flux relaxation ended %s", what, status)
+            return None
+        return self._repaired(pattern, what, time_limit, "the least-flux pattern")
+
+    def _loose_point(self, what: str, time_limit: float | None) -> Solution | None:
+        """A point of the problem from the MILP at :data:`LOOSE_INTEGRALITY`, or None.
+
+        At that tolerance a 0/1 variable may sit at 1e-5 and let 1e-5 U of flux through a closed
+        direction, so the search ends sooner, but its point may break the second law (the
+        certificate catches it). Its 0/1 values (rounded) are fixed and the rest solved again as
+        a linear program at exact 0/1 values (:meth:`solve_with_pattern`). A loose search without
+        a point proves there is none (it searches a larger set): InfeasibleProblem.
+
+        Measured on the bundled network with GLPK, native mode, H2 1e-9 to 1e-2 mol/L: every
+        level found and repaired in 0.1-1.9 s, where the exact search was undetermined after
+        40 s at some levels (its time depends on the order of rows and columns).
+        """
+        tolerances = self.solver.configuration.tolerances
+        try:
+            tolerances.integrality = LOOSE_INTEGRALITY
+        except Exception:  # noqa: BLE001 - an interface without that tolerance: no loose route
             return None
         try:
-            return self.solve_with_pattern(*pattern, what=what)
+            status = optimize(self.solver, time_limit, first_point=True)
+            found = self._read_solution(0.0) if status == optlang_status.OPTIMAL else None
+        finally:
+            tolerances.integrality = SOLVER_TOLERANCES["integrality"]
+        if status in (optlang_status.INFEASIBLE, optlang_status.INFEASIBLE_OR_UNBOUNDED):
+            check_status(status, what, self.options.time_limit)
+        if found is None:
+            log.debug("%s: the loose search ended %s", what, status)
+            return None
+        return self._repaired((found.forward, found.backward), what, time_limit,
+                              "the loose search's directions")
+
+    def _repaired(self, pattern: tuple[np.ndarray, np.ndarray], what: str,
+                  time_limit: float | None, source: str) -> Solution | None:
+        """:meth:`solve_with_pattern`, or None when the pattern has no point (nothing proven)."""
+        try:
+            return self.solve_with_pattern(*pattern, what=what, time_limit=time_limit)
         except InfeasibleProblem:
-            log.debug("%s: the least-flux pattern is not downhill; solving the MILP", what)
+            log.debug("%s: %s is not downhill everywhere it must be", what, source)
             return None
 
     def flux_pattern(self, solution: Solution, tolerance: float = 1e-9) -> tuple[np.ndarray, np.ndarray]:
@@ -511,7 +580,8 @@ class ThermoProblem:
         return v > tolerance, v < -tolerance
 
     def solve_with_pattern(self, forward: np.ndarray, backward: np.ndarray,
-                           what: str = "the thermodynamic flux problem") -> Solution:
+                           what: str = "the thermodynamic flux problem",
+                           time_limit: float | None = None) -> Solution:
         """Solve with every direction binary fixed to a given flux pattern (a linear program).
 
         A solution found this way is a solution of the full problem (the pattern is one of its
@@ -528,7 +598,7 @@ class ThermoProblem:
                 value = 1.0 if on and v.ub >= 1 else 0.0
                 v.set_bounds(value, value)
             started = time.perf_counter()
-            status = optimize(self.solver, self.options.time_limit)
+            status = optimize(self.solver, time_limit or self.options.time_limit)
             check_status(status, what, self.options.time_limit)
             return self._read_solution(time.perf_counter() - started)
         finally:
@@ -550,17 +620,40 @@ class ThermoProblem:
                         list(self.energy_ids), g, eps, f, b, uphill, b_value, objective,
                         self.solver_name, seconds)
 
-    # ------------------------------------------------------------------ certificate
-    def certificate_input(self, solution: Solution, allowed_uphill: list[str] | None = None,
-                          min_driving_force: float | None = None) -> CertificateInput:
-        """Plain arrays for :func:`tfa.verify.certificate.check_solution` (bounds read from the
-        cobra model and the current compound bounds, energies from the ThermoModel)."""
+    def flux_bounds(self) -> tuple[np.ndarray, np.ndarray]:
+        """Lower and upper flux bounds of every reaction as the problem sees them (read from the
+        cobra model; zero for reactions without an energy under the "block" policy)."""
         lower = np.array([r.lower_bound for r in self.reactions], float)
         upper = np.array([r.upper_bound for r in self.reactions], float)
         if self.options.unknown_energy == "block":
             for rid in self.unknown_energy_ids:
                 j = self.reaction_index[rid]
                 lower[j] = upper[j] = 0.0
+        return lower, upper
+
+    def _flux_caps(self, flux_lower, flux_upper, bound_fwd, bound_bwd) -> tuple[np.ndarray, np.ndarray]:
+        """U_j, L_j of the direction rows per :attr:`ProblemOptions.flux_caps`."""
+        policy = self.options.flux_caps
+        if policy == "auto":
+            policy = "ranges" if len(self.energy_ids) <= FLUX_RANGES_AUTO_LIMIT else "bounds"
+        self.flux_cap_policy = "bounds"
+        if policy == "bounds":
+            return bound_fwd, bound_bwd
+        started = time.perf_counter()
+        ranges = steady_state_flux_ranges(*self.stoich, self.n_metabolites, flux_lower, flux_upper,
+                                          self.energy_reaction_index, self.options.time_limit)
+        if ranges is None:   # no steady state at all: the solve will say so in plain words
+            return bound_fwd, bound_bwd
+        self.flux_cap_policy = "ranges"
+        log.info("flux caps from steady-state flux ranges in %.2f s", time.perf_counter() - started)
+        return flux_caps(*ranges, bound_fwd, bound_bwd)
+
+    # ------------------------------------------------------------------ certificate
+    def certificate_input(self, solution: Solution, allowed_uphill: list[str] | None = None,
+                          min_driving_force: float | None = None) -> CertificateInput:
+        """Plain arrays for :func:`tfa.verify.certificate.check_solution` (bounds read from the
+        cobra model and the current compound bounds, energies from the ThermoModel)."""
+        lower, upper = self.flux_bounds()
         x_lo = np.array([v.lb for v in self.x_vars], float)
         x_hi = np.array([v.ub for v in self.x_vars], float)
         delta = self.options.min_driving_force if min_driving_force is None else min_driving_force
@@ -604,6 +697,7 @@ class ThermoProblem:
             "reactions_with_energy": len(self.energy_ids),
             "reactions_without_energy": list(self.unknown_energy_ids),
             "unknown_energy_policy": self.options.unknown_energy,
+            "flux_caps": self.flux_cap_policy,
             "compounds_with_activity": len(self.metabolite_ids),
             "build_seconds": self.build_seconds,
         }

@@ -1,8 +1,9 @@
-"""The least-flux start of yes/no questions (tfa.problem.builder.ThermoProblem._least_flux_point).
+"""The quick routes of yes/no questions (tfa.problem.builder.ThermoProblem.solve).
 
-Before the MILP, a yes/no question tries the flux pattern of least total flux (the objective of
-parsimonious flux balance, Lewis et al. 2010, Mol. Syst. Biol. 6:390) as a linear program. These
-networks are solved by hand; energies at 298.15 K, RT = 2.4790 kJ/mol, Delta_r G' = Delta_r G'deg
+Before the exact MILP, a yes/no question tries the flux pattern of least total flux (the
+objective of parsimonious flux balance, Lewis et al. 2010, Mol. Syst. Biol. 6:390) as a linear
+program, then the MILP at a loose integrality tolerance with its 0/1 values fixed exactly
+afterwards. Any point found must be a point of the problem. These networks are solved by hand; energies at 298.15 K, RT = 2.4790 kJ/mol, Delta_r G' = Delta_r G'deg
 + RT ln Q (Alberty 2003, eq. 4.1-4).
 """
 
@@ -39,6 +40,12 @@ def detour_network(solver):
         exchanges={"A": (-10.0, 10.0)}, demand=("Q", 1.0), solver=solver)
 
 
+def assert_detour_taken(sol):
+    # DIRECT cannot run forward while R3 does (detour_network's docstring): P reaches Q through I
+    assert sol.flux("DIRECT") <= 1e-6
+    assert sol.flux("R2") >= 1.0 - 1e-6 and sol.flux("R3") >= 1.0 - 1e-6
+
+
 def straight_network(solver, demand=1.0):
     """A <=> B with Delta_r G'deg = -5 kJ/mol, A fixed at 1 mM, B in 1 uM .. 10 mM: downhill
     whenever B < 1e-3 exp(5/RT) = 7.5 mM."""
@@ -48,13 +55,18 @@ def straight_network(solver, demand=1.0):
 
 @pytest.fixture
 def solver_calls(monkeypatch):
-    """Records, for each solver call made by the problem, whether it was the MILP's any-point
-    search (first_point=True) or one of the least-flux linear programs."""
+    """Records each solver call made by the problem: "lp" (a linear program: the relaxation or
+    a pattern with every 0/1 variable fixed), "loose" (the MILP at the loose integrality
+    tolerance) or "exact" (the MILP at the working tolerance)."""
     calls = []
     real = builder.optimize
 
     def spy(model_solver, time_limit, first_point=False):
-        calls.append("milp" if first_point else "lp")
+        if not first_point:
+            calls.append("lp")
+        else:
+            loose = model_solver.configuration.tolerances.integrality == builder.LOOSE_INTEGRALITY
+            calls.append("loose" if loose else "exact")
         return real(model_solver, time_limit, first_point)
 
     monkeypatch.setattr(builder, "optimize", spy)
@@ -72,14 +84,25 @@ def test_least_flux_pattern_answers_without_the_milp(solver, solver_calls):
 
 
 @pytest.mark.parametrize("solver", available_solvers())
-def test_uphill_least_flux_pattern_falls_back_to_the_milp(solver, solver_calls):
+def test_uphill_least_flux_pattern_falls_back_to_the_loose_search(solver, solver_calls):
     with ThermoProblem(detour_network(solver), ProblemOptions(solver=solver)) as problem:
         sol = problem.solve()
         certify(problem, sol)
-    assert solver_calls == ["lp", "lp", "milp"]
-    assert sol.flux("DIRECT") == pytest.approx(0.0, abs=1e-6)
-    assert sol.flux("R1") == pytest.approx(1.0, abs=1e-6)
-    assert sol.flux("R2") == pytest.approx(1.0, abs=1e-6)
+    # relaxation, its pattern (uphill: no point), the loose search, its repair
+    assert solver_calls == ["lp", "lp", "loose", "lp"]
+    assert_detour_taken(sol)
+
+
+@pytest.mark.parametrize("solver", available_solvers())
+def test_exact_milp_when_no_quick_route_finds_a_point(solver, solver_calls, monkeypatch):
+    # the loose route made to come back empty, as when its repair fails: the exact MILP decides
+    monkeypatch.setattr(ThermoProblem, "_loose_point", lambda self, what, limit: None)
+    with ThermoProblem(detour_network(solver), ProblemOptions(solver=solver)) as problem:
+        sol = problem.solve()
+        certify(problem, sol)
+    assert solver_calls == ["lp", "lp", "exact"]
+    assert_detour_taken(sol)
+    assert problem.solver.configuration.tolerances.integrality == builder.SOLVER_TOLERANCES["integrality"]
 
 
 @pytest.mark.parametrize("solver", available_solvers())
@@ -96,20 +119,20 @@ def test_infeasible_relaxation_proves_infeasible_without_the_milp(solver, solver
     ((1e-6, 1e-2), True),    # B can sit below the 7.5 mM switch (straight_network's docstring)
     ((8e-3, 1e-2), False),   # B at or above 8 mM: -5 + RT ln(8) = +0.15 kJ/mol, uphill
 ])
-def test_same_answer_with_and_without_the_least_flux_start(solver, b_bounds, expected):
+def test_same_answer_with_and_without_the_quick_routes(solver, b_bounds, expected):
     answers = []
     for start in (True, False):
         tm = build_thermo_model({"R1": ("A <=> B", -5.0, 1.0)}, {"A": (1e-3, 1e-3), "B": b_bounds},
                                 exchanges={"A": (-10.0, 10.0)}, demand=("B", 1.0), solver=solver)
-        result = feasibility(tm, ProblemOptions(solver=solver, least_flux_start=start), diagnose=False)
+        result = feasibility(tm, ProblemOptions(solver=solver, quick_routes=start), diagnose=False)
         answers.append(result.feasible)
     assert answers == [expected, expected]
 
 
 @pytest.mark.parametrize("solver", available_solvers())
-def test_least_flux_start_leaves_the_problem_as_it_was(solver):
-    # the relaxation turns the direction binaries continuous and sets an objective for a moment;
-    # afterwards they are integer again and the problem has no objective
+def test_quick_routes_leave_the_problem_as_it_was(solver):
+    # the relaxation turns the direction binaries continuous and sets an objective for a moment,
+    # the loose search loosens the integrality tolerance; afterwards all is as it was
     with ThermoProblem(detour_network(solver), ProblemOptions(solver=solver)) as problem:
         binaries = problem.f_vars + problem.b_vars
         before = [(v.lb, v.ub) for v in binaries]
@@ -119,3 +142,5 @@ def test_least_flux_start_leaves_the_problem_as_it_was(solver):
         assert all(v.type == "integer" for v in binaries)
         assert problem._objective_is_zero
         assert [(v.lb, v.ub) for v in binaries] == before
+        tolerance = problem.solver.configuration.tolerances.integrality
+        assert tolerance == builder.SOLVER_TOLERANCES["integrality"]
