@@ -16,10 +16,10 @@ instance is feasible and the timings mean something):
 
 Timed, per network and per solver (GLPK, HiGHS): plain flux balance (LP), cobra's loopless flux
 balance (add_loopless, MILP; its build and its solve, in a child process killed at the time
-limit), our feasibility (build + solve + certificate + tables), our minimal uphill set, a
-20-point H2 scan (build once + 20 solves). Medians of repeated runs; ratios to plain flux
-balance and to loopless on the same solver; a task that hits the time limit is printed as
-"undetermined within N s", never as a time.
+limit), our feasibility (build + solve + certificate + tables; also with the quick routes off,
+the exact MILP alone), our minimal uphill set, a 20-point H2 scan (build once + 20 solves).
+Medians of repeated runs; ratios to plain flux balance and to loopless on the same solver; a
+task that hits the time limit is printed as "undetermined within N s", never as a time.
 
 A summary at the end gives, per network and solver, the ratios the engine is judged by: our
 feasibility against loopless flux balance on the same solver, the build time, and the 20-point
@@ -37,6 +37,7 @@ import math
 import statistics
 import sys
 import time
+from dataclasses import replace
 
 import numpy as np
 
@@ -243,6 +244,9 @@ def bench_network(label: str, tm, solver: str, repeats: int, time_limit: float) 
     out["  build of our problem"] = statistics.median(builds)
     out["our feasibility"], res = timed(lambda: feasibility(tm, opts, diagnose=False), repeats)
     out["  (feasible)"] = getattr(res, "feasible", None)
+    exact_only = replace(opts, quick_routes=False)
+    out["  feasibility, exact MILP only"], _ = timed(
+        lambda: feasibility(tm, exact_only, diagnose=False), repeats)
     out["our minimal uphill set"], res = timed(lambda: minimal_uphill_set(tm, opts), repeats)
     out["  (uphill set size)"] = len(res.sets[0]) if getattr(res, "sets", None) else None
     h2 = {k.lower(): v for k, v in tm.feed_ids.items()}.get("h2")
@@ -312,18 +316,19 @@ def print_summary(rows: list) -> None:
 
     print("\n== summary (times in s; 'n/a' where a task hit its time limit)")
     print(f"  {'network':44s} {'solver':6s} {'loopless':>9s} {'ours':>9s} {'ours/ll':>8s} "
-          f"{'build':>7s} {'scan':>9s} {'scan/ours':>9s}")
+          f"{'exact':>9s} {'build':>7s} {'scan':>9s} {'scan/ours':>9s}")
     for label, solver, result in rows:
         ll = result.get("loopless flux balance (MILP)")
         ours = result.get("our feasibility")
         scan = result.get("our 20-point H2 scan")
         build = result.get("  build of our problem")
+        exact = result.get("  feasibility, exact MILP only")
 
         def shown(value):
             return f"{value:9.2f}" if isinstance(value, float) else f"{'undet.':>9s}"
 
         print(f"  {label[:44]:44s} {solver:6s} {shown(ll)} {shown(ours)} {ratio(ours, ll)} "
-              f"{build:7.2f} {shown(scan)} {ratio(scan, ours):>9s}")
+              f"{shown(exact)} {build:7.2f} {shown(scan)} {ratio(scan, ours):>9s}")
 
 
 if __name__ == "__main__":
