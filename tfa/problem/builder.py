@@ -59,7 +59,8 @@ SOLVER_TOLERANCES = {"feasibility": 1e-9, "integrality": 1e-9}
 HIGHS_HEURISTIC_EFFORT = 0.25
 #: Flux caps of the direction rows: "ranges" (steady-state flux ranges, :mod:`tfa.problem.flux_ranges`),
 #: "bounds" (the reactions' own bounds) or "auto": ranges when at most this many reactions carry
-#: an energy (measured, scripts/bench_engine.py: see FLUX_CAP_POLICIES' note in docs/internals.md).
+#: an energy. Measured: the ranges take 0.02 s on the bundled network (138 reactions with an
+#: energy) and 2.6 s on iJO1366 (2,252), whose feasibility takes about 1 s without them.
 FLUX_RANGES_AUTO_LIMIT = 1000
 FLUX_CAP_POLICIES = ("auto", "ranges", "bounds")
 #: GLPK feasibility pump (``fp_heur``) for our MILPs: off, as GLPK's default; measured on iJO1366
@@ -505,7 +506,7 @@ class ThermoProblem:
 
         Measured with scripts/bench_engine.py (iJO1366, synthetic energies, GLPK): 0.3 s for
         both steps against 25-31 s for the exact MILP's first integer point. On the bundled
-        network the least-flux pattern is never downhill (the shortest routes run uphill).
+        network (native mode) it was downhill at none of 8 H2 levels from 1e-9 to 1e-2 mol/L.
         """
         relaxed = self.f_vars + self.b_vars
         for v in relaxed:
