@@ -58,9 +58,12 @@ SOLVER_TOLERANCES = {"feasibility": 1e-9, "integrality": 1e-9}
 #: HiGHS ``mip_heuristic_effort`` for our MILPs (HiGHS default 0.05); see ThermoProblem._build.
 HIGHS_HEURISTIC_EFFORT = 0.25
 #: Flux caps of the direction rows: "ranges" (steady-state flux ranges, :mod:`tfa.problem.flux_ranges`),
-#: "bounds" (the reactions' own bounds) or "auto": ranges when at most this many reactions carry
-#: an energy. Measured: the ranges take 0.02 s on the bundled network (138 reactions with an
-#: energy) and 2.6 s on iJO1366 (2,252), whose feasibility takes about 1 s without them.
+#: "bounds" (the reactions' own bounds) or "auto": ranges with GLPK when at most this many
+#: reactions carry an energy, else bounds. Measured on the bundled network (138 reactions with an
+#: energy; the ranges take 0.02 s): with GLPK the "H2 only" mode is proven infeasible in 0.12 s
+#: with ranges and undetermined after 120 s with bounds; with HiGHS native feasibility takes
+#: 1.3 s with ranges and 0.23 s with bounds. On iJO1366 (2,252) the ranges cost 2.6 s, more than
+#: its whole feasibility question (about 1.4 s).
 FLUX_RANGES_AUTO_LIMIT = 1000
 FLUX_CAP_POLICIES = ("auto", "ranges", "bounds")
 #: GLPK feasibility pump (``fp_heur``) for our MILPs: off, as GLPK's default; measured on iJO1366
@@ -99,8 +102,9 @@ class ProblemOptions:
     flux_caps : str
         U_j and L_j of the direction rows: "ranges" (the largest flux any steady state gives the
         reaction, two linear programs per reaction with an energy), "bounds" (its flux bounds), or
-        "auto" (ranges up to :data:`FLUX_RANGES_AUTO_LIMIT` reactions with an energy). Computed
-        at build time: changing flux bounds later needs a new problem.
+        "auto" (ranges with GLPK up to :data:`FLUX_RANGES_AUTO_LIMIT` reactions with an energy,
+        else bounds; measured choice). Computed at build time: changing flux bounds later needs a
+        new problem.
     """
 
     solver: str | None = None
@@ -636,7 +640,8 @@ class ThermoProblem:
         """U_j, L_j of the direction rows per :attr:`ProblemOptions.flux_caps`."""
         policy = self.options.flux_caps
         if policy == "auto":
-            policy = "ranges" if len(self.energy_ids) <= FLUX_RANGES_AUTO_LIMIT else "bounds"
+            small = len(self.energy_ids) <= FLUX_RANGES_AUTO_LIMIT
+            policy = "ranges" if self.solver_name == "glpk" and small else "bounds"
         self.flux_cap_policy = "bounds"
         if policy == "bounds":
             return bound_fwd, bound_bwd
