@@ -18,10 +18,11 @@ from ..errors import ComputationError, InputError, UndeterminedError
 log = logging.getLogger(__name__)
 
 #: Solver chosen when none is given, from scripts/bench_engine.py (2 shared cores, medians of 3,
-#: one run side by side, 2026-12-02). HiGHS: bundled network feasibility 0.16 s, 20-point H2 scan
-#: 0.61 s; iJO1366 with synthetic energies feasibility 2.2 s (cobra's loopless 3.6 s), scan 6.3 s.
-#: GLPK: bundled 0.28 s and 4.4 s; iJO1366 feasibility 29 s (28 and 31 s in two more runs; cobra's
-#: loopless 2.5 s) and the scan undetermined within 120 s. Hence HiGHS.
+#: one run side by side, 2026-12-02, quick routes on). Bundled network: feasibility HiGHS 0.21 s,
+#: GLPK 0.29 s; 20-point H2 scan 0.81 / 0.28 s. iJO1366 with synthetic energies: feasibility
+#: 1.5 / 1.4 s, scan 5.5 / 4.1 s; the exact MILP alone 1.7 / 26 s. HiGHS proves minimal uphill
+#: sets (an optimisation, no quick route) far sooner: bare chemistry of the bundled network in
+#: under 1 s, where GLPK can stay undetermined after 60 s. Hence HiGHS.
 DEFAULT_SOLVER = "highs"
 
 SOLVER_NAMES = ("glpk", "highs")
