@@ -107,7 +107,7 @@ def test_problem_leaves_the_model_as_it_was(solver):
 
     model = cobra.io.load_model("textbook")
     use_solver(model, solver)
-    energies = {rid: ReactionEnergy(rid, value, 1.0, "literature", "test value")
+    energies = {rid: ReactionEnergy(rid, value, 1.0, "placeholder", "arbitrary test value")
                 for rid, value in (("PGI", 2.0), ("PFK", -15.0))}
     bounds = {m.id: (math.log(1e-6), math.log(1e-2)) for m in model.metabolites}
     tm = ThermoModel(model, Conditions(), energies, bounds, no_activity={"h_c", "h2o_c"})

@@ -4,9 +4,10 @@ Scan: for each H2 level (dissolved concentration in mol/L, or partial pressure i
 compound, log-spaced), the problem is built once over the whole range and only the bounds of
 ln[H2] change: lower = upper = ln(level). Without the driving force, each level first tries the
 flux pattern certified at the previous level as a linear program (a solution proves
-feasibility) and solves the full problem (quick routes, then the exact MILP) only when that fails. At each level the result says whether the network is
-feasible, its max-min driving force B (Noor et al. 2014, PLoS Comput. Biol. 10:e1003483;
-feasible iff B >= delta) and, where infeasible, the size of the minimal uphill set.
+feasibility) and solves the full problem (quick routes, then the exact MILP) only when that
+fails. At each level the result says whether the network is feasible, its max-min driving
+force B (Noor et al. 2014, PLoS Comput. Biol. 10:e1003483; feasible iff B >= delta) and, where
+infeasible, the size of the minimal uphill set.
 
 Threshold: ln[H2] becomes a variable over the user's range and one MILP minimises it subject to
 feasibility (thermodynamics-based flux analysis, Henry, Broadbelt & Hatzimanikatis 2007,

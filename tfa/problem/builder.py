@@ -525,12 +525,7 @@ class ThermoProblem:
             for v in relaxed:
                 v.type = "integer"
             self.set_objective({})
-        if status in (optlang_status.INFEASIBLE, optlang_status.INFEASIBLE_OR_UNBOUNDED):
-            check_status(status, what, self.options.time_limit)
-        if pattern is None:
-            log.debug("%s: the least-flux relaxation ended %s", what, status)
-            return None
-        return self._repaired(pattern, what, time_limit, "the least-flux pattern")
+        return self._repaired(status, pattern, what, time_limit, "the least-flux relaxation")
 
     def _loose_point(self, what: str, time_limit: float | None) -> Solution | None:
         """A point of the problem from the MILP at :data:`LOOSE_INTEGRALITY`, or None.
@@ -555,21 +550,23 @@ class ThermoProblem:
             found = self._read_solution(0.0) if status == optlang_status.OPTIMAL else None
         finally:
             tolerances.integrality = SOLVER_TOLERANCES["integrality"]
+        pattern = None if found is None else (found.forward, found.backward)
+        return self._repaired(status, pattern, what, time_limit, "the loose search")
+
+    def _repaired(self, status: str, pattern: tuple[np.ndarray, np.ndarray] | None, what: str,
+                  time_limit: float | None, source: str) -> Solution | None:
+        """The end of a quick route: its search without a point proves infeasibility (it searched
+        a larger set); otherwise :meth:`solve_with_pattern` on the directions it found, or None
+        when they have no point (nothing proven)."""
         if status in (optlang_status.INFEASIBLE, optlang_status.INFEASIBLE_OR_UNBOUNDED):
             check_status(status, what, self.options.time_limit)
-        if found is None:
-            log.debug("%s: the loose search ended %s", what, status)
+        if pattern is None:
+            log.debug("%s: %s ended %s", what, source, status)
             return None
-        return self._repaired((found.forward, found.backward), what, time_limit,
-                              "the loose search's directions")
-
-    def _repaired(self, pattern: tuple[np.ndarray, np.ndarray], what: str,
-                  time_limit: float | None, source: str) -> Solution | None:
-        """:meth:`solve_with_pattern`, or None when the pattern has no point (nothing proven)."""
         try:
             return self.solve_with_pattern(*pattern, what=what, time_limit=time_limit)
         except InfeasibleProblem:
-            log.debug("%s: %s is not downhill everywhere it must be", what, source)
+            log.debug("%s: the directions of %s have no point", what, source)
             return None
 
     def flux_pattern(self, solution: Solution, tolerance: float = 1e-9) -> tuple[np.ndarray, np.ndarray]:

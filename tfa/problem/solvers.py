@@ -34,7 +34,8 @@ SOLVER_NAMES = ("glpk", "highs")
 #: 0.18 / 0.20 s for GLPK's default (best local bound) and 12.6 / 28.6 / >60 s for depth first;
 #: iJO1366 with synthetic energies: 28-31 s, as with the default (28 s). No better choice was
 #: found; at GLPK's default integrality tolerance (1e-5) the iJO1366 search takes 4-5 s, but its
-#: solutions fail the certificate.
+#: points can fail the certificate, so that search is only one of the quick routes, whose points
+#: are repaired at exact 0/1 values (tfa.problem.builder.ThermoProblem._loose_point).
 GLPK_ANY_POINT_BACKTRACKING = "GLP_BT_BPH"
 
 
