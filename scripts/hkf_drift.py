@@ -29,7 +29,7 @@ from tfa.thermo.species import Species, load_species
 from tfa.thermo.temperature import standard_gibbs
 
 TEMPERATURES_C = (25.0, 60.0, 80.0, 100.0, 150.0)
-#: Acceptance tolerances, kJ/mol, by temperature in degC (brief of issue 2; DESIGN.md).
+#: Acceptance tolerances, kJ/mol, by temperature in degC (the design notes (docs/design)).
 TOLERANCES = {25.0: 0.1, 60.0: 0.5, 100.0: 1.5}
 #: Temperatures at which the constant-ΔH fallback is also shown, degC.
 CONSTANT_H_SHOWN = (80.0, 100.0)

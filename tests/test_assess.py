@@ -12,14 +12,20 @@ import json
 import pytest
 
 import tfa
-from tfa.api import FIGURE_FILES, REPORT_FILE, SUMMARY_FILE, TABLE_FILES, order_route, parse_route
+from tfa.analyses.route import order_route, parse_route
+from tfa.assessment import REPORT_FILE, SUMMARY_FILE
 from tfa.report.tables import compare_table_files
+
+TABLE_FILES = ("coverage", "census", "census_counts", "feasibility", "uphill_sets", "h2_scan",
+               "h2_threshold", "driving_force", "energy_profile", "ranges",
+               "robustness_feasibility", "robustness_uphill")
+FIGURE_FILES = ("energy_profile", "h2_scan", "census", "ranges")
 
 
 @pytest.fixture(scope="module")
 def run(tmp_path_factory):
     out = tmp_path_factory.mktemp("assess") / "results"
-    result = tfa.assess(out=out, h2_levels=[1e-6, 1e-3], robustness_draws=1)
+    result = tfa.assess(out=out, h2_levels=[1e-6, 1e-3], draws=1)
     return result, out
 
 
@@ -57,10 +63,10 @@ def test_summary_answers_the_atp_question(run):
 def test_energy_profile_recomputed(run):
     """Each step's ΔrG' from the reference solution's concentrations (Alberty 2003 eq. 4.1-4)."""
     result, _ = run
-    profile = result.profile
+    profile = result.energy_profile.table
+    reference = result.energy_profile.reference
     assert len(profile) >= 3
-    tm_conc = dict(zip(result.reference.concentrations["compound"],
-                       result.reference.concentrations["ln_c"]))
+    tm_conc = dict(zip(reference.concentrations["compound"], reference.concentrations["ln_activity"]))
     rt = 8.314462618e-3 * result.environment.conditions.temperature  # R: CODATA 2018
     model = result.network
     for row in profile.itertuples():
@@ -68,8 +74,10 @@ def test_energy_profile_recomputed(run):
         d = 1 if row.direction == "forward" else -1
         term = sum(c * tm_conc[m.id] for m, c in reaction.metabolites.items()
                    if m.id not in ("h", "h2o"))
-        assert row.dg_prime == pytest.approx(d * (row.dg_standard * d + rt * term), abs=1e-6)
-    assert profile["cumulative"].iloc[-1] == pytest.approx(profile["dg_prime"].sum())
+        assert row.delta_g_kJ_per_mol == pytest.approx(
+            d * (row.delta_g_standard_kJ_per_mol * d + rt * term), abs=1e-6)
+    assert profile["cumulative_delta_g_kJ_per_mol"].iloc[-1] == pytest.approx(
+        profile["delta_g_kJ_per_mol"].sum())
     # the route ends by making pyruvate
     last = model.reactions.get_by_id(profile["reaction"].iloc[-1])
     d = 1 if profile["direction"].iloc[-1] == "forward" else -1
@@ -80,12 +88,14 @@ def test_ranges_contain_the_reference_solution(run):
     """The reference steady state lies in the feasible set, so each ΔrG' it has lies inside the
     reaction's range (the ranges are over that set)."""
     result, _ = run
-    at = dict(zip(result.reference.table["reaction"], result.reference.table["dg_prime_kJ"]))
+    reference = result.energy_profile.reference
+    at = dict(zip(reference.table["reaction"], reference.table["delta_g_kJ_per_mol"]))
     ranges = result.ranges.reactions.set_index("reaction")
     checked = 0
     for rid, g in at.items():
         if rid in ranges.index:
-            lo, hi = ranges.loc[rid, "dg_min_kJ"], ranges.loc[rid, "dg_max_kJ"]
+            lo = ranges.loc[rid, "delta_g_min_kJ_per_mol"]
+            hi = ranges.loc[rid, "delta_g_max_kJ_per_mol"]
             assert lo - 1e-5 <= g <= hi + 1e-5, rid
             checked += 1
     assert checked > 10

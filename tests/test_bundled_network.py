@@ -218,7 +218,7 @@ def test_thermo_keys_exist_and_are_pseudoisomers(compounds):
 
 def test_no_thermo_key_for_unreviewed_only_compounds(compounds):
     """Acetyl phosphate, PEP, 3-phosphoglycerate... have species data only from the unreviewed
-    2026 source (DESIGN.md): they must take their energy from reviewed literature values."""
+    2026 source (the design notes (docs/design)): they must take their energy from reviewed literature values."""
     for cid in ("actp", "pep", "pg3", "bpg", "f6p", "g6p", "r5p", "ru5p", "glyc3p", "coa", "accoa", "thf"):
         assert compounds[cid]["thermo_key"] == "", cid
 
@@ -299,11 +299,11 @@ def test_acyl_phosphate_kinase_analogues_lie_in_the_textbook_range(values):
 
 def test_every_internal_reaction_has_an_energy_at_the_demo_setting():
     """No placeholder: every internal reaction carries a value with a source and sigma; at least
-    85 % come from reviewed species data or cited literature values (DESIGN.md: never silently
+    85 % come from reviewed species data or cited literature values (the design notes (docs/design): never silently
     zero, every energy with provenance and a standard uncertainty)."""
-    coverage = pytest.importorskip("tfa.network.coverage")
-    bundled = pytest.importorskip("tfa.network.bundled")
-    environment = pytest.importorskip("tfa.network.environment")
+    from tfa.network import coverage
+    from tfa.network import bundled
+    from tfa.network import environment
     report = coverage.coverage(bundled.load_bundled_network(), environment.bundled_environment())
     assert not [r.reaction_id for r in report.reactions if r.source in ("placeholder", "none")]
     for r in report.reactions:
@@ -365,9 +365,9 @@ def test_outer_protons_pay_for_atp_at_the_demo_setting():
     n RT ln10 (pH_in - pH_out); within the bounds of the environment (ATP >= min, ADP <= max, Pi
     fed) this must exceed the cost of ADP + Pi -> ATP + H2O, else the module could not make ATP.
     The reaction energy is recomputed here from RT ln Q with R of CODATA 2018."""
-    energies = pytest.importorskip("tfa.network.energies")
-    bundled = pytest.importorskip("tfa.network.bundled")
-    environment = pytest.importorskip("tfa.network.environment")
+    from tfa.network import energies
+    from tfa.network import bundled
+    from tfa.network import environment
     model, env = bundled.load_bundled_network(), environment.bundled_environment()
     with model:
         tm = energies.prepare(model, env, "native")
@@ -400,9 +400,9 @@ def test_the_gradient_solves_the_energy_coupling_problem_of_the_native_network()
     The bundled network shows both sides: with the outer protons fed, the native mode has a
     certified steady state with every reaction downhill; without them it needs the formaldehyde
     shunt driven uphill (formate reduced by NADH, FALDH), and nothing else."""
-    energies = pytest.importorskip("tfa.network.energies")
-    bundled = pytest.importorskip("tfa.network.bundled")
-    environment = pytest.importorskip("tfa.network.environment")
+    from tfa.network import energies
+    from tfa.network import bundled
+    from tfa.network import environment
     from tfa.analyses import feasibility
     from tfa.problem import ProblemOptions
 
@@ -422,7 +422,7 @@ def test_the_gradient_solves_the_energy_coupling_problem_of_the_native_network()
 # ----------------------------------------------------------------------------- flux balance
 @pytest.fixture()
 def model():
-    io_table = pytest.importorskip("tfa.network.io_table")
+    from tfa.network import io_table
     return io_table.read_network(FOLDER / "reactions.tsv")
 
 

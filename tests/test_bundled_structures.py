@@ -7,8 +7,6 @@ from pathlib import Path
 
 import pytest
 
-pytest.importorskip("rdkit")
-
 from tfa.thermo.balance import parse_formula  # noqa: E402
 from tfa.thermo.group_contribution import molecule_formula, parse_structure  # noqa: E402
 

@@ -53,42 +53,48 @@ def test_census_energy_at_1mM_recomputed(census_json, tmp_path):
 
     model = load_bundled_network()
     t = environment()["conditions"]["temperature_C"] + 273.15
-    rows = census_json["table"]
+    rows = census_json["tables"]["census"]
     assert len(rows) > 100
     for row in rows:
         reaction = model.reactions.get_by_id(row["reaction"])
         n = sum(c for m, c in reaction.metabolites.items() if m.id not in ("h", "h2o"))
-        expected = row["dg0_prime_kJ"] + R * t * n * math.log(1e-3)
-        assert row["dg_1mM_kJ"] == pytest.approx(expected, abs=1e-6), row["reaction"]
-    counts = census_json["counts"][0]
-    assert counts["exergonic at 1 mM"] == sum(r["dg_1mM_kJ"] < 0 for r in rows)
+        expected = row["delta_g_standard_kJ_per_mol"] + R * t * n * math.log(1e-3)
+        assert row["delta_g_1mM_kJ_per_mol"] == pytest.approx(expected, abs=1e-6), row["reaction"]
+    counts = census_json["tables"]["census_counts"][0]
+    assert counts["exergonic_1mM"] == sum(r["delta_g_1mM_kJ_per_mol"] < 0 for r in rows)
 
 
 def test_driving_force_of_one_reaction_is_analytic(census_json, tmp_path):
     """Noor et al. 2014: B of h2 + co2 -> formate + H+ alone, formate at its lower bound."""
     env = environment()
-    dg0 = next(r["dg0_prime_kJ"] for r in census_json["table"] if r["reaction"] == "HDCR")
+    dg0 = next(r["delta_g_standard_kJ_per_mol"] for r in census_json["tables"]["census"]
+               if r["reaction"] == "HDCR")
     t = env["conditions"]["temperature_C"] + 273.15
     low = env["bounds"]["default"][0]
     expected = -(dg0 + R * t * math.log(low / (env["feed"]["h2"] * env["feed"]["co2"])))
-    run = tfa("driving-force", "--pathway", "HDCR", "--json", "-q", "--out", str(tmp_path))
+    run = tfa("driving-force", "--route", "HDCR", "--json", "-q", "--out", str(tmp_path))
     assert run.returncode == 0, run.stderr
     out = json.loads(run.stdout)
-    assert out["driving_force_kJ"] == pytest.approx(expected, abs=1e-5)
-    assert out["bottlenecks"] == ["HDCR"]
+    (route,) = out["tables"]["driving_force_route"]
+    assert route["driving_force_kJ_per_mol"] == pytest.approx(expected, abs=1e-5)
+    assert route["reaction"] == "HDCR"
+    assert (tmp_path / "driving_force_route.csv").is_file()
     assert (tmp_path / "driving_force.csv").is_file() and (tmp_path / "driving_force.json").is_file()
 
 
 def test_feasible_and_uphill_agree(tmp_path):
-    """Feasible in a mode exactly when its minimal uphill set is empty (same problem, two ways)."""
-    feas = tfa("feasible", "--modes", "native", "--json", "-q", "--out", str(tmp_path))
+    """Feasible in a mode exactly when its minimal uphill set is empty (same problem, two ways):
+    the two commands give the same first set and the same count."""
+    feas = tfa("feasible", "--modes", "native,h2_only", "--json", "-q", "--out", str(tmp_path))
     assert feas.returncode == 0, feas.stderr
-    row = json.loads(feas.stdout)["feasibility"][0]
-    up = tfa("uphill", "--json", "-q", "--alternatives", "1")
+    feasible = json.loads(feas.stdout)
+    up = tfa("uphill", "--modes", "native,h2_only", "--json", "-q")
     assert up.returncode == 0, up.stderr
-    size = json.loads(up.stdout)["size"]
-    assert row["feasible"] == (size == 0)
-    assert row["uphill_set_size"] == size
+    uphill = json.loads(up.stdout)
+    for row in feasible["tables"]["feasibility"]:
+        assert row["feasible"] == (row["uphill_set_size"] == 0)
+    assert feasible["uphill"] == uphill["uphill"] and feasible["feasible"] == uphill["feasible"]
+    assert feasible["uphill"]["h2_only"][0]          # the H2-only mode needs a driven step
     assert sorted(p.name for p in tmp_path.iterdir()) == [
         "feasibility.csv", "feasibility.json", "uphill_sets.csv", "uphill_sets.json"]
 
@@ -96,16 +102,17 @@ def test_feasible_and_uphill_agree(tmp_path):
 def test_h2_scan_and_threshold_agree(tmp_path):
     """The threshold (one MILP over ln H2) and the scan (fixed levels) tell the same story: no
     scanned level below a found threshold is feasible, every level above it is."""
-    scan = tfa("h2-scan", "--levels", "1e-8:1e-2:4", "--no-uphill", "--json", "-q", "--out", str(tmp_path))
+    scan = tfa("h2-scan", "--h2-range", "1e-8:1e-2", "--h2-levels", "4", "--no-uphill", "--json",
+               "-q", "--out", str(tmp_path))
     assert scan.returncode == 0, scan.stderr
-    table = json.loads(scan.stdout)["table"]
-    assert [r["h2"] for r in table] == pytest.approx([1e-8, 1e-6, 1e-4, 1e-2])
-    thr = tfa("h2-threshold", "--range", "1e-8:1e-2", "--json", "-q")
+    table = json.loads(scan.stdout)["tables"]["h2_scan"]
+    assert [r["h2_activity"] for r in table] == pytest.approx([1e-8, 1e-6, 1e-4, 1e-2])
+    thr = tfa("h2-threshold", "--h2-range", "1e-8:1e-2", "--json", "-q")
     assert thr.returncode == 0, thr.stderr
-    out = json.loads(thr.stdout)
+    threshold = json.loads(thr.stdout)["h2_threshold"]
     for row in table:
-        if out["feasible"]:
-            assert row["feasible"] == (row["h2"] >= out["threshold"] * (1 - 1e-9))
+        if threshold is not None:
+            assert row["feasible"] == (row["h2_activity"] >= threshold * (1 - 1e-9))
         else:
             assert not row["feasible"]
     assert (tmp_path / "h2_scan.png").is_file() and (tmp_path / "h2_scan.svg").is_file()
@@ -115,35 +122,32 @@ def test_ranges_inside_the_concentration_box(census_json, tmp_path):
     """The range of ΔrG' of HDCR lies inside what its concentration bounds allow (Alberty 2003
     eq. 4.1-4 at the extreme concentrations) and contains a value below zero (it runs)."""
     env = environment()
-    dg0 = next(r["dg0_prime_kJ"] for r in census_json["table"] if r["reaction"] == "HDCR")
+    dg0 = next(r["delta_g_standard_kJ_per_mol"] for r in census_json["tables"]["census"]
+               if r["reaction"] == "HDCR")
     t = env["conditions"]["temperature_C"] + 273.15
     fed = math.log(env["feed"]["h2"] * env["feed"]["co2"])
     low, high = (dg0 + R * t * (math.log(b) - fed) for b in env["bounds"]["default"])
-    run = tfa("ranges", "--reactions", "HDCR", "--allow-uphill", "--json", "-q", "--out", str(tmp_path))
+    run = tfa("ranges", "--reactions", "HDCR", "--json", "-q", "--out", str(tmp_path))
     assert run.returncode == 0, run.stderr
-    row = json.loads(run.stdout)["table"][0]
-    assert low - 1e-6 <= row["min"] <= row["max"] <= high + 1e-6
-    assert row["min"] < 0
+    row = json.loads(run.stdout)["tables"]["ranges"][0]
+    assert low - 1e-6 <= row["delta_g_min_kJ_per_mol"] <= row["delta_g_max_kJ_per_mol"] <= high + 1e-6
+    assert row["delta_g_min_kJ_per_mol"] < 0
     assert (tmp_path / "ranges.png").is_file()
 
 
-def test_text_output_and_help():
+def test_text_output():
     run = tfa("census", "--modes", "native,no_atp_bare")
     assert run.returncode == 0, run.stderr
     assert "exergonic at 1 mM" in run.stdout and "no_atp_bare" in run.stdout
-    for command in ("assess", "feasible", "uphill", "h2-scan", "h2-threshold", "ranges",
-                    "driving-force", "census"):
-        help_run = tfa(command, "--help")
-        assert help_run.returncode == 0 and "--json" in help_run.stdout and "--quiet" in help_run.stdout
 
 
 BAD_INPUTS = [
     ("feasible", ["--modes", "native,sideways"], "sideways"),
     ("uphill", ["no/such/reactions.tsv"], "no/such/reactions.tsv"),
-    ("h2-scan", ["--levels", "1e-6:-1:3"], "--levels"),
-    ("h2-threshold", ["--range", "1e-2:1e-9"], "--range"),
+    ("h2-scan", ["--h2-range", "1e-6:-1"], "--h2-range"),
+    ("h2-threshold", ["--h2-range", "1e-2:1e-9"], "--h2-range"),
     ("ranges", ["--reactions", "NOT_A_REACTION"], "NOT_A_REACTION"),
-    ("driving-force", ["--pathway", "HDCR,NOT_A_REACTION"], "NOT_A_REACTION"),
+    ("driving-force", ["--route", "HDCR,NOT_A_REACTION"], "NOT_A_REACTION"),
     ("census", ["--ratio", "-5"], "--ratio"),
     ("assess", ["--route", "HDCR,NOT_A_REACTION"], "NOT_A_REACTION"),
 ]

@@ -46,7 +46,7 @@ def test_text_output(capsys):
     code = main(["dg", "ATP + H2O = ADP + phosphate", "--ionic-strength", "0.25"])
     out = capsys.readouterr().out
     assert code == 0
-    assert "dG'0" in out and "balance" in out and "LH06a" in out
+    assert "ΔrG'°" in out and "balance" in out and "LH06a" in out
 
 
 def test_unknown_compound_exit_2_and_nothing_on_stdout(capsys):

@@ -74,14 +74,14 @@ def test_text_output(folder, capsys):
 def test_json_output_carries_the_hand_value(folder, capsys):
     assert main(["inspect", str(folder), "--json", "--no-estimates"]) == 0
     payload = json.loads(capsys.readouterr().out)
-    rows = {r["id"]: r for r in payload["reactions"]}
+    rows = {r["reaction"]: r for r in payload["reactions"]}
     assert set(rows) == {"ACK", "ATPH", "LDH", "XR"}
     assert payload["counts"]["literature"] == 1 and payload["internal_reactions"] == 4
     assert payload["reviewed_or_cited_fraction"] == pytest.approx(0.5)
     vent = Conditions.from_celsius(70.0, ph=7.0, ionic_strength=0.25)
     atp = ThermoDatabase.load().reaction_energy("ATP + H2O <=> ADP + phosphate", vent).standard
-    assert rows["ACK"]["dG0_prime_kJ"] == pytest.approx(-43.1 - atp, abs=0.05)
-    assert rows["XR"]["dG0_prime_kJ"] is None and rows["XR"]["source"] == "none"
+    assert rows["ACK"]["delta_g_standard_kJ_per_mol"] == pytest.approx(-43.1 - atp, abs=0.05)
+    assert rows["XR"]["delta_g_standard_kJ_per_mol"] is None and rows["XR"]["source"] == "none"
     assert payload["balance"] == {"internal_reactions": 4, "balanced": 4, "unbalanced": []}
 
 
@@ -89,10 +89,10 @@ def test_condition_options_override_the_environment(folder, capsys):
     assert main(["inspect", str(folder), "--json", "--no-estimates", "--temperature", "25"]) == 0
     payload = json.loads(capsys.readouterr().out)
     assert payload["conditions"]["temperature_C"] == pytest.approx(25.0)
-    ack = next(r for r in payload["reactions"] if r["id"] == "ACK")
+    ack = next(r for r in payload["reactions"] if r["reaction"] == "ACK")
     room = Conditions(298.15, 7.0, 0.25)
     atp = ThermoDatabase.load().reaction_energy("ATP + H2O <=> ADP + phosphate", room).standard
-    assert ack["dG0_prime_kJ"] == pytest.approx(-43.1 - atp, abs=1e-6)
+    assert ack["delta_g_standard_kJ_per_mol"] == pytest.approx(-43.1 - atp, abs=1e-6)
 
 
 def test_unbalanced_reaction_is_reported_not_fatal(folder, capsys):
@@ -138,5 +138,5 @@ def test_bundled_network_without_argument(capsys):
     assert payload["environment"] == "Kestrel Ridge vent field"
     assert payload["internal_reactions"] == len(payload["reactions"]) > 0
     for row in payload["reactions"]:
-        assert row["dG0_prime_kJ"] is None or math.isfinite(row["dG0_prime_kJ"])
-        assert row["dG0_prime_kJ"] != 0.0 or row["source"] in ("species", "literature", "reconciled")
+        assert row["delta_g_standard_kJ_per_mol"] is None or math.isfinite(row["delta_g_standard_kJ_per_mol"])
+        assert row["delta_g_standard_kJ_per_mol"] != 0.0 or row["source"] in ("species", "literature", "reconciled")

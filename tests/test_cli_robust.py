@@ -37,13 +37,13 @@ def test_zero_sigma_on_the_bundled_network_is_the_deterministic_answer(bundled):
         assert record["error"] is None
         assert record["feasible"] == expected.feasible
         if not expected.feasible:
-            assert record["uphill_size"] == expected.diagnosis.size
-            assert record["uphill"] == sorted(expected.diagnosis.sets[0])
+            assert record["uphill_set_size"] == expected.diagnosis.size
+            assert record["uphill_set"] == sorted(expected.diagnosis.sets[0])
 
 
 def test_map_command_writes_tables_and_heatmaps(tmp_path, capsys):
     out = tmp_path / "map"
-    code = main(["map", "--x", "temperature=50,90", "--y", "ph=7.5", "--serial", "--no-threshold",
+    code = main(["map", "--x", "temperature=50,90", "--y", "ph=7.5", "--modes", "native", "--no-threshold",
                  "--no-driving-force", "--out", str(out), "--json", "-q"])
     assert code == 0
     payload = json.loads(capsys.readouterr().out)
@@ -52,7 +52,7 @@ def test_map_command_writes_tables_and_heatmaps(tmp_path, capsys):
     for name in ("map.jsonl", "map.csv", "map.json", "map_native.png", "map_native.svg"):
         assert (out / name).stat().st_size > 0
     # resuming a finished map computes nothing and gives the same table
-    assert main(["map", "--x", "temperature=50,90", "--y", "ph=7.5", "--serial", "--no-threshold",
+    assert main(["map", "--x", "temperature=50,90", "--y", "ph=7.5", "--modes", "native", "--no-threshold",
                  "--no-driving-force", "--out", str(out), "--resume", "--json", "-q"]) == 0
     again = json.loads(capsys.readouterr().out)
     assert again["table"] == payload["table"]
@@ -61,13 +61,13 @@ def test_map_command_writes_tables_and_heatmaps(tmp_path, capsys):
 
 
 def test_robustness_command_json(tmp_path, capsys):
-    code = main(["robustness", "--draws", "1", "--modes", "native", "--serial", "--no-threshold",
+    code = main(["robustness", "--draws", "1", "--modes", "native", "--no-threshold",
                  "--sigma-scale", "0", "--out", str(tmp_path / "r"), "--json", "-q"])
     assert code == 0
     payload = json.loads(capsys.readouterr().out)
     row = payload["feasibility"][0]
     assert row["mode"] == "native" and row["draws"] == 1
-    assert row["feasible"] == (1 if row["deterministic_feasible"] else 0)
+    assert row["feasible_draws"] == (1 if row["deterministic_feasible"] else 0)
     assert (tmp_path / "r" / "robustness_uphill.csv").is_file()
 
 
@@ -76,7 +76,7 @@ def test_robustness_command_json(tmp_path, capsys):
     (["map", "--x", "ph=7,8", "--y", "ph=6"], "different"),
     (["robustness", "--resume"], "--out"),
     (["robustness", "--modes", "sideways"], "mode"),
-    (["robustness", "--serial", "--scheduler", "local"], "exclude"),
+    (["robustness", "--workers", "0"], "--workers"),
 ])
 def test_bad_options_exit_2_with_a_message(argv, message, capsys):
     assert main(argv) == 2

@@ -1,7 +1,7 @@
-"""Issue 6 acceptance: the feasibility engine with uncertainty slack k = 2 runs on the bundled
-network with the group-contribution estimates in place and passes its certificate.
+"""The estimates in the engine: the feasibility engine with uncertainty slack k = 2 runs on the
+bundled network with the group-contribution estimates in place and passes its certificate.
 
-The slack follows DESIGN.md: g_j = Delta_r G'deg_j + eps_j + RT sum_i S_ij x_i with
+The slack follows the design notes (docs/design): g_j = Delta_r G'deg_j + eps_j + RT sum_i S_ij x_i with
 |eps_j| <= k sigma_j (the "uncertainty" relaxation of thermodynamics-based flux analysis,
 Henry, Broadbelt & Hatzimanikatis 2007, Biophys. J. 92:1792). Widening every energy by
 2 sigma can only enlarge the feasible set, so the minimal uphill set with k = 2 is never larger
@@ -32,7 +32,7 @@ def test_estimates_enter_with_their_uncertainty(native):
     for e in estimated:
         assert math.isfinite(e.standard) and e.uncertainty > 0
         assert "group contribution" in e.provenance
-    # no internal reaction is left without an energy (issue 6: every bundled reaction has one)
+    # no internal reaction is left without an energy (every bundled reaction has one)
     assert all(math.isfinite(e.standard) for e in native.all_energies.values())
 
 

@@ -21,8 +21,6 @@ from pathlib import Path
 
 import pytest
 
-pytest.importorskip("rdkit")
-
 from tfa.cli import main  # noqa: E402
 from tfa.constants import CALORIE, LN10, R, T_REF  # noqa: E402
 from tfa.thermo import group_contribution as gc  # noqa: E402
@@ -31,7 +29,7 @@ from tfa.thermo.balance import parse_formula  # noqa: E402
 
 def _obigt_G(name: str) -> float:
     """DfG deg of an OBIGT aqueous organic species, kJ/mol, read from pychnosz's data files."""
-    pychnosz = pytest.importorskip("pychnosz")
+    import pychnosz
     path = Path(pychnosz.__file__).parent / "data" / "extdata" / "OBIGT" / "organic_aq.csv"
     with open(path, newline="", encoding="utf-8") as handle:
         for row in csv.DictReader(handle):

@@ -55,11 +55,11 @@ def test_map_matches_the_hand_derivation():
     frame = result.to_frame()
     assert len(frame) == 9 and frame["error"].isna().all()
     for row in frame.itertuples():
-        margin = _margin(row.temperature, row.h2)
+        margin = _margin(row.temperature_C, row.h2_activity)
         assert row.feasible == (margin >= DEFAULT_MIN_DRIVING_FORCE)
-        assert row.uphill_size == (0 if row.feasible else 1)
-        assert row.driving_force_kJ == pytest.approx(margin, abs=1e-6)
-        rt = R * (row.temperature + CELSIUS_ZERO)
+        assert row.uphill_set_size == (0 if row.feasible else 1)
+        assert row.driving_force_kJ_per_mol == pytest.approx(margin, abs=1e-6)
+        rt = R * (row.temperature_C + CELSIUS_ZERO)
         assert row.h2_threshold == pytest.approx(1e-4 * math.exp((10.0 + DEFAULT_MIN_DRIVING_FORCE) / rt), rel=1e-6)
     assert 0 < frame["feasible"].sum() < 9  # both answers occur on this grid
 
@@ -101,7 +101,7 @@ def test_injected_failure_is_recorded_and_the_map_completes(tmp_path):
                            workers=2, prepare=hand_prepare, results_path=path)
     frame = result.to_frame()
     failed = frame[frame["error"].notna()]
-    assert sorted(failed["temperature"].unique()) == [95.0] and len(failed) == 3
+    assert sorted(failed["temperature_C"].unique()) == [95.0] and len(failed) == 3
     assert all("injected failure" in e for e in failed["error"])
     assert frame[frame["error"].isna()]["feasible"].notna().all()
     assert result.run.complete and len(result.run.failed) == 3
@@ -175,14 +175,14 @@ def test_heatmaps_are_written_as_png_and_svg(tmp_path):
 
     result = condition_map({"fail_above_C": 80.0}, ENV, X, Y, modes=["native"], executor="serial",
                            prepare=hand_prepare)
-    paths = write_map_figures(result.to_frame(), "temperature", "h2", tmp_path)
+    paths = write_map_figures(result.to_frame(), "temperature_C", "h2_activity", tmp_path)
     assert sorted(p.suffix for p in paths) == [".png", ".svg"]
     assert paths[0].read_bytes()[:8] == b"\x89PNG\r\n\x1a\n" and paths[0].stat().st_size > 10_000
     assert "<svg" in paths[1].read_text()
-    fig = map_figure(result.to_frame(), "temperature", "h2", "native")
+    fig = map_figure(result.to_frame(), "temperature_C", "h2_activity", "native")
     texts = [t.get_text() for ax in fig.axes for t in ax.texts]
     # the feasibility panel writes yes/no in the cells: 3 feasible points at 25 and 60 degC
     feasible = result.to_frame()["feasible"]
     assert texts.count("yes") == int((feasible == True).sum())  # noqa: E712
     with pytest.raises(InputError, match="mode"):
-        map_figure(result.to_frame(), "temperature", "h2", "h2_only")
+        map_figure(result.to_frame(), "temperature_C", "h2_activity", "h2_only")

@@ -1,6 +1,6 @@
 """Coverage of networks by thermodynamic data.
 
-Acceptance (issue 3): at least 80 % of the bundled reactions get ΔrG'° from reviewed species data
+Acceptance: at least 80 % of the bundled reactions get ΔrG'° from reviewed species data
 or a cited reaction-level value; the report lists the rest; none is zero by default.
 The small-network check uses acetyl phosphate hydrolysis, −43.1 kJ/mol at pH 7, 25 °C
 (Nelson & Cox, Lehninger, 5th ed., 2008, Table 13-6; from memory).

@@ -11,22 +11,13 @@ External references:
 from __future__ import annotations
 
 import math
-import sys
-import types
-from contextlib import contextmanager
-from types import SimpleNamespace
 
 import pytest
 
 from tfa.conditions import Conditions
 from tfa.errors import NetworkFileError
-from tfa.network.energies import (
-    compound_energies,
-    log_bounds,
-    prepare,
-    prepared,
-    reaction_energies,
-)
+from tfa.network.energies import compound_energies, prepare, prepared, reaction_energies
+from tfa.network.environment import Environment, apply_environment
 from tfa.network.io_table import read_network
 from tfa.thermo.database import ThermoDatabase
 from tfa.thermo.reconcile import read_literature_values
@@ -110,7 +101,7 @@ def test_no_reaction_is_zero_by_default(network, db):
     model, values = network
     table = compound_energies(model, VENT, db, values, estimate=False)
     energies = reaction_energies(model, table)
-    # xac has no key, no value, no SMILES: "none"; lac has a SMILES but no estimator here: placeholder
+    # xac has no key, no value, no SMILES: "none"; lac has a SMILES but estimates are off: placeholder
     assert table.compounds["xac"].source == "none"
     assert table.compounds["lac"].source == "placeholder"
     assert energies["XR"].source == "none" and math.isnan(energies["XR"].standard)
@@ -121,7 +112,6 @@ def test_no_reaction_is_zero_by_default(network, db):
 
 
 def test_estimate_used_when_no_data(network, db):
-    pytest.importorskip("rdkit")
     model, values = network
     table = compound_energies(model, ROOM, db, values, estimate=True)
     assert table.compounds["lac"].source == "estimated"
@@ -153,49 +143,15 @@ def test_unknown_energy_source_is_an_error(network, db):
         reaction_energies(model, table)
 
 
-ENV_FIELDS = dict(
-    name="Kestrel Ridge vent field (test)",
-    conditions=VENT,
-    feed={"H2": 1e-3, "phosphate": 1e-3},
-    default_bounds=(1e-6, 1e-2),
-    bounds={"ac": (1e-5, 1e-1)},
-    demand={"reaction": "DM_pyr", "flux": 0.01},
-    outlets={"allowed": ["ac"]},
-)
-# a duck-typed stand-in and the real Environment class must give the same thermo model
-ENVIRONMENTS = {"stand-in": SimpleNamespace(**ENV_FIELDS)}
-try:
-    from tfa.network.environment import Environment
-
-    ENVIRONMENTS["Environment"] = Environment(
-        ENV_FIELDS["name"], VENT, feed=dict(ENV_FIELDS["feed"]), default_bounds=(1e-6, 1e-2),
-        bounds=dict(ENV_FIELDS["bounds"]), demand_reaction="DM_pyr", demand_flux=0.01, outlets=("ac",))
-except ImportError:  # pragma: no cover - until the environment module lands
-    pass
-ENV = ENVIRONMENTS["stand-in"]
+ENV = Environment("Kestrel Ridge vent field (test)", VENT, feed={"H2": 1e-3, "phosphate": 1e-3},
+                  default_bounds=(1e-6, 1e-2), bounds={"ac": (1e-5, 1e-1)},
+                  demand_reaction="DM_pyr", demand_flux=0.01, outlets=("ac",))
 
 
-@pytest.fixture()
-def stand_in_rewrites(monkeypatch):
-    """Until tfa.network.rewrites lands, a stand-in that rewrites nothing."""
-    try:
-        import tfa.network.rewrites  # noqa: F401
-    except ModuleNotFoundError:
-        module = types.ModuleType("tfa.network.rewrites")
-
-        @contextmanager
-        def apply_mode(model, mode):
-            yield model
-
-        module.apply_mode = apply_mode
-        monkeypatch.setitem(sys.modules, "tfa.network.rewrites", module)
-
-
-@pytest.mark.parametrize("env_kind", sorted(ENVIRONMENTS))
-def test_prepared_fills_the_thermo_model_and_restores(network, db, stand_in_rewrites, env_kind):
+def test_prepared_fills_the_thermo_model_and_restores(network, db):
     model, values = network
     before = {r.id: r.bounds for r in model.reactions}
-    with prepared(model, ENVIRONMENTS[env_kind], "native", db, values) as tm:
+    with prepared(model, ENV, "native", db, values) as tm:
         assert tm.demand_id == "DM_pyr"
         assert model.reactions.DM_pyr.lower_bound == pytest.approx(0.01)
         assert model.reactions.EX_ac.bounds == (0.0, 1000.0)     # outlet: export only
@@ -206,13 +162,13 @@ def test_prepared_fills_the_thermo_model_and_restores(network, db, stand_in_rewr
         assert tm.log_bounds["adp"] == pytest.approx((math.log(1e-6), math.log(1e-2)))  # default
         assert tm.no_activity == {"h2o", "h"}
         assert "h2o" not in tm.log_bounds
-        # XR has no data; LDH has an estimate when RDKit is there
-        assert {"ACK", "ATPH"} <= set(tm.energies) and "XR" not in tm.energies
+        # XR has no data; LDH has a group-contribution estimate
+        assert {"ACK", "ATPH", "LDH"} <= set(tm.energies) and "XR" not in tm.energies
         assert tm.conditions == VENT
     assert {r.id: r.bounds for r in model.reactions} == before
 
 
-def test_prepare_works_on_a_copy(network, db, stand_in_rewrites):
+def test_prepare_works_on_a_copy(network, db):
     model, values = network
     tm = prepare(model, ENV, "native", db, values)
     assert tm.model is not model
@@ -222,9 +178,9 @@ def test_prepare_works_on_a_copy(network, db, stand_in_rewrites):
 
 def test_bad_bounds_are_reported(network, db):
     model, _ = network
-    env = SimpleNamespace(conditions=VENT, feed={}, default_bounds=(1e-6, 1e-2), bounds={"adp": (1e-2, 1e-4)})
-    with pytest.raises(Exception, match="adp"):
-        log_bounds(model, env, {"h2o", "h"})
+    env = Environment("bad", VENT, bounds={"adp": (1e-2, 1e-4)})
+    with pytest.raises(NetworkFileError, match="adp"):
+        apply_environment(model, env, {"h2o", "h"})
 
 
 MOIETY_COMPOUNDS = """id\tname\tsynonyms\tformula\tcharge\tthermo_key\tconc_min\tconc_max\trole\tsmiles\tnotes

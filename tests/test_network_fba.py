@@ -1,4 +1,4 @@
-"""Plain flux balance on the bundled network in the bundled environment (acceptance of issue 3):
+"""Plain flux balance on the bundled network in the bundled environment :
 the native network makes the precursor set from the feed alone, and cannot when H2 or CO2 is
 withheld. Mass balance only (no thermodynamics): a necessary condition the bundled network must
 meet before any energy is asked of it. Flux balance as defined by J. D. Orth, I. Thiele and

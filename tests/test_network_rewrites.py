@@ -14,7 +14,8 @@ import cobra
 import pytest
 
 from tfa.errors import InputError
-from tfa.network import MODES, apply_mode, balance_report, h2_only, native, no_atp_bare_chemistry, no_atp_strict
+from tfa.modes import MODES
+from tfa.network import apply_mode, balance_report, h2_only, native, no_atp_bare_chemistry, no_atp_strict
 from tfa.network import read_network
 from tfa.network.rewrites import hydrolysis_amounts
 
@@ -128,6 +129,12 @@ def test_nested_modes_and_unknown_mode(model):
     with h2_only(model), no_atp_bare_chemistry(model):
         assert not (CARRIERS | NUCLEOTIDES) & {m.id for m in model.metabolites}
         assert balance_report(model)["balanced"].all()
+        nested = {r.id: r.build_reaction_string() for r in model.reactions}
+    assert snapshot(model) == before
+    # the combined mode of the registry is the same two rewrites, in the same order
+    with apply_mode(model, "h2_bare") as summary:
+        assert {r.id: r.build_reaction_string() for r in model.reactions} == nested
+        assert summary.mode == "h2_bare" and summary.removed
     assert snapshot(model) == before
     with pytest.raises(InputError, match="no_atp_strict"):
         with apply_mode(model, "no_atp"):

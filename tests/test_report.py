@@ -25,8 +25,9 @@ import pytest
 
 from tfa.errors import InputError
 from tfa.report import figures as F
-from tfa.report.html import ReportSection, build_report, environment_section, sources_section
-from tfa.report.summary import number_in_words, summarize, summary_lines
+from tfa.report.html import ReportSection, build_report
+from tfa.report.sections import environment_section, sources_section
+from tfa.report.text import h2_line, mode_line, number_in_words
 from tfa.report.tables import compare_table_files, read_json_table, write_table
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -41,27 +42,27 @@ PNG_SIGNATURE = b"\x89PNG\r\n\x1a\n"
 def profile_frame(n: int = 6) -> pd.DataFrame:
     dg = [-12.0, 4.5, -30.0, 8.0, -2.5, -6.0, 3.0, -9.0, 1.0, -4.0, -7.0, 2.0, -1.0, -3.0, 5.0]
     steps = [f"step_{k:02d}_with_a_rather_long_reaction_name" for k in range(n)]
-    return pd.DataFrame({"step": steps, "dg_prime": dg[:n],
-                         "dg_standard": [v + 3.0 for v in dg[:n]]})
+    return pd.DataFrame({"step": steps, "delta_g_kJ_per_mol": dg[:n],
+                         "delta_g_standard_kJ_per_mol": [v + 3.0 for v in dg[:n]]})
 
 
 def scan_frame() -> pd.DataFrame:
     h2 = np.logspace(-7, -3, 9)
     feasible = h2 >= 1e-5
     return pd.DataFrame({
-        "h2": h2,
+        "h2_activity": h2,
         "feasible": feasible,
-        "uphill_count": np.where(feasible, 0, [3, 2, 2, 1, 0, 0, 0, 0, 0]),
-        "driving_force": np.where(feasible, np.log10(h2 / 1e-5) * 2.0, np.nan),
+        "uphill_set_size": np.where(feasible, 0, [3, 2, 2, 1, 0, 0, 0, 0, 0]),
+        "driving_force_kJ_per_mol": np.where(feasible, np.log10(h2 / 1e-5) * 2.0, np.nan),
     })
 
 
 def census_frame() -> pd.DataFrame:
     rows = []
     for mode, values in {"native": [-10.0, 5.0, -1.0], "no_atp_strict": [-3.0, 2.0, 7.0]}.items():
-        for kind in ("ΔrG'°", "ΔrG' at 1 mM"):
-            for k, v in enumerate(values):
-                rows.append({"mode": mode, "reaction": f"r{k}", "dg_prime": v, "kind": kind})
+        for k, v in enumerate(values):
+            rows.append({"mode": mode, "reaction": f"r{k}", "delta_g_standard_kJ_per_mol": v,
+                         "delta_g_1mM_kJ_per_mol": v})
     return pd.DataFrame(rows)
 
 
@@ -69,8 +70,9 @@ def ranges_frame(n: int) -> pd.DataFrame:
     rng = np.random.default_rng(7)
     low = rng.uniform(-40, 10, n)
     width = rng.uniform(0.5, 30, n)
-    return pd.DataFrame({"reaction": [f"reaction_{k:03d}" for k in range(n)], "dg_min": low,
-                         "dg_max": low + width, "dg_at_solution": low + width / 2})
+    return pd.DataFrame({"reaction": [f"reaction_{k:03d}" for k in range(n)],
+                         "delta_g_min_kJ_per_mol": low, "delta_g_max_kJ_per_mol": low + width,
+                         "delta_g_kJ_per_mol": low + width / 2})
 
 
 def _rectangles(fig, texts) -> list[np.ndarray]:
@@ -161,7 +163,7 @@ def test_energy_profile_is_cumulative_and_labels_do_not_overlap():
     fig = F.energy_profile_figure(frame)
     ax = fig.axes[0]
     assert ax.get_ylabel() == "cumulative ΔrG' (kJ/mol)"
-    levels = np.concatenate([[0.0], np.cumsum(frame["dg_prime"])])
+    levels = np.concatenate([[0.0], np.cumsum(frame["delta_g_kJ_per_mol"])])
     drawn = set()
     for collection in ax.collections:  # the level bars (hlines)
         for segment in collection.get_segments():
@@ -169,8 +171,8 @@ def test_energy_profile_is_cumulative_and_labels_do_not_overlap():
     for level in levels:
         assert round(float(level), 6) in drawn
     bottom, top = ax.get_ylim()
-    assert bottom < min(levels.min(), np.cumsum(frame["dg_standard"]).min())
-    assert top > max(levels.max(), np.cumsum(frame["dg_standard"]).max())
+    assert bottom < min(levels.min(), np.cumsum(frame["delta_g_standard_kJ_per_mol"]).min())
+    assert top > max(levels.max(), np.cumsum(frame["delta_g_standard_kJ_per_mol"]).max())
     boxes = _text_boxes(fig, ax.get_xticklabels())
     assert len(boxes) == 15
     assert _overlaps(boxes) == []
@@ -179,11 +181,11 @@ def test_energy_profile_is_cumulative_and_labels_do_not_overlap():
 
 def test_energy_profile_rejects_missing_values():
     frame = profile_frame(3)
-    frame.loc[1, "dg_prime"] = np.nan
+    frame.loc[1, "delta_g_kJ_per_mol"] = np.nan
     with pytest.raises(InputError, match="step_01"):
         F.energy_profile_figure(frame)
-    with pytest.raises(InputError, match="dg_prime"):
-        F.energy_profile_figure(frame.drop(columns="dg_prime"))
+    with pytest.raises(InputError, match="delta_g_kJ_per_mol"):
+        F.energy_profile_figure(frame.drop(columns="delta_g_kJ_per_mol"))
 
 
 def test_h2_scan_panels_axis_and_threshold():
@@ -200,7 +202,7 @@ def test_h2_scan_panels_axis_and_threshold():
     with pytest.raises(InputError, match="unit"):
         F.h2_scan_figure(scan_frame(), unit="ppm")
     bad = scan_frame()
-    bad.loc[0, "h2"] = 0.0
+    bad.loc[0, "h2_activity"] = 0.0
     with pytest.raises(InputError, match="positive"):
         F.h2_scan_figure(bad)
 
@@ -225,16 +227,18 @@ def test_ranges_many_reactions_keep_readable_fonts_and_say_so():
     assert len(shown) == F.MAX_RANGE_ROWS
     assert "most constrained" in ax.get_title() and "150" in ax.get_title()
     # the kept ones are the narrowest intervals
-    widths = (big_frame["dg_max"] - big_frame["dg_min"]).to_numpy()
+    widths = (big_frame["delta_g_max_kJ_per_mol"] - big_frame["delta_g_min_kJ_per_mol"]).to_numpy()
     kept = big_frame.loc[big_frame["reaction"].isin(shown)]
-    assert (kept["dg_max"] - kept["dg_min"]).max() <= np.sort(widths)[F.MAX_RANGE_ROWS - 1] + 1e-12
+    kept_widths = kept["delta_g_max_kJ_per_mol"] - kept["delta_g_min_kJ_per_mol"]
+    assert kept_widths.max() <= np.sort(widths)[F.MAX_RANGE_ROWS - 1] + 1e-12
     assert min(_all_font_sizes(big)) >= 7.0
     assert _overlaps(_text_boxes(big, ax.get_yticklabels())) == []
 
 
 def test_ranges_rejects_inverted_interval():
-    frame = pd.DataFrame({"reaction": ["a"], "dg_min": [3.0], "dg_max": [-1.0]})
-    with pytest.raises(InputError, match="dg_min > dg_max for a"):
+    frame = pd.DataFrame({"reaction": ["a"], "delta_g_min_kJ_per_mol": [3.0],
+                          "delta_g_max_kJ_per_mol": [-1.0]})
+    with pytest.raises(InputError, match="exceeds the largest for a"):
         F.ranges_figure(frame)
 
 
@@ -296,7 +300,8 @@ def report_page(tmp_path_factory):
         ReportSection("H2 scan and threshold", "", table=scan_frame(),
                       figure_paths=[folder / "scan.svg"]),
         ReportSection("Census", "", figure_paths=[png],
-                      table=pd.DataFrame({"reaction": ["<b>r1</b>"], "dg_prime": [-1.5]})),
+                      table=pd.DataFrame({"reaction": ["<b>r1</b>"],
+                                          "delta_g_kJ_per_mol": [-1.5]})),
         sources_section(sources),
     ]
     path = build_report(sections, folder / "report.html", title="Test <report>")
@@ -377,32 +382,17 @@ def test_numbers_in_words():
 
 
 def test_summary_sentences():
-    results = {
-        "network": "made-up core",
-        "environment": "70.0 degC, pH 6.50",
-        "coverage": {"reactions": 12, "with_energy": 11, "estimated": 2, "missing": 1},
-        "feasible": {"native": True, "h2_only": None, "no_atp_strict": False,
-                     "no_atp_bare": False},
-        "uphill": {"no_atp_strict": [["fdh", "mtr", "acs"], ["fdh", "mtr", "pfor"]],
-                   "no_atp_bare": [["acs"]]},
-        "h2_threshold": None,
-        "h2_range": (1e-7, 1e-2),
-        "driving_force": 0.84,
-        "bottlenecks": ["mtr"],
-    }
-    lines = summary_lines(results)
-    assert lines[0] == "network made-up core at 70.0 degC, pH 6.50"
-    assert lines[1] == "data: 11 of 12 reactions have an energy (two estimated, one missing)"
-    assert "runs with ATP regenerated inside: yes" in lines
-    assert any(line.startswith("runs with H2 in place of the carriers: undetermined")
-               for line in lines)
-    assert ("runs without ATP: no; three steps must be driven uphill: fdh, mtr, acs "
-            "(or, as an alternative set of the same size: fdh, mtr, pfor)") in lines
-    assert ("runs as bare chemistry (ATP coupling stripped): no; one step must be driven "
-            "uphill: acs") in lines
-    assert "H2 needed: no amount between 1.00e-07 mol/L and 0.01 mol/L lets the network run" in lines
-    assert lines[-1] == "max-min driving force: 0.84 kJ/mol (tightest: mtr)"
-    assert summarize(results) == "\n".join(lines)
+    assert (mode_line("runs without ATP", False, [["fdh", "mtr", "acs"], ["fdh", "mtr", "pfor"]])
+            == "runs without ATP: no; three steps must be driven uphill: fdh, mtr, acs "
+               "(or, as an alternative set of the same size: fdh, mtr, pfor)")
+    assert (mode_line("runs as bare chemistry (ATP coupling stripped)", False, [["acs"]])
+            == "runs as bare chemistry (ATP coupling stripped): no; one step must be driven "
+               "uphill: acs")
+    assert mode_line("runs with H2 in place of the carriers", None).startswith(
+        "runs with H2 in place of the carriers: undetermined")
+    assert mode_line("runs with ATP regenerated inside", True) == "runs with ATP regenerated inside: yes"
+    assert (h2_line(None, (1e-7, 1e-2))
+            == "H2 needed: no amount between 1.00e-07 mol/L and 0.01 mol/L lets the network run")
 
 
 def test_overlap_check_can_fail():

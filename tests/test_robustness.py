@@ -49,7 +49,8 @@ def _deterministic(params: dict | None = None) -> dict:
     size = 0 if feas.feasible else feas.diagnosis.size
     members = [] if feas.feasible else sorted(feas.diagnosis.sets[0])
     threshold = thr.threshold if math.isfinite(thr.threshold) else None
-    return {"feasible": feas.feasible, "uphill_size": size, "uphill": members, "h2_threshold": threshold}
+    return {"feasible": feas.feasible, "uphill_set_size": size, "uphill_set": members,
+            "h2_threshold": threshold}
 
 
 @pytest.mark.parametrize("params, scale", [({"sigma1": 0.0}, 1.0), (None, 0.0), ({"dg1": 2.0}, 0.0)])
@@ -72,7 +73,7 @@ def test_deterministic_threshold_matches_the_analytic_value():
     assert expected == pytest.approx(5.881e-3, rel=1e-3)
     result = robustness(None, None, n_draws=1, seed=0, modes=["native"], executor="serial",
                         prepare=hand_prepare, sigma_scale=0.0)
-    assert result.threshold_frame().iloc[0]["deterministic"] == pytest.approx(expected, rel=1e-6)
+    assert result.threshold_frame().iloc[0]["h2_threshold"] == pytest.approx(expected, rel=1e-6)
 
 
 def test_feasibility_probability_matches_the_normal_distribution():
@@ -84,7 +85,7 @@ def test_feasibility_probability_matches_the_normal_distribution():
     result = robustness(None, None, n_draws=n, seed=20240607, modes=["native"], executor="serial",
                         prepare=hand_prepare, threshold=False)
     row = result.feasibility_frame().iloc[0]
-    assert row["draws"] == n and row["failed"] == 0
+    assert row["draws"] == n and row["failed_draws"] == 0
     se = math.sqrt(p * (1 - p) / n)
     assert abs(row["probability"] - p) < 4 * se
     assert row["standard_error"] == pytest.approx(math.sqrt(row["probability"] * (1 - row["probability"]) / n))
@@ -113,7 +114,8 @@ def test_threshold_quantiles_follow_the_draws():
     values = sorted(r["h2_threshold"] for r in result.records
                     if r["draw"] != "mean" and r["h2_threshold"] is not None)
     assert frame["draws"] == len(values) and frame["never_feasible"] == 30 - len(values)
-    assert values[0] <= frame["q05"] <= frame["q50"] <= frame["q95"] <= values[-1]
+    assert (values[0] <= frame["h2_threshold_q05"] <= frame["h2_threshold_q50"]
+            <= frame["h2_threshold_q95"] <= values[-1])
     # threshold below 1e-2 (top of the search range) exactly when ΔrG'°1 allows it
     assert 0 < len(values) < 30
 

@@ -34,7 +34,7 @@ def test_reviewed_data_agree_with_at_least_15_independent_values(result):
 
 
 def test_acetyl_phosphate_from_the_unreviewed_source_is_flagged(result):
-    # DESIGN.md: the unreviewed 2026 source (LDS+26) makes acetyl phosphate and
+    # the design notes (docs/design): the unreviewed 2026 source (LDS+26) makes acetyl phosphate and
     # 1,3-bisphosphoglycerate hydrolysis about 30 kJ/mol less negative than the established
     # -43 (Nelson & Cox 2008, from memory) and -49 kJ/mol.
     loose = {e.id: e for e in result.mode("with_unreviewed")}

@@ -84,7 +84,7 @@ def test_fumarate_reduction_by_h2(db):
 
 
 def test_co2_three_ways_give_the_same_actual_energy(db):
-    # DESIGN.md: CO2 (dissolved), CO2(g) and CO2tot (hydrated total) are three reactants; with
+    # the design notes (docs/design): CO2 (dissolved), CO2(g) and CO2tot (hydrated total) are three reactants; with
     # activities consistent with gas-liquid equilibrium and speciation at the pH, dG' must agree.
     c = Conditions.from_celsius(60, ph=6.3, ionic_strength=0.1)
     rt = c.RT
@@ -165,7 +165,7 @@ def test_uncertainty_and_provenance_are_reported(db):
 
 
 def test_unreviewed_species_are_off_by_default(db):
-    # DESIGN.md: unreviewed sources (LDS+26, submitted manuscript) are off unless asked.
+    # the design notes (docs/design): unreviewed sources (LDS+26, submitted manuscript) are off unless asked.
     with pytest.raises(MissingDataError, match="LDS\\+26"):
         db.reaction_energy("acetyl phosphate + H2O <=> acetate + phosphate", PH7)
     loose = ThermoDatabase.load(include_unreviewed=True)

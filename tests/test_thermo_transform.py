@@ -31,7 +31,7 @@ def test_rt_alpha_follows_the_debye_huckel_constant_of_water(celsius):
     # Reference: pychnosz water('A_DH') (Debye-Hueckel A, log10 and molal basis, from the water
     # model of Johnson & Norton 1991 / SUPCRT92). alpha(T) = A ln10; Alberty's polynomial is a fit
     # valid 0-100 degC, agreeing within 0.01 in A (molal/molar and fit differences).
-    pychnosz = pytest.importorskip("pychnosz")
+    import pychnosz
     t = celsius + 273.15
     a_reference = float(pychnosz.water("A_DH", T=t, messages=False))
     assert rt_alpha(t) / (R * t) / LN10 == pytest.approx(a_reference, abs=0.01)
@@ -66,7 +66,7 @@ def test_reactant_energy_is_stable_for_large_energies():
 def test_phosphate_speciation_at_its_pka_from_pychnosz(db):
     # Reference: pychnosz (OBIGT/HKF) logK of H2PO4- = HPO4-2 + H+ at 25 degC; at pH = pKa the two
     # species are half and half (Henderson-Hasselbalch). Textbook pKa2 = 7.20 (Alberty 2003).
-    pychnosz = pytest.importorskip("pychnosz")
+    import pychnosz
     out = pychnosz.subcrt(["H2PO4-", "HPO4-2", "H+"], [-1, 1, 1], T=25, messages=False).out
     pka = -float(out["logK"].iloc[0])
     assert pka == pytest.approx(7.20, abs=0.05)
@@ -141,8 +141,8 @@ def test_every_potential_has_a_source_and_uncertainty(db):
 
 def test_constant_cp_against_hkf_at_80_C(db):
     # Reference: pychnosz subcrt (HKF for aqueous species, Maier-Kelley for gases) at 80 degC;
-    # DESIGN.md: constant-Cp stays within about 0.5 kJ/mol per reaction at 80 degC.
-    pychnosz = pytest.importorskip("pychnosz")
+    # the design notes (docs/design): constant-Cp stays within about 0.5 kJ/mol per reaction at 80 degC.
+    import pychnosz
     c = Conditions.from_celsius(80, ph=7.0)
     cases = [
         ("4 H2(g) + CO2(g) <=> CH4(g) + 2 H2O", ["H2", "CO2", "CH4", "H2O"], [-4, -1, 1, 2],

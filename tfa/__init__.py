@@ -17,13 +17,16 @@ __version__ = "0.1.0"
 
 #: Names re-exported lazily: name -> (module, attribute).
 _EXPORTS = {
-    "assess": ("tfa.api", "assess"),
-    "Assessment": ("tfa.api", "Assessment"),
-    "load_network": ("tfa.api", "load_network"),
-    "load_environment": ("tfa.api", "load_environment"),
+    "assess": ("tfa.assessment.run", "assess"),
+    "Assessment": ("tfa.assessment.result", "Assessment"),
+    "Step": ("tfa.assessment.step", "Step"),
+    "register_step": ("tfa.assessment.registry", "register_step"),
+    "load_network": ("tfa.network.inputs", "load_network"),
+    "load_environment": ("tfa.network.inputs", "load_environment"),
     "ThermoDatabase": ("tfa.thermo.database", "ThermoDatabase"),
     "Conditions": ("tfa.conditions", "Conditions"),
     "ProblemOptions": ("tfa.problem.builder", "ProblemOptions"),
+    "MODES": ("tfa.modes", "MODES"),
 }
 
 __all__ = ["__version__", *_EXPORTS]
@@ -36,3 +39,7 @@ def __getattr__(name: str) -> Any:
         module_name, attribute = _EXPORTS[name]
         return getattr(importlib.import_module(module_name), attribute)
     raise AttributeError(f"module 'tfa' has no attribute {name!r}")
+
+
+def __dir__() -> list[str]:
+    return sorted(__all__)

@@ -153,7 +153,7 @@ class Conditions:
             "temperature_K": self.temperature,
             "temperature_C": self.celsius,
             "pH": self.ph,
-            "ionic_strength_M": self.ionic_strength,
+            "ionic_strength_mol_per_L": self.ionic_strength,
             "pressure_bar": self.pressure_bar,
             "pMg": self.pmg,
         }

@@ -14,15 +14,20 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
-from typing import Callable, Iterable
 
 import pandas as pd
 
 from ..errors import InputError
-from ..network.thermo_model import MODES, ThermoModel
+from ..network.thermo_model import ThermoModel
 from .results import AnalysisResult, provenance_of
 
 MILLIMOLAR = 1e-3
+#: Default substrate:product ratio of the third reference state.
+DEFAULT_RATIO = 100.0
+#: Columns of the census table (per reaction), without the mode.
+CENSUS_COLUMNS = ["reaction", "equation", "delta_g_standard_kJ_per_mol", "sigma_kJ_per_mol",
+                  "delta_g_1mM_kJ_per_mol", "delta_g_at_ratio_kJ_per_mol", "source",
+                  "exergonic_1mM"]
 
 
 def energy_at_activities(standard: float, stoichiometry: dict[str, float],
@@ -61,7 +66,7 @@ class CensusResult(AnalysisResult):
     """Per reaction energies at three reference states; counts exergonic."""
 
     mode: str = "native"
-    ratio: float = 100.0
+    ratio: float = DEFAULT_RATIO
     table: pd.DataFrame = field(default_factory=pd.DataFrame)
     analysis: str = "census"
 
@@ -71,29 +76,37 @@ class CensusResult(AnalysisResult):
     def counts(self) -> dict:
         """Number and fraction of reactions exergonic (< 0) at each reference state."""
         n = len(self.table)
-        out = {"mode": self.mode, "reactions": n}
-        for col, key in (("dg0_prime_kJ", "standard"), ("dg_1mM_kJ", "1 mM"),
-                         ("dg_ratio_kJ", f"ratio {self.ratio:g}:1")):
-            k = int((self.table[col] < 0).sum()) if n else 0
-            out[f"exergonic at {key}"] = k
-            out[f"fraction at {key}"] = k / n if n else float("nan")
+        out = {"mode": self.mode, "reactions": n, "substrate_product_ratio": self.ratio}
+        for column, key in (("delta_g_standard_kJ_per_mol", "standard"),
+                            ("delta_g_1mM_kJ_per_mol", "1mM"),
+                            ("delta_g_at_ratio_kJ_per_mol", "at_ratio")):
+            k = int((self.table[column] < 0).sum()) if n else 0
+            out[f"exergonic_{key}"] = k
+            out[f"fraction_exergonic_{key}"] = k / n if n else float("nan")
         return out
+
+    def tables(self) -> dict[str, pd.DataFrame]:
+        return {"census": self.table.assign(mode=self.mode)[["mode", *CENSUS_COLUMNS]],
+                "census_counts": pd.DataFrame([self.counts()])}
 
     def summary(self) -> str:
         c = self.counts()
-        return (f"{self.mode}: {c['exergonic at 1 mM']} of {c['reactions']} reactions exergonic at "
-                f"1 mM, {c[f'exergonic at ratio {self.ratio:g}:1']} at substrate:product "
-                f"{self.ratio:g}:1")
-
-    def to_dict(self) -> dict:
-        out = super().to_dict()
-        out["counts"] = self.counts()
-        return out
+        return (f"{self.mode}: {c['exergonic_1mM']} of {c['reactions']} reactions exergonic at "
+                f"1 mM, {c['exergonic_at_ratio']} at substrate:product {self.ratio:g}:1")
 
 
-def census(tm: ThermoModel, ratio: float = 100.0) -> CensusResult:
-    """Delta_r G'deg, Delta_r G' at 1 mM and at substrate:product ``ratio`` for every reaction
-    with an energy (kJ/mol)."""
+
+def census(tm: ThermoModel, ratio: float = DEFAULT_RATIO) -> CensusResult:
+    """ΔrG'°, ΔrG' at 1 mM and ΔrG' at substrate:product ``ratio`` for every reaction with an
+    energy (kJ/mol).
+
+    Parameters
+    ----------
+    tm : ThermoModel
+        The network prepared in one mode.
+    ratio : float
+        Substrate:product ratio of the third reference state [dimensionless].
+    """
     if not (math.isfinite(ratio) and ratio > 0):
         raise InputError(f"substrate:product ratio must be a positive number, got {ratio!r}")
     rt = tm.RT
@@ -109,43 +122,14 @@ def census(tm: ThermoModel, ratio: float = 100.0) -> CensusResult:
         at_mm = {m: ln_mm for m in stoich}
         at_ratio = {m: ln_mm + (half if nu < 0 else -half) for m, nu in stoich.items()}
         rows.append({"reaction": r.id, "equation": r.build_reaction_string(),
-                     "dg0_prime_kJ": e.standard, "sigma_kJ": e.uncertainty,
-                     "dg_1mM_kJ": energy_at_activities(e.standard, stoich, at_mm, rt),
-                     "dg_ratio_kJ": energy_at_activities(e.standard, stoich, at_ratio, rt),
+                     "delta_g_standard_kJ_per_mol": e.standard, "sigma_kJ_per_mol": e.uncertainty,
+                     "delta_g_1mM_kJ_per_mol": energy_at_activities(e.standard, stoich, at_mm, rt),
+                     "delta_g_at_ratio_kJ_per_mol": energy_at_activities(e.standard, stoich,
+                                                                         at_ratio, rt),
                      "source": e.source})
-    table = pd.DataFrame(rows, columns=["reaction", "equation", "dg0_prime_kJ", "sigma_kJ",
-                                        "dg_1mM_kJ", "dg_ratio_kJ", "source"])
-    table["exergonic_1mM"] = table["dg_1mM_kJ"] < 0
+    table = pd.DataFrame(rows, columns=CENSUS_COLUMNS[:-1])
+    table["exergonic_1mM"] = table["delta_g_1mM_kJ_per_mol"] < 0
     result = CensusResult(conditions=tm.conditions, mode=tm.mode, ratio=ratio, table=table)
     result.provenance = provenance_of(tm)
     result.provenance["note"] = "no optimisation: no certificate needed"
     return result
-
-
-@dataclass(kw_only=True)
-class ModeCensusResult(AnalysisResult):
-    """Census counts per mode."""
-
-    results: list[CensusResult] = field(default_factory=list)
-    analysis: str = "census by mode"
-
-    def to_frame(self) -> pd.DataFrame:
-        return pd.DataFrame([r.counts() for r in self.results])
-
-
-def census_by_mode(model, environment, modes: Iterable[str] = MODES, ratio: float = 100.0,
-                   prepare: Callable | None = None) -> ModeCensusResult:
-    """The census in each mode (each mode's rewrite undone afterwards)."""
-    if prepare is None:
-        from ..network.energies import prepare as prepare_default
-
-        prepare = prepare_default
-    results = []
-    conditions = None
-    for mode in modes:
-        with model:
-            tm = prepare(model, environment, mode)
-            conditions = tm.conditions
-            results.append(census(tm, ratio))
-    return ModeCensusResult(conditions=conditions, results=results,
-                            provenance={"modes": [r.provenance for r in results]})

@@ -23,7 +23,7 @@ from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions, ThermoProblem
 from ..problem.solvers import InfeasibleProblem, check_status, optimize, resolve_solver
 from ..verify.certificate import CertificateInput, check_solution
-from .results import AnalysisResult, certify, provenance_of
+from .results import AnalysisResult, certify, concentration_table, provenance_of
 
 #: Bottleneck: a reaction whose -d g lies within this of B, kJ/mol.
 BOTTLENECK_TOLERANCE = 1e-6
@@ -40,16 +40,19 @@ class DrivingForceResult(AnalysisResult):
     bottlenecks : list of str
         Reactions whose driving force equals B at the optimum.
     table : DataFrame
-        Per reaction carrying flux: direction, Delta_r G' at the optimum, driving force -d g.
+        Per reaction carrying flux: direction, flux, ΔrG' at the optimum and its driving force
+        -d ΔrG' (kJ/mol).
     concentrations : DataFrame
-        ln c and c at the optimum.
+        Activity of every compound at the optimum (and its logarithm).
     """
 
     driving_force: float = float("nan")
     bottlenecks: list[str] = field(default_factory=list)
     table: pd.DataFrame = field(default_factory=pd.DataFrame)
     concentrations: pd.DataFrame = field(default_factory=pd.DataFrame)
-    analysis: str = "max-min driving force"
+
+    solution: object | None = None
+    analysis: str = "driving force"
 
     def to_frame(self) -> pd.DataFrame:
         return self.table
@@ -145,11 +148,12 @@ def pathway_driving_force(tm: ThermoModel, directions: dict[str, int],
     g = cert.recomputed_energies
     force = -d * g
     table = pd.DataFrame({"reaction": ids, "direction": ["forward" if v > 0 else "backward" for v in d],
-                          "dg_prime_kJ": g, "driving_force_kJ": force})
+                          "delta_g_kJ_per_mol": g, "driving_force_kJ_per_mol": force})
     result = DrivingForceResult(conditions=tm.conditions, driving_force=b,
                                 bottlenecks=[r for r, f in zip(ids, force) if f - b < BOTTLENECK_TOLERANCE * 10 + 1e-6],
                                 table=table,
-                                concentrations=pd.DataFrame({"compound": met_ids, "ln_c": x, "c": np.exp(x)}))
+                                concentrations=pd.DataFrame({"compound": met_ids, "ln_activity": x,
+                                                             "activity": np.exp(x)}))
     result.provenance = provenance_of(tm, options)
     result.provenance["solver"] = name
     result.provenance["pathway"] = dict(directions)
@@ -188,13 +192,13 @@ def network_driving_force(tm: ThermoModel, options: ProblemOptions | None = None
         ids = np.array(problem.energy_ids)
         table = pd.DataFrame({"reaction": ids[carrying],
                               "direction": np.where(d[carrying] > 0, "forward", "backward"),
-                              "flux": v[carrying], "dg_prime_kJ": g[carrying],
-                              "driving_force_kJ": force[carrying]})
+                              "flux": v[carrying], "delta_g_kJ_per_mol": g[carrying],
+                              "driving_force_kJ_per_mol": force[carrying]})
         result.table = table
+        result.solution = sol
         result.driving_force = b
-        result.bottlenecks = list(table.loc[table["driving_force_kJ"] - b < 1e-5, "reaction"])
-        result.concentrations = pd.DataFrame({"compound": sol.metabolite_ids, "ln_c": sol.log_conc,
-                                              "c": np.exp(sol.log_conc)})
+        result.bottlenecks = list(table.loc[table["driving_force_kJ_per_mol"] - b < 1e-5, "reaction"])
+        result.concentrations = concentration_table(sol)
         if not carrying.any():
             result.provenance["note"] = ("no reaction with an energy carries flux: the driving "
                                          "force is unconstrained and B is reported at its cap")

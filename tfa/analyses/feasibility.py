@@ -13,11 +13,10 @@ from __future__ import annotations
 
 import logging
 from dataclasses import dataclass, field
-from typing import Callable, Iterable
 
 import pandas as pd
 
-from ..network.thermo_model import MODES, ThermoModel
+from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions, Solution, ThermoProblem
 from ..problem.solvers import InfeasibleProblem
 from .results import (AnalysisResult, concentration_table, certify, provenance_of,
@@ -25,6 +24,12 @@ from .results import (AnalysisResult, concentration_table, certify, provenance_o
 from .uphill import ImpossibleDemandError, UphillResult, minimal_uphill_set
 
 log = logging.getLogger(__name__)
+
+
+#: Columns of the ``feasibility`` table (one row per mode).
+FEASIBILITY_COLUMNS = ["mode", "feasible", "uphill_set_size", "demand_impossible", "message"]
+#: Columns of the ``uphill_sets`` table (one row per member of a set, per mode).
+UPHILL_SET_COLUMNS = ["mode", "set", "reaction", "direction", "uphill_by_kJ_per_mol"]
 
 
 @dataclass(kw_only=True)
@@ -65,11 +70,37 @@ class FeasibilityResult(AnalysisResult):
             return self._reactions
         if self.diagnosis is not None:
             return self.diagnosis.to_frame()
-        return pd.DataFrame(columns=["reaction", "flux", "dg0_prime_kJ", "dg_prime_kJ", "direction"])
+        return pd.DataFrame(columns=["reaction", "flux", "delta_g_standard_kJ_per_mol",
+                                     "delta_g_kJ_per_mol", "direction"])
 
     def concentrations(self) -> pd.DataFrame:
-        """Per compound: ln c and c at the certified steady state (empty when infeasible)."""
+        """Per compound: activity and its logarithm at the certified steady state (empty when
+        infeasible)."""
         return self._concentrations if self._concentrations is not None else pd.DataFrame()
+
+    @property
+    def uphill_set_size(self) -> int | None:
+        """Size of the minimal uphill set: 0 when feasible, None when not computed."""
+        if self.diagnosis is not None:
+            return self.diagnosis.size
+        return 0 if self.feasible else None
+
+    def row(self) -> dict:
+        """The answer as one row of the ``feasibility`` table."""
+        return {"mode": self.mode, "feasible": self.feasible,
+                "uphill_set_size": self.uphill_set_size,
+                "demand_impossible": self.demand_impossible, "message": self.message}
+
+    def uphill_rows(self) -> list[dict]:
+        """The minimal uphill sets as rows of the ``uphill_sets`` table (empty when feasible)."""
+        if self.diagnosis is None:
+            return []
+        return [{"mode": self.mode, **row}
+                for row in self.diagnosis.to_frame().to_dict(orient="records")]
+
+    def tables(self) -> dict[str, pd.DataFrame]:
+        return {"feasibility": pd.DataFrame([self.row()], columns=FEASIBILITY_COLUMNS),
+                "uphill_sets": pd.DataFrame(self.uphill_rows(), columns=UPHILL_SET_COLUMNS)}
 
     def summary(self) -> str:
         return f"{self.mode}: {self.message}"
@@ -146,48 +177,3 @@ def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
                           + (f"; {len(diagnosis.sets)} alternative minimal sets"
                              if len(diagnosis.sets) > 1 else ""))
     return result
-
-
-@dataclass(kw_only=True)
-class ModeFeasibilityResult(AnalysisResult):
-    """Feasibility in several modes (native, H2 only, no ATP strict, no ATP bare chemistry)."""
-
-    results: list[FeasibilityResult] = field(default_factory=list)
-    analysis: str = "feasibility by mode"
-
-    def to_frame(self) -> pd.DataFrame:
-        rows = []
-        for r in self.results:
-            size = r.diagnosis.size if r.diagnosis is not None else (0 if r.feasible else None)
-            rows.append({"mode": r.mode, "feasible": r.feasible, "uphill_set_size": size,
-                         "demand_impossible": r.demand_impossible, "message": r.message})
-        return pd.DataFrame(rows)
-
-    def summary(self) -> str:
-        return "; ".join(f"{r.mode}: {'feasible' if r.feasible else 'infeasible'}" for r in self.results)
-
-
-def feasibility_by_mode(model, environment, modes: Iterable[str] = MODES,
-                        options: ProblemOptions | None = None,
-                        prepare: Callable | None = None) -> ModeFeasibilityResult:
-    """Feasibility of one network in each mode; each mode's rewrite is undone afterwards.
-
-    ``prepare(model, environment, mode) -> ThermoModel`` defaults to
-    :func:`tfa.network.energies.prepare`, applied inside ``with model:``.
-    """
-    if prepare is None:
-        from ..network.energies import prepare as prepare_default
-
-        prepare = prepare_default
-    results = []
-    conditions = None
-    for mode in modes:
-        with model:
-            tm = prepare(model, environment, mode)
-            conditions = tm.conditions
-            results.append(feasibility(tm, options))
-    out = ModeFeasibilityResult(conditions=conditions, results=results)
-    for r in results:
-        out.certificates.extend(r.certificates)
-    out.provenance = {"modes": [r.provenance for r in results]}
-    return out

@@ -20,7 +20,7 @@ from __future__ import annotations
 import logging
 import math
 from dataclasses import dataclass, field, replace
-from typing import Sequence
+from typing import Callable, Sequence
 
 import numpy as np
 import pandas as pd
@@ -29,12 +29,46 @@ from ..errors import InputError
 from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions, Solution, ThermoProblem
 from ..problem.solvers import InfeasibleProblem
+from ..vocabulary import DEFAULT_H2_LEVELS, DEFAULT_H2_RANGE
 from .results import AnalysisResult, certify, provenance_of
 
 log = logging.getLogger(__name__)
 
-#: Default H2 range of the threshold search, mol/L (1 nM to 10 mM dissolved H2).
-DEFAULT_H2_RANGE = (1e-9, 1e-2)
+#: Called after each H2 level: (levels done, levels in all).
+LevelProgress = Callable[[int, int], None]
+
+
+def h2_unit(tm: ThermoModel) -> str:
+    """The unit of the network's H2 supply: "bar" when its H2 compound is the gas, else "mol/L".
+
+    Read from the kind of the database compound behind the fed H2 (its ``thermo_key``).
+    """
+    h2 = {role.lower(): mid for role, mid in tm.feed_ids.items()}.get("h2")
+    table = tm.compound_table
+    if h2 is None or table is None or h2 not in table.compounds:
+        return "mol/L"
+    key = table.compounds[h2].key
+    if not key:
+        return "mol/L"
+    try:
+        return "bar" if table.database.compound(key).kind == "gas" else "mol/L"
+    except InputError:
+        return "mol/L"
+
+
+def scan_levels(h2_range: tuple[float, float] = DEFAULT_H2_RANGE,
+                count: int = DEFAULT_H2_LEVELS) -> list[float]:
+    """``count`` H2 levels log-spaced over ``h2_range`` (both ends included).
+
+    >>> scan_levels((1e-6, 1e-3), 4)
+    [1e-06, 1e-05, 0.0001, 0.001]
+    """
+    low, high = _check_range(h2_range)
+    if count < 1:
+        raise InputError(f"H2 levels: give at least 1 level, got {count}")
+    if count == 1:
+        return [float(low)]
+    return [float(f"{v:.12g}") for v in np.logspace(math.log10(low), math.log10(high), count)]
 
 
 def _h2_id(tm: ThermoModel, h2_id: str | None) -> str:
@@ -58,11 +92,20 @@ def _check_range(levels: Sequence[float]) -> np.ndarray:
     return arr
 
 
+#: Columns of the H2 scan table (one row per level).
+SCAN_COLUMNS = ["h2_activity", "ln_h2_activity", "h2_unit", "feasible", "driving_force_kJ_per_mol",
+                "uphill_set_size", "uphill_set"]
+#: Columns of the H2 threshold table (one row).
+THRESHOLD_COLUMNS = ["h2_compound", "feasible", "h2_threshold", "ln_h2_threshold", "h2_unit",
+                     "h2_range_low", "h2_range_high"]
+
+
 @dataclass(kw_only=True)
 class H2ScanResult(AnalysisResult):
     """Feasibility, max-min driving force and minimal uphill set size at each H2 level."""
 
     h2_id: str = ""
+    unit: str = "mol/L"
     table: pd.DataFrame = field(default_factory=pd.DataFrame)
     analysis: str = "H2 scan"
 
@@ -74,13 +117,28 @@ class H2ScanResult(AnalysisResult):
         if len(feasible) == 0:
             return f"infeasible at every scanned level of {self.h2_id}"
         return (f"feasible at {len(feasible)} of {len(self.table)} levels of {self.h2_id}; lowest "
-                f"feasible level scanned {feasible['h2'].min():.3g}")
+                f"feasible level scanned {feasible['h2_activity'].min():.3g} {self.unit}")
 
 
 def h2_scan(tm: ThermoModel, levels: Sequence[float], options: ProblemOptions | None = None,
             h2_id: str | None = None, with_driving_force: bool = True,
-            with_uphill: bool = True) -> H2ScanResult:
-    """Scan H2 supply over the given levels (mol/L, or bar for a gas compound).
+            with_uphill: bool = True, progress: LevelProgress | None = None) -> H2ScanResult:
+    """Scan H2 supply over the given levels.
+
+    Parameters
+    ----------
+    tm : ThermoModel
+        The network prepared in one mode.
+    levels : sequence of float
+        H2 levels [mol/L dissolved; bar for a gas compound].
+    options : ProblemOptions
+    h2_id : str, optional
+        The H2 metabolite (default: the fed compound keyed "H2").
+    with_driving_force, with_uphill : bool
+        Also the max-min driving force at each level [kJ/mol], and the size of the minimal
+        uphill set at infeasible levels.
+    progress : callable, optional
+        Called after each level with (levels done, levels in all).
 
     The problem is built once per kind (driving force or feasibility; uphill set for infeasible
     levels); between levels only the bounds of ln[H2] change. Every solution is certified.
@@ -91,8 +149,13 @@ def h2_scan(tm: ThermoModel, levels: Sequence[float], options: ProblemOptions | 
     envelope = (math.log(arr.min()), math.log(arr.max()))
     overrides = dict(options.log_bound_overrides)
     overrides[h2] = envelope
-    result = H2ScanResult(conditions=tm.conditions, h2_id=h2)
+    result = H2ScanResult(conditions=tm.conditions, h2_id=h2, unit=h2_unit(tm))
     rows = []
+    n_infeasible_max = len(arr) if with_uphill else 0
+
+    def tick(done: int) -> None:
+        if progress is not None:
+            progress(done, len(arr) + n_infeasible_max)
     main = replace(options, driving_force=with_driving_force, uphill=False,
                    log_bound_overrides=overrides)
     with ThermoProblem(tm, main) as problem:
@@ -106,7 +169,7 @@ def h2_scan(tm: ThermoModel, levels: Sequence[float], options: ProblemOptions | 
         for level in arr:
             x = math.log(level)
             problem.set_log_bounds(h2, x, x)
-            row = {"h2": float(level), "ln_h2": x}
+            row = {"h2_activity": float(level), "ln_h2_activity": x}
             try:
                 sol = None
                 if pattern is not None and not with_driving_force:
@@ -120,16 +183,18 @@ def h2_scan(tm: ThermoModel, levels: Sequence[float], options: ProblemOptions | 
                     sol = problem.solve(f"H2 scan at {level:.3g}")
                 pattern = problem.flux_pattern(sol)
             except InfeasibleProblem:
-                row.update(feasible=False, driving_force_kJ=float("nan"))
+                row.update(feasible=False, driving_force_kJ_per_mol=float("nan"))
             else:
                 if with_driving_force:
                     b = float(sol.driving_force)
                     result.certificates.append(certify(problem, sol, min_driving_force=b))
-                    row.update(feasible=b >= options.min_driving_force - 1e-9, driving_force_kJ=b)
+                    row.update(feasible=b >= options.min_driving_force - 1e-9,
+                               driving_force_kJ_per_mol=b)
                 else:
                     result.certificates.append(certify(problem, sol))
-                    row.update(feasible=True, driving_force_kJ=float("nan"))
+                    row.update(feasible=True, driving_force_kJ_per_mol=float("nan"))
             rows.append(row)
+            tick(len(rows))
     table = pd.DataFrame(rows)
     table["uphill_set_size"] = np.where(table["feasible"], 0, -1)
     table["uphill_set"] = ""
@@ -138,18 +203,21 @@ def h2_scan(tm: ThermoModel, levels: Sequence[float], options: ProblemOptions | 
         up = replace(options, uphill=True, driving_force=False, log_bound_overrides=overrides)
         with ThermoProblem(tm, up) as problem:
             problem.set_objective({v: 1.0 for v in problem.u_vars}, "min")
-            for i in infeasible:
-                x = rows[i]["ln_h2"]
+            for k, i in enumerate(infeasible):
+                tick(len(arr) + k)
+                x = rows[i]["ln_h2_activity"]
                 problem.set_log_bounds(h2, x, x)
                 try:
-                    sol = problem.solve(f"minimal uphill set at H2 {rows[i]['h2']:.3g}")
+                    sol = problem.solve(f"minimal uphill set at H2 {rows[i]['h2_activity']:.3g}")
                 except InfeasibleProblem:
                     continue  # demand impossible at this level whatever the energies
                 result.certificates.append(certify(problem, sol, allowed_uphill=sol.uphill))
                 table.loc[i, "uphill_set_size"] = len(sol.uphill)
                 table.loc[i, "uphill_set"] = ", ".join(sorted(sol.uphill))
     table.loc[table["uphill_set_size"] < 0, "uphill_set_size"] = np.nan
-    result.table = table
+    table["h2_unit"] = result.unit
+    result.table = table[SCAN_COLUMNS]
+    tick(len(arr) + n_infeasible_max)
     return result
 
 
@@ -158,6 +226,7 @@ class H2ThresholdResult(AnalysisResult):
     """The least H2 at which the network is feasible."""
 
     h2_id: str = ""
+    unit: str = "mol/L"
     feasible: bool = False
     threshold: float = float("nan")
     search_range: tuple[float, float] = DEFAULT_H2_RANGE
@@ -167,9 +236,17 @@ class H2ThresholdResult(AnalysisResult):
 
     def to_frame(self) -> pd.DataFrame:
         return pd.DataFrame([{"h2_compound": self.h2_id, "feasible": self.feasible,
-                              "threshold": self.threshold,
-                              "ln_threshold": math.log(self.threshold) if self.feasible else float("nan"),
-                              "range_low": self.search_range[0], "range_high": self.search_range[1]}])
+                              "h2_threshold": self.threshold,
+                              "ln_h2_threshold": math.log(self.threshold) if self.feasible
+                              else float("nan"), "h2_unit": self.unit,
+                              "h2_range_low": self.search_range[0],
+                              "h2_range_high": self.search_range[1]}], columns=THRESHOLD_COLUMNS)
+
+    @property
+    def at_range_floor(self) -> bool:
+        """True when the network is feasible already at the bottom of the range searched (the
+        true threshold, if any, lies lower)."""
+        return self.feasible and self.threshold <= self.search_range[0] * (1 + 1e-6)
 
     def summary(self) -> str:
         return self.message
@@ -190,7 +267,8 @@ def h2_threshold(tm: ThermoModel, options: ProblemOptions | None = None, h2_id: 
     overrides = dict(options.log_bound_overrides)
     overrides[h2] = (math.log(lo), math.log(hi))
     opts = replace(options, log_bound_overrides=overrides, uphill=False, driving_force=False)
-    result = H2ThresholdResult(conditions=tm.conditions, h2_id=h2, search_range=(lo, hi))
+    result = H2ThresholdResult(conditions=tm.conditions, h2_id=h2, unit=h2_unit(tm),
+                               search_range=(lo, hi))
     with ThermoProblem(tm, opts) as problem:
         result.provenance = provenance_of(tm, opts, problem)
         if h2 not in problem.metabolite_index:
@@ -210,7 +288,8 @@ def h2_threshold(tm: ThermoModel, options: ProblemOptions | None = None, h2_id: 
         result.threshold = math.exp(x)
         result.solution = sol
         at_floor = abs(x - math.log(lo)) < 1e-9
-        result.message = (f"the least H2 at which the network is feasible is {result.threshold:.4g}"
+        result.message = (f"the least H2 at which the network is feasible is "
+                          f"{result.threshold:.4g} {result.unit}"
                           + (" (the bottom of the range searched: lower it to look further)"
                              if at_floor else ""))
     return result

@@ -27,7 +27,8 @@ from dataclasses import dataclass, field, replace
 from typing import Any, Mapping
 
 from ..errors import InputError
-from ..network.thermo_model import MODES, ThermoModel
+from ..modes import get_mode
+from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions
 from ..util.points import worker_cache
 
@@ -58,7 +59,8 @@ class NetworkJob:
     token : str
         SHA-256 of ``payload``: the worker cache key.
     options : dict
-        ``min_driving_force``, ``solver``, ``time_limit``, ``unknown_energy`` (ProblemOptions) and
+        ``min_driving_force``, ``solver``, ``time_limit``, ``unknown_energy``, ``uncertainty_k``
+        (ProblemOptions) and
         ``parts``: which of :data:`OUTCOME_PARTS` to compute.
     fingerprint : str
         A hash of the network's reactions, bounds and notes and of the environment that is the
@@ -81,7 +83,7 @@ class NetworkJob:
         unknown = [p for p in parts if p not in OUTCOME_PARTS]
         if unknown:
             raise InputError(f"unknown outcome part(s) {', '.join(unknown)}; use {', '.join(OUTCOME_PARTS)}")
-        allowed = {"min_driving_force", "solver", "time_limit", "unknown_energy"}
+        allowed = {"min_driving_force", "solver", "time_limit", "unknown_energy", "uncertainty_k"}
         bad = sorted(set(options) - allowed)
         if bad:
             raise InputError(f"unknown option(s) {', '.join(bad)}; use {', '.join(sorted(allowed))}")
@@ -106,8 +108,7 @@ class NetworkJob:
     def thermo_model(self, mode: str, changes: Mapping[str, float] | None = None) -> ThermoModel:
         """The prepared model of ``mode`` at the environment with ``changes`` (see
         :func:`changed_environment`), cached per worker."""
-        if mode not in MODES:
-            raise InputError(f"unknown mode {mode!r}; use one of {', '.join(MODES)}")
+        get_mode(mode)
         key = (mode, tuple(sorted((changes or {}).items())))
         cache: OrderedDict = worker_cache(("prepared", self.token), OrderedDict)
         if key not in cache:
@@ -210,10 +211,11 @@ def _number(value) -> float | None:
 def outcome(tm: ThermoModel, options: ProblemOptions, parts=("uphill", "threshold")) -> dict:
     """Answers of the analyses for one prepared model, as a JSON-able dict.
 
-    Keys: ``feasible`` (bool), ``demand_impossible`` (bool), ``uphill_size`` and ``uphill``
-    (a minimal uphill set, sorted; size 0 when feasible), ``h2_threshold`` (least H2 at which the
-    network is feasible, mol/L or bar; None when not asked or never feasible) and
-    ``driving_force_kJ`` (max-min driving force of the network, kJ/mol; None when not asked).
+    Keys (:mod:`tfa.vocabulary`): ``feasible`` (bool), ``demand_impossible`` (bool),
+    ``uphill_set_size`` and ``uphill_set`` (a minimal uphill set, sorted; size 0 when feasible),
+    ``h2_threshold`` (least H2 at which the network is feasible, mol/L or bar; None when not asked
+    or never feasible) and ``driving_force_kJ_per_mol`` (max-min driving force of the network;
+    None when not asked).
     """
     from .feasibility import feasibility
 
@@ -223,16 +225,16 @@ def outcome(tm: ThermoModel, options: ProblemOptions, parts=("uphill", "threshol
                            "demand_impossible": bool(result.demand_impossible)}
     if diagnose:
         if result.feasible:
-            out["uphill_size"], out["uphill"] = 0, []
+            out["uphill_set_size"], out["uphill_set"] = 0, []
         elif result.diagnosis is not None:
             members = sorted(result.diagnosis.sets[0]) if result.diagnosis.sets else []
-            out["uphill_size"], out["uphill"] = int(result.diagnosis.size), members
+            out["uphill_set_size"], out["uphill_set"] = int(result.diagnosis.size), members
         else:
-            out["uphill_size"], out["uphill"] = None, None
+            out["uphill_set_size"], out["uphill_set"] = None, None
     if "threshold" in parts:
         out["h2_threshold"] = _h2_threshold(tm, options)
     if "driving_force" in parts:
-        out["driving_force_kJ"] = _driving_force(tm, options)
+        out["driving_force_kJ_per_mol"] = _driving_force(tm, options)
     return out
 
 

@@ -27,14 +27,17 @@ import numpy as np
 import pandas as pd
 
 from ..errors import InputError
-from ..network.thermo_model import MODES
+from ..modes import parse_modes
 from ..util.points import RunSummary, run_and_read
 from .jobs import CONDITION_AXES, NetworkJob, outcome
 
 log = logging.getLogger(__name__)
 
 #: Columns of a map table besides the axes.
-MAP_COLUMNS = ("feasible", "uphill_size", "driving_force_kJ", "h2_threshold")
+MAP_COLUMNS = ("feasible", "uphill_set_size", "driving_force_kJ_per_mol", "h2_threshold")
+#: Column name of each axis in the tables (:mod:`tfa.vocabulary`).
+AXIS_COLUMNS = {"temperature": "temperature_C", "ph": "pH", "ionic_strength": "ionic_strength_mol_per_L",
+                "pressure": "pressure_bar", "h2": "h2_activity"}
 
 
 def map_point(job: NetworkJob, point: dict) -> dict:
@@ -130,14 +133,17 @@ class MapResult:
     analysis: str = "condition map"
 
     def to_frame(self) -> pd.DataFrame:
-        """One row per grid point and mode: x, y, mode, feasible, uphill_size, driving_force_kJ,
-        h2_threshold, uphill (members of a minimal set, ';'-joined), error."""
+        """One row per grid point and mode: mode, the two axes (named as in :data:`AXIS_COLUMNS`),
+        feasible, uphill_set_size, driving_force_kJ_per_mol, h2_threshold, uphill_set (members of
+        a minimal set, ', '-joined), error."""
         rows = []
         for r in self.records:
-            row = {"mode": r["mode"], self.x_name: r["x"], self.y_name: r["y"], "x": r["x"], "y": r["y"]}
+            row = {"mode": r["mode"], AXIS_COLUMNS[self.x_name]: r["x"],
+                   AXIS_COLUMNS[self.y_name]: r["y"]}
             for c in MAP_COLUMNS:
                 row[c] = r.get(c)
-            row["uphill"] = ";".join(r["uphill"]) if isinstance(r.get("uphill"), list) else None
+            row["uphill_set"] = (", ".join(r["uphill_set"]) if isinstance(r.get("uphill_set"), list)
+                                 else None)
             row["error"] = r.get("error")
             rows.append(row)
         return pd.DataFrame(rows)
@@ -160,12 +166,13 @@ class MapResult:
                 "x": {"name": self.x_name, "values": self.x_values},
                 "y": {"name": self.y_name, "values": self.y_values}, "modes": self.modes,
                 "provenance": self.provenance,
-                "table": self.to_frame().drop(columns=["x", "y"]).to_dict(orient="records")}
+                "table": self.to_frame().to_dict(orient="records")}
 
 
 def _record(point: dict, line: dict | None) -> dict:
     base = {"mode": point["mode"], "x": point["x"], "y": point["y"], "feasible": None,
-            "uphill_size": None, "uphill": None, "driving_force_kJ": None, "h2_threshold": None,
+            "uphill_set_size": None, "uphill_set": None, "driving_force_kJ_per_mol": None,
+            "h2_threshold": None,
             "error": None}
     if line is None:
         base["error"] = "not computed (run interrupted)"
@@ -210,10 +217,7 @@ def condition_map(model, environment, x: tuple[str, Sequence[float]] = ("tempera
     x_vals, y_vals = [float(v) for v in x_vals], [float(v) for v in y_vals]
     if not x_vals or not y_vals:
         raise InputError("each map axis needs at least one value")
-    modes = list(modes)
-    bad = [m for m in modes if m not in MODES]
-    if bad:
-        raise InputError(f"unknown mode(s) {', '.join(bad)}; use {', '.join(MODES)}")
+    modes = parse_modes(list(modes))
     parts = ["uphill"] + (["threshold"] if threshold else []) + (["driving_force"] if driving_force else [])
     job = NetworkJob.create(model, environment, parts=parts, prepare=prepare, **problem_options)
     points = map_points((x_name, x_vals), (y_name, y_vals), modes)

@@ -42,6 +42,10 @@ class AnalysisResult:
     def to_frame(self) -> pd.DataFrame:  # pragma: no cover - every subclass overrides it
         raise NotImplementedError
 
+    def tables(self) -> dict[str, pd.DataFrame]:
+        """Every table of the result by file stem, columns from :mod:`tfa.vocabulary`."""
+        return {self.analysis.replace(" ", "_").replace("-", "_"): self.to_frame()}
+
     def summary(self) -> str:
         """One or two lines in plain words."""
         return self.analysis
@@ -88,7 +92,7 @@ def certify(problem: ThermoProblem, solution: Solution, allowed_uphill: list[str
 
 
 def reaction_table(problem: ThermoProblem, solution: Solution, certificate: Certificate) -> pd.DataFrame:
-    """Per reaction: flux, Delta_r G'deg, Delta_r G' (recomputed by the certificate), direction."""
+    """Per reaction: flux, ΔrG'°, ΔrG' (recomputed by the certificate), direction (kJ/mol)."""
     standard = dict(zip(problem.energy_ids, problem.standard))
     recomputed = dict(zip(problem.energy_ids, certificate.recomputed_energies))
     rows = []
@@ -96,8 +100,8 @@ def reaction_table(problem: ThermoProblem, solution: Solution, certificate: Cert
         rows.append({
             "reaction": rid,
             "flux": float(v),
-            "dg0_prime_kJ": standard.get(rid, float("nan")),
-            "dg_prime_kJ": recomputed.get(rid, float("nan")),
+            "delta_g_standard_kJ_per_mol": standard.get(rid, float("nan")),
+            "delta_g_kJ_per_mol": recomputed.get(rid, float("nan")),
             "direction": "forward" if v > certificate.flux_threshold else
             ("backward" if v < -certificate.flux_threshold else "none"),
             "has_energy": rid in standard,
@@ -106,8 +110,9 @@ def reaction_table(problem: ThermoProblem, solution: Solution, certificate: Cert
 
 
 def concentration_table(solution: Solution) -> pd.DataFrame:
-    """Per compound with an activity term: ln c and c (mol/L or bar)."""
+    """Per compound with an activity term: its activity (mol/L over 1 mol/L; gases bar over
+    1 bar) and the natural logarithm of it."""
     import numpy as np
 
-    return pd.DataFrame({"compound": solution.metabolite_ids, "ln_c": solution.log_conc,
-                         "c": np.exp(solution.log_conc)})
+    return pd.DataFrame({"compound": solution.metabolite_ids, "ln_activity": solution.log_conc,
+                         "activity": np.exp(solution.log_conc)})

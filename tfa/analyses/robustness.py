@@ -36,7 +36,7 @@ import pandas as pd
 
 from ..conditions import Conditions
 from ..errors import InputError
-from ..network.thermo_model import MODES
+from ..modes import STANDARD_MODES, parse_modes
 from ..util.points import RunSummary, run_and_read
 from .jobs import NetworkJob, outcome
 from .uncertainty import energy_covariance, with_energies
@@ -85,8 +85,8 @@ class RobustnessResult:
     ----------
     modes, n_draws, seed, sigma_scale : what was run
     records : list of dict
-        One per (mode, draw): ``mode``, ``draw`` (int, or "mean"), ``feasible``, ``uphill_size``,
-        ``uphill``, ``h2_threshold``, ``error`` (None when the point was solved).
+        One per (mode, draw): ``mode``, ``draw`` (int, or "mean"), ``feasible``,
+        ``uphill_set_size``, ``uphill_set``, ``h2_threshold``, ``error`` (None when solved).
     conditions : Conditions or None
     run : RunSummary of the execution (workers, time, failures)
     provenance : dict
@@ -118,9 +118,9 @@ class RobustnessResult:
             k = sum(1 for r in solved if r["feasible"])
             p = k / n if n else math.nan
             mean = self._mean(mode)
-            rows.append({"mode": mode, "draws": n, "feasible": k, "probability": p,
+            rows.append({"mode": mode, "draws": n, "feasible_draws": k, "probability": p,
                          "standard_error": math.sqrt(p * (1 - p) / n) if n else math.nan,
-                         "failed": len(self._draws(mode)) - n,
+                         "failed_draws": len(self._draws(mode)) - n,
                          "deterministic_feasible": None if mean is None or mean["error"] else mean["feasible"]})
         return pd.DataFrame(rows)
 
@@ -129,13 +129,14 @@ class RobustnessResult:
         with a computed set), and in the deterministic set."""
         rows = []
         for mode in self.modes:
-            sets = [r["uphill"] for r in self._draws(mode) if r["error"] is None and r.get("uphill") is not None]
+            sets = [r["uphill_set"] for r in self._draws(mode)
+                    if r["error"] is None and r.get("uphill_set") is not None]
             counts: dict[str, int] = {}
             for members in sets:
                 for rid in members:
                     counts[rid] = counts.get(rid, 0) + 1
             mean = self._mean(mode)
-            in_mean = set((mean or {}).get("uphill") or [])
+            in_mean = set((mean or {}).get("uphill_set") or [])
             for rid in sorted(set(counts) | in_mean, key=lambda r: (-counts.get(r, 0), r)):
                 rows.append({"mode": mode, "reaction": rid, "count": counts.get(rid, 0),
                              "frequency": counts.get(rid, 0) / len(sets) if sets else math.nan,
@@ -146,12 +147,12 @@ class RobustnessResult:
         """Per mode and size of the minimal uphill set: number and fraction of draws."""
         rows = []
         for mode in self.modes:
-            sizes = [r["uphill_size"] for r in self._draws(mode)
-                     if r["error"] is None and r.get("uphill_size") is not None]
+            sizes = [r["uphill_set_size"] for r in self._draws(mode)
+                     if r["error"] is None and r.get("uphill_set_size") is not None]
             for size in sorted(set(sizes)):
-                rows.append({"mode": mode, "size": int(size), "draws": sizes.count(size),
+                rows.append({"mode": mode, "uphill_set_size": int(size), "draws": sizes.count(size),
                              "fraction": sizes.count(size) / len(sizes)})
-        return pd.DataFrame(rows, columns=["mode", "size", "draws", "fraction"])
+        return pd.DataFrame(rows, columns=["mode", "uphill_set_size", "draws", "fraction"])
 
     def threshold_frame(self) -> pd.DataFrame:
         """Per mode: H2 threshold quantiles over the draws where one exists, the number of draws
@@ -163,17 +164,19 @@ class RobustnessResult:
             row: dict[str, Any] = {"mode": mode, "draws": len(values),
                                    "never_feasible": len(solved) - len(values)}
             for q in THRESHOLD_QUANTILES:
-                row[f"q{int(round(q * 100)):02d}"] = float(np.quantile(values, q)) if len(values) else math.nan
+                row[f"h2_threshold_q{int(round(q * 100)):02d}"] = (float(np.quantile(values, q))
+                                                                  if len(values) else math.nan)
             mean = self._mean(mode)
-            row["deterministic"] = (mean or {}).get("h2_threshold")
+            row["h2_threshold"] = (mean or {}).get("h2_threshold")
             rows.append(row)
         return pd.DataFrame(rows)
 
     def records_frame(self) -> pd.DataFrame:
         """One row per (mode, draw)."""
         frame = pd.DataFrame(self.records)
-        if "uphill" in frame:
-            frame["uphill"] = [";".join(u) if isinstance(u, list) else None for u in frame["uphill"]]
+        if "uphill_set" in frame:
+            frame["uphill_set"] = [", ".join(u) if isinstance(u, list) else None
+                                   for u in frame["uphill_set"]]
         return frame
 
     def to_frame(self) -> pd.DataFrame:
@@ -183,17 +186,22 @@ class RobustnessResult:
     def frames(self) -> dict[str, pd.DataFrame]:
         """Every table by name (for files)."""
         return {"feasibility": self.feasibility_frame(), "uphill": self.uphill_frame(),
-                "uphill_size": self.uphill_size_frame(), "threshold": self.threshold_frame(),
+                "uphill_set_size": self.uphill_size_frame(), "threshold": self.threshold_frame(),
                 "draws": self.records_frame()}
+
+    def tables(self) -> dict[str, pd.DataFrame]:
+        """The tables of an assessment's robustness run (file stems ``robustness_...``)."""
+        return {"robustness_feasibility": self.feasibility_frame(),
+                "robustness_uphill": self.uphill_frame()}
 
     def summary(self) -> str:
         """One line per mode in plain words."""
         lines = []
         for row in self.feasibility_frame().itertuples():
             if row.draws:
-                lines.append(f"{row.mode}: feasible in {row.feasible} of {row.draws} draws "
+                lines.append(f"{row.mode}: feasible in {row.feasible_draws} of {row.draws} draws "
                              f"(p = {row.probability:.2f} ± {row.standard_error:.2f})"
-                             + (f"; {row.failed} draw(s) failed" if row.failed else ""))
+                             + (f"; {row.failed_draws} draw(s) failed" if row.failed_draws else ""))
             else:
                 lines.append(f"{row.mode}: no draw solved")
         return "\n".join(lines)
@@ -208,8 +216,8 @@ class RobustnessResult:
 
 
 def _record(point: dict, line: dict | None) -> dict:
-    base = {"mode": point["mode"], "draw": point["index"], "feasible": None, "uphill_size": None,
-            "uphill": None, "h2_threshold": None, "error": None}
+    base = {"mode": point["mode"], "draw": point["index"], "feasible": None, "uphill_set_size": None,
+            "uphill_set": None, "h2_threshold": None, "error": None}
     if line is None:
         base["error"] = "not computed (run interrupted)"
     elif "error" in line:
@@ -219,7 +227,8 @@ def _record(point: dict, line: dict | None) -> dict:
     return base
 
 
-def robustness(model, environment, n_draws: int = 100, seed: int = 0, modes: Sequence[str] = MODES,
+def robustness(model, environment, n_draws: int = 100, seed: int = 0,
+               modes: Sequence[str] = STANDARD_MODES,
                *, executor: str = "pool", workers: int | None = None, scheduler: str | None = None,
                results_path: str | Path | None = None, resume: bool = False, overwrite: bool = False,
                sigma_scale: float = 1.0, threshold: bool = True, prepare: Callable | None = None,
@@ -251,10 +260,7 @@ def robustness(model, environment, n_draws: int = 100, seed: int = 0, modes: Seq
         raise InputError(f"sigma_scale must be >= 0, got {sigma_scale}")
     if seed is None or int(seed) < 0:
         raise InputError(f"the seed must be a whole number >= 0, got {seed!r}")
-    modes = list(modes)
-    bad = [m for m in modes if m not in MODES]
-    if bad:
-        raise InputError(f"unknown mode(s) {', '.join(bad)}; use {', '.join(MODES)}")
+    modes = parse_modes(list(modes))
     parts = ("uphill", "threshold") if threshold else ("uphill",)
     job = NetworkJob.create(model, environment, parts=parts, prepare=prepare, **problem_options)
     points = robustness_points(n_draws, seed, modes, sigma_scale)

@@ -65,8 +65,8 @@ class UphillResult(AnalysisResult):
             for rid in members:
                 rows.append({"set": k + 1, "reaction": rid,
                              "direction": "forward" if self.directions[k].get(rid, 1) > 0 else "backward",
-                             "uphill_by_kJ": self.uphill_by[k].get(rid, float("nan"))})
-        return pd.DataFrame(rows, columns=["set", "reaction", "direction", "uphill_by_kJ"])
+                             "uphill_by_kJ_per_mol": self.uphill_by[k].get(rid, float("nan"))})
+        return pd.DataFrame(rows, columns=["set", "reaction", "direction", "uphill_by_kJ_per_mol"])
 
     def summary(self) -> str:
         if self.size == 0:

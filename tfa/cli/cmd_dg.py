@@ -9,11 +9,15 @@ from __future__ import annotations
 
 import argparse
 import sys
+from typing import TYPE_CHECKING
 
 from ..conditions import Conditions
 from ..errors import InputError
-from ..thermo.database import ReactionEnergyResult, ThermoDatabase
-from .common import add_common_options, add_conditions_options, print_json
+from .options import add_conditions_options, add_output_options, add_unreviewed_option
+from .output import print_json
+
+if TYPE_CHECKING:
+    from ..thermo.database import ReactionEnergyResult
 
 #: Conditions used when an option is not given.
 DEFAULTS = {"temperature": 25.0, "ph": 7.0, "ionic_strength": 0.0}
@@ -22,7 +26,7 @@ DEFAULTS = {"temperature": 25.0, "ph": 7.0, "ionic_strength": 0.0}
 def register(subparsers) -> None:
     parser = subparsers.add_parser(
         "dg",
-        help="transformed Gibbs energy of a reaction (dG'0, dG', uncertainty, balance, sources)",
+        help="transformed Gibbs energy of a reaction (ΔrG'°, ΔrG', uncertainty, balance, sources)",
         description="Transformed reaction Gibbs energy at the given temperature, pH, ionic "
         "strength and pressure. Compounds are named by id, name or synonym (case does not "
         "matter): CO2 is dissolved CO2, CO2(g) the gas and CO2tot total CO2 (it carries one "
@@ -33,11 +37,10 @@ def register(subparsers) -> None:
     parser.add_argument("equation", metavar="EQUATION", help='e.g. "4 H2(g) + CO2(g) <=> CH4(g) + 2 H2O"')
     add_conditions_options(parser)
     parser.add_argument("--activity", action="append", default=[], metavar="NAME=VALUE",
-                        help="activity of a compound for dG' (mol/L; gases: bar); repeatable. "
+                        help="activity of a compound for ΔrG' (mol/L; gases: bar); repeatable. "
                         "Compounds not given are at 1 (standard state)")
-    parser.add_argument("--include-unreviewed", action="store_true",
-                        help="also use species data from sources that are not peer reviewed")
-    add_common_options(parser)
+    add_unreviewed_option(parser)
+    add_output_options(parser)
     parser.set_defaults(run=run)
 
 
@@ -76,13 +79,13 @@ def _conditions(args: argparse.Namespace) -> tuple[Conditions, list[str]]:
     return conditions, defaulted
 
 
-def _text(result: ReactionEnergyResult, defaulted: list[str]) -> str:
+def _text(result: "ReactionEnergyResult", defaulted: list[str]) -> str:
     lines = [
         f"reaction    {result.equation}",
         f"conditions  {result.conditions.describe()}"
         + (f"  (default: {', '.join(defaulted)})" if defaulted else ""),
-        f"dG'0        {result.standard:9.2f} +/- {result.uncertainty:.2f} kJ/mol  (standard transformed)",
-        f"dG'         {result.actual:9.2f} +/- {result.uncertainty:.2f} kJ/mol  (at the activities below)",
+        f"ΔrG'°       {result.standard:9.2f} ± {result.uncertainty:.2f} kJ/mol  (standard transformed)",
+        f"ΔrG'        {result.actual:9.2f} ± {result.uncertainty:.2f} kJ/mol  (at the activities below)",
         "activities  " + (", ".join(f"{k}={v:g}" for k, v in result.activities.items()) or "none"),
         f"balance     {result.balance.message}",
         f"sources     {', '.join(result.sources) or 'none'}",
@@ -98,6 +101,8 @@ def _text(result: ReactionEnergyResult, defaulted: list[str]) -> str:
 def run(args: argparse.Namespace) -> int:
     conditions, defaulted = _conditions(args)
     activities = parse_activities(args.activity)
+    from ..thermo.database import ThermoDatabase
+
     db = ThermoDatabase.load(include_unreviewed=args.include_unreviewed)
     result = db.reaction_energy(args.equation, conditions, activities=activities)
     if args.json:

@@ -14,20 +14,21 @@ import sys
 from pathlib import Path
 
 from ..errors import InputError
-from .common import add_common_options, print_json
+from .options import add_output_options
+from .output import print_json
 
 
 def register(subparsers) -> None:
     parser = subparsers.add_parser(
         "estimate",
         help="estimate a species' formation energy by group contribution",
-        description="Estimate DfG deg (298.15 K, 1 bar, I = 0) of an aqueous species from its "
+        description="Estimate ΔfG° (298.15 K, 1 bar, I = 0) of an aqueous species from its "
         "structure by group contribution, with its standard uncertainty, the groups found and "
         "the protonation states given by pKa rules.",
     )
     parser.add_argument("structure", metavar="SMILES_OR_NAME",
                         help="SMILES or InChI in the protonation state wanted, or a compound name")
-    add_common_options(parser)
+    add_output_options(parser)
     parser.set_defaults(run=run)
 
 
@@ -95,9 +96,9 @@ def run(args: argparse.Namespace) -> int:
     w(f"{estimate.name}  ({where})\n")
     w(f"structure  {estimate.smiles}\n")
     w(f"formula    {estimate.formula}  charge {estimate.charge:+d}  nH {estimate.n_h}\n")
-    w(f"DfG deg    {estimate.G:.1f} ± {estimate.sigma_G:.1f} kJ/mol  (298.15 K, 1 bar, I = 0)\n")
-    for label, value, unit in (("DfH deg", estimate.H, "kJ/mol"), ("S deg", estimate.S, "J/mol/K"),
-                               ("Cp deg", estimate.Cp, "J/mol/K")):
+    w(f"ΔfG°       {estimate.G:.1f} ± {estimate.sigma_G:.1f} kJ/mol  (298.15 K, 1 bar, I = 0)\n")
+    for label, value, unit in (("ΔfH°", estimate.H, "kJ/mol"), ("S°", estimate.S, "J/mol/K"),
+                               ("Cp°", estimate.Cp, "J/mol/K")):
         w(f"{label:<10} {'n/a' if value is None else f'{value:.1f} {unit}'}\n")
     w("groups:\n")
     for name, n in estimate.groups.items():
@@ -109,6 +110,6 @@ def run(args: argparse.Namespace) -> int:
             w(f"  {site.rule}: pKa {pk}  [{site.source}]\n")
     w("protonation states:\n")
     for formula, charge, n_h, g in estimate.protonation_states:
-        w(f"  {formula:<14} {charge:+d}  nH {n_h:3d}  DfG deg {g:.1f} kJ/mol\n")
+        w(f"  {formula:<14} {charge:+d}  nH {n_h:3d}  ΔfG° {g:.1f} kJ/mol\n")
     w(f"uncertainty: leave-one-out MAE {cv.mae:.1f}, RMSE {cv.rmse:.1f} kJ/mol over {cv.n} species\n")
     return 0

@@ -15,8 +15,8 @@ import math
 import sys
 from pathlib import Path
 
-from ..thermo.database import ThermoDatabase
-from .common import add_common_options, add_network_options, print_json, print_table
+from .options import add_network_options, add_output_options
+from .output import print_json, print_table
 
 #: Provenance text is cut to this many characters in the text output (JSON keeps all of it).
 PROVENANCE_WIDTH = 70
@@ -25,7 +25,7 @@ PROVENANCE_WIDTH = 70
 def register(subparsers) -> None:
     parser = subparsers.add_parser(
         "inspect",
-        help="balance, data coverage and dG'0 of every reaction of a network at an environment",
+        help="balance, data coverage and ΔrG'° of every reaction of a network at an environment",
         description="Check a network: is every reaction balanced, where does each reaction's "
         "transformed standard Gibbs energy come from (species data, a literature value, "
         "reconciled literature values, an estimate, or nothing), and what is it at the "
@@ -34,11 +34,9 @@ def register(subparsers) -> None:
         epilog="example: tfa inspect models/ancestral_core/reactions.tsv --environment my_vent.toml --json",
     )
     add_network_options(parser)
-    parser.add_argument("--include-unreviewed", action="store_true",
-                        help="also use data from sources that are not peer reviewed")
     parser.add_argument("--no-estimates", action="store_true",
                         help="do not estimate compounds without data (they stay placeholders)")
-    add_common_options(parser)
+    add_output_options(parser)
     parser.set_defaults(run=run)
 
 
@@ -47,9 +45,9 @@ def _network_folder(path: Path) -> Path:
 
 
 def _load(args: argparse.Namespace):
-    """(model, environment, literature path or None, environment path), as every subcommand
-    resolves them (:func:`tfa.cli.common.load_inputs`)."""
-    from .common import load_inputs
+    """(model, environment, literature path or None, environment path), as every command
+    resolves them (:func:`tfa.cli.step_command.load_inputs`)."""
+    from .step_command import load_inputs
 
     inputs = load_inputs(args, require_balanced=False)
     return inputs.model, inputs.environment, inputs.literature_path, Path(inputs.environment_source)
@@ -62,6 +60,7 @@ def _fmt(value: float) -> str:
 def run(args: argparse.Namespace) -> int:
     from ..network.checks import balance_report
     from ..network.coverage import coverage
+    from ..thermo.database import ThermoDatabase
 
     model, environment, literature, env_path = _load(args)
     db = ThermoDatabase.load(include_unreviewed=args.include_unreviewed)
@@ -100,15 +99,17 @@ def run(args: argparse.Namespace) -> int:
               f"reconciled): {100 * report.reviewed_or_cited_fraction:.1f}% of {report.total}\n")
     for d in report.disagreements:
         out.write(f"disagreement literature value {d['id']} ({d['source_key']}): residual "
-                  f"{d['residual_kJ']:.1f} kJ/mol, {d['studentized']:.1f} sigma\n")
+                  f"{d['residual_kJ_per_mol']:.1f} kJ/mol, {d['studentized']:.1f} σ\n")
     frame = report.to_frame()
-    frame["dG0_prime_kJ"] = frame["dG0_prime_kJ"].map(_fmt)
-    frame["sigma_kJ"] = frame["sigma_kJ"].map(_fmt)
+    frame["delta_g_standard_kJ_per_mol"] = frame["delta_g_standard_kJ_per_mol"].map(_fmt)
+    frame["sigma_kJ_per_mol"] = frame["sigma_kJ_per_mol"].map(_fmt)
     frame["provenance"] = frame["provenance"].map(
         lambda t: t if len(t) <= PROVENANCE_WIDTH else t[: PROVENANCE_WIDTH - 1] + "…")
     out.write("\n")
-    print_table(frame[["reaction", "dG0_prime_kJ", "sigma_kJ", "source", "pathway", "provenance"]]
-                .rename(columns={"dG0_prime_kJ": "dG'0 kJ/mol", "sigma_kJ": "sigma"}))
+    print_table(frame[["reaction", "delta_g_standard_kJ_per_mol", "sigma_kJ_per_mol", "source",
+                       "pathway", "provenance"]]
+                .rename(columns={"delta_g_standard_kJ_per_mol": "ΔrG'° kJ/mol",
+                                 "sigma_kJ_per_mol": "σ kJ/mol"}))
     missing = report.without_reviewed_data()
     if missing:
         out.write(f"\nwithout reviewed species data or cited values ({len(missing)}): "

@@ -15,16 +15,11 @@ import sys
 from pathlib import Path
 
 from ..errors import InputError
-from ..network.thermo_model import MODES
-from .cmd_robustness import (
-    add_execution_options,
-    execution_kwargs,
-    load_network,
-    parse_modes,
-    progress_printer,
-    same_hash_seed,
-)
-from .common import add_common_options, add_network_options, print_json, print_table
+from .cmd_robustness import (add_execution_options, execution_kwargs, load_network, problem_kwargs,
+                             progress_printer, same_hash_seed)
+from .options import (add_modes_option, add_network_options, add_output_options,
+                      add_problem_options, add_threshold_switch, report_deprecations)
+from .output import print_json, print_table, solver_output_silenced
 
 
 def register(subparsers) -> None:
@@ -42,21 +37,23 @@ def register(subparsers) -> None:
                         help="NAME=START:STOP:COUNT[:log] or NAME=V1,V2,...; NAME one of "
                         "temperature, ph, ionic_strength, h2, pressure")
     parser.add_argument("--y", required=True, metavar="AXIS", help="the second axis, as --x")
-    parser.add_argument("--modes", default="native", metavar="LIST",
-                        help=f"comma-separated modes ({', '.join(MODES)}) or 'all' (default native)")
-    parser.add_argument("--no-threshold", action="store_true", help="skip the H2 threshold")
+    add_modes_option(parser, "map")
+    add_threshold_switch(parser)
     parser.add_argument("--no-driving-force", action="store_true", help="skip the max-min driving force")
-    add_execution_options(parser)
-    add_common_options(parser)
+    add_problem_options(parser)
+    add_execution_options(parser, "map")
+    add_output_options(parser)
     parser.set_defaults(run=run)
 
 
 def run(args: argparse.Namespace) -> int:
-    from ..analyses.maps import axis_values, condition_map
+    from ..analyses.maps import AXIS_COLUMNS, axis_values, condition_map
+    from ..modes import parse_modes
     from ..report.maps import write_map_figures
     from ..report.tables import write_table
     from ..util.files import write_json
 
+    report_deprecations(args)
     x = axis_values(args.x)
     y = axis_values(args.y)
     if x[0] == y[0]:
@@ -64,20 +61,24 @@ def run(args: argparse.Namespace) -> int:
     modes = parse_modes(args.modes)
     execution = execution_kwargs(args)
     same_hash_seed(args)
-    model, environment, env_path = load_network(args)
+    model, environment = load_network(args)
     out = Path(args.out) if args.out else None
-    result = condition_map(model, environment, x, y, modes,
-                           threshold=not args.no_threshold, driving_force=not args.no_driving_force,
-                           results_path=out / "map.jsonl" if out else None,
-                           progress=progress_printer(args.quiet, "point"), **execution)
+    with solver_output_silenced():
+        result = condition_map(model, environment, x, y, modes,
+                               threshold=not args.no_threshold,
+                               driving_force=not args.no_driving_force,
+                               results_path=out / "map.jsonl" if out else None,
+                               progress=progress_printer(args.quiet, "point"), **execution,
+                               **problem_kwargs(args))
     frame = result.to_frame()
+    x_column, y_column = AXIS_COLUMNS[x[0]], AXIS_COLUMNS[y[0]]
     figures = []
     if out is not None:
-        write_table(frame.drop(columns=["x", "y"]), out / "map")
+        write_table(frame, out / "map")
         write_json(out / "map.json", result.to_dict())
         drawable = frame[frame["error"].isna()]
         if not drawable.empty:
-            figures = write_map_figures(frame, x[0], y[0], out)
+            figures = write_map_figures(frame, x_column, y_column, out)
     if args.json:
         print_json(result.to_dict())
     else:
@@ -85,7 +86,8 @@ def run(args: argparse.Namespace) -> int:
                          f"{len(result.records)} points; {result.run.executor}, "
                          f"{result.run.seconds:.1f} s\n\n")
         sys.stdout.write(result.summary() + "\n\n")
-        columns = ["mode", x[0], y[0], "feasible", "uphill_size", "driving_force_kJ", "h2_threshold", "error"]
+        columns = ["mode", x_column, y_column, "feasible", "uphill_set_size",
+                   "driving_force_kJ_per_mol", "h2_threshold", "error"]
         print_table(frame[columns], "{:.4g}")
         if out is not None:
             sys.stdout.write(f"\nfiles in {out}" + (f" (heatmaps: {len(figures) // 2} per-mode PNG+SVG)"

@@ -16,58 +16,37 @@ import sys
 from pathlib import Path
 
 from ..errors import InputError
-from ..network.thermo_model import MODES
 from ..util.points import HASH_SEED
-from .common import add_common_options, add_network_options, print_json, print_table
+from .options import (add_deprecated, add_modes_option, add_network_options, add_option,
+                      add_output_options, add_problem_options, add_threshold_switch,
+                      parse_workers, report_deprecations)
+from .output import print_json, print_table, solver_output_silenced
 
-#: Draws of ``tfa robustness`` when ``--draws`` is not given.
-DEFAULT_DRAWS = 100
 
-
-def add_execution_options(parser: argparse.ArgumentParser) -> None:
-    """--workers, --scheduler, --serial, --out, --resume, --overwrite."""
+def add_execution_options(parser: argparse.ArgumentParser, command: str) -> None:
+    """--workers, --scheduler, --out, --resume, --overwrite (and the old --serial)."""
     group = parser.add_argument_group("execution")
-    group.add_argument("--workers", type=int, metavar="N",
-                       help="worker processes (default: one per core)")
+    add_option(group, "workers", command)
     group.add_argument("--scheduler", metavar="ADDRESS",
                        help="run on Dask: 'local' starts a local Dask cluster with --workers "
                        "workers, an address (tcp://HOST:PORT) uses a running scheduler")
-    group.add_argument("--serial", action="store_true", help="run in this process, one point after another")
-    group.add_argument("--out", metavar="DIR", help="folder for the results file, tables and figures")
+    add_deprecated(parser, "--serial", "--workers 1", "workers", convert=lambda _: {"workers": "1"},
+                   nargs=0)
+    add_option(group, "out", command)
     group.add_argument("--resume", action="store_true",
                        help="continue the results file in --out, skipping finished points")
     group.add_argument("--overwrite", action="store_true",
                        help="start again when --out already holds a results file")
 
 
-def parse_modes(text: str) -> list[str]:
-    """``native,h2_only`` or ``all`` -> list of modes.
-
-    >>> parse_modes("all") == list(MODES)
-    True
-    >>> parse_modes("native, no_atp_bare")
-    ['native', 'no_atp_bare']
-    """
-    if text.strip().lower() == "all":
-        return list(MODES)
-    modes = [m.strip() for m in text.split(",") if m.strip()]
-    bad = [m for m in modes if m not in MODES]
-    if bad or not modes:
-        raise InputError(f"--modes '{text}': unknown mode(s) {', '.join(bad) or '(none given)'}; "
-                         f"use a comma-separated list of {', '.join(MODES)} or 'all'")
-    return modes
-
-
 def execution_kwargs(args: argparse.Namespace) -> dict:
-    """Keyword arguments of the analyses for the execution options."""
-    if args.serial and args.scheduler:
-        raise InputError("--serial and --scheduler exclude each other; give one")
+    """Keyword arguments of the many-point analyses for the execution options."""
     if args.resume and not args.out:
         raise InputError("--resume needs --out DIR: the folder of the run to continue")
-    if args.workers is not None and args.workers < 1:
-        raise InputError(f"--workers {args.workers}: give at least 1")
-    return {"executor": "serial" if args.serial else "pool", "workers": args.workers,
-            "scheduler": args.scheduler, "resume": args.resume, "overwrite": args.overwrite}
+    workers = parse_workers(args.workers)
+    executor = "dask" if args.scheduler else ("pool" if workers > 1 else "serial")
+    return {"executor": executor, "workers": workers, "scheduler": args.scheduler,
+            "resume": args.resume, "overwrite": args.overwrite}
 
 
 def same_hash_seed(args: argparse.Namespace) -> None:
@@ -97,11 +76,21 @@ def progress_printer(quiet: bool, label: str):
 
 
 def load_network(args: argparse.Namespace):
-    """(model, environment, environment path) as every subcommand reads them."""
-    from .common import load_inputs
+    """(model, environment) as every command reads them."""
+    from .step_command import load_inputs
 
     inputs = load_inputs(args, require_balanced=False)
-    return inputs.model, inputs.environment, Path(inputs.environment_source)
+    return inputs.model, inputs.environment
+
+
+def problem_kwargs(args: argparse.Namespace) -> dict:
+    """The problem options as keyword arguments of the many-point analyses."""
+    from .step_command import problem_options
+
+    options = problem_options(args)
+    return {"solver": options.solver, "time_limit": options.time_limit,
+            "min_driving_force": options.min_driving_force,
+            "unknown_energy": options.unknown_energy, "uncertainty_k": options.uncertainty_k}
 
 
 def register(subparsers) -> None:
@@ -115,17 +104,16 @@ def register(subparsers) -> None:
         "--workers 2 --out runs/robust",
     )
     add_network_options(parser)
-    parser.add_argument("--draws", type=int, default=DEFAULT_DRAWS, metavar="N",
-                        help=f"draws of the energies per mode (default {DEFAULT_DRAWS})")
-    parser.add_argument("--seed", type=int, default=0, metavar="S", help="seed of the draws (default 0)")
-    parser.add_argument("--modes", default="all", metavar="LIST",
-                        help=f"comma-separated modes ({', '.join(MODES)}) or 'all' (default)")
+    add_option(parser, "draws", "robustness", type=int)
+    add_option(parser, "seed", "robustness", type=int)
+    add_modes_option(parser, "robustness")
     parser.add_argument("--sigma-scale", type=float, default=1.0, metavar="F",
                         help="multiply every uncertainty by F (0: every draw is the deterministic "
                         "answer; default 1)")
-    parser.add_argument("--no-threshold", action="store_true", help="skip the H2 threshold of each draw")
-    add_execution_options(parser)
-    add_common_options(parser)
+    add_threshold_switch(parser)
+    add_problem_options(parser)
+    add_execution_options(parser, "robustness")
+    add_output_options(parser)
     parser.set_defaults(run=run)
 
 
@@ -134,6 +122,9 @@ def run(args: argparse.Namespace) -> int:
     from ..report.tables import write_table
     from ..util.files import write_json
 
+    from ..modes import parse_modes
+
+    report_deprecations(args)
     modes = parse_modes(args.modes)
     execution = execution_kwargs(args)
     if args.draws < 1:
@@ -141,12 +132,14 @@ def run(args: argparse.Namespace) -> int:
     if args.seed < 0:
         raise InputError(f"--seed {args.seed}: give a whole number >= 0")
     same_hash_seed(args)
-    model, environment, env_path = load_network(args)
+    model, environment = load_network(args)
     out = Path(args.out) if args.out else None
-    result = robustness(model, environment, n_draws=args.draws, seed=args.seed, modes=modes,
-                        sigma_scale=args.sigma_scale, threshold=not args.no_threshold,
-                        results_path=out / "robustness.jsonl" if out else None,
-                        progress=progress_printer(args.quiet, "draw"), **execution)
+    with solver_output_silenced():
+        result = robustness(model, environment, n_draws=args.draws, seed=args.seed, modes=modes,
+                            sigma_scale=args.sigma_scale, threshold=not args.no_threshold,
+                            results_path=out / "robustness.jsonl" if out else None,
+                            progress=progress_printer(args.quiet, "draw"), **execution,
+                            **problem_kwargs(args))
     if out is not None:
         for name, frame in result.frames().items():
             write_table(frame, out / f"robustness_{name}")

@@ -1,14 +1,16 @@
 """A small progress display on stderr for the steps of a long command.
 
-:class:`Progress` draws one line that it rewrites in place (``[#####-----] 3/9 H2 scan 12 s``)
-when stderr is a terminal; a background thread keeps the elapsed time moving during a long
-step, and the bar appears only once a step has run for :data:`SHOW_AFTER` seconds, so short
-commands print nothing. With ``verbose`` every step is logged as a line of its own instead
-(also when stderr is not a terminal); with ``quiet`` nothing is shown. No dependency beyond the
-standard library.
+:class:`Progress` draws one line that it rewrites in place
+(``[#####-----] 3/9 ranges: 40/276 extremes 12 s``) when stderr is a terminal; the steps report
+progress at the grain of their real work (per level, per extreme, per draw), a background
+thread keeps the elapsed time moving, and the bar appears only once the command has run for
+:data:`SHOW_AFTER` seconds, so short commands print nothing. When stderr is not a terminal,
+sparse plain lines are written instead (at most one per :data:`PLAIN_INTERVAL` seconds); with
+``verbose`` every step and, at most every :data:`VERBOSE_INTERVAL` seconds, its progress is a
+line of its own; with ``quiet`` nothing is shown. No dependency beyond the standard library.
 
-Use it as the ``progress`` callback of :func:`tfa.api.assess` (``progress(step, done,
-total)``) or around any slow call::
+Use it as the ``progress`` callback of :func:`tfa.assess` (``progress(label, done, total)``)
+or around any slow call::
 
     with Progress(total=1, quiet=args.quiet, verbose=args.verbose) as bar:
         bar.step("ranges")
@@ -17,13 +19,18 @@ total)``) or around any slow call::
 
 from __future__ import annotations
 
+import math
 import sys
 import threading
 import time
 from typing import TextIO
 
-#: A step must have been running this long (s) before the bar is drawn.
+#: A command must have been running this long (s) before anything is shown.
 SHOW_AFTER = 2.0
+#: Least seconds between two plain progress lines (stderr not a terminal).
+PLAIN_INTERVAL = 10.0
+#: Least seconds between two progress lines of the same step with ``verbose``.
+VERBOSE_INTERVAL = 2.0
 #: Seconds between redraws of the elapsed time.
 TICK = 0.5
 #: Width of the bar in characters.
@@ -55,8 +62,10 @@ class Progress:
         self.stream = stream if stream is not None else sys.stderr
         isatty = getattr(self.stream, "isatty", None)
         self.interactive = bool(isatty and isatty()) and not quiet and not self.verbose
+        self.plain = not quiet and not self.verbose and not self.interactive
         self.started = time.monotonic()
         self.step_started = self.started
+        self._last_line = -math.inf
         self._drawn = False
         self._lock = threading.Lock()
         self._stop = threading.Event()
@@ -70,15 +79,21 @@ class Progress:
 
     def __call__(self, label: str, done: int, total: int) -> None:
         """Callback form: ``label`` is running, ``done`` of ``total`` steps are finished."""
+        now = time.monotonic()
         with self._lock:
+            new_step = int(done) != self.done or not self.label
             self.label = label
             self.done = max(0, int(done))
             self.total = max(1, int(total), self.done)
-            self.step_started = time.monotonic()
+            if new_step:
+                self.step_started = now
         if self.verbose:
-            self.stream.write(f"[{self.done + 1}/{self.total}] {label} "
-                              f"({time.monotonic() - self.started:.0f} s elapsed)\n")
-            self.stream.flush()
+            if new_step or now - self._last_line >= VERBOSE_INTERVAL:
+                self._line(f"[{self.done + 1}/{self.total}] {label} "
+                           f"({now - self.started:.0f} s elapsed)")
+        elif self.plain:
+            if now - self.started >= SHOW_AFTER and now - self._last_line >= PLAIN_INTERVAL:
+                self._line(f"[{self.done + 1}/{self.total}] {label} ({now - self.started:.0f} s)")
         elif self.interactive:
             self._ensure_thread()
             if self._drawn:
@@ -103,6 +118,11 @@ class Progress:
         self.close()
 
     # ----------------------------------------------------------------- drawing
+
+    def _line(self, text: str) -> None:
+        self.stream.write(text + "\n")
+        self.stream.flush()
+        self._last_line = time.monotonic()
 
     def line(self) -> str:
         """The text of the bar as it would be drawn now.
@@ -131,11 +151,7 @@ class Progress:
 
     def _tick(self) -> None:
         while not self._stop.wait(TICK):
-            if self._drawn or time.monotonic() - self.step_started >= SHOW_AFTER:
+            if self._drawn or time.monotonic() - self.started >= SHOW_AFTER:
                 self._draw()
 
 
-def progress_for(args, total: int = 1) -> Progress:
-    """A :class:`Progress` configured from the ``--quiet``/``--verbose`` options of ``args``."""
-    return Progress(total=total, quiet=bool(getattr(args, "quiet", False)),
-                    verbose=bool(getattr(args, "verbose", False)))

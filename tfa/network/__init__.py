@@ -1,5 +1,5 @@
 """The network layer: reaction networks as cobra models, read from our tables, SBML or cobra JSON;
-balance checks; the rewrites of the four modes; the environment a network lives in.
+balance checks; the rewrites the modes are made of (:mod:`tfa.modes`); the environment a network lives in.
 
 Main entry points::
 
@@ -14,10 +14,9 @@ from .io_sbml import load_network, read_cobra_json, read_sbml, save_network, wri
 from .io_table import read_network, write_network
 from .rewrites import (RewriteSummary, apply_mode, h2_only, native, no_atp_bare_chemistry,
                        no_atp_strict)
-from .thermo_model import MODES
 
 __all__ = [
-    "MODES", "Environment", "RewriteSummary", "apply_mode", "balance_report", "bundled_environment",
+    "Environment", "RewriteSummary", "apply_mode", "balance_report", "bundled_environment",
     "bundled_environment_path", "bundled_folder", "h2_only", "is_boundary_reaction", "load_bundled_network",
     "load_network", "native", "no_atp_bare_chemistry", "no_atp_strict", "read_cobra_json", "read_network",
     "read_sbml", "require_balanced_network", "save_network", "write_cobra_json", "write_network",

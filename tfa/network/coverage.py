@@ -32,6 +32,9 @@ from .thermo_model import ENERGY_SOURCES, ReactionEnergy
 REVIEWED_OR_CITED = ("species", "literature", "reconciled")
 #: Sources with a number (the others have none).
 WITH_VALUE = ("species", "literature", "reconciled", "estimated")
+#: Columns of the coverage table (one row per internal reaction).
+COVERAGE_COLUMNS = ["reaction", "source", "delta_g_standard_kJ_per_mol", "sigma_kJ_per_mol",
+                    "pathway", "equation", "provenance"]
 
 
 @dataclass
@@ -107,11 +110,10 @@ class CoverageReport:
     def to_frame(self) -> pd.DataFrame:
         """One row per reaction: id, source, ΔrG'° (kJ/mol), σ, pathway, equation, provenance."""
         return pd.DataFrame([{
-            "reaction": r.reaction_id, "source": r.source, "dG0_prime_kJ": r.standard,
-            "sigma_kJ": r.uncertainty, "pathway": r.pathway, "equation": r.equation,
-            "provenance": r.provenance,
-        } for r in self.reactions], columns=["reaction", "source", "dG0_prime_kJ", "sigma_kJ",
-                                             "pathway", "equation", "provenance"])
+            "reaction": r.reaction_id, "source": r.source,
+            "delta_g_standard_kJ_per_mol": r.standard, "sigma_kJ_per_mol": r.uncertainty,
+            "pathway": r.pathway, "equation": r.equation, "provenance": r.provenance,
+        } for r in self.reactions], columns=COVERAGE_COLUMNS)
 
     def counts_frame(self) -> pd.DataFrame:
         """One row per source kind: count and fraction."""
@@ -133,9 +135,9 @@ class CoverageReport:
             "without_reviewed_data": [r.reaction_id for r in self.without_reviewed_data()],
             "disagreements": self.disagreements,
             "reactions": [{
-                "id": r.reaction_id, "source": r.source,
-                "dG0_prime_kJ": None if math.isnan(r.standard) else r.standard,
-                "sigma_kJ": None if math.isnan(r.uncertainty) else r.uncertainty,
+                "reaction": r.reaction_id, "source": r.source,
+                "delta_g_standard_kJ_per_mol": None if math.isnan(r.standard) else r.standard,
+                "sigma_kJ_per_mol": None if math.isnan(r.uncertainty) else r.uncertainty,
                 "pathway": r.pathway, "equation": r.equation, "provenance": r.provenance,
             } for r in self.reactions],
         }
@@ -163,8 +165,9 @@ def coverage_from_energies(model: cobra.Model, energies: Mapping[str, ReactionEn
                                          e.uncertainty, e.provenance))
     disagreements = []
     if table is not None and table.reconciliation is not None:
-        disagreements = [{"id": r.id, "residual_kJ": r.residual, "sigma_kJ": r.sigma,
-                          "studentized": r.studentized, "source_key": r.source_key}
+        disagreements = [{"id": r.id, "residual_kJ_per_mol": r.residual,
+                          "sigma_kJ_per_mol": r.sigma, "studentized": r.studentized,
+                          "source_key": r.source_key}
                          for r in table.reconciliation.disagreements]
     return CoverageReport(model.id, conditions, rows, environment_name, disagreements)
 

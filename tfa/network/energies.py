@@ -73,6 +73,7 @@ from ..constants import T_REF
 from ..errors import InputError, MissingDataError, NetworkFileError, UnknownCompoundError
 from ..thermo.balance import parse_formula
 from ..thermo.database import ThermoDatabase
+from ..thermo.group_contribution import estimate_species, estimated_species_records
 from ..thermo.reconcile import (
     LiteratureValue,
     Reconciliation,
@@ -82,6 +83,8 @@ from ..thermo.reconcile import (
     reconcile,
 )
 from ..thermo.species import Species
+from .environment import Environment, apply_environment
+from .roles import water_and_protons
 from .thermo_model import ReactionEnergy, ThermoModel
 
 logger = logging.getLogger(__name__)
@@ -335,15 +338,6 @@ def _note(met: cobra.Metabolite, key: str) -> str:
     return str((met.notes or {}).get(key) or "").strip()
 
 
-def _estimator():
-    """``(estimate_species, estimated_species_records)`` or None when unavailable."""
-    try:
-        from ..thermo.group_contribution import estimate_species, estimated_species_records
-    except ImportError:  # the module, or RDKit, is not there
-        return None
-    return estimate_species, estimated_species_records
-
-
 def _species_row(key: str, met: cobra.Metabolite, species_ids: Sequence[str], formula: str,
                  charge: int) -> dict[str, Any]:
     return {"id": key, "name": met.name or met.id, "synonyms": "", "kind": "aqueous",
@@ -452,10 +446,8 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
             rows.append(_species_row(key, met, [key], formula, int(sp.charge)))
             reconciled_key[m] = key
     estimated_key: dict[str, str] = {}
-    tools = _estimator() if estimate else None
     estimate_errors: dict[str, str] = {}
-    if tools is not None:
-        estimate_species, estimated_species_records = tools
+    if estimate:
         for m, met in unknown.items():
             smiles = _note(met, "smiles")
             if not smiles:
@@ -506,8 +498,7 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
                                       tuple(fe.sources), tuple(fe.flags), True, smiles)
             continue
         if smiles:
-            why = estimate_errors.get(m) or ("no estimator available (needs RDKit and "
-                                             "tfa.thermo.group_contribution)")
+            why = estimate_errors.get(m) or "estimates were switched off"
             table[m] = CompoundEnergy(m, "placeholder", math.nan, math.nan,
                                       f"no species data, no literature value; estimate pending: {why}",
                                       None, None, (), (), False, smiles)
@@ -539,182 +530,36 @@ def reaction_energies(model: cobra.Model, table: CompoundEnergyTable) -> dict[st
 
 
 # ---------------------------------------------------------------------------- environment
-def _env_get(environment, *names, default=None):
-    for name in names:
-        if isinstance(environment, Mapping) and name in environment:
-            return environment[name]
-        if hasattr(environment, name):
-            return getattr(environment, name)
-    return default
+def _kind_of(db: ThermoDatabase):
+    """Function thermo key -> kind of the database compound it names (None when unknown)."""
+    def kind(key: str) -> str | None:
+        try:
+            return db.compound(key).kind
+        except InputError:
+            return None
+    return kind
 
 
-def _demand(environment) -> tuple[str | None, float | None]:
-    demand = _env_get(environment, "demand")
-    reaction = _env_get(environment, "demand_reaction", "demand_id")
-    flux = _env_get(environment, "demand_flux")
-    if demand is not None:
-        if isinstance(demand, Mapping):
-            reaction = reaction or demand.get("reaction")
-            flux = flux if flux is not None else demand.get("flux")
-        elif isinstance(demand, str):
-            reaction = reaction or demand
-        else:
-            reaction = reaction or getattr(demand, "reaction", None) or getattr(demand, "reaction_id", None)
-            flux = flux if flux is not None else getattr(demand, "flux", None)
-    return reaction, (None if flux is None else float(flux))
-
-
-def _outlets(environment) -> list[str]:
-    outlets = _env_get(environment, "outlets", default=()) or ()
-    if isinstance(outlets, Mapping):
-        outlets = outlets.get("allowed", ())
-    elif not isinstance(outlets, (list, tuple, set, frozenset)):
-        outlets = getattr(outlets, "allowed", ())
-    return list(outlets)
-
-
-def _match(met: cobra.Metabolite, table: Mapping[str, Any]) -> Any:
-    """Entry of ``table`` keyed by the metabolite's id or thermo key (case-insensitive)."""
-    lowered = {str(k).lower(): v for k, v in table.items()}
-    for name in (met.id, _note(met, "thermo_key")):
-        if name and name.lower() in lowered:
-            return lowered[name.lower()]
-    return None
-
-
-def _no_activity(model: cobra.Model, db: ThermoDatabase) -> set[str]:
-    out = set()
-    for met in model.metabolites:
-        role = _note(met, "role").lower()
-        key = _note(met, "thermo_key")
-        kind = None
-        if key:
-            with contextlib.suppress(InputError):
-                kind = db.compound(key).kind
-        if role in ("water", "proton") or kind in ("water", "proton"):
-            out.add(met.id)
-    return out
-
-
-def log_bounds(model: cobra.Model, environment, no_activity: set[str]) -> tuple[dict[str, tuple[float, float]], dict[str, str]]:
-    """ln-concentration bounds of every metabolite with an activity, and the fed metabolites.
-
-    Order (later wins): environment default bounds; the compound's own ``conc_min``/``conc_max``;
-    environment bounds given by id or thermo key; a fed compound is fixed at its feed value.
-
-    Returns
-    -------
-    (log_bounds, feed_ids)
-        ``feed_ids`` maps the environment's feed key (e.g. "H2") to the metabolite id.
-    """
-    default = _env_get(environment, "default_bounds") or FALLBACK_BOUNDS
-    specific = dict(_env_get(environment, "bounds", default={}) or {})
-    specific.pop("default", None)
-    feed = dict(_env_get(environment, "feed", default={}) or {})
-    feed_lower = {str(k).lower(): k for k in feed}
-    bounds: dict[str, tuple[float, float]] = {}
-    feed_ids: dict[str, str] = {}
-    for met in model.metabolites:
-        if met.id in no_activity:
-            continue
-        lo, hi = float(default[0]), float(default[1])
-        own_lo, own_hi = _note(met, "conc_min"), _note(met, "conc_max")
-        if own_lo:
-            lo = float(own_lo)
-        if own_hi:
-            hi = float(own_hi)
-        entry = _match(met, specific)
-        if entry is not None:
-            lo, hi = float(entry[0]), float(entry[1])
-        fed = None
-        for name in (met.id, _note(met, "thermo_key")):
-            if name and name.lower() in feed_lower:
-                fed = feed_lower[name.lower()]
-                break
-        if fed is not None:
-            lo = hi = float(feed[fed])
-            feed_ids[str(fed)] = met.id
-        if not (lo > 0 and hi >= lo):
-            raise InputError(f"compound '{met.id}': concentration bounds [{lo:g}, {hi:g}] are not "
-                             "positive and ordered; give 0 < min <= max (mol/L, gases bar)")
-        bounds[met.id] = (math.log(lo), math.log(hi))
-    missing = [k for k in feed if str(k) not in feed_ids]
-    if missing:
-        logger.warning("feed compound(s) %s match no compound of the network (by id or thermo key)",
-                       ", ".join(map(str, missing)))
-    return bounds, feed_ids
-
-
-def _apply_environment_fluxes(model: cobra.Model, environment, feed_ids: Mapping[str, str],
-                              no_activity: set[str]) -> str | None:
-    """Demand lower bound, outlets export-only, other exchanges closed (changes are recorded by
-    the model's context when one is open)."""
-    demand_id, flux = _demand(environment)
-    if demand_id:
-        if demand_id not in model.reactions:
-            raise InputError(f"environment demand reaction '{demand_id}' is not in the network; name "
-                             "a reaction of the network in [demand] reaction")
-        if flux is not None:
-            reaction = model.reactions.get_by_id(demand_id)
-            if reaction.upper_bound < flux:
-                reaction.upper_bound = max(flux, 1000.0)
-            reaction.lower_bound = flux
-    outlets = {str(o).lower() for o in _outlets(environment)}
-    fed = set(feed_ids.values())
-    for reaction in model.exchanges if hasattr(model, "exchanges") else []:
-        if reaction.id == demand_id:
-            continue
-        mets = list(reaction.metabolites)
-        if len(mets) != 1:
-            continue
-        met = mets[0]
-        names = {met.id.lower(), _note(met, "thermo_key").lower()}
-        if met.id in fed or met.id in no_activity:
-            continue
-        sign = reaction.metabolites[met]  # -1 for "met <=> ": positive flux exports
-        if names & outlets:
-            if sign < 0:
-                reaction.lower_bound = 0.0
-            else:
-                reaction.upper_bound = 0.0
-        else:
-            logger.info("exchange %s closed: %s is neither fed nor an outlet of the environment",
-                        reaction.id, met.id)
-            reaction.bounds = (0.0, 0.0)
-    return demand_id
-
-
-def _thermo_model(model: cobra.Model, environment, mode: str, db: ThermoDatabase,
+def _thermo_model(model: cobra.Model, environment: Environment, mode: str, db: ThermoDatabase,
                   literature) -> ThermoModel:
     table = compound_energies(model, environment, db, literature)
     energies = reaction_energies(model, table)
-    no_activity = _no_activity(model, db)
-    if hasattr(environment, "metabolite_bounds") and hasattr(environment, "apply_exchange_bounds"):
-        # a tfa.network.environment.Environment: its own resolution of keys, bounds and exchanges
-        concentration = environment.metabolite_bounds(model)
-        bounds = {m: (math.log(lo), math.log(hi)) for m, (lo, hi) in concentration.items()
-                  if m not in no_activity}
-        feed_ids = {str(key): environment.resolve(model, key).id for key in environment.feed}
-        environment.apply_exchange_bounds(model)
-        demand_id = environment.demand_reaction
-    else:
-        bounds, feed_ids = log_bounds(model, environment, no_activity)
-        demand_id = _apply_environment_fluxes(model, environment, feed_ids, no_activity)
+    applied = apply_environment(model, environment, water_and_protons(model, _kind_of(db)))
     kept = {rid: e for rid, e in energies.items() if math.isfinite(e.standard)}
     for rid, e in energies.items():
         if rid not in kept:
             logger.warning("reaction %s has no energy (%s): %s", rid, e.source, e.provenance)
-    tm = ThermoModel(model=model, conditions=table.conditions, energies=kept, log_bounds=bounds,
-                     no_activity=no_activity, mode=mode,
-                     environment_name=str(_env_get(environment, "name", default="") or ""),
-                     demand_id=demand_id, feed_ids=feed_ids)
+    tm = ThermoModel(model=model, conditions=table.conditions, energies=kept,
+                     log_bounds=applied.log_bounds, no_activity=set(applied.no_activity), mode=mode,
+                     environment_name=environment.name, demand_id=applied.demand_id,
+                     feed_ids=applied.feed_ids)
     tm.compound_table = table
     tm.all_energies = energies
     return tm
 
 
 @contextlib.contextmanager
-def prepared(model: cobra.Model, environment, mode: str = "native", db: ThermoDatabase | None = None,
+def prepared(model: cobra.Model, environment: Environment, mode: str = "native", db: ThermoDatabase | None = None,
              literature=None) -> Iterator[ThermoModel]:
     """Context manager: the network rewritten for ``mode`` and its :class:`ThermoModel`.
 
@@ -734,7 +579,7 @@ def prepared(model: cobra.Model, environment, mode: str = "native", db: ThermoDa
             yield _thermo_model(model, environment, mode, db, literature)
 
 
-def prepare(model: cobra.Model, environment, mode: str = "native", db: ThermoDatabase | None = None,
+def prepare(model: cobra.Model, environment: Environment, mode: str = "native", db: ThermoDatabase | None = None,
             literature=None) -> ThermoModel:
     """A :class:`ThermoModel` on a *copy* of ``model`` rewritten for ``mode``; ``model`` is untouched.
 

@@ -43,7 +43,7 @@ import cobra
 from ..conditions import Conditions
 from ..errors import ConditionsError, NetworkFileError
 from .checks import is_boundary_reaction
-from .roles import metabolite_role
+from .roles import water_and_protons
 
 if sys.version_info >= (3, 11):
     import tomllib
@@ -289,14 +289,18 @@ class Environment:
             fed[met.id] = value
         return fed
 
-    def metabolite_bounds(self, model: cobra.Model) -> dict[str, tuple[float, float]]:
+    def metabolite_bounds(self, model: cobra.Model,
+                          no_activity: set[str] | None = None) -> dict[str, tuple[float, float]]:
         """Metabolite id -> (lower, upper) concentration (mol/L; gases bar) for every compound with
-        a concentration variable (water and H+ are left out).
+        a concentration variable (water and H+, ``no_activity``, are left out; default: found by
+        :func:`tfa.network.roles.water_and_protons`).
 
         A per-compound ``[bounds]`` entry that names no compound of this network is logged and
         ignored (the same environment serves networks with and without, e.g., ATP).
         """
         fed = self.feed_metabolites(model)
+        if no_activity is None:
+            no_activity = water_and_protons(model)
         own: dict[str, tuple[float, float]] = {}
         for key, pair in self.bounds.items():
             try:
@@ -305,12 +309,17 @@ class Environment:
                 logger.info("%s: bounds for '%s' ignored, not in network %s", self.name, key, model.id)
         result: dict[str, tuple[float, float]] = {}
         for met in model.metabolites:
-            if metabolite_role(met) in ("water", "proton"):
+            if met.id in no_activity:
                 continue
             if met.id in fed:
                 result[met.id] = (fed[met.id], fed[met.id])
                 continue
             if met.id in own:
+                lower, upper = own[met.id]
+                if not 0 < lower <= upper:
+                    raise NetworkFileError(
+                        f"compound {met.id}: bounds [{lower:g}, {upper:g}] of environment {self.name} "
+                        "are not positive and ordered; give 0 < lower <= upper (mol/L; gases bar)")
                 result[met.id] = own[met.id]
                 continue
             lower, upper = self.default_bounds
@@ -327,8 +336,10 @@ class Environment:
             result[met.id] = (lower, upper)
         return result
 
-    def exchange_bounds(self, model: cobra.Model, flux_bound: float = 1000.0) -> dict[str, tuple[float, float]]:
-        """Bounds of every boundary reaction in this environment.
+    def exchange_bounds(self, model: cobra.Model, flux_bound: float = 1000.0,
+                        no_activity: set[str] | None = None) -> dict[str, tuple[float, float]]:
+        """Bounds of every boundary reaction in this environment (``no_activity``: water and H+,
+        default found by :func:`tfa.network.roles.water_and_protons`).
 
         Exchanges (one compound, one empty side) of fed compounds, water and H+ are open both
         ways; those of outlets may only export; all other boundary reactions are closed, except
@@ -348,7 +359,7 @@ class Environment:
                 outlets.add(self.resolve(model, key).id)
             except NetworkFileError:
                 logger.warning("%s: outlet '%s' ignored, not a compound of network %s", where, key, model.id)
-        free = fed | {m.id for m in model.metabolites if metabolite_role(m) in ("water", "proton")}
+        free = fed | (water_and_protons(model) if no_activity is None else set(no_activity))
         exchanges: dict[str, cobra.Reaction] = {}
         result: dict[str, tuple[float, float]] = {}
         for reaction in model.reactions:
@@ -382,9 +393,10 @@ class Environment:
             result[demand.id] = (self.demand_flux, max(demand.upper_bound, self.demand_flux))
         return result
 
-    def apply_exchange_bounds(self, model: cobra.Model) -> dict[str, tuple[float, float]]:
+    def apply_exchange_bounds(self, model: cobra.Model,
+                              no_activity: set[str] | None = None) -> dict[str, tuple[float, float]]:
         """Set :meth:`exchange_bounds` on the model (undone on leaving an enclosing ``with model:``)."""
-        bounds = self.exchange_bounds(model)
+        bounds = self.exchange_bounds(model, no_activity=no_activity)
         for rid, pair in bounds.items():
             model.reactions.get_by_id(rid).bounds = pair
         return bounds
@@ -393,6 +405,54 @@ class Environment:
         """One line for reports."""
         feed = ", ".join(f"{k} {v:g}" for k, v in self.feed.items())
         return f"{self.name}: {self.conditions.describe()}; feed {feed or 'none'}"
+
+
+@dataclass(frozen=True)
+class AppliedEnvironment:
+    """What :func:`apply_environment` set on a network.
+
+    Attributes
+    ----------
+    log_bounds : dict
+        Metabolite id -> (ln lower, ln upper) of its concentration (mol/L; gases bar); a fed
+        compound has lower == upper.
+    feed_ids : dict
+        Feed key of the environment -> metabolite id.
+    demand_id : str or None
+        The demand reaction.
+    no_activity : frozenset
+        Water and H+: no concentration variable.
+    """
+
+    log_bounds: dict[str, tuple[float, float]]
+    feed_ids: dict[str, str]
+    demand_id: str | None
+    no_activity: frozenset[str]
+
+
+def apply_environment(model: cobra.Model, environment: Environment,
+                      no_activity: set[str]) -> AppliedEnvironment:
+    """Apply an environment to a network: the one rule for bounds and exchanges.
+
+    Sets the flux bounds of every boundary reaction (:meth:`Environment.exchange_bounds`: fed
+    compounds, water and H+ open, outlets export only, the demand at its flux, the rest closed;
+    undone on leaving an enclosing ``with model:``) and returns the ln-concentration bounds of
+    every compound with an activity term (:meth:`Environment.metabolite_bounds`).
+
+    Raises
+    ------
+    NetworkFileError
+        A feed or demand that names nothing in the network, empty bounds, a fed compound without
+        an exchange.
+    """
+    if not isinstance(environment, Environment):
+        raise NetworkFileError(f"environment: expected an Environment (read with "
+                               f"Environment.from_toml), got {type(environment).__name__}")
+    concentration = environment.metabolite_bounds(model, no_activity)
+    bounds = {m: (math.log(lo), math.log(hi)) for m, (lo, hi) in concentration.items()}
+    feed_ids = {str(key): environment.resolve(model, key).id for key in environment.feed}
+    environment.apply_exchange_bounds(model, no_activity)
+    return AppliedEnvironment(bounds, feed_ids, environment.demand_reaction, frozenset(no_activity))
 
 
 def _unknown(where: str, what: str, key: str, allowed: list[str]) -> str:

@@ -52,7 +52,7 @@ from ..errors import InputError
 from ..thermo.balance import check_balance
 from .checks import is_boundary_reaction as is_boundary
 from .roles import NUCLEOTIDE_ROLES, carrier_pairs, formula_and_charge, single_with_role
-from .thermo_model import MODES
+from ..modes import get_mode
 
 logger = logging.getLogger(__name__)
 
@@ -66,7 +66,7 @@ class RewriteSummary:
     Attributes
     ----------
     mode : str
-        One of :data:`tfa.network.thermo_model.MODES`.
+        The mode (an id of :data:`tfa.modes.MODES`) or the rewrite that made this summary.
     rewritten : dict
         Reaction id -> what was done to it (the text also stored in its ``notes['rewritten']``).
     removed : list
@@ -467,24 +467,33 @@ def native(model: cobra.Model) -> Iterator[RewriteSummary]:
         yield summary
 
 
-_MANAGERS = {
-    "native": native,
-    "h2_only": h2_only,
-    "no_atp_strict": no_atp_strict,
-    "no_atp_bare": no_atp_bare_chemistry,
+#: The context manager of each rewrite named in :data:`tfa.modes.REWRITES`.
+REWRITE_MANAGERS = {
+    "cofactors_internal": native,
+    "carriers_to_h2": h2_only,
+    "atp_removed": no_atp_strict,
+    "atp_to_bare_chemistry": no_atp_bare_chemistry,
 }
 
 
 @contextlib.contextmanager
 def apply_mode(model: cobra.Model, mode: str) -> Iterator[RewriteSummary]:
-    """The context manager of ``mode`` (one of :data:`tfa.network.thermo_model.MODES`).
+    """Apply the rewrites of ``mode`` (an id of :data:`tfa.modes.MODES`) in order, for the
+    duration of the context; the summary collects what every rewrite did.
 
-    >>> sorted(_MANAGERS) == sorted(MODES)
+    >>> from tfa.modes import REWRITES
+    >>> sorted(REWRITE_MANAGERS) == sorted(REWRITES)
     True
     """
-    if mode not in _MANAGERS:
-        raise InputError(f"mode '{mode}' is not known; use one of {', '.join(MODES)}")
-    with _MANAGERS[mode](model) as summary:
+    definition = get_mode(mode)
+    summary = RewriteSummary(mode)
+    with contextlib.ExitStack() as stack:
+        for name in definition.rewrites:
+            part = stack.enter_context(REWRITE_MANAGERS[name](model))
+            summary.rewritten.update(part.rewritten)
+            summary.removed.extend(part.removed)
+            summary.blocked.extend(part.blocked)
+            summary.removed_metabolites.extend(part.removed_metabolites)
         yield summary
 
 

@@ -64,6 +64,23 @@ def metabolite_role(metabolite: cobra.Metabolite) -> str | CarrierRole | None:
     return parse_role((metabolite.notes or {}).get("role"), where=f"compound '{metabolite.id}'")
 
 
+def water_and_protons(model: cobra.Model, kind_of=None) -> set[str]:
+    """Ids of the metabolites without a concentration variable: water (activity 1) and H+ (fixed
+    by the pH). Found by their role (``water``, ``proton``) or, when ``kind_of`` is given (a
+    function from a ``thermo_key`` to the kind of the compound it names, or None), by a thermo
+    key that names water or the proton.
+    """
+    found = set()
+    for met in model.metabolites:
+        if metabolite_role(met) in ("water", "proton"):
+            found.add(met.id)
+            continue
+        key = str((met.notes or {}).get("thermo_key") or "").strip()
+        if kind_of is not None and key and kind_of(key) in ("water", "proton"):
+            found.add(met.id)
+    return found
+
+
 def metabolites_with_role(model: cobra.Model, role: str) -> list[cobra.Metabolite]:
     """Metabolites whose role is the simple role ``role`` (e.g. ``"proton"``), in model order."""
     return [m for m in model.metabolites if metabolite_role(m) == role]

@@ -9,7 +9,8 @@ bar); ``log_bounds`` hold natural logarithms of those.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
+from typing import Iterable
 
 import cobra
 
@@ -17,9 +18,6 @@ from ..conditions import Conditions
 
 #: Where a reaction's energy comes from, from strongest to weakest.
 ENERGY_SOURCES = ("species", "literature", "reconciled", "estimated", "placeholder", "none")
-
-#: The four ways a network is asked to run (see :mod:`tfa.network.rewrites`).
-MODES = ("native", "h2_only", "no_atp_strict", "no_atp_bare")
 
 
 @dataclass
@@ -74,7 +72,7 @@ class ThermoModel:
     no_activity : set[str]
         Metabolite ids that never enter the activity term: H+ (fixed by pH) and water (activity 1).
     mode : str
-        One of :data:`MODES`.
+        The mode the network was rewritten for (an id of :data:`tfa.modes.MODES`).
     environment_name : str
         Name of the environment, for reports.
     demand_id : str or None
@@ -112,3 +110,10 @@ class ThermoModel:
         from .checks import is_boundary_reaction
 
         return [r for r in self.model.reactions if not is_boundary_reaction(r)]
+
+    def relax(self, reactions: Iterable[str]) -> "ThermoModel":
+        """A copy without the energies of ``reactions``: they may then run either way, as if
+        coupled to an energy source the network does not contain (what a minimal uphill set
+        allows). The cobra model is shared, not copied."""
+        drop = set(reactions)
+        return replace(self, energies={k: v for k, v in self.energies.items() if k not in drop})

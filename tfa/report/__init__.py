@@ -6,7 +6,7 @@ Modules
 - :mod:`tfa.report.tables`: :func:`~tfa.report.tables.write_table`, read-back and comparison.
 - :mod:`tfa.report.figures`: energy profile, H2 scan, census, ranges; ``save_figure``.
 - :mod:`tfa.report.html`: :class:`~tfa.report.html.ReportSection`, ``build_report``.
-- :mod:`tfa.report.summary`: ``summary_lines``, ``summarize``.
+- :mod:`tfa.report.text`: the answers in plain words and plain-text tables.
 
 The figures module imports matplotlib (Agg backend); it is loaded only when one of its names
 is used.
@@ -17,13 +17,12 @@ from __future__ import annotations
 from typing import Any
 
 from .html import ReportSection, build_report
-from .summary import summarize, summary_lines
 from .tables import compare_table_files, write_table
 
 _FIGURE_NAMES = ("energy_profile_figure", "h2_scan_figure", "census_figure", "ranges_figure",
                  "save_figure")
 
-__all__ = ["ReportSection", "build_report", "summarize", "summary_lines", "write_table",
+__all__ = ["ReportSection", "build_report", "write_table",
            "compare_table_files", *_FIGURE_NAMES]
 
 

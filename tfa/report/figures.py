@@ -11,25 +11,15 @@ Figures
 - :func:`census_figure`: distribution of Delta_r G' per mode, with counts of exergonic steps.
 - :func:`ranges_figure`: the feasible interval of Delta_r G' per reaction.
 
-Colours come from the colour-blind-safe palette of Okabe and Ito (M. Okabe, K. Ito, "Color
-Universal Design", 2008), fixed per role so that a mode has the same colour in every figure.
-Energies are in kJ/mol, concentrations in mol/L (gases: bar).
+Colours, fonts and writing: :mod:`tfa.report.figure_style`. Energies are in kJ/mol,
+concentrations in mol/L (gases: bar).
 """
 
 from __future__ import annotations
 
-import io
 import logging
 import math
-import re
-from pathlib import Path
-from typing import Sequence
 
-import matplotlib
-
-matplotlib.use("Agg")
-
-import matplotlib.pyplot as plt  # noqa: E402
 import numpy as np  # noqa: E402
 import pandas as pd  # noqa: E402
 from matplotlib.figure import Figure  # noqa: E402
@@ -37,145 +27,16 @@ from matplotlib.lines import Line2D  # noqa: E402
 from matplotlib.ticker import MaxNLocator  # noqa: E402
 
 from ..errors import InputError  # noqa: E402
-from ..util.files import write_bytes  # noqa: E402
+from ..modes import MODES  # noqa: E402
+from .figure_style import (DOWNHILL_COLOUR, HORIZONTAL_BOX, KIND_MARKERS, MIN_FONT_PT,  # noqa: E402
+                           OKABE_ITO, REFERENCE_COLOUR, THRESHOLD_COLOUR, UPHILL_COLOUR,
+                           mode_label, new_figure, require_columns, save_figure, scientific,
+                           wrap_label)
+
+__all__ = ["census_figure", "energy_profile_figure", "h2_scan_figure", "ranges_figure",
+           "save_figure", "select_ranges"]
 
 logger = logging.getLogger(__name__)
-
-#: Okabe-Ito colours (colour-blind safe), by name.
-OKABE_ITO = {
-    "black": "#000000",
-    "orange": "#E69F00",
-    "sky_blue": "#56B4E9",
-    "bluish_green": "#009E73",
-    "yellow": "#F0E442",
-    "blue": "#0072B2",
-    "vermillion": "#D55E00",
-    "reddish_purple": "#CC79A7",
-}
-
-#: Colour of each of the four modes (same in every figure).
-MODE_COLOURS = {
-    "native": OKABE_ITO["blue"],
-    "h2_only": OKABE_ITO["bluish_green"],
-    "no_atp_strict": OKABE_ITO["orange"],
-    "no_atp_bare": OKABE_ITO["reddish_purple"],
-}
-
-#: Colours of roles shared by several figures.
-DOWNHILL_COLOUR = OKABE_ITO["blue"]
-UPHILL_COLOUR = OKABE_ITO["vermillion"]
-REFERENCE_COLOUR = "#6E6E6E"
-THRESHOLD_COLOUR = OKABE_ITO["vermillion"]
-
-#: Words for the modes, for legends and axis labels.
-MODE_LABELS = {
-    "native": "native (ATP made inside)",
-    "h2_only": "H2 in place of carriers",
-    "no_atp_strict": "without ATP",
-    "no_atp_bare": "bare chemistry (ATP coupling stripped)",
-}
-
-#: Short names of the modes, for tick labels.
-MODE_SHORT_LABELS = {
-    "native": "native",
-    "h2_only": "H2 for carriers",
-    "no_atp_strict": "without ATP",
-    "no_atp_bare": "bare chemistry",
-}
-
-#: Smallest font used anywhere in a figure, pt.
-MIN_FONT_PT = 8.0
-
-#: Width of every figure, inches (shown about 900 px wide in the HTML report).
-FIGURE_WIDTH_IN = 8.0
-
-#: Keyword for horizontal box plots ("orientation" from matplotlib 3.10, "vert" before).
-_HORIZONTAL_BOX = ({"orientation": "horizontal"}
-                   if tuple(int(p) for p in matplotlib.__version__.split(".")[:2]) >= (3, 10)
-                   else {"vert": False})
-
-#: Marker per kind of energy in the census (cycled).
-_KIND_MARKERS = ("o", "s", "^", "D", "v")
-
-_STYLE = {
-    "font.size": 10.0,
-    "axes.titlesize": 11.0,
-    "axes.labelsize": 10.0,
-    "xtick.labelsize": 9.0,
-    "ytick.labelsize": 9.0,
-    "legend.fontsize": 9.0,
-    "axes.spines.top": False,
-    "axes.spines.right": False,
-    "svg.fonttype": "path",  # glyphs as paths: the SVG looks the same on every machine
-    "svg.hashsalt": "tfa",  # stable element ids in the SVG
-}
-
-
-def _new_figure(height_in: float, nrows: int = 1, sharex: bool = False, **kwargs):
-    with plt.rc_context(_STYLE):
-        fig, axes = plt.subplots(nrows, 1, figsize=(FIGURE_WIDTH_IN, height_in), sharex=sharex,
-                                 layout="constrained", **kwargs)
-    return fig, axes
-
-
-def _require_columns(frame: pd.DataFrame, columns: Sequence[str], figure: str) -> None:
-    if not isinstance(frame, pd.DataFrame):
-        raise InputError(f"{figure}: expected a pandas DataFrame, got {type(frame).__name__}")
-    missing = [c for c in columns if c not in frame.columns]
-    if missing:
-        raise InputError(
-            f"{figure}: the table lacks the column(s) {', '.join(missing)}; it has "
-            f"{', '.join(map(str, frame.columns)) or 'no columns'}; add them"
-        )
-    if frame.empty:
-        raise InputError(f"{figure}: the table has no rows; nothing to draw")
-
-
-def _wrap_label(text: str, width: int = 14, max_lines: int = 3) -> str:
-    """Wrap a label at spaces, underscores and hyphens (kept), shortened beyond ``max_lines``.
-
-    >>> _wrap_label("step_07_of_a_long_reaction_name", 20, 1)
-    'step_07_o…ction_name'
-    >>> _wrap_label("methylene_THF_reductase", 12)
-    'methylene_\\nTHF_\\nreductase'
-    """
-    text = str(text)
-    if max_lines == 1:  # one line: keep both ends, which usually tell reactions apart
-        if len(text) <= width:
-            return text
-        head = (width - 1) // 2
-        return text[:head] + "\u2026" + text[len(text) - (width - 1 - head):]
-    pieces = [p for p in re.split(r"(?<=[_\-\s])", text) if p]
-    lines: list[str] = []
-    current = ""
-    for piece in pieces:
-        if current and len(current) + len(piece.rstrip()) > width:
-            lines.append(current.rstrip())
-            current = ""
-        while len(piece) > width:  # a single piece longer than a line: cut it
-            lines.append(piece[:width])
-            piece = piece[width:]
-        current += piece
-    if current.strip():
-        lines.append(current.rstrip())
-    if len(lines) > max_lines:
-        lines = lines[:max_lines]
-        lines[-1] = lines[-1][: max(1, width - 1)] + "\u2026"
-    return "\n".join(lines) if lines else text
-
-
-def _scientific(value: float) -> str:
-    """A number for a figure label in mathtext, e.g. ``3.0e-05`` -> ``$3.0\\times10^{-5}$``.
-
-    >>> print(_scientific(3e-5), _scientific(0.25))
-    $3.0\\times10^{-5}$ 0.25
-    """
-    if value == 0 or 1e-2 <= abs(value) < 1e4:
-        return f"{value:.3g}"
-    exponent = int(math.floor(math.log10(abs(value))))
-    mantissa = value / 10**exponent
-    return f"${mantissa:.1f}\\times10^{{{exponent}}}$"
-
 
 # ---------------------------------------------------------------------------------------------
 # 1. energy profile
@@ -192,8 +53,8 @@ def energy_profile_figure(frame: pd.DataFrame, title: str | None = None) -> Figu
     ----------
     frame : DataFrame
         One row per step, in route order. Columns: ``step`` (reaction id or label),
-        ``dg_prime`` (Delta_r G', kJ/mol, at the solution or at reference concentrations),
-        optional ``dg_standard`` (Delta_r G'deg, kJ/mol), drawn as a second, dashed staircase.
+        ``delta_g_kJ_per_mol`` (ΔrG', at the solution or at reference concentrations),
+        optional ``delta_g_standard_kJ_per_mol`` (ΔrG'°), drawn as a second, dashed staircase.
     title : str, optional
         Axes title.
 
@@ -203,20 +64,21 @@ def energy_profile_figure(frame: pd.DataFrame, title: str | None = None) -> Figu
 
     Examples
     --------
-    >>> fig = energy_profile_figure(pd.DataFrame({"step": ["a", "b"], "dg_prime": [-5.0, 2.0]}))
+    >>> fig = energy_profile_figure(pd.DataFrame({"step": ["a", "b"],
+    ...                                           "delta_g_kJ_per_mol": [-5.0, 2.0]}))
     >>> fig.axes[0].get_ylabel()
     "cumulative ΔrG' (kJ/mol)"
     """
-    _require_columns(frame, ["step", "dg_prime"], "energy profile")
+    require_columns(frame, ["step", "delta_g_kJ_per_mol"], "energy profile")
     steps = [str(s) for s in frame["step"]]
-    dg = pd.to_numeric(frame["dg_prime"], errors="coerce").to_numpy(dtype=float)
+    dg = pd.to_numeric(frame["delta_g_kJ_per_mol"], errors="coerce").to_numpy(dtype=float)
     if not np.all(np.isfinite(dg)):
         bad = [steps[i] for i in np.flatnonzero(~np.isfinite(dg))]
-        raise InputError(f"energy profile: step(s) {', '.join(bad)} have no finite dg_prime; "
+        raise InputError(f"energy profile: step(s) {', '.join(bad)} have no finite ΔrG'; "
                          "give a value in kJ/mol for every step of the route")
     n = len(steps)
     height = 4.6 if n <= 12 else 5.2
-    fig, ax = _new_figure(height)
+    fig, ax = new_figure(height)
     width = 0.6  # half-width of a level
 
     def staircase(values: np.ndarray, colour_steps: bool, style: str, colour: str,
@@ -232,12 +94,12 @@ def energy_profile_figure(frame: pd.DataFrame, title: str | None = None) -> Figu
             ax.plot([k + width / 2, k + 1 - width / 2], [levels[k], levels[k + 1]], color=c,
                     linestyle=style, linewidth=lw)
 
-    if "dg_standard" in frame.columns:
-        std = pd.to_numeric(frame["dg_standard"], errors="coerce").to_numpy(dtype=float)
+    if "delta_g_standard_kJ_per_mol" in frame.columns:
+        std = pd.to_numeric(frame["delta_g_standard_kJ_per_mol"], errors="coerce").to_numpy(dtype=float)
         if np.all(np.isfinite(std)):
             staircase(std, False, "--", REFERENCE_COLOUR, 1.2)
         else:
-            logger.warning("energy profile: dg_standard has missing values; not drawn")
+            logger.warning("energy profile: ΔrG'° has missing values; not drawn")
             std = None
     else:
         std = None
@@ -259,10 +121,10 @@ def energy_profile_figure(frame: pd.DataFrame, title: str | None = None) -> Figu
     ax.set_ylim(min(every.min(), 0) - 0.08 * span, max(every.max(), 0) + 0.08 * span)
     ax.set_xticks(np.arange(n) + 0.5)
     if n <= 6:  # room for wrapped, horizontal labels
-        labels = [_wrap_label(s, 16, 3) for s in steps]
+        labels = [wrap_label(s, 16, 3) for s in steps]
         ax.set_xticklabels(labels, fontsize=9.0)
     else:  # one slanted line each, shortened when very long
-        labels = [_wrap_label(s, 28, 1) for s in steps]
+        labels = [wrap_label(s, 28, 1) for s in steps]
         ax.set_xticklabels(labels, rotation=35, ha="right", rotation_mode="anchor",
                            fontsize=9.0 if n <= 14 else MIN_FONT_PT)
     ax.set_xlabel("step along the route")
@@ -299,11 +161,11 @@ def h2_scan_figure(frame: pd.DataFrame, unit: str = "mol/L", threshold: float | 
     Parameters
     ----------
     frame : DataFrame
-        One row per scanned H2 value. Columns: ``h2`` (mol/L, or bar with ``unit="bar"``; > 0),
-        ``feasible`` (bool), ``uphill_count`` (int, NaN where not computed),
-        ``driving_force`` (kJ/mol, NaN where infeasible or not computed).
+        One row per scanned H2 value. Columns: ``h2_activity`` (mol/L, or bar with
+        ``unit="bar"``; > 0), ``feasible`` (bool), ``uphill_set_size`` (int, NaN where not
+        computed), ``driving_force_kJ_per_mol`` (NaN where infeasible or not computed).
     unit : {"mol/L", "bar"}
-        Unit of ``h2`` and of ``threshold``.
+        Unit of ``h2_activity`` and of ``threshold``.
     threshold : float, optional
         H2 threshold in ``unit``.
     title : str, optional
@@ -315,26 +177,27 @@ def h2_scan_figure(frame: pd.DataFrame, unit: str = "mol/L", threshold: float | 
 
     Examples
     --------
-    >>> f = pd.DataFrame({"h2": [1e-6, 1e-4], "feasible": [False, True],
-    ...                   "uphill_count": [2, 0], "driving_force": [float("nan"), 1.5]})
+    >>> f = pd.DataFrame({"h2_activity": [1e-6, 1e-4], "feasible": [False, True],
+    ...                   "uphill_set_size": [2, 0], "driving_force_kJ_per_mol": [float("nan"), 1.5]})
     >>> h2_scan_figure(f, threshold=1e-5).axes[-1].get_xlabel()
     'dissolved H2 (mol/L)'
     """
-    _require_columns(frame, ["h2", "feasible", "uphill_count", "driving_force"], "H2 scan")
+    require_columns(frame, ["h2_activity", "feasible", "uphill_set_size",
+                             "driving_force_kJ_per_mol"], "H2 scan")
     if unit not in _H2_AXIS_LABELS:
         raise InputError(f"H2 scan: unit {unit!r} unknown; use 'mol/L' or 'bar'")
     data = frame.copy()
-    data["h2"] = pd.to_numeric(data["h2"], errors="coerce")
-    if not (data["h2"] > 0).all():
-        raise InputError("H2 scan: every h2 value must be a positive number (log axis); "
-                         f"got {data['h2'].min()!r}")
-    data = data.sort_values("h2")
-    h2 = data["h2"].to_numpy(dtype=float)
+    data["h2_activity"] = pd.to_numeric(data["h2_activity"], errors="coerce")
+    if not (data["h2_activity"] > 0).all():
+        raise InputError("H2 scan: every H2 level must be a positive number (log axis); "
+                         f"got {data['h2_activity'].min()!r}")
+    data = data.sort_values("h2_activity")
+    h2 = data["h2_activity"].to_numpy(dtype=float)
     feasible = data["feasible"].map(lambda v: bool(v) if pd.notna(v) else False).to_numpy()
-    uphill = pd.to_numeric(data["uphill_count"], errors="coerce").to_numpy(dtype=float)
-    force = pd.to_numeric(data["driving_force"], errors="coerce").to_numpy(dtype=float)
+    uphill = pd.to_numeric(data["uphill_set_size"], errors="coerce").to_numpy(dtype=float)
+    force = pd.to_numeric(data["driving_force_kJ_per_mol"], errors="coerce").to_numpy(dtype=float)
 
-    fig, axes = _new_figure(6.4, nrows=3, sharex=True,
+    fig, axes = new_figure(6.4, nrows=3, sharex=True,
                             gridspec_kw={"height_ratios": [0.7, 1.0, 1.2]})
     ax_f, ax_u, ax_d = axes
 
@@ -369,7 +232,7 @@ def h2_scan_figure(frame: pd.DataFrame, unit: str = "mol/L", threshold: float | 
     if threshold is not None and math.isfinite(threshold) and threshold > 0:
         for ax in axes:
             ax.axvline(threshold, color=THRESHOLD_COLOUR, lw=1.0, ls="--")
-        ax_f.annotate(f"threshold {_scientific(threshold)} {unit}", (threshold, 1.0),
+        ax_f.annotate(f"threshold {scientific(threshold)} {unit}", (threshold, 1.0),
                       xytext=(4, 6), textcoords="offset points", ha="left", va="bottom",
                       fontsize=MIN_FONT_PT + 1, color=THRESHOLD_COLOUR)
     lo, hi = h2.min(), h2.max()
@@ -387,22 +250,28 @@ def h2_scan_figure(frame: pd.DataFrame, unit: str = "mol/L", threshold: float | 
 # ---------------------------------------------------------------------------------------------
 
 
-def census_figure(frame: pd.DataFrame, title: str | None = None, seed: int = 0) -> Figure:
-    """Distribution of Delta_r G' of the reactions in each mode (strip plot over a box plot).
+#: Energies the census figure draws by default: column of the census table -> label.
+CENSUS_KINDS = {"delta_g_standard_kJ_per_mol": "ΔrG'°", "delta_g_1mM_kJ_per_mol": "ΔrG' at 1 mM"}
 
-    One row of points per mode (and per kind of energy, when several are given), a box for the
-    quartiles, a vertical line at zero; the legend counts the exergonic reactions
-    (Delta_r G' < 0) of each row.
+
+def census_figure(frame: pd.DataFrame, title: str | None = None, seed: int = 0,
+                  kinds: dict[str, str] | None = None) -> Figure:
+    """Distribution of ΔrG' of the reactions in each mode (strip plot over a box plot).
+
+    One row of points per mode and kind of energy, a box for the quartiles, a vertical line at
+    zero; the legend counts the exergonic reactions (ΔrG' < 0) of each row.
 
     Parameters
     ----------
     frame : DataFrame
-        Long table: ``mode``, ``reaction``, ``dg_prime`` (kJ/mol); optional ``kind``
-        (e.g. "ΔrG'°", "ΔrG' at 1 mM"). Rows with a missing ``dg_prime`` are left out.
+        The census table: ``mode``, ``reaction`` and the energy columns named in ``kinds``
+        (kJ/mol). Missing values are left out.
     title : str, optional
         Axes title.
     seed : int
         Seed of the vertical jitter of the points (the figure is reproducible).
+    kinds : dict, optional
+        Column -> label of the energies drawn (default :data:`CENSUS_KINDS`, those present).
 
     Returns
     -------
@@ -411,35 +280,38 @@ def census_figure(frame: pd.DataFrame, title: str | None = None, seed: int = 0) 
     Examples
     --------
     >>> f = pd.DataFrame({"mode": ["native"] * 3, "reaction": ["a", "b", "c"],
-    ...                   "dg_prime": [-10.0, 5.0, -1.0]})
+    ...                   "delta_g_1mM_kJ_per_mol": [-10.0, 5.0, -1.0]})
     >>> census_figure(f).axes[0].get_xlabel()
     "ΔrG' (kJ/mol)"
     """
-    _require_columns(frame, ["mode", "reaction", "dg_prime"], "census")
-    data = frame.copy()
-    data["dg_prime"] = pd.to_numeric(data["dg_prime"], errors="coerce")
+    kinds = kinds or {c: label for c, label in CENSUS_KINDS.items() if c in frame.columns}
+    require_columns(frame, ["mode", "reaction", *kinds], "census")
+    if not kinds:
+        raise InputError("census: the table has none of the energy columns "
+                         + ", ".join(CENSUS_KINDS) + "; nothing to draw")
+    data = pd.concat([pd.DataFrame({"mode": frame["mode"], "reaction": frame["reaction"],
+                                    "dg_prime": pd.to_numeric(frame[c], errors="coerce"),
+                                    "kind": label}) for c, label in kinds.items()],
+                     ignore_index=True)
     dropped = int(data["dg_prime"].isna().sum())
     data = data.dropna(subset=["dg_prime"])
     if data.empty:
-        raise InputError("census: no reaction has a finite dg_prime; nothing to draw")
-    if "kind" not in data.columns:
-        data["kind"] = "ΔrG'"
-    data["kind"] = data["kind"].astype(str)
-    modes = [m for m in MODE_LABELS if m in set(data["mode"])]
+        raise InputError("census: no reaction has a finite energy; nothing to draw")
+    modes = [m for m in MODES if m in set(data["mode"])]
     modes += [m for m in dict.fromkeys(data["mode"].astype(str)) if m not in modes]
-    kinds = list(dict.fromkeys(data["kind"]))
-    rows = [(m, k) for m in modes for k in kinds
+    labels = list(dict.fromkeys(data["kind"]))  # in the order given
+    rows = [(m, k) for m in modes for k in labels
             if ((data["mode"] == m) & (data["kind"] == k)).any()]
     height = max(3.2, 1.6 + 0.5 * len(rows) + 0.2 * ((len(rows) + 1) // 2))
-    fig, ax = _new_figure(height)
+    fig, ax = new_figure(height)
     rng = np.random.default_rng(seed)
     handles = []
     for y, (mode, kind) in enumerate(rows):
         values = data.loc[(data["mode"] == mode) & (data["kind"] == kind), "dg_prime"]
         values = values.to_numpy(dtype=float)
-        colour = MODE_COLOURS.get(mode, OKABE_ITO["black"])
-        marker = _KIND_MARKERS[kinds.index(kind) % len(_KIND_MARKERS)]
-        ax.boxplot(values, positions=[y], **_HORIZONTAL_BOX, widths=0.5, showfliers=False,
+        colour = MODES[mode].colour if mode in MODES else OKABE_ITO["black"]
+        marker = KIND_MARKERS[labels.index(kind) % len(KIND_MARKERS)]
+        ax.boxplot(values, positions=[y], **HORIZONTAL_BOX, widths=0.5, showfliers=False,
                    patch_artist=True, manage_ticks=False,
                    boxprops={"facecolor": "none", "edgecolor": colour},
                    medianprops={"color": colour, "linewidth": 1.6},
@@ -448,13 +320,12 @@ def census_figure(frame: pd.DataFrame, title: str | None = None, seed: int = 0) 
         ax.scatter(values, y + jitter, s=16, color=colour, marker=marker, alpha=0.75,
                    edgecolors="none", zorder=3)
         exergonic = int((values < 0).sum())
-        label = MODE_SHORT_LABELS.get(mode, mode) + (f", {kind}" if len(kinds) > 1 else "")
+        label = mode_label(mode) + (f", {kind}" if len(labels) > 1 else "")
         handles.append(Line2D([], [], color=colour, marker=marker, ls="none",
                               label=f"{label}: {exergonic} of {len(values)} exergonic"))
     ax.axvline(0.0, color=REFERENCE_COLOUR, lw=1.0, ls="--")
     ax.set_yticks(range(len(rows)))
-    ax.set_yticklabels([MODE_SHORT_LABELS.get(m, _wrap_label(m, 16, 1))
-                        + (f"\n{k}" if len(kinds) > 1 else "") for m, k in rows])
+    ax.set_yticklabels([mode_label(m) + (f"\n{k}" if len(labels) > 1 else "") for m, k in rows])
     ax.set_ylim(len(rows) - 0.5, -0.5)
     ax.set_xlabel("ΔrG' (kJ/mol)")
     fig.legend(handles=handles, loc="outside lower center", ncol=2 if len(handles) > 1 else 1,
@@ -478,14 +349,14 @@ def select_ranges(frame: pd.DataFrame, max_reactions: int = MAX_RANGE_ROWS
                   ) -> tuple[pd.DataFrame, str]:
     """The rows a ranges figure shows, sorted, and a caption note saying what was left out.
 
-    Rows are sorted by the midpoint of [dg_min, dg_max] (most downhill at the top). When there
+    Rows are sorted by the midpoint of the range (most downhill at the top). When there
     are more than ``max_reactions`` rows, the ``max_reactions`` narrowest intervals (the most
     constrained reactions) are kept.
 
     Parameters
     ----------
     frame : DataFrame
-        Columns ``reaction``, ``dg_min``, ``dg_max`` (kJ/mol), optional ``dg_at_solution``.
+        Columns ``reaction``, ``delta_g_min_kJ_per_mol``, ``delta_g_max_kJ_per_mol`` (kJ/mol), optional ``delta_g_kJ_per_mol``.
     max_reactions : int
         Largest number of rows to keep.
 
@@ -496,34 +367,34 @@ def select_ranges(frame: pd.DataFrame, max_reactions: int = MAX_RANGE_ROWS
 
     Examples
     --------
-    >>> f = pd.DataFrame({"reaction": list("abc"), "dg_min": [-9.0, -1.0, -50.0],
-    ...                   "dg_max": [-1.0, 0.0, 50.0]})
+    >>> f = pd.DataFrame({"reaction": list("abc"), "delta_g_min_kJ_per_mol": [-9.0, -1.0, -50.0],
+    ...                   "delta_g_max_kJ_per_mol": [-1.0, 0.0, 50.0]})
     >>> rows, note = select_ranges(f, max_reactions=2)
     >>> list(rows["reaction"]), note
     (['a', 'b'], 'showing the 2 most constrained of 3 reactions (narrowest ranges)')
     """
-    _require_columns(frame, ["reaction", "dg_min", "dg_max"], "ranges")
+    require_columns(frame, ["reaction", "delta_g_min_kJ_per_mol", "delta_g_max_kJ_per_mol"], "ranges")
     data = frame.copy()
-    for column in ("dg_min", "dg_max"):
+    for column in ("delta_g_min_kJ_per_mol", "delta_g_max_kJ_per_mol"):
         data[column] = pd.to_numeric(data[column], errors="coerce")
-    bad = data["dg_min"].isna() | data["dg_max"].isna()
+    bad = data["delta_g_min_kJ_per_mol"].isna() | data["delta_g_max_kJ_per_mol"].isna()
     if bad.any():
         logger.info("ranges: %d reaction(s) without a range left out", int(bad.sum()))
     data = data.loc[~bad]
-    if (data["dg_min"] > data["dg_max"] + 1e-9).any():
-        wrong = data.loc[data["dg_min"] > data["dg_max"] + 1e-9, "reaction"].astype(str)
-        raise InputError(f"ranges: dg_min > dg_max for {', '.join(wrong)}; swap or fix them")
+    if (data["delta_g_min_kJ_per_mol"] > data["delta_g_max_kJ_per_mol"] + 1e-9).any():
+        wrong = data.loc[data["delta_g_min_kJ_per_mol"] > data["delta_g_max_kJ_per_mol"] + 1e-9, "reaction"].astype(str)
+        raise InputError(f"ranges: the least ΔrG' exceeds the largest for {', '.join(wrong)}; swap or fix them")
     note = ""
     if len(data) > max_reactions:
-        width = (data["dg_max"] - data["dg_min"]).replace([np.inf], np.finfo(float).max)
+        width = (data["delta_g_max_kJ_per_mol"] - data["delta_g_min_kJ_per_mol"]).replace([np.inf], np.finfo(float).max)
         data = data.assign(_width=width).sort_values("_width", kind="stable")
         data = data.head(max_reactions).drop(columns="_width")
         note = (f"showing the {max_reactions} most constrained of {len(frame)} reactions "
                 "(narrowest ranges)")
     if bad.any():
         note = (note + "; " if note else "") + f"{int(bad.sum())} without a range left out"
-    lo = data["dg_min"].clip(lower=-1e6)
-    hi = data["dg_max"].clip(upper=1e6)
+    lo = data["delta_g_min_kJ_per_mol"].clip(lower=-1e6)
+    hi = data["delta_g_max_kJ_per_mol"].clip(upper=1e6)
     data = data.assign(_mid=(lo + hi) / 2).sort_values(["_mid", "reaction"], kind="stable")
     return data.drop(columns="_mid").reset_index(drop=True), note
 
@@ -541,7 +412,7 @@ def ranges_figure(frame: pd.DataFrame, title: str | None = None,
     Parameters
     ----------
     frame : DataFrame
-        Columns ``reaction``, ``dg_min``, ``dg_max`` (kJ/mol), optional ``dg_at_solution``.
+        Columns ``reaction``, ``delta_g_min_kJ_per_mol``, ``delta_g_max_kJ_per_mol`` (kJ/mol), optional ``delta_g_kJ_per_mol``.
     title : str, optional
         Axes title; the note of :func:`select_ranges` is added to it.
     max_reactions : int
@@ -553,7 +424,7 @@ def ranges_figure(frame: pd.DataFrame, title: str | None = None,
 
     Examples
     --------
-    >>> f = pd.DataFrame({"reaction": ["a"], "dg_min": [-3.0], "dg_max": [2.0]})
+    >>> f = pd.DataFrame({"reaction": ["a"], "delta_g_min_kJ_per_mol": [-3.0], "delta_g_max_kJ_per_mol": [2.0]})
     >>> ranges_figure(f).axes[0].get_xlabel()
     "ΔrG' range over the feasible set (kJ/mol)"
     """
@@ -562,15 +433,15 @@ def ranges_figure(frame: pd.DataFrame, title: str | None = None,
         raise InputError("ranges: no reaction has a finite range; nothing to draw")
     n = len(rows)
     height = 2.2 + 0.21 * n
-    fig, ax = _new_figure(height)
-    lo_all = rows["dg_min"].replace(-np.inf, np.nan).min()
-    hi_all = rows["dg_max"].replace(np.inf, np.nan).max()
+    fig, ax = new_figure(height)
+    lo_all = rows["delta_g_min_kJ_per_mol"].replace(-np.inf, np.nan).min()
+    hi_all = rows["delta_g_max_kJ_per_mol"].replace(np.inf, np.nan).max()
     lo_all = min(0.0, lo_all if np.isfinite(lo_all) else 0.0)
     hi_all = max(0.0, hi_all if np.isfinite(hi_all) else 0.0)
     pad = 0.06 * ((hi_all - lo_all) or 1.0)
     left, right = lo_all - pad, hi_all + pad
     for y, row in rows.iterrows():
-        lo, hi = float(row["dg_min"]), float(row["dg_max"])
+        lo, hi = float(row["delta_g_min_kJ_per_mol"]), float(row["delta_g_max_kJ_per_mol"])
         if hi < 0:
             colour = DOWNHILL_COLOUR
         elif lo > 0:
@@ -585,9 +456,9 @@ def ranges_figure(frame: pd.DataFrame, title: str | None = None,
             ax.plot(right, y, marker=">", color=colour, ms=5)
         if abs(b - a) < 1e-9:
             ax.plot(a, y, marker="|", color=colour, ms=8, mew=2)
-    has_solution = "dg_at_solution" in rows.columns
+    has_solution = "delta_g_kJ_per_mol" in rows.columns
     if has_solution:
-        sol = pd.to_numeric(rows["dg_at_solution"], errors="coerce")
+        sol = pd.to_numeric(rows["delta_g_kJ_per_mol"], errors="coerce")
         ok = sol.notna().to_numpy()
         ax.plot(sol[ok], np.arange(n)[ok], ls="none", marker="|", color=OKABE_ITO["black"],
                 ms=9, mew=1.6)
@@ -596,7 +467,7 @@ def ranges_figure(frame: pd.DataFrame, title: str | None = None,
     ax.set_ylim(n - 0.5, -0.5)
     ax.set_yticks(range(n))
     label_size = 9.0 if n <= 30 else MIN_FONT_PT
-    ax.set_yticklabels([_wrap_label(r, 28, 1) for r in rows["reaction"].astype(str)],
+    ax.set_yticklabels([wrap_label(r, 28, 1) for r in rows["reaction"].astype(str)],
                        fontsize=label_size)
     ax.set_xlabel("ΔrG' range over the feasible set (kJ/mol)")
     ax.grid(axis="x", color="#DDDDDD", lw=0.6)
@@ -618,49 +489,3 @@ def ranges_figure(frame: pd.DataFrame, title: str | None = None,
     return fig
 
 
-# ---------------------------------------------------------------------------------------------
-# writing
-# ---------------------------------------------------------------------------------------------
-
-
-def figure_bytes(fig: Figure, fmt: str, dpi: int = 150) -> bytes:
-    """Render a figure to PNG or SVG bytes in memory (no file touched)."""
-    if fmt not in ("png", "svg"):
-        raise InputError(f"figure format {fmt!r} unknown; use 'png' or 'svg'")
-    buffer = io.BytesIO()
-    metadata = {"Software": "tfa"} if fmt == "png" else {"Creator": "tfa", "Date": None}
-    with plt.rc_context(_STYLE):
-        fig.savefig(buffer, format=fmt, dpi=dpi, metadata=metadata, bbox_inches="tight",
-                    pad_inches=0.08)
-    return buffer.getvalue()
-
-
-def save_figure(fig: Figure, path_stem: str | Path, dpi: int = 150,
-                close: bool = True) -> tuple[Path, Path]:
-    """Write a figure as ``<stem>.png`` and ``<stem>.svg``, each atomically.
-
-    Parameters
-    ----------
-    fig : Figure
-        The figure.
-    path_stem : str or Path
-        Path without suffix (a suffix, if any, is replaced).
-    dpi : int
-        Resolution of the PNG.
-    close : bool
-        Close the figure afterwards (frees its memory).
-
-    Returns
-    -------
-    (Path, Path)
-        The PNG and SVG paths.
-    """
-    stem = Path(path_stem)
-    if stem.suffix.lower() in (".png", ".svg"):
-        stem = stem.with_suffix("")
-    png = write_bytes(stem.with_name(stem.name + ".png"), figure_bytes(fig, "png", dpi))
-    svg = write_bytes(stem.with_name(stem.name + ".svg"), figure_bytes(fig, "svg", dpi))
-    if close:
-        plt.close(fig)
-    logger.info("figure written: %s (.png, .svg)", stem)
-    return png, svg

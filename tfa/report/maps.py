@@ -30,35 +30,37 @@ from matplotlib.figure import Figure  # noqa: E402
 from matplotlib.ticker import MaxNLocator  # noqa: E402
 
 from ..errors import InputError  # noqa: E402
-from .figures import _STYLE, FIGURE_WIDTH_IN, MODE_LABELS, OKABE_ITO, save_figure  # noqa: E402
+from ..modes import MODES  # noqa: E402
+from .figure_style import FIGURE_WIDTH_IN, OKABE_ITO, STYLE, save_figure  # noqa: E402
 
 log = logging.getLogger(__name__)
 
 #: Panels of a map figure: column, title, how values are shown.
 PANELS = (
     ("feasible", "feasible", "binary"),
-    ("uphill_size", "size of the minimal uphill set", "integer"),
-    ("driving_force_kJ", "max-min driving force, kJ/mol", "float"),
+    ("uphill_set_size", "size of the minimal uphill set", "integer"),
+    ("driving_force_kJ_per_mol", "max-min driving force, kJ/mol", "float"),
     ("h2_threshold", "H2 threshold, log10(mol/L)", "log"),
 )
-#: Words for the condition axes.
+#: Words for the condition axes, by table column.
 AXIS_LABELS = {
-    "temperature": "temperature, °C",
-    "ph": "pH",
-    "ionic_strength": "ionic strength, mol/L",
-    "h2": "H2 supply, mol/L",
-    "pressure": "pressure, bar",
+    "temperature_C": "temperature, °C",
+    "pH": "pH",
+    "ionic_strength_mol_per_L": "ionic strength, mol/L",
+    "h2_activity": "H2 supply, mol/L (gas feed: bar)",
+    "pressure_bar": "pressure, bar",
 }
 #: Largest grid whose cells get their value written in.
 ANNOTATE_MAX_CELLS = 144
 _MISSING = "#BBBBBB"
 
 
-def _grid(frame: pd.DataFrame, column: str, xs: list, ys: list) -> np.ndarray:
+def _grid(frame: pd.DataFrame, column: str, x_column: str, y_column: str, xs: list,
+          ys: list) -> np.ndarray:
     values = np.full((len(ys), len(xs)), np.nan)
     xi = {v: i for i, v in enumerate(xs)}
     yi = {v: i for i, v in enumerate(ys)}
-    for x, y, v in zip(frame["x"], frame["y"], frame[column]):
+    for x, y, v in zip(frame[x_column], frame[y_column], frame[column]):
         if v is None or (isinstance(v, float) and math.isnan(v)):
             continue
         values[yi[y], xi[x]] = float(v)
@@ -69,10 +71,11 @@ def _ticks(values: Sequence[float]) -> list[str]:
     return [f"{v:.3g}" for v in values]
 
 
-def map_figure(frame: pd.DataFrame, x_name: str, y_name: str, mode: str,
+def map_figure(frame: pd.DataFrame, x_column: str, y_column: str, mode: str,
                title: str | None = None) -> Figure:
-    """Four heatmaps (feasible, uphill-set size, driving force, H2 threshold) of one mode."""
-    needed = ["x", "y", "mode"] + [p[0] for p in PANELS]
+    """Four heatmaps (feasible, uphill-set size, driving force, H2 threshold) of one mode; the
+    axes are the table's columns ``x_column`` and ``y_column``."""
+    needed = [x_column, y_column, "mode"] + [p[0] for p in PANELS]
     missing = [c for c in needed if c not in frame.columns]
     if missing:
         raise InputError(f"map figure: the table lacks the column(s) {', '.join(missing)}")
@@ -80,14 +83,14 @@ def map_figure(frame: pd.DataFrame, x_name: str, y_name: str, mode: str,
     if rows.empty:
         raise InputError(f"map figure: no rows for mode {mode!r}; modes present: "
                          f"{', '.join(sorted(frame['mode'].unique()))}")
-    xs = sorted(rows["x"].unique())
-    ys = sorted(rows["y"].unique())
+    xs = sorted(rows[x_column].unique())
+    ys = sorted(rows[y_column].unique())
     annotate = len(xs) * len(ys) <= ANNOTATE_MAX_CELLS
-    with plt.rc_context(_STYLE):
+    with plt.rc_context(STYLE):
         fig, axes = plt.subplots(2, 2, figsize=(FIGURE_WIDTH_IN, FIGURE_WIDTH_IN * 0.78),
                                  layout="constrained")
         for ax, (column, label, kind) in zip(axes.ravel(), PANELS):
-            values = _grid(rows, column, xs, ys)
+            values = _grid(rows, column, x_column, y_column, xs, ys)
             shown = values.copy()
             if kind == "log":
                 with np.errstate(divide="ignore", invalid="ignore"):
@@ -121,17 +124,18 @@ def map_figure(frame: pd.DataFrame, x_name: str, y_name: str, mode: str,
             ax.set_title(label)
             ax.set_xticks(range(len(xs)), _ticks(xs), rotation=45 if len(xs) > 6 else 0)
             ax.set_yticks(range(len(ys)), _ticks(ys))
-            ax.set_xlabel(AXIS_LABELS.get(x_name, x_name))
-            ax.set_ylabel(AXIS_LABELS.get(y_name, y_name))
-        fig.suptitle(title or f"condition map, {MODE_LABELS.get(mode, mode)} (grey: failed or not computed)")
+            ax.set_xlabel(AXIS_LABELS.get(x_column, x_column))
+            ax.set_ylabel(AXIS_LABELS.get(y_column, y_column))
+        label = MODES[mode].title if mode in MODES else mode
+        fig.suptitle(title or f"condition map, {label} (grey: failed or not computed)")
     return fig
 
 
-def write_map_figures(frame: pd.DataFrame, x_name: str, y_name: str, folder: str | Path,
+def write_map_figures(frame: pd.DataFrame, x_column: str, y_column: str, folder: str | Path,
                       stem: str = "map") -> list[Path]:
     """One PNG + SVG per mode, ``<folder>/<stem>_<mode>.png|svg``; returns the paths."""
     paths: list[Path] = []
     for mode in sorted(frame["mode"].unique()):
-        fig = map_figure(frame, x_name, y_name, mode)
+        fig = map_figure(frame, x_column, y_column, mode)
         paths.extend(save_figure(fig, Path(folder) / f"{stem}_{mode}"))
     return paths

@@ -133,7 +133,7 @@ def standard_gibbs(
 
     References
     ----------
-    Amend & Shock (2001) FEMS Microbiol. Rev. 25:175 (constant-Cp form); DESIGN.md conventions.
+    Amend & Shock (2001) FEMS Microbiol. Rev. 25:175 (constant-Cp form); the design notes (docs/design), thermodynamic conventions.
 
     Examples
     --------

@@ -11,8 +11,8 @@ named; they are the project's choice, not measurements):
 - Temperature: integration from 298.15 K with a constant heat capacity ignores dCp/dT, whose error
   grows about as (T − Tr)²; the project takes 0.3 kJ/mol per species at ΔT = 55 K (80 °C), so
   that a typical reaction stays near the 0.5 kJ/mol drift against the HKF equations of state
-  stated in DESIGN.md. Where Cp° is missing (constant-ΔH fallback) the neglected term is
-  about Cp·ΔT²/(2T); DESIGN.md states up to 5 kJ/mol per reaction at 80 °C, so 2.5 kJ/mol per
+  stated in the design notes (docs/design). Where Cp° is missing (constant-ΔH fallback) the neglected term is
+  about Cp·ΔT²/(2T); the design notes (docs/design) states up to 5 kJ/mol per reaction at 80 °C, so 2.5 kJ/mol per
   species at ΔT = 55 K. Both scale with (ΔT / 55 K)² and add in quadrature to σ0.
 - A reactant made of several species (pseudoisomers) takes the fraction-weighted sum
   σ = Σ r_j σ_j (the species of one reactant share their data, so they are treated as fully

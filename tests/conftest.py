@@ -1,0 +1,55 @@
+"""Shared fixtures: one assessment of the bundled network with the default settings, run once per
+test session and used by every test that checks the whole job (the README's numbers, the files,
+the vocabulary of the columns, the report in a browser, the progress display)."""
+
+from __future__ import annotations
+
+import io
+import time
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import pytest
+
+
+class TerminalRecorder(io.StringIO):
+    """A stand-in for a terminal on stderr: says it is a TTY and records every write with the
+    time it was made, so a test can replay what a user would have seen."""
+
+    def __init__(self) -> None:
+        super().__init__()
+        self.writes: list[tuple[float, str]] = []
+
+    def isatty(self) -> bool:
+        return True
+
+    def write(self, text: str) -> int:
+        self.writes.append((time.monotonic(), text))
+        return super().write(text)
+
+
+@dataclass
+class BundledRun:
+    """The default assessment of the bundled network: the result object, its output folder and
+    what its progress display drew."""
+
+    result: object
+    out: Path
+    terminal: TerminalRecorder
+    seconds: float
+    files: list[Path] = field(default_factory=list)
+
+
+@pytest.fixture(scope="session")
+def bundled_run(tmp_path_factory) -> BundledRun:
+    """``tfa.assess()`` on the bundled network with every default, written to a folder, its
+    progress drawn on a recorded terminal (the same display ``tfa assess`` uses)."""
+    import tfa
+    from tfa.cli.progress import Progress
+
+    out = tmp_path_factory.mktemp("bundled") / "tfa-results"
+    terminal = TerminalRecorder()
+    started = time.monotonic()
+    with Progress(stream=terminal) as bar:
+        result = tfa.assess(out=out, progress=bar)
+    return BundledRun(result, out, terminal, time.monotonic() - started, sorted(out.iterdir()))

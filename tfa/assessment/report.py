@@ -1,0 +1,90 @@
+"""The HTML report of an assessment: the summary, the environment, one or more sections per step
+(in step order), the data sources, the conventions and the cautions, in one self-contained page
+(:func:`tfa.report.html.build_report`)."""
+
+from __future__ import annotations
+
+import math
+from pathlib import Path
+from typing import TYPE_CHECKING
+
+import pandas as pd
+
+from ..report.html import ReportSection, build_report
+from ..report.sections import (cautions_section, conventions_section, environment_section,
+                               sources_section)
+
+if TYPE_CHECKING:
+    from .result import Assessment
+
+
+def write_report(assessment: "Assessment", tables: dict[str, pd.DataFrame],
+                 figures: dict[str, Path], path: Path) -> Path:
+    """Write ``report.html`` for an assessment whose tables and figures (file stem -> SVG path)
+    are made; returns the path."""
+    ctx = assessment.context
+    notes = ctx.notes
+    sections = [ReportSection("Summary", assessment.summary() + (
+        "\n\nNotes:\n" + "\n".join(f"- {n}" for n in notes) if notes else ""))]
+    sections.append(_environment(assessment))
+    for step in assessment.steps:
+        for spec in step.sections(assessment.result(step.id), ctx):
+            shown = [(caption, tables[stem]) for stem, caption in spec.tables if stem in tables]
+            shown = list(spec.extra_tables) + shown
+            figure_paths = [figures[stem] for stem, _ in spec.figures if stem in figures]
+            captions = [caption for stem, caption in spec.figures if stem in figures]
+            first_caption, first = shown[0] if shown else ("", None)
+            sections.append(ReportSection(spec.title, spec.text, first,
+                                          figure_paths=figure_paths, figure_captions=captions,
+                                          table_caption=first_caption,
+                                          more_tables=tuple(shown[1:])))
+    sections.append(sources_section(*_sources(assessment)))
+    sections.append(conventions_section())
+    sections.append(cautions_section())
+    env = ctx.environment
+    subtitle = f"{ctx.model.id} at {env.name}: {env.conditions.describe()}"
+    return build_report(sections, path, title="tfa network assessment", subtitle=subtitle)
+
+
+def _environment(assessment: "Assessment") -> ReportSection:
+    ctx = assessment.context
+    env = ctx.environment
+    tm = ctx.thermo_model(ctx.settings.mode)
+    bounds = pd.DataFrame([{"compound": m, "lower": math.exp(lo), "upper": math.exp(hi)}
+                           for m, (lo, hi) in sorted(tm.log_bounds.items())],
+                          columns=["compound", "lower", "upper"])
+    text = (f"{env.description}\n\nNetwork: {ctx.inputs.network_source}. Environment file: "
+            f"{ctx.inputs.environment_source}.").strip()
+    return environment_section(env.conditions, env.feed, bounds, name=env.name, text=text)
+
+
+def _sources(assessment: "Assessment") -> tuple[pd.DataFrame, list[str]]:
+    """Every data source (the database's and the network's own) and the keys the results use."""
+    ctx = assessment.context
+    db = ctx.database
+    rows = [{"key": s.key, "authors": s.authors, "year": s.year, "citation": s.citation,
+             "doi": s.doi or "", "peer_reviewed": "yes" if s.peer_reviewed else "no"}
+            for s in db.sources.values()]
+    table = pd.DataFrame(rows)
+    extra = ctx.inputs.network_sources()
+    if extra is not None and len(extra):
+        table = pd.concat([table, extra[[c for c in table.columns if c in extra.columns]]],
+                          ignore_index=True).drop_duplicates("key", keep="last")
+    known = set(table["key"].astype(str))
+    used = [k for k in _used_source_keys(ctx.thermo_model(ctx.settings.mode)) if k in known]
+    return table, used
+
+
+def _used_source_keys(tm) -> list[str]:
+    """Source keys of every compound energy and literature value behind a prepared network."""
+    keys: list[str] = []
+    table = tm.compound_table
+    if table is not None:
+        for c in table.compounds.values():
+            for k in c.sources:
+                if k and k not in keys:
+                    keys.append(k)
+        for value in table.literature:
+            if value.source_key and value.source_key not in keys:
+                keys.append(value.source_key)
+    return keys

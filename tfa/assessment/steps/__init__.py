@@ -1,0 +1,1 @@
+"""The steps of an assessment, one module per analysis (see :mod:`tfa.assessment.step`)."""

@@ -1,0 +1,101 @@
+"""Steps: the network against its H2 supply, as a scan over levels and as the least H2 at which
+it runs (the threshold); both in the single-analysis mode."""
+
+from __future__ import annotations
+
+from ...analyses.hydrogen import H2ScanResult, H2ThresholdResult, h2_scan, h2_threshold
+from ..context import RunContext
+from ..step import FigureSpec, Section, Step
+
+
+class H2ScanStep(Step):
+    """Feasibility, max-min driving force and uphill-set size at each H2 level."""
+
+    id = "h2_scan"
+    label = "H2 scan"
+    title = "H2 scan"
+    question = "how do feasibility, driving force and the uphill set change with the H2 supply?"
+
+    def run(self, ctx: RunContext) -> H2ScanResult | None:
+        tm = ctx.thermo_model(ctx.settings.mode)
+        return ctx.attempt("H2 scan", lambda: h2_scan(
+            tm, ctx.settings.scan_levels(), ctx.options, with_uphill=ctx.settings.scan_uphill,
+            progress=ctx.ticker("levels")))
+
+    def tables(self, result: H2ScanResult | None, ctx: RunContext) -> dict:
+        return {} if result is None else {"h2_scan": result.to_frame()}
+
+    def figures(self, result: H2ScanResult | None, ctx: RunContext) -> dict:
+        if result is None or not len(result.table):
+            return {}
+        threshold = ctx.results.get("h2_threshold")
+        at = threshold.threshold if threshold is not None and threshold.feasible else None
+        caption = (f"Feasibility, size of the minimal uphill set and max-min driving force "
+                   f"against the H2 supply ({result.unit})")
+
+        def make():
+            from ...report.figures import h2_scan_figure
+
+            return h2_scan_figure(result.table, unit=result.unit, threshold=at,
+                                  title=f"H2 supply, {ctx.settings.mode} mode")
+
+        return {"h2_scan": FigureSpec(make, caption)}
+
+    def sections(self, result: H2ScanResult | None, ctx: RunContext) -> list[Section]:
+        if result is None:
+            return []
+        return [Section(self.title, result.summary(),
+                        tables=[("h2_scan", f"H2 scan ({result.unit})")],
+                        figures=[(stem, spec.caption)
+                                 for stem, spec in self.figures(result, ctx).items()])]
+
+    def text(self, result: H2ScanResult | None, ctx: RunContext) -> str:
+        from ...report.text import table_text
+
+        if result is None:
+            return ""
+        return (result.summary() + "\n\n"
+                + table_text(result.table.drop(columns=["ln_h2_activity"]), "{:.3g}") + "\n")
+
+
+class H2ThresholdStep(Step):
+    """The least H2 at which the network runs, by one MILP over ln[H2]."""
+
+    id = "h2_threshold"
+    label = "H2 threshold"
+    title = "H2 threshold"
+    question = "what is the least H2 supply at which the network runs?"
+
+    def run(self, ctx: RunContext) -> H2ThresholdResult | None:
+        tm = ctx.thermo_model(ctx.settings.mode)
+        return ctx.attempt("H2 threshold", lambda: h2_threshold(
+            tm, ctx.options, h2_range=ctx.settings.h2_range))
+
+    def tables(self, result: H2ThresholdResult | None, ctx: RunContext) -> dict:
+        return {} if result is None else {"h2_threshold": result.to_frame()}
+
+    def summary_lines(self, result: H2ThresholdResult | None, ctx: RunContext) -> list[str]:
+        from ...report.text import h2_line
+
+        if result is None:
+            return []
+        return [h2_line(result.threshold if result.feasible else None, result.search_range,
+                        result.unit)]
+
+    def summary_data(self, result: H2ThresholdResult | None, ctx: RunContext) -> dict:
+        if result is None:
+            return {}
+        return {"h2_threshold": result.threshold if result.feasible else None,
+                "h2_range": list(result.search_range), "h2_unit": result.unit}
+
+    def sections(self, result: H2ThresholdResult | None, ctx: RunContext) -> list[Section]:
+        if result is None:
+            return []
+        return [Section(self.title, result.message, tables=[("h2_threshold", "H2 threshold")])]
+
+    def text(self, result: H2ThresholdResult | None, ctx: RunContext) -> str:
+        from ...report.text import table_text
+
+        if result is None:
+            return ""
+        return result.message + "\n\n" + table_text(result.to_frame()) + "\n"

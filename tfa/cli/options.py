@@ -1,0 +1,244 @@
+"""The command line's options, each defined once: the same name, default and help wherever it
+appears (the shared ones come from :data:`tfa.vocabulary.OPTIONS`), and the old spellings kept
+for one release with a deprecation message.
+
+Nothing here imports cobra, optlang, RDKit or matplotlib: ``tfa --help`` stays fast.
+"""
+
+from __future__ import annotations
+
+import argparse
+import math
+import sys
+from typing import Any, Callable
+
+from ..errors import InputError
+from ..modes import MODES
+from ..vocabulary import OPTIONS
+
+#: Commands whose default for a shared option differs from the vocabulary's, and why.
+COMMAND_DEFAULTS: dict[str, dict[str, Any]] = {
+    # the assessment writes its files by default; the single analyses only print
+    "out": {"assess": "tfa-results"},
+    # the assessment runs a small robustness check; tfa robustness a real one
+    "draws": {"assess": 4, "robustness": 100},
+}
+
+
+def add_option(parser: argparse.ArgumentParser | Any, name: str, command: str = "",
+               **overrides: Any) -> None:
+    """Add the shared option ``name`` of :data:`tfa.vocabulary.OPTIONS` to a parser or group.
+
+    ``command`` picks a default from :data:`COMMAND_DEFAULTS`; ``overrides`` may set ``type``.
+    """
+    spec = OPTIONS[name]
+    default = COMMAND_DEFAULTS.get(name, {}).get(command, spec.default)
+    text = spec.help
+    if name in COMMAND_DEFAULTS and command in COMMAND_DEFAULTS[name]:
+        text = COMMAND_SPECIFIC_HELP[name]
+    kwargs: dict[str, Any] = {"dest": name, "default": default, "metavar": spec.metavar,
+                              "help": text}
+    kwargs.update(overrides)
+    parser.add_argument(*spec.flags, **kwargs)
+
+
+#: Help of a shared option where its default differs by command (see COMMAND_DEFAULTS).
+COMMAND_SPECIFIC_HELP = {
+    "out": "folder for the tables (CSV and JSON), figures and report (default %(default)s)",
+    "draws": "draws of the energies per mode (default %(default)s; 0 skips)",
+}
+
+
+class Deprecated(argparse.Action):
+    """An old spelling of an option: stores into the new option's destination (through
+    ``convert``) and records a deprecation message, printed when the command runs."""
+
+    def __init__(self, option_strings, dest, new: str = "", convert: Callable | None = None,
+                 **kwargs):
+        self.new = new
+        self.convert = convert
+        super().__init__(option_strings, dest, help=argparse.SUPPRESS, **kwargs)
+
+    def __call__(self, parser, namespace, values, option_string=None):
+        changes = self.convert(values) if self.convert else {self.dest: values}
+        for dest, value in changes.items():
+            setattr(namespace, dest, value)
+        notes = list(getattr(namespace, "deprecations", []) or [])
+        notes.append(f"{option_string} is deprecated and will be removed; use {self.new}")
+        namespace.deprecations = notes
+
+
+def add_deprecated(parser: argparse.ArgumentParser, flag: str, new: str, dest: str,
+                   convert: Callable | None = None, nargs: Any = None) -> None:
+    """Keep ``flag`` working as an alias of ``new`` (hidden from the help)."""
+    kwargs: dict[str, Any] = {"new": new, "convert": convert}
+    if nargs is not None:
+        kwargs["nargs"] = nargs
+    parser.add_argument(flag, dest=dest, action=Deprecated, **kwargs)
+
+
+def report_deprecations(args: argparse.Namespace) -> None:
+    """Print the deprecation messages of the options used (on stderr)."""
+    for text in getattr(args, "deprecations", []) or []:
+        sys.stderr.write(f"tfa {args.command}: {text}\n")
+
+
+# ------------------------------------------------------------------ groups of options
+def add_output_options(parser: argparse.ArgumentParser, json_output: bool = True) -> None:
+    """``--json``, ``--quiet`` and ``--verbose``, the same on every command."""
+    if json_output:
+        parser.add_argument("--json", action="store_true", help="print one JSON object instead of text")
+    parser.add_argument("-q", "--quiet", action="store_true", help="print only results and errors")
+    parser.add_argument("-v", "--verbose", action="store_true", help="print progress details")
+
+
+def add_conditions_options(parser: argparse.ArgumentParser) -> None:
+    """Conditions of the setting; each overrides the environment file when given."""
+    group = parser.add_argument_group("conditions (override the environment file)")
+    group.add_argument("--temperature", type=float, metavar="C", help="temperature, degC")
+    group.add_argument("--ph", type=float, metavar="X", help="pH")
+    group.add_argument("--ionic-strength", type=float, metavar="I", help="ionic strength, mol/L")
+    group.add_argument("--pressure", type=float, metavar="BAR", help="pressure, bar")
+    group.add_argument("--pmg", type=float, metavar="X", help="pMg (free Mg2+); default: no Mg2+ binding")
+
+
+def add_network_options(parser: argparse.ArgumentParser) -> None:
+    """NETWORK, ``--environment``, ``--compounds``, the condition overrides and
+    ``--include-unreviewed``."""
+    parser.add_argument("network", metavar="NETWORK", nargs="?",
+                        help="reactions table (.tsv/.csv), a folder with one, or SBML/JSON; "
+                        "default: the bundled network")
+    parser.add_argument("--environment", metavar="FILE",
+                        help="environment file (TOML); default: environment.toml beside the network, "
+                        "else the bundled one")
+    parser.add_argument("--compounds", metavar="FILE",
+                        help="compounds table, when it is not compounds.tsv beside the reactions table")
+    add_unreviewed_option(parser)
+    add_conditions_options(parser)
+
+
+def add_unreviewed_option(parser: argparse.ArgumentParser) -> None:
+    """``--include-unreviewed``: data of sources that are not peer reviewed too."""
+    parser.add_argument("--include-unreviewed", action="store_true",
+                        help="also use data from sources that are not peer reviewed")
+
+
+def add_threshold_switch(parser: argparse.ArgumentParser) -> None:
+    """``--no-threshold``: skip the H2 threshold at every point of a many-point run."""
+    parser.add_argument("--no-threshold", action="store_true",
+                        help="skip the H2 threshold of each point (faster)")
+
+
+def add_problem_options(parser: argparse.ArgumentParser) -> None:
+    """``--solver``, ``--k-sigma``, ``--min-driving-force``, ``--unknown-energy``,
+    ``--time-limit``."""
+    group = parser.add_argument_group("problem")
+    group.add_argument("--solver", choices=("highs", "glpk"),
+                       help="MILP solver (default: the measured best available)")
+    group.add_argument("--k-sigma", type=float, default=0.0, metavar="K",
+                       help="let each reaction energy move by K standard uncertainties (default 0)")
+    group.add_argument("--min-driving-force", type=float, metavar="KJ",
+                       help="least driving force of a reaction carrying flux, kJ/mol (default 0.1)")
+    group.add_argument("--unknown-energy", choices=("free", "block"), default="free",
+                       help="reactions without an energy: carry flux freely (default) or not at all")
+    group.add_argument("--time-limit", type=float, metavar="S",
+                       help="seconds per solve (default 300); hitting it gives exit code 1")
+
+
+def add_modes_option(parser: argparse.ArgumentParser, command: str = "") -> None:
+    """``--modes LIST`` (the per-mode questions)."""
+    add_option(parser, "modes", command)
+
+
+def add_mode_option(parser: argparse.ArgumentParser, command: str = "") -> None:
+    """``--mode MODE`` (the single-mode analyses), checked against :data:`tfa.modes.MODES`."""
+    add_option(parser, "mode", command, choices=list(MODES))
+
+
+def add_h2_options(parser: argparse.ArgumentParser, levels: bool, command: str = "") -> None:
+    """``--h2-range`` and (for the scan) ``--h2-levels``, with the old spellings."""
+    add_option(parser, "h2_range", command)
+    if levels:
+        add_option(parser, "h2_levels", command, type=int)
+        add_deprecated(parser, "--levels", "--h2-range LOW:HIGH --h2-levels N", "h2_range",
+                       convert=_old_levels)
+    else:
+        add_deprecated(parser, "--range", "--h2-range LOW:HIGH", "h2_range")
+
+
+def _old_levels(text: str) -> dict[str, Any]:
+    """``--levels LOW:HIGH:N`` or ``V1,V2,...`` -> the new options."""
+    if ":" in text:
+        parts = text.split(":")
+        if len(parts) != 3:
+            raise InputError(f"--levels '{text}': write LOW:HIGH:N")
+        try:
+            count = int(parts[2])
+        except ValueError:
+            raise InputError(f"--levels '{text}': N must be a whole number") from None
+        return {"h2_range": f"{parts[0]}:{parts[1]}", "h2_levels": count}
+    return {"h2_values": [parse_positive(v, "--levels") for v in text.split(",") if v.strip()]}
+
+
+# ------------------------------------------------------------------ parsing values
+def parse_positive(text: str, option: str) -> float:
+    """A positive, finite number, or an InputError naming the option."""
+    try:
+        value = float(text)
+    except (TypeError, ValueError):
+        raise InputError(f"{option} '{text}': not a number") from None
+    if not (math.isfinite(value) and value > 0):
+        raise InputError(f"{option} '{text}': give a positive number")
+    return value
+
+
+def parse_h2_range(text: str) -> tuple[float, float]:
+    """``LOW:HIGH`` -> (low, high), both positive, low < high.
+
+    >>> parse_h2_range("1e-9:1e-2")
+    (1e-09, 0.01)
+    """
+    parts = str(text).split(":")
+    if len(parts) != 2:
+        raise InputError(f"--h2-range '{text}': write LOW:HIGH, e.g. 1e-9:1e-2 (mol/L; gas: bar)")
+    low, high = (parse_positive(p, "--h2-range") for p in parts)
+    if not low < high:
+        raise InputError(f"--h2-range '{text}': need 0 < LOW < HIGH (mol/L; gas: bar)")
+    return low, high
+
+
+def parse_workers(value: Any) -> int:
+    """``--workers``: a whole number >= 1, or ``auto`` (one per core).
+
+    >>> parse_workers("3")
+    3
+    """
+    if str(value).strip().lower() == "auto":
+        from ..util.points import available_cores
+
+        return available_cores()
+    try:
+        number = int(str(value))
+    except ValueError:
+        raise InputError(f"--workers '{value}': give a whole number of at least 1, or auto") from None
+    if number < 1:
+        raise InputError(f"--workers {number}: give at least 1 (or auto)")
+    return number
+
+
+def parse_list(text: str | None) -> list[str] | None:
+    """``"a, b,c"`` -> ``["a", "b", "c"]``; None stays None."""
+    if text is None:
+        return None
+    return [item.strip() for item in str(text).split(",") if item.strip()]
+
+
+def condition_overrides(args: argparse.Namespace) -> dict:
+    """Condition options given on the command line, as ``Environment.with_conditions`` keys."""
+    out = {}
+    for option, key in (("temperature", "celsius"), ("ph", "ph"), ("ionic_strength", "ionic_strength"),
+                        ("pressure", "pressure"), ("pmg", "pmg")):
+        value = getattr(args, option, None)
+        if value is not None:
+            out[key] = value
+    return out

@@ -1,0 +1,176 @@
+"""The ways a network is asked to run ("modes"), each defined once.
+
+A mode is a sequence of network rewrites (applied in order by :func:`tfa.network.rewrites.apply_mode`)
+plus the words, labels and colour every output uses for it. Everything that names a mode (the
+command line's choices, the summary, the figures, the report) reads this registry, and a combined
+mode is one more entry whose ``rewrites`` list more than one rewrite, not a new code path.
+
+The rewrites (see :mod:`tfa.network.rewrites` for what each does to a network):
+
+- ``cofactors_internal``: electron carriers and adenine nucleotides are internal; their boundary
+  reactions are blocked, so the network must regenerate them.
+- ``carriers_to_h2``: every electron-carrier pair is replaced by H2 (N/2 H2 per N-electron unit).
+- ``atp_removed``: ATP, ADP, AMP and pyrophosphate are unavailable; every reaction with one of them
+  is blocked.
+- ``atp_to_bare_chemistry``: each ATP-, ADP- or pyrophosphate-coupled reaction becomes its bare
+  chemistry (the coupling to the hydrolysis is subtracted).
+
+This module imports nothing heavy (no cobra), so that the command line can list the modes fast.
+
+Examples
+--------
+>>> get_mode("h2_only").rewrites
+('carriers_to_h2',)
+>>> parse_modes("native, no_atp_bare")
+['native', 'no_atp_bare']
+>>> parse_modes("all") == list(STANDARD_MODES)
+True
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .errors import InputError
+
+#: Names of the network rewrites a mode can be made of, in the order they may be combined.
+REWRITES = ("cofactors_internal", "carriers_to_h2", "atp_removed", "atp_to_bare_chemistry")
+
+#: Rewrites that cannot be combined in one mode, with the reason.
+EXCLUSIVE_REWRITES = {
+    frozenset({"atp_removed", "atp_to_bare_chemistry"}):
+        "ATP cannot be both removed and stripped to bare chemistry; choose one",
+    frozenset({"cofactors_internal", "carriers_to_h2"}):
+        "carriers cannot be both kept internal and replaced by H2; choose one",
+}
+
+
+@dataclass(frozen=True)
+class Mode:
+    """One way of asking a network to run.
+
+    Attributes
+    ----------
+    id : str
+        The identifier used in files, options and tables (``native``, ``h2_only`` ...).
+    rewrites : tuple of str
+        Names of the rewrites (:data:`REWRITES`), applied in this order.
+    question : str
+        The question in words, as the summary asks it ("runs without ATP").
+    label : str
+        Short label for tick marks and table headers.
+    title : str
+        Longer label for legends and the report.
+    colour : str
+        Colour of the mode in every figure (Okabe & Ito 2008 colour-blind-safe palette).
+    needs : tuple of str
+        Compound roles the mode needs in a network (``h2``, ``carriers``, ``atp``): a network
+        without them cannot be asked this question.
+    description : str
+        One or two sentences for the report.
+    """
+
+    id: str
+    rewrites: tuple[str, ...]
+    question: str
+    label: str
+    title: str
+    colour: str
+    needs: tuple[str, ...] = ()
+    description: str = ""
+
+    def __post_init__(self) -> None:
+        unknown = [r for r in self.rewrites if r not in REWRITES]
+        if unknown:
+            raise InputError(f"mode {self.id}: unknown rewrite(s) {', '.join(unknown)}; use "
+                             f"{', '.join(REWRITES)}")
+        for pair, why in EXCLUSIVE_REWRITES.items():
+            if pair <= set(self.rewrites):
+                raise InputError(f"mode {self.id}: {why}")
+
+
+#: Okabe-Ito colours used for modes (M. Okabe, K. Ito, "Color Universal Design", 2008).
+_BLUE, _GREEN, _ORANGE, _PURPLE, _SKY = "#0072B2", "#009E73", "#E69F00", "#CC79A7", "#56B4E9"
+
+#: Every mode, in the order outputs list them.
+MODES: dict[str, Mode] = {}
+
+
+def register_mode(mode: Mode) -> Mode:
+    """Add a mode to the registry (its id must be new); returns it.
+
+    Raises
+    ------
+    InputError
+        When a mode with that id exists already.
+    """
+    if mode.id in MODES:
+        raise InputError(f"mode {mode.id} is registered already; give the new mode another id")
+    MODES[mode.id] = mode
+    return mode
+
+
+register_mode(Mode(
+    "native", ("cofactors_internal",), "runs with ATP regenerated inside", "native",
+    "native (ATP made inside)", _BLUE,
+    description="The network as given: carriers and ATP are internal and must be regenerated."))
+register_mode(Mode(
+    "h2_only", ("carriers_to_h2",), "runs with H2 in place of the carriers", "H2 for carriers",
+    "H2 in place of carriers", _GREEN, needs=("h2", "carriers"),
+    description="Every electron-carrier pair (NAD(P)H, ferredoxin ...) is replaced by H2."))
+register_mode(Mode(
+    "no_atp_strict", ("atp_removed",), "runs without ATP", "without ATP", "without ATP",
+    _ORANGE, needs=("atp",),
+    description="ATP, ADP, AMP and pyrophosphate are unavailable: every reaction using one is "
+                "blocked."))
+register_mode(Mode(
+    "no_atp_bare", ("atp_to_bare_chemistry",), "runs as bare chemistry (ATP coupling stripped)",
+    "bare chemistry", "bare chemistry (ATP coupling stripped)", _PURPLE, needs=("atp",),
+    description="Each ATP-coupled reaction becomes its own chemistry, without the coupling."))
+register_mode(Mode(
+    "h2_bare", ("carriers_to_h2", "atp_to_bare_chemistry"),
+    "runs on H2 alone without ATP (H2 for the carriers, ATP coupling stripped)",
+    "H2, bare chemistry", "H2 in place of carriers and bare chemistry", _SKY,
+    needs=("h2", "carriers", "atp"),
+    description="The geochemical analogue: H2 in place of every carrier and no ATP coupling."))
+
+#: The modes an assessment asks about by default, in order.
+STANDARD_MODES = ("native", "h2_only", "no_atp_strict", "no_atp_bare")
+#: The mode of the single-mode analyses (H2 scan and threshold, driving force, ranges, profile).
+DEFAULT_MODE = "native"
+
+
+def get_mode(mode_id: str) -> Mode:
+    """The registered mode with this id.
+
+    Raises
+    ------
+    InputError
+        For an unknown id, listing the known ones.
+    """
+    try:
+        return MODES[mode_id]
+    except KeyError:
+        raise InputError(f"mode '{mode_id}' is not known; use one of {', '.join(MODES)}") from None
+
+
+def parse_modes(text: str | list[str] | tuple[str, ...]) -> list[str]:
+    """A comma-separated list of mode ids (or ``all`` for :data:`STANDARD_MODES`) -> ids.
+
+    Raises
+    ------
+    InputError
+        For an empty list or an unknown mode.
+    """
+    if isinstance(text, str):
+        if text.strip().lower() == "all":
+            return list(STANDARD_MODES)
+        items = [m.strip() for m in text.split(",") if m.strip()]
+    else:
+        items = [str(m).strip() for m in text]
+    bad = [m for m in items if m not in MODES]
+    if bad or not items:
+        raise InputError(f"modes '{text if isinstance(text, str) else ','.join(items)}': unknown "
+                         f"mode(s) {', '.join(bad) or '(none given)'}; use a comma-separated list of "
+                         f"{', '.join(MODES)} or 'all'")
+    return list(dict.fromkeys(items))

@@ -1,0 +1,183 @@
+"""Where a network and its setting come from: files, the bundled demo, or objects the caller made.
+
+:func:`resolve_inputs` is the one rule every entry point (the Python API and every command)
+uses: a network given as a reactions table, a folder holding one, SBML or cobra JSON (or a
+``cobra.Model``), and an environment file (TOML) or :class:`~tfa.network.environment.Environment`;
+with neither, the bundled network at its own environment (demo data: the invented Kestrel Ridge
+vent field). Condition overrides (``celsius``, ``ph``, ``ionic_strength``, ``pressure``,
+``pmg``) replace the environment's.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Any
+
+import cobra
+import pandas as pd
+
+from ..errors import InputError
+from .bundled import bundled_environment_path, bundled_folder
+from .environment import Environment
+from .io_sbml import load_network as read_any
+from .io_table import reaction_values_beside
+
+#: File name of a network's own table of data sources, beside its reactions table.
+SOURCES_FILES = (("sources.tsv", "\t"), ("sources.csv", ","))
+
+
+@dataclass
+class Inputs:
+    """A network and its setting as read, with where each came from.
+
+    Attributes
+    ----------
+    model : cobra.Model
+    environment : Environment
+    network_source, environment_source : str
+        Plain words: the files read (or "bundled network ...", "cobra model ...").
+    literature_path : Path or None
+        The network's own table of reaction values, when there is one.
+    network_folder : Path or None
+        The folder of the network's files.
+    """
+
+    model: cobra.Model
+    environment: Environment
+    network_source: str
+    environment_source: str
+    literature_path: Path | None = None
+    network_folder: Path | None = None
+
+    def network_sources(self) -> pd.DataFrame | None:
+        """The network's own ``sources.tsv`` (or ``.csv``) beside its reactions table, if any."""
+        return network_sources(self.network_folder)
+
+
+def _network_folder(path: Path) -> Path:
+    return path if path.is_dir() else path.parent
+
+
+def default_environment_path(network: str | Path | None) -> Path | None:
+    """``environment.toml`` beside a network's files, when there is one."""
+    if network is None:
+        return None
+    candidate = _network_folder(Path(network)) / "environment.toml"
+    return candidate if candidate.is_file() else None
+
+
+def resolve_inputs(network: Any = None, environment: Any = None,
+                   compounds: str | Path | None = None, require_balanced: bool = True,
+                   **conditions: float | None) -> Inputs:
+    """Read the network and the environment as ``tfa`` resolves them everywhere.
+
+    Parameters
+    ----------
+    network : None, path or cobra.Model
+        None: the bundled network; a path: reactions table, folder, SBML or cobra JSON.
+    environment : None, path or Environment
+        None: ``environment.toml`` beside the network, else the bundled one.
+    compounds : path, optional
+        Compounds table, when not ``compounds.tsv`` beside the reactions table.
+    require_balanced : bool
+        Refuse unbalanced reactions (the checker reads them anyway to report them).
+    conditions : float
+        ``celsius`` [degC], ``ph``, ``ionic_strength`` [mol/L], ``pressure`` [bar], ``pmg``:
+        overrides of the environment's conditions (None: keep).
+
+    Raises
+    ------
+    InputError
+        A missing file, a malformed table, an object of the wrong type.
+    """
+    literature = None
+    folder = None
+    if network is None:
+        folder = bundled_folder()
+        model = read_any(folder / "reactions.tsv", require_balanced=require_balanced)
+        literature = reaction_values_beside(folder / "reactions.tsv")
+        network_source = f"bundled network ({folder / 'reactions.tsv'})"
+        default_env = bundled_environment_path()
+    elif isinstance(network, (str, Path)):
+        path = Path(network)
+        if not path.exists():
+            raise InputError(f"{path}: no such file or folder; give a reactions table, a folder "
+                             "holding reactions.tsv, or an SBML/JSON file")
+        if compounds is not None and not Path(compounds).is_file():
+            raise InputError(f"{compounds}: no such compounds table; give the path of "
+                             "compounds.tsv or leave --compounds out")
+        model = read_any(path, compounds, require_balanced=require_balanced)
+        folder = _network_folder(path)
+        literature = reaction_values_beside(folder / "reactions.tsv")
+        network_source = str(path)
+        default_env = default_environment_path(path) or bundled_environment_path()
+    elif isinstance(network, cobra.Model):
+        model = network
+        path = (model.notes or {}).get("reaction_values_path")
+        literature = Path(path) if path else None
+        network_source = f"cobra model {model.id}"
+        default_env = bundled_environment_path()
+    else:
+        raise InputError(f"network: expected a path or a cobra.Model, got {type(network).__name__}")
+    if environment is None or isinstance(environment, (str, Path)):
+        env_path = Path(environment) if environment is not None else default_env
+        env = Environment.from_toml(env_path)
+        env_source = str(env_path)
+    elif isinstance(environment, Environment):
+        env = environment
+        env_source = environment.source or environment.name
+    else:
+        raise InputError(f"environment: expected a path or an Environment, got "
+                         f"{type(environment).__name__}")
+    changes = {k: v for k, v in conditions.items() if v is not None}
+    if changes:
+        env = env.with_conditions(**changes)
+    return Inputs(model, env, network_source, env_source, literature, folder)
+
+
+def load_network(path: str | Path | None = None, compounds: str | Path | None = None,
+                 require_balanced: bool = True) -> cobra.Model:
+    """Read a network: a reactions table (``.tsv``/``.csv``, ``compounds.tsv`` beside it), a
+    folder holding ``reactions.tsv``, SBML (``.xml``) or cobra JSON; None reads the bundled
+    network (demo data: the invented Kestrel Ridge vent field).
+
+    Raises
+    ------
+    InputError
+        Missing file, malformed table (with file and line), unbalanced reaction.
+    """
+    return resolve_inputs(path, None, compounds, require_balanced=require_balanced).model
+
+
+def load_environment(path: str | Path | None = None, network: str | Path | None = None,
+                     **conditions: float | None) -> Environment:
+    """Read an environment file (TOML); without ``path`` the ``environment.toml`` beside the
+    network, else the bundled one. ``conditions`` (``celsius``, ``ph``, ``ionic_strength``,
+    ``pressure``, ``pmg``) override the file's."""
+    env_path = Path(path) if path is not None else default_environment_path(network)
+    environment = Environment.from_toml(env_path or bundled_environment_path())
+    changes = {k: v for k, v in conditions.items() if v is not None}
+    return environment.with_conditions(**changes) if changes else environment
+
+
+def network_sources(folder: Path | None) -> pd.DataFrame | None:
+    """A network's own table of data sources (``key, authors, year, citation, doi,
+    peer_reviewed``) from ``sources.tsv``/``.csv`` in its folder; None when there is none.
+
+    Raises
+    ------
+    InputError
+        When the file exists but cannot be read as a table.
+    """
+    if folder is None:
+        return None
+    for name, sep in SOURCES_FILES:
+        path = folder / name
+        if path.is_file():
+            try:
+                frame = pd.read_csv(path, sep=sep, comment="#", dtype=str, keep_default_na=False)
+            except (pd.errors.ParserError, UnicodeDecodeError) as err:
+                raise InputError(f"{path}: cannot be read as a table ({err}); fix it or remove it")
+            return frame if "key" in frame.columns else None
+    return None

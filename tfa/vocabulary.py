@@ -1,0 +1,215 @@
+"""The names `tfa` uses for quantities, table columns and command-line options, each defined once.
+
+Every column of every table (CSV and JSON) and every key of ``summary.json`` is one of
+:data:`COLUMNS`; a number carries its unit in its name (``..._kJ_per_mol``, ``..._mol_per_L``)
+unless it is dimensionless. Text uses the symbols of :data:`SYMBOLS` (Unicode, with one ASCII
+fallback). Options meaning the same thing have the same name and default in every command
+(:data:`OPTIONS`, used by :mod:`tfa.cli.options`).
+
+Activities: an ``activity`` is a concentration in mol/L divided by 1 mol/L for a solute, or a
+partial pressure in bar divided by 1 bar for a gas (the standard states of the species data), so
+it is dimensionless; the unit the user gave (mol/L or bar) is stated beside it where it matters
+(``h2_unit``).
+
+This module imports nothing of ``tfa`` and no third-party package.
+
+Examples
+--------
+>>> symbol("delta_g_standard"), symbol("delta_g_standard", ascii_only=True)
+("ΔrG'°", "dG'0")
+>>> COLUMNS["delta_g_kJ_per_mol"].unit
+'kJ/mol'
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+
+@dataclass(frozen=True)
+class Term:
+    """One named quantity: its key (a column or JSON key), meaning and unit.
+
+    ``unit`` is "" for dimensionless numbers, text and flags.
+    """
+
+    key: str
+    meaning: str
+    unit: str = ""
+
+
+def _terms(*rows: tuple[str, str, str]) -> dict[str, Term]:
+    return {key: Term(key, meaning, unit) for key, meaning, unit in rows}
+
+
+#: Every column and JSON key of the outputs.
+COLUMNS: dict[str, Term] = _terms(
+    # identifiers and words
+    ("mode", "the mode the network was asked to run in (tfa.modes)", ""),
+    ("reaction", "reaction id", ""),
+    ("compound", "compound (metabolite) id", ""),
+    ("equation", "the reaction as written, by compound ids", ""),
+    ("pathway", "pathway tag of the reaction", ""),
+    ("step", "a step of the route (reaction id, '(reverse)' when run backwards)", ""),
+    ("direction", "direction a reaction carries flux or is asked to run: forward, backward, none",
+     ""),
+    ("source", "kind of data an energy comes from: species, literature, reconciled, estimated, "
+               "placeholder, none", ""),
+    ("provenance", "plain words: which data, values and sources an energy rests on", ""),
+    ("message", "the answer in plain words", ""),
+    ("kind", "what a row describes", ""),
+    ("error", "why a point could not be answered (empty when it was)", ""),
+    ("set", "number of an alternative minimal uphill set (1 = the first found)", ""),
+    ("uphill_set", "members of a minimal uphill set, joined by ', '", ""),
+    ("h2_compound", "the network's H2 compound", ""),
+    ("h2_unit", "unit the H2 supply is given in: mol/L (dissolved) or bar (gas)", ""),
+    ("has_energy", "whether the reaction has a transformed standard energy", ""),
+    ("in_deterministic_set", "whether the reaction is in the minimal uphill set of the mean "
+                             "energies", ""),
+    ("deterministic_feasible", "the answer with the mean energies", ""),
+    ("draw", "index of a draw of the energies ('mean' for the unperturbed energies)", ""),
+    # verdicts and counts
+    ("feasible", "a steady state meets the demand with every reaction carrying flux downhill", ""),
+    ("demand_impossible", "the demand cannot be met even ignoring thermodynamics", ""),
+    ("uphill_set_size", "number of reactions in a minimal uphill set", ""),
+    ("reactions", "number of reactions", ""),
+    ("count", "number of draws in which it happened", ""),
+    ("draws", "number of draws solved", ""),
+    ("feasible_draws", "number of draws in which the network is feasible", ""),
+    ("failed_draws", "number of draws that could not be solved", ""),
+    ("never_feasible", "draws in which no H2 level in the range makes the network feasible", ""),
+    ("frequency", "fraction of the draws in which it happened", ""),
+    ("fraction", "fraction of the rows", ""),
+    ("probability", "estimated probability that the network is feasible", ""),
+    ("standard_error", "binomial standard error of the probability", ""),
+    ("exergonic_standard", "reactions with ΔrG'° < 0", ""),
+    ("exergonic_1mM", "reactions (or: the reaction) with ΔrG' < 0 at 1 mM of every reactant", ""),
+    ("exergonic_at_ratio", "reactions with ΔrG' < 0 at the substrate:product ratio", ""),
+    ("fraction_exergonic_standard", "fraction of reactions with ΔrG'° < 0", ""),
+    ("fraction_exergonic_1mM", "fraction of reactions with ΔrG' < 0 at 1 mM", ""),
+    ("fraction_exergonic_at_ratio", "fraction of reactions with ΔrG' < 0 at the ratio", ""),
+    ("substrate_product_ratio", "ratio of every substrate to every product of the third "
+                                "reference state", ""),
+    # energies
+    ("delta_g_standard_kJ_per_mol", "ΔrG'°, transformed standard reaction Gibbs energy at the "
+                                    "setting's temperature, pH, ionic strength and pressure",
+     "kJ/mol"),
+    ("delta_g_kJ_per_mol", "ΔrG', transformed reaction Gibbs energy at the concentrations of a "
+                           "solution", "kJ/mol"),
+    ("delta_g_1mM_kJ_per_mol", "ΔrG' with every reactant at 1 mM (gases 1e-3 bar)", "kJ/mol"),
+    ("delta_g_at_ratio_kJ_per_mol", "ΔrG' at the substrate:product ratio around 1 mM", "kJ/mol"),
+    ("delta_g_min_kJ_per_mol", "least ΔrG' over the feasible steady states", "kJ/mol"),
+    ("delta_g_max_kJ_per_mol", "largest ΔrG' over the feasible steady states", "kJ/mol"),
+    ("cumulative_delta_g_kJ_per_mol", "running sum of ΔrG' along the route", "kJ/mol"),
+    ("sigma_kJ_per_mol", "standard uncertainty of ΔrG'°", "kJ/mol"),
+    ("driving_force_kJ_per_mol", "max-min driving force, or a reaction's -ΔrG' in its direction",
+     "kJ/mol"),
+    ("uphill_by_kJ_per_mol", "how far uphill a reaction runs in its direction (ΔrG' > 0) at the "
+                             "concentrations that make its set's total smallest", "kJ/mol"),
+    # fluxes and activities
+    ("flux", "net flux (forward minus backward), in the network's flux unit", "flux unit"),
+    ("activity", "concentration over 1 mol/L, or partial pressure over 1 bar for a gas", ""),
+    ("ln_activity", "natural logarithm of the activity", ""),
+    ("activity_min", "least activity over the feasible steady states", ""),
+    ("activity_max", "largest activity over the feasible steady states", ""),
+    ("h2_activity", "H2 supply: dissolved H2 in mol/L, or H2 partial pressure in bar for a gas "
+                    "feed (see h2_unit)", ""),
+    ("ln_h2_activity", "natural logarithm of h2_activity", ""),
+    ("h2_threshold", "least H2 supply at which the network is feasible (unit: h2_unit)", ""),
+    ("ln_h2_threshold", "natural logarithm of h2_threshold", ""),
+    ("h2_range_low", "lower end of the H2 range searched (unit: h2_unit)", ""),
+    ("h2_range_high", "upper end of the H2 range searched (unit: h2_unit)", ""),
+    ("h2_threshold_q05", "5 % quantile of the H2 threshold over the draws", ""),
+    ("h2_threshold_q25", "25 % quantile of the H2 threshold over the draws", ""),
+    ("h2_threshold_q50", "median of the H2 threshold over the draws", ""),
+    ("h2_threshold_q75", "75 % quantile of the H2 threshold over the draws", ""),
+    ("h2_threshold_q95", "95 % quantile of the H2 threshold over the draws", ""),
+    # conditions (map axes and summaries)
+    ("temperature_C", "temperature", "degC"),
+    ("temperature_K", "temperature", "K"),
+    ("pH", "pH", ""),
+    ("ionic_strength_mol_per_L", "ionic strength", "mol/L"),
+    ("pressure_bar", "pressure", "bar"),
+    ("pMg", "-log10 of the free Mg2+ activity", ""),
+)
+
+#: Keys of ``summary.json`` besides table columns.
+SUMMARY_KEYS: dict[str, Term] = _terms(
+    ("network", "network id", ""),
+    ("environment", "the setting in one line", ""),
+    ("coverage", "reactions with an energy, estimated and missing", ""),
+    ("uphill", "per mode, the minimal uphill sets found", ""),
+    ("bottlenecks", "reactions at the max-min driving force", ""),
+    ("h2_range", "the H2 range searched, [low, high] (unit: h2_unit)", ""),
+    ("robustness", "feasibility over the draws of the energies, per mode", ""),
+    ("notes", "what could not be computed and why, relaxations made", ""),
+    ("summary", "the answer in plain sentences", ""),
+    ("timings_s", "seconds per step", "s"),
+    ("steps", "the steps that ran, in order", ""),
+    ("route_driving_force_kJ_per_mol", "max-min driving force of the named route", "kJ/mol"),
+    ("route_bottlenecks", "reactions at the named route's max-min driving force", ""),
+    ("command", "the command that printed the JSON", ""),
+    ("conditions", "temperature, pH, ionic strength, pressure and pMg of the setting", ""),
+    ("tables", "every table of the answer: file stem -> rows", ""),
+)
+
+#: Symbols used in text: key -> (Unicode, ASCII fallback).
+SYMBOLS: dict[str, tuple[str, str]] = {
+    "delta_g_standard": ("ΔrG'°", "dG'0"),
+    "delta_g": ("ΔrG'", "dG'"),
+    "formation_standard": ("ΔfG'°", "dfG'0"),
+    "formation_species": ("ΔfG°", "dfG0"),
+    "sigma": ("σ", "sigma"),
+}
+
+
+def symbol(key: str, ascii_only: bool = False) -> str:
+    """The symbol of a quantity in text, in Unicode or its ASCII fallback."""
+    unicode_text, ascii_text = SYMBOLS[key]
+    return ascii_text if ascii_only else unicode_text
+
+
+@dataclass(frozen=True)
+class Option:
+    """A command-line option shared by several commands: the same flag, metavar, default and
+    help text wherever it appears."""
+
+    flags: tuple[str, ...]
+    help: str
+    default: object = None
+    metavar: str | None = None
+
+
+#: H2 range searched by the threshold and spanned by the scan, mol/L (gas feed: bar): from 1 pM
+#: (far below any natural setting) to 10 mM (above saturation at 1 bar H2 for most settings).
+DEFAULT_H2_RANGE = (1e-12, 1e-2)
+#: Levels of the H2 scan, log-spaced over the range (one per decade).
+DEFAULT_H2_LEVELS = 11
+#: Alternative minimal uphill sets asked for.
+DEFAULT_ALTERNATIVES = 2
+
+#: Options shared by several commands, by destination name.
+OPTIONS: dict[str, Option] = {
+    "modes": Option(("--modes",), "comma-separated modes the question is asked in, or 'all' "
+                    "(native, h2_only, no_atp_strict, no_atp_bare; default %(default)s)", "all",
+                    "LIST"),
+    "mode": Option(("--mode",), "the mode of the single-mode analyses: H2 scan and threshold, "
+                   "driving force, ranges, energy profile (default %(default)s)", "native", "MODE"),
+    "route": Option(("--route",), "reactions of a route, in order, separated by commas (a leading "
+                    "minus runs one backwards); default: the acetyl-CoA pathway to pyruvate that "
+                    "carries flux", None, "R1,R2,-R3"),
+    "h2_range": Option(("--h2-range",), "H2 supply searched, LOW:HIGH (mol/L dissolved; bar for a "
+                       "gas feed; default %(default)s)",
+                       f"{DEFAULT_H2_RANGE[0]:g}:{DEFAULT_H2_RANGE[1]:g}", "LOW:HIGH"),
+    "h2_levels": Option(("--h2-levels",), "levels of the H2 scan, log-spaced over --h2-range "
+                        "(default %(default)s)", DEFAULT_H2_LEVELS, "N"),
+    "alternatives": Option(("--alternatives",), "alternative minimal uphill sets per mode "
+                           "(default %(default)s)", DEFAULT_ALTERNATIVES, "N"),
+    "workers": Option(("--workers",), "worker processes for many independent solves (draws, map "
+                      "points, ranges); 'auto': one per core (default %(default)s: in this process)",
+                      "1", "N"),
+    "out": Option(("--out",), "folder for the tables (CSV and JSON) and figures (default: write "
+                  "no files)", None, "DIR"),
+    "seed": Option(("--seed",), "seed of the draws of the energies (default %(default)s)", 0, "S"),
+    "draws": Option(("--draws",), "draws of the energies per mode (default %(default)s)", 100, "N"),
+}
