@@ -1,6 +1,5 @@
-"""``tfa.assess`` on the bundled defaults (run once per module; small robustness and H2 scan to keep
-the suite fast): every file exists, every JSON parses, JSON and CSV agree, the summary answers
-the ATP question, and the energy profile is recomputed from the reference concentrations with
+"""``tfa.assess`` on the bundled defaults (one shared run, tests/conftest.py): every file exists,
+every JSON parses, JSON and CSV agree, the summary answers the ATP question, and the energy profile is recomputed from the reference concentrations with
 ΔrG' = ΔrG'° + RT Σ ν_i ln c_i (Alberty 2003, Thermodynamics of Biochemical Reactions,
 eq. 4.1-4).
 """
@@ -23,10 +22,9 @@ FIGURE_FILES = ("energy_profile", "h2_scan", "census", "ranges")
 
 
 @pytest.fixture(scope="module")
-def run(tmp_path_factory):
-    out = tmp_path_factory.mktemp("assess") / "results"
-    result = tfa.assess(out=out, h2_levels=[1e-6, 1e-3], draws=1)
-    return result, out
+def run(bundled_run):
+    """The shared default assessment of the bundled network (tests/conftest.py)."""
+    return bundled_run.result, bundled_run.out
 
 
 def test_every_file_written(run):

@@ -42,7 +42,7 @@ def test_small_network_split_and_accounting(tmp_path):
     assert [r.reaction_id for r in report.without_reviewed_data()] == ["LDH", "XR"]
     frame = report.to_frame()
     assert list(frame["reaction"]) == ["ACK", "ATPH", "LDH", "XR"]  # boundary reactions left out
-    assert math.isnan(frame.set_index("reaction").loc["XR", "dG0_prime_kJ"])
+    assert math.isnan(frame.set_index("reaction").loc["XR", "delta_g_standard_kJ_per_mol"])
     counts = report.counts_frame().set_index("source")
     assert counts["reactions"].sum() == report.total == 4
 

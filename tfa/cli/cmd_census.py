@@ -31,4 +31,10 @@ def register(subparsers) -> None:
 
 
 def run(args: argparse.Namespace) -> int:
+    import math
+
+    from ..errors import InputError
+
+    if not (math.isfinite(args.ratio) and args.ratio > 0):
+        raise InputError(f"--ratio {args.ratio}: give a positive substrate:product ratio")
     return run_step_command(args, ["census"])

@@ -15,11 +15,12 @@ import sys
 from pathlib import Path
 
 from ..errors import InputError
-from .cmd_robustness import (add_execution_options, execution_kwargs, load_network, problem_kwargs,
-                             progress_printer, same_hash_seed)
+from .cmd_robustness import (add_execution_options, execution_kwargs, load_network, point_progress,
+                             problem_kwargs, same_hash_seed)
 from .options import (add_modes_option, add_network_options, add_output_options,
                       add_problem_options, add_threshold_switch, report_deprecations)
 from .output import print_json, print_table, solver_output_silenced
+from .step_command import progress_for
 
 
 def register(subparsers) -> None:
@@ -63,12 +64,12 @@ def run(args: argparse.Namespace) -> int:
     same_hash_seed(args)
     model, environment = load_network(args)
     out = Path(args.out) if args.out else None
-    with solver_output_silenced():
+    with progress_for(args) as bar, solver_output_silenced():
         result = condition_map(model, environment, x, y, modes,
                                threshold=not args.no_threshold,
                                driving_force=not args.no_driving_force,
                                results_path=out / "map.jsonl" if out else None,
-                               progress=progress_printer(args.quiet, "point"), **execution,
+                               progress=point_progress(bar, "points"), **execution,
                                **problem_kwargs(args))
     frame = result.to_frame()
     x_column, y_column = AXIS_COLUMNS[x[0]], AXIS_COLUMNS[y[0]]

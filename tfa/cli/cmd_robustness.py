@@ -21,6 +21,7 @@ from .options import (add_deprecated, add_modes_option, add_network_options, add
                       add_output_options, add_problem_options, add_threshold_switch,
                       parse_workers, report_deprecations)
 from .output import print_json, print_table, solver_output_silenced
+from .step_command import progress_for
 
 
 def add_execution_options(parser: argparse.ArgumentParser, command: str) -> None:
@@ -62,15 +63,15 @@ def same_hash_seed(args: argparse.Namespace) -> None:
     os.execve(sys.executable, [sys.executable, "-m", "tfa", *sys.argv[1:]], env)
 
 
-def progress_printer(quiet: bool, label: str):
-    """A progress callback writing one line per finished point on stderr (None when quiet)."""
-    if quiet:
-        return None
+def point_progress(bar, unit: str):
+    """A ``progress(finished, total, record)`` callback of the many-point runs that shows the
+    count of finished points (and failures) on the progress display ``bar``."""
+    failed = 0
 
     def show(done: int, total: int, line: dict) -> None:
-        state = "failed" if "error" in line else "done"
-        sys.stderr.write(f"{label} {done}/{total} {line['id']} {state}\n")
-        sys.stderr.flush()
+        nonlocal failed
+        failed += "error" in line
+        bar(f"{unit} {done}/{total}" + (f" ({failed} failed)" if failed else ""), 0, 1)
 
     return show
 
@@ -134,11 +135,11 @@ def run(args: argparse.Namespace) -> int:
     same_hash_seed(args)
     model, environment = load_network(args)
     out = Path(args.out) if args.out else None
-    with solver_output_silenced():
+    with progress_for(args) as bar, solver_output_silenced():
         result = robustness(model, environment, n_draws=args.draws, seed=args.seed, modes=modes,
                             sigma_scale=args.sigma_scale, threshold=not args.no_threshold,
                             results_path=out / "robustness.jsonl" if out else None,
-                            progress=progress_printer(args.quiet, "draw"), **execution,
+                            progress=point_progress(bar, "draws"), **execution,
                             **problem_kwargs(args))
     if out is not None:
         for name, frame in result.frames().items():
