@@ -55,8 +55,11 @@ RENAMED = {
                                                           "failed": "failed_draws"}),
     "robustness_uphill": ("robustness_uphill", {}),
 }
-#: Keys of summary.json renamed.
+#: Keys of summary.json renamed (and keys inside its robustness records).
 SUMMARY_RENAMED = {"driving_force": "driving_force_kJ_per_mol"}
+ROBUSTNESS_RENAMED = {"feasible": "feasible_draws", "failed": "failed_draws"}
+#: The census was once written as the long table of its figure: kind -> today's column.
+CENSUS_KINDS = {"ΔrG'°": "delta_g_standard_kJ_per_mol", "ΔrG' at 1 mM": "delta_g_1mM_kJ_per_mol"}
 #: Tables of one optimal solution among equal ones: they may differ run to run.
 SOLUTION_TABLES = {"driving_force", "energy_profile"}
 
@@ -66,6 +69,10 @@ def _table(folder: Path, stem: str) -> pd.DataFrame:
     frame = pd.read_csv(folder / f"{stem}.csv")
     if stem == "ranges" and "kind" in frame.columns:  # once a stacked table of reactions and compounds
         frame = frame[frame["kind"] == "reaction"].drop(columns=["kind", "unit"])
+    if stem == "census" and "kind" in frame.columns:  # once the long table of the census figure
+        wide = frame.pivot_table(index=["mode", "reaction"], columns="kind", values="dg_prime",
+                                 sort=False).reset_index()
+        frame = wide.rename(columns=CENSUS_KINDS)[["mode", "reaction", *CENSUS_KINDS.values()]]
     return frame.rename(columns=RENAMED[stem][1]).reset_index(drop=True)
 
 
@@ -125,6 +132,8 @@ def main(argv: list[str] | None = None) -> int:
     for key, value in old.items():
         if key in ("timings_s", "summary"):
             continue
+        if key == "robustness":
+            value = [{ROBUSTNESS_RENAMED.get(k, k): v for k, v in row.items()} for row in value]
         mapped = SUMMARY_RENAMED.get(key, key)
         if new.get(mapped) != value and not (isinstance(value, float) and
                                               _same(value, float(new.get(mapped, "nan")), args.rtol)):

@@ -179,6 +179,7 @@ def test_public_api_is_listed():
 
 
 # ------------------------------------------------------------------ vocabulary
+@pytest.mark.slow
 def test_every_column_and_key_is_in_the_vocabulary(bundled_run):
     from tfa.vocabulary import COLUMNS, SUMMARY_KEYS
 
@@ -268,6 +269,7 @@ def _frames(writes):
     return shown
 
 
+@pytest.mark.slow
 def test_progress_never_stands_still_for_more_than_ten_seconds(bundled_run):
     """The bundled assessment's progress line changes at the grain of its real work: the label
     (the elapsed seconds at its end aside) never stays the same for more than 10 s."""

@@ -10,6 +10,8 @@ import json
 
 import pytest
 
+pytestmark = pytest.mark.slow  # reads the shared bundled assessment (about 90 s)
+
 import tfa
 from tfa.analyses.route import order_route, parse_route
 from tfa.assessment import REPORT_FILE, SUMMARY_FILE

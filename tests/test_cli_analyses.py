@@ -82,6 +82,7 @@ def test_driving_force_of_one_reaction_is_analytic(census_json, tmp_path):
     assert (tmp_path / "driving_force.csv").is_file() and (tmp_path / "driving_force.json").is_file()
 
 
+@pytest.mark.slow
 def test_feasible_and_uphill_agree(tmp_path):
     """Feasible in a mode exactly when its minimal uphill set is empty (same problem, two ways):
     the two commands give the same first set and the same count."""
@@ -99,6 +100,7 @@ def test_feasible_and_uphill_agree(tmp_path):
         "feasibility.csv", "feasibility.json", "uphill_sets.csv", "uphill_sets.json"]
 
 
+@pytest.mark.slow
 def test_h2_scan_and_threshold_agree(tmp_path):
     """The threshold (one MILP over ln H2) and the scan (fixed levels) tell the same story: no
     scanned level below a found threshold is feasible, every level above it is."""

@@ -41,6 +41,7 @@ def test_feasibility_in_all_four_modes(network):
     assert (len(model.reactions), len(model.solver.variables), len(model.solver.constraints)) == before
 
 
+@pytest.mark.slow
 def test_bare_chemistry_uphill_set_scan_and_threshold(network):
     # the default solver (HiGHS where installed: chosen by scripts/bench_engine.py)
     model, env = network
@@ -71,6 +72,7 @@ def test_bare_chemistry_uphill_set_scan_and_threshold(network):
             assert threshold.threshold <= first * (1 + 1e-6)
 
 
+@pytest.mark.slow
 def test_glpk_on_bare_chemistry_answers_or_says_undetermined(network):
     # GLPK proves the minimal uphill set of bare chemistry far more slowly than HiGHS (measured
     # by scripts/bench_engine.py); with a short limit it must either give a certified answer or

@@ -81,6 +81,7 @@ print(json.dumps(out))
 """
 
 
+@pytest.mark.slow
 def test_serial_pool_and_local_dask_agree():
     # The solver interface orders columns by string hashes, so every process runs with one
     # PYTHONHASHSEED, as the tfa commands do (see tfa.util.points). Values are compared exactly.
@@ -124,6 +125,7 @@ print(json.dumps({"interrupted": result.run.interrupted, "computed": result.run.
 """
 
 
+@pytest.mark.slow
 def test_map_stopped_by_a_signal_resumes_to_the_uninterrupted_result(tmp_path):
     env = dict(os.environ, PYTHONHASHSEED=HASH_SEED)  # three processes, one hash seed
     side = tmp_path / "prepared.log"

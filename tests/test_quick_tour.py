@@ -17,6 +17,8 @@ from pathlib import Path
 
 import pytest
 
+pytestmark = pytest.mark.slow  # reads the shared bundled assessment (about 90 s)
+
 README = Path(__file__).resolve().parents[1] / "README.md"
 
 #: The first minimal uphill set of bare chemistry: these ten and one of the last two (two

@@ -379,6 +379,7 @@ def test_html_renders_in_headless_chromium(report_page, tmp_path):
     assert shot.read_bytes()[:8] == PNG_SIGNATURE
 
 
+@pytest.mark.slow
 def test_bundled_assessment_report_renders_in_headless_chromium(bundled_run, tmp_path):
     """The report of the bundled assessment: every figure decodes, tables sort, no console
     error, nothing loaded from outside the file."""

@@ -102,6 +102,9 @@ COLUMNS: dict[str, Term] = _terms(
     ("delta_g_max_kJ_per_mol", "largest ΔrG' over the feasible steady states", "kJ/mol"),
     ("cumulative_delta_g_kJ_per_mol", "running sum of ΔrG' along the route", "kJ/mol"),
     ("sigma_kJ_per_mol", "standard uncertainty of ΔrG'°", "kJ/mol"),
+    ("sigma_from_covariance_kJ_per_mol", "σ of ΔrG'° from the covariance of the draws", "kJ/mol"),
+    ("shared_sigma_kJ_per_mol", "the part of σ shared with other reactions", "kJ/mol"),
+    ("independent_sigma_kJ_per_mol", "the part of σ this reaction has alone", "kJ/mol"),
     ("driving_force_kJ_per_mol", "max-min driving force, or a reaction's -ΔrG' in its direction",
      "kJ/mol"),
     ("uphill_by_kJ_per_mol", "how far uphill a reaction runs in its direction (ΔrG' > 0) at the "

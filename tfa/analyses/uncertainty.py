@@ -113,11 +113,11 @@ class EnergyCovariance:
         shared = np.sqrt(np.maximum(np.diag(cov) - self.independent_sigma ** 2, 0.0))
         return pd.DataFrame({
             "reaction": self.reaction_ids,
-            "dg0_prime_kJ": self.mean,
-            "sigma_kJ": self.sigma,
-            "sigma_from_covariance_kJ": np.sqrt(np.diag(cov)),
-            "shared_sigma_kJ": shared,
-            "independent_sigma_kJ": self.independent_sigma,
+            "delta_g_standard_kJ_per_mol": self.mean,
+            "sigma_kJ_per_mol": self.sigma,
+            "sigma_from_covariance_kJ_per_mol": np.sqrt(np.diag(cov)),
+            "shared_sigma_kJ_per_mol": shared,
+            "independent_sigma_kJ_per_mol": self.independent_sigma,
         })
 
 

@@ -89,17 +89,11 @@ from .thermo_model import ReactionEnergy, ThermoModel
 
 logger = logging.getLogger(__name__)
 
-#: Kinds of compound energy, strongest first.
-COMPOUND_SOURCES = ("species", "reconciled", "estimated", "placeholder", "none")
-#: Rank of each reaction source (higher = weaker).
-SOURCE_RANK = {"species": 0, "literature": 1, "reconciled": 1, "estimated": 2, "placeholder": 3, "none": 3}
 #: Prefix of the database ids of reconciled and estimated compounds.
 RECONCILED_PREFIX = "reconciled:"
 ESTIMATED_PREFIX = "estimated:"
 #: Name of the literature-values table beside a network's reactions table.
 REACTION_VALUES_FILE = "reaction_values.tsv"
-#: Fallback when neither compound nor environment gives bounds, mol/L (common practice).
-FALLBACK_BOUNDS = (1.0e-6, 1.0e-2)
 
 
 @dataclass

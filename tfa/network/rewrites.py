@@ -496,11 +496,3 @@ def apply_mode(model: cobra.Model, mode: str) -> Iterator[RewriteSummary]:
             summary.removed_metabolites.extend(part.removed_metabolites)
         yield summary
 
-
-def carrier_metabolites(model: cobra.Model) -> list[cobra.Metabolite]:
-    """Reduced and oxidised forms of every carrier pair, in model order."""
-    ids = set()
-    for pair in carrier_pairs(model).values():
-        ids |= {pair.reduced.id, pair.oxidised.id}
-    return [m for m in model.metabolites if m.id in ids]
-

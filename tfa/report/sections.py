@@ -33,12 +33,12 @@ about 0.25-0.5 mol/L.
 0.5 kJ/mol per reaction of the HKF equations of state at 80 degC; several kJ/mol above \
 150 degC); where the heat capacity is missing, a constant reaction enthalpy is used and \
 flagged. Pressure enters through a constant standard molar volume.
-- Reaction energy at the solution: dG' = dG'deg + RT sum(nu_i ln a_i). Carriers without \
-species data enter through their reduction potential, dG = -nFE. Reactions without species \
+- Reaction energy at the solution: ΔrG' = ΔrG'° + RT Σ νᵢ ln aᵢ. Carriers without \
+species data enter through their reduction potential, ΔG = -nFE. Reactions without species \
 data use a cited literature value or an estimate with its uncertainty; none is set to zero \
 silently.
 - A steady state is feasible when mass balance holds and every reaction carrying flux runs \
-downhill (dG' < 0) within the concentration bounds (thermodynamics-based flux analysis, \
+downhill (ΔrG' < 0) within the concentration bounds (thermodynamics-based flux analysis, \
 Henry et al. 2007); the driving force is the max-min driving force of Noor et al. (2014).
 - Every solution reported was re-checked without the solver: mass balance, bounds, \
 recomputed energies and the sign of each energy against its flux.

@@ -512,11 +512,6 @@ def grid_points(axes: Sequence[tuple[str, Sequence[Any]]], extra: Mapping[str, A
     return out
 
 
-def results_in_order(points: Iterable[Mapping[str, Any]], records: Mapping[str, dict]) -> list[dict | None]:
-    """The records of ``points`` in their given order (None where a point has no line yet)."""
-    return [records.get(str(p["id"])) for p in points]
-
-
 def run_and_read(points: list[dict], function, results_path, scratch_name: str, **run_options):
     """:func:`run_points` into ``results_path`` (or a temporary file named ``scratch_name`` when
     none is given), then read the finished lines back: ``(summary, {point id: line})``."""
