@@ -72,6 +72,7 @@ from ..conditions import Conditions
 from ..constants import T_REF
 from ..errors import InputError, MissingDataError, NetworkFileError, UnknownCompoundError
 from ..thermo.balance import parse_formula
+from ..thermo.compounds import FIXED_ACTIVITY_KINDS
 from ..thermo.database import ThermoDatabase
 from ..thermo.reconcile import (
     LiteratureValue,
@@ -591,7 +592,7 @@ def _no_activity(model: cobra.Model, db: ThermoDatabase) -> set[str]:
         if key:
             with contextlib.suppress(InputError):
                 kind = db.compound(key).kind
-        if role in ("water", "proton") or kind in ("water", "proton"):
+        if role in ("water", "proton") or kind in FIXED_ACTIVITY_KINDS:
             out.add(met.id)
     return out
 

@@ -27,7 +27,10 @@ from .balance import parse_formula
 from .potentials import CarrierCouple
 
 #: Kinds of compound.
-KINDS = ("aqueous", "gas", "water", "proton", "carrier")
+KINDS = ("aqueous", "gas", "water", "proton", "carrier", "solid")
+#: Kinds whose activity is fixed by convention and never a variable: water (activity 1), the
+#: buffered proton (fixed by the pH) and a pure solid phase (activity 1, e.g. rhombic sulfur).
+FIXED_ACTIVITY_KINDS = ("water", "proton", "solid")
 
 
 def normalise_name(name: str) -> str:

@@ -54,7 +54,8 @@ from ..constants import FARADAY, T_REF
 from ..equation import ParsedEquation, format_equation, parse_equation
 from ..errors import InputError, MissingDataError
 from .balance import BalanceReport, check_balance, parse_formula, require_balanced
-from .compounds import Compound, CompoundRegistry, compounds_from_couples, compounds_from_rows
+from .compounds import (FIXED_ACTIVITY_KINDS, Compound, CompoundRegistry, compounds_from_couples,
+                        compounds_from_rows)
 from .legendre import reactant_energy, species_fractions, transformed_species_energy
 from .potentials import CarrierCouple, load_potentials
 from .species import Source, Species, load_compound_rows, load_sources, load_species
@@ -475,7 +476,7 @@ class ThermoDatabase:
         used_activities: dict[str, float] = {}
         for cid, nu in net.items():
             compound = self.compound(cid)
-            if compound.kind in ("water", "proton"):
+            if compound.kind in FIXED_ACTIVITY_KINDS:
                 continue
             a = activity_by_id.get(cid)
             if a is None:
@@ -506,6 +507,9 @@ class ThermoDatabase:
             if compound.kind == "water":
                 raise InputError(f"activity of '{name}': water has activity 1 by convention; "
                                  "remove it from the activities")
+            if compound.kind == "solid":
+                raise InputError(f"activity of '{name}': a pure solid has activity 1 by "
+                                 "convention; remove it from the activities")
             if compound.id not in net:
                 raise InputError(f"activity given for '{name}', which is not in the reaction; "
                                  "remove it or check the spelling")

@@ -39,7 +39,12 @@ COMPOUNDS_FILE = "compounds.csv"
 LITERATURE_SOURCES_FILE = "literature_sources.csv"
 
 SPECIES_COLUMNS = ("species", "reactant", "formula", "state", "charge", "n_h", "n_mg", "G_kJ",
-                   "H_kJ", "S_J_K", "Cp_J_K", "V_cm3", "source", "source2", "obigt_name")
+                   "H_kJ", "S_J_K", "Cp_J_K", "V_cm3", "source", "source2", "obigt_name", "flag",
+                   "shift_kJ", "anchor", "note")
+#: Flags of the ``flag`` column (``; ``-separated when several apply): a species re-anchored to
+#: measured biochemical values, a Mg complex built from a binding constant
+#: (``scripts/make_species_table.py`` says why and how).
+SPECIES_FLAGS = ("re-anchored", "Mg complex (binding constant)")
 SOURCE_COLUMNS = ("key", "authors", "year", "citation", "doi", "peer_reviewed", "note")
 COMPOUND_COLUMNS = ("id", "name", "synonyms", "kind", "species", "formula", "charge")
 ORIGINS = ("data", "reconciled", "estimated", "placeholder")
@@ -78,6 +83,16 @@ class Species:
         ``data`` (bundled table), ``reconciled``, ``estimated`` or ``placeholder``.
     sigma_G : float or None
         Standard uncertainty of G, kJ/mol; ``None`` means the database default.
+    flag : str
+        Empty, or :data:`SPECIES_FLAGS` joined by ``; ``: ``re-anchored`` when the table's generator shifted the
+        source's ΔfG° to reproduce measured biochemical values, ``Mg complex (binding
+        constant)`` for a complex made from its ligand and a binding constant.
+    shift : float or None
+        The shift of ΔfG° (and ΔfH°) applied, kJ/mol.
+    anchor : str
+        Source keys of the values the correction reproduces (``;``-separated).
+    note : str
+        The correction in words: anchors, conditions, whether recalled.
     """
 
     id: str
@@ -96,6 +111,16 @@ class Species:
     source2: str | None = None
     origin: str = "data"
     sigma_G: float | None = None
+    flag: str = ""
+    shift: float | None = None
+    anchor: str = ""
+    note: str = ""
+
+    @property
+    def recalled(self) -> bool:
+        """True when the species rests on a value recalled rather than checked against its
+        printed source (a correction whose note says "from memory")."""
+        return "from memory" in self.note.lower()
 
 
 @dataclass(frozen=True)
@@ -167,6 +192,10 @@ def parse_species_row(row: dict, where: str) -> Species:
         V=_optional_float(row["V_cm3"], f"{where}, column V_cm3"),
         source=row["source"].strip(),
         source2=(row.get("source2") or "").strip() or None,
+        flag=(row.get("flag") or "").strip(),
+        shift=_optional_float(row.get("shift_kJ") or "", f"{where}, column shift_kJ"),
+        anchor=(row.get("anchor") or "").strip(),
+        note=(row.get("note") or "").strip(),
     )
 
 
