@@ -990,7 +990,7 @@ CORRECTIONS: tuple[Correction, ...] = (
                 "H+/H2, pH 7, values at infinite dilution", ionic_strength=0.0),
          Anchor("pyruvate + NADH <=> lactate + NAD", -25.1, 1.5, "NC08",
                 "Nelson & Cox 2008, lactate dehydrogenase; the equilibrium was measured by "
-                "Hakala et al. 1956; I not recalled, 0.1 M taken", ionic_strength=0.1)),
+                "Hakala et al. 1956; I not stated, 0.25 M taken")),
         "Shock's (1995) lactate against Canovas & Shock's (2016) pyruvate gave pyruvate + NADH -> "
         "lactate + NAD+ 8 kJ/mol less favourable than measured"),
     Correction(
