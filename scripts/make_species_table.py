@@ -208,7 +208,7 @@ REACTANTS: list[ReactantDef] = [
     R_("thiosulfate", "thiosulfate", AQ, "S2O3-2; thiosulphate; hydrogen thiosulfate",
        "H2S2O3; HS2O3-; S2O3-2"),
     R_("S0", "elemental sulfur (rhombic, solid)", SOLID,
-       "sulfur; sulphur; elemental sulfur; S(s); S(cr); sulfur (rhombic); S8", "sulfur|cr"),
+       "S; sulfur; sulphur; elemental sulfur; S(s); S(cr); sulfur (rhombic); S8", "sulfur|cr"),
     R_("magnesium", "magnesium ion", AQ, "Mg2+; Mg+2; Mg++; magnesium ion", "Mg+2"),
     # --- C1-C3 organics -----------------------------------------------------------------------
     R_("formate", "formate", AQ, "formic acid; methanoate; HCOO-; HCOOH",

@@ -73,12 +73,15 @@ def test_bad_activity_exit_2(capsys):
 
 
 def test_unreviewed_data_only_on_request(capsys):
-    code = main(["dg", "acetyl phosphate + H2O <=> acetate + phosphate"])
-    captured = capsys.readouterr()
-    assert code != 0 and captured.out == ""
-    assert "include-unreviewed" in captured.err
+    # By default acetyl phosphate comes from the library's reaction values (Nelson & Cox 2008
+    # -43.1, Thauer et al. 1977 -44.8, both from memory), never from the unreviewed species.
+    data = run_json(capsys, "acetyl phosphate + H2O <=> acetate + phosphate", "--ionic-strength",
+                    "0.25")
+    assert "LDS+26" not in data["sources"] and {"NC08", "TJD77"} <= set(data["sources"])
+    assert data["status"] == "recalled value (from memory)"
+    assert data["reaction_gibbs_standard"] == pytest.approx(-43.9, abs=3.0)
     data = run_json(capsys, "acetyl phosphate + H2O <=> acetate + phosphate", "--include-unreviewed")
-    assert "LDS+26" in data["sources"]
+    assert "LDS+26" in data["sources"] and data["status"] == "unreviewed"
 
 
 def _entry_point() -> list[str]:

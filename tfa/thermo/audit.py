@@ -191,6 +191,38 @@ class AuditResult:
         wanted = set(compounds)
         return tuple(e.flag_text() for e in self.flagged(mode) if wanted & set(e.compounds))
 
+    def report_lines(self, mode: str = "reviewed", every_value: bool = False) -> list[str]:
+        """The audit in words: the statistics, every open disagreement (computed against
+        literature, difference, σ, source, basis, conditions, the compounds it touches) and,
+        with ``every_value``, one line per value."""
+        stats = self.statistics(mode)
+        lines = [f"data audit ({mode.replace('_', ' ')} data): {stats['values']} literature values, "
+                 f"{stats['checks']} independent checks ({stats['anchors']} anchors of species "
+                 f"corrections and {stats['unchecked']} values no other value checks left out)",
+                 f"  within 2 sigma: {100 * stats['within_2_sigma_fraction']:.0f} % "
+                 f"({stats['checks'] - stats['beyond_2_sigma']} of {stats['checks']}); beyond "
+                 f"5 kJ/mol: {stats['beyond_5_kJ']}"]
+        flagged = self.flagged(mode)
+        lines.append(f"open disagreements (|difference| > {THRESHOLD_SIGMA:g} sigma or > "
+                     f"{self.threshold:g} kJ/mol): {len(flagged)}")
+        for e in flagged:
+            lines.append(f"  {e.id} [{e.role}, {e.method}]: {e.equation}")
+            lines.append(f"    computed {e.computed:.1f}, literature {e.literature:.1f} +/- "
+                         f"{e.literature_sigma:g} kJ/mol ({e.literature_source}, {e.basis}; "
+                         f"{e.conditions}): {e.difference:+.1f} kJ/mol, {e.z:+.1f} sigma")
+            lines.append(f"    touches {', '.join(e.compounds) or 'nothing'}"
+                         + (f"; unreviewed source(s): {', '.join(e.unreviewed_sources)}"
+                            if e.unreviewed_sources else ""))
+        if every_value:
+            lines.append("every value (difference = computed - literature, kJ/mol):")
+            for e in self.mode(mode):
+                if e.difference is None:
+                    lines.append(f"  {e.id:36s} {e.status:9s} {e.role:8s} {e.message}")
+                else:
+                    lines.append(f"  {e.id:36s} {e.status:9s} {e.role:8s} {e.difference:+7.1f} "
+                                 f"{e.z:+5.1f} sigma  ({e.literature_source}, {e.basis})")
+        return lines
+
     def to_frame(self) -> pd.DataFrame:
         """One row per literature value; columns for each mode (energies in kJ/mol)."""
         rows: dict[str, dict] = {}

@@ -54,8 +54,8 @@ from ..constants import FARADAY, T_REF
 from ..equation import ParsedEquation, format_equation, parse_equation
 from ..errors import InputError, MissingDataError
 from .balance import BalanceReport, check_balance, parse_formula, require_balanced
-from .compounds import (FIXED_ACTIVITY_KINDS, Compound, CompoundRegistry, compounds_from_couples,
-                        compounds_from_rows)
+from .compounds import (FIXED_ACTIVITY_KINDS, Compound, CompoundRegistry, carrier_explanation,
+                        compounds_from_couples, compounds_from_rows)
 from .legendre import reactant_energy, species_fractions, transformed_species_energy
 from .potentials import CarrierCouple, load_potentials
 from .species import (Source, Species, load_compound_rows, load_sources, load_species,
@@ -541,6 +541,8 @@ class ThermoDatabase:
                     sources.append(key)
             flags.extend(fe.flags)
         flags.extend(self.magnesium_flags(net, conditions))
+        couples = {self.compound(cid).couple for cid in net} - {None}
+        flags.extend(carrier_explanation(c) for c in sorted(couples, key=lambda c: c.id))
         provenance = tuple(energies[cid].provenance for cid in net)
         status = weakest(fe.status for cid, fe in energies.items()
                          if self.compound(cid).kind not in FIXED_ACTIVITY_KINDS)
