@@ -92,8 +92,36 @@ Peer review (``sources.csv``)
 Names
     Every id, name and synonym (compared case-insensitively) must point to exactly one compound;
     the script stops with an error naming both compounds when two claim the same name.
+Crystals
+    Elemental sulfur is OBIGT's rhombic sulfur (``sulfur``, state ``cr``, McCollom & Shock 1997):
+    a compound of kind ``solid`` (activity 1). Its constant-Cp integration holds to the
+    rhombic-monoclinic transition at 95.5 degC; above it the monoclinic form differs by less than
+    0.1 kJ/mol (transition enthalpy about 0.4 kJ/mol, from memory).
+Corrections (:func:`apply_corrections`; the reasons and anchors are in ``QUARANTINED``,
+``MG_COMPLEXES`` and ``CORRECTIONS`` below, and on every corrected row)
+    1. Quarantine: species of the unreviewed source that cannot exist are left out (acetyl
+       phosphate without a methyl proton, 1,3-bisphosphoglycerate with a fifth acidic proton).
+    2. Mg complexes of orthophosphate and pyrophosphate, from binding constants at I = 0.1 M
+       (Smith & Martell 1976, from memory) carried to I = 0 with the extended Debye-Hueckel
+       equation; binding enthalpy, dCp and dV taken as 0. Row flag ``Mg complex (binding
+       constant)``.
+    3. Re-anchoring: a reactant whose species data disagree with measured biochemical equilibria
+       is shifted as a whole (ΔfG° and ΔfH° of every species by the same amount, S°, Cp° and V°
+       kept, so pKa values and the temperature dependence stay those of the source) by the
+       weighted least-squares fit to its anchors, s = Σ w_a (value_a − computed_a)/ν_a / Σ w_a
+       with w_a = (ν_a/σ_a)²; each anchor is a reaction over reactants of the table with its
+       ΔrG'°, σ, pH, ionic strength, pMg, source and whether it is recalled. The anchors are
+       computed with the runtime's own Legendre transform (tfa.thermo.legendre) at 25 degC. Row
+       flag ``re-anchored``, the shift in ``shift_kJ``, the anchors' source keys in ``anchor``,
+       the anchors and the reason in ``note``. Applied in order: pyrophosphate, lactate,
+       2-oxoglutarate, then glutamate and glutamine (their equilibria with 2-oxoglutarate), and
+       glucose (OBIGT's only row is unreviewed; re-anchored to Alberty's value and credited to
+       it). Checked and left as they are, against the values of tfa/data/reaction_values.csv
+       (``tfa audit``): succinate, fumarate, malate, oxaloacetate, citrate, isocitrate,
+       cis-aconitate, propanoate, butanoate, acetate, pyruvate, alanine, aspartate.
 
-Run: ``/tmp/venv/bin/python scripts/make_species_table.py`` (writes into tfa/data/).
+Run: ``.venv/bin/python scripts/make_species_table.py`` (writes into tfa/data/; prints each
+correction's fit).
 """
 
 from __future__ import annotations
