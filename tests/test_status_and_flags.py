@@ -9,38 +9,28 @@ Reference value of the checks: acetyl phosphate hydrolysis, -43.1 kJ/mol at pH 7
 from __future__ import annotations
 
 import json
+import sys
 from pathlib import Path
 
 import pytest
 
-from tfa.cli import main
-from tfa.conditions import Conditions
-from tfa.network.coverage import VERIFY_COLUMNS, coverage
-from tfa.network.io_table import read_network
-from tfa.thermo.database import ThermoDatabase
-from tfa.thermo.library import ReactionLibrary
-from tfa.thermo.status import RECALLED, REVIEWED, STATUSES
+sys.path.insert(0, str(Path(__file__).parent))
+from tiny_network import write_tiny_network  # noqa: E402
+
+from tfa.cli import main  # noqa: E402
+from tfa.conditions import Conditions  # noqa: E402
+from tfa.network.coverage import VERIFY_COLUMNS, coverage  # noqa: E402
+from tfa.network.io_table import read_network  # noqa: E402
+from tfa.thermo.database import ThermoDatabase  # noqa: E402
+from tfa.thermo.library import ReactionLibrary  # noqa: E402
+from tfa.thermo.status import RECALLED, REVIEWED, STATUSES  # noqa: E402
 
 RECALLED_TEXT = "recalled value (from memory)"
 
 
-def _tiny():
-    import importlib.util
-
-    spec = importlib.util.spec_from_file_location(
-        "_tiny_network", Path(__file__).with_name("test_network_energies.py"))
-    module = importlib.util.module_from_spec(spec)
-    spec.loader.exec_module(module)
-    return module
-
-
 @pytest.fixture()
 def folder(tmp_path: Path) -> Path:
-    tiny = _tiny()
-    (tmp_path / "compounds.tsv").write_text(tiny.COMPOUNDS)
-    (tmp_path / "reactions.tsv").write_text(tiny.REACTIONS)
-    (tmp_path / "reaction_values.tsv").write_text(tiny.VALUES)
-    return tmp_path
+    return write_tiny_network(tmp_path)
 
 
 def test_a_value_from_memory_is_marked_so_in_every_output(folder, capsys):
