@@ -116,3 +116,21 @@ def test_frame_has_both_modes(result):
         assert column in frame.columns
     assert len(frame) == len(load_reaction_values())
     assert result.threshold == THRESHOLD_KJ == 5.0
+
+
+def test_tfa_audit_prints_every_open_disagreement(capsys, result):
+    from tfa.cli import main
+
+    assert main(["audit"]) == 0
+    out = capsys.readouterr().out
+    stats = result.statistics("reviewed")
+    assert f"{stats['checks']} independent checks" in out
+    for e in result.flagged("reviewed"):
+        assert f"  {e.id} [" in out and e.literature_source in out
+    assert main(["audit", "--json", "--include-unreviewed"]) == 0
+    import json
+
+    data = json.loads(capsys.readouterr().out)
+    assert data["statistics"]["reviewed"]["checks"] == stats["checks"]
+    assert "with_unreviewed" in data["statistics"]
+    assert len(data["values"]) == len(load_reaction_values())

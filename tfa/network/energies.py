@@ -71,9 +71,9 @@ import pandas as pd
 from ..conditions import Conditions
 from ..constants import T_REF
 from ..errors import InputError, MissingDataError, NetworkFileError, UnknownCompoundError
+from ..thermo.audit import reconciliation_audit
 from ..thermo.balance import parse_formula
 from ..thermo.compounds import FIXED_ACTIVITY_KINDS
-from ..thermo.audit import reconciliation_audit
 from ..thermo.database import ThermoDatabase
 from ..thermo.reconcile import (
     LiteratureValue,

@@ -32,6 +32,8 @@ References
 
 from __future__ import annotations
 
+import contextlib
+import logging
 import math
 from dataclasses import dataclass, field
 from typing import Iterable, Sequence
@@ -262,8 +264,32 @@ def _judge(value: ReactionValue, computed: float, sigma: float,
     return abs(z) > THRESHOLD_SIGMA or abs(difference) > threshold, z
 
 
+@contextlib.contextmanager
+def _quiet(*names: str):
+    """The audit computes values at their own pMg and reconciles values that disagree, on
+    purpose: the warnings of those loggers (kept in each result's flags, and reported by the
+    audit itself) are not repeated on the log."""
+    logs = [logging.getLogger(n) for n in names]
+    levels = [log.level for log in logs]
+    for log in logs:
+        log.setLevel(logging.ERROR)
+    try:
+        yield
+    finally:
+        for log, level in zip(logs, levels):
+            log.setLevel(level)
+
+
+QUIET_LOGGERS = ("tfa.thermo.database", "tfa.thermo.reconcile")
+
+
 def _entries(library, mode: str, threshold: float = THRESHOLD_KJ) -> list[AuditEntry]:
     """Audit entries of every value of a :class:`~tfa.thermo.library.ReactionLibrary`."""
+    with _quiet(*QUIET_LOGGERS):
+        return _entries_of(library, mode, threshold)
+
+
+def _entries_of(library, mode: str, threshold: float) -> list[AuditEntry]:
     db: ThermoDatabase = library.base
     rec = library.reconciliation
     residuals = {r.id: r for r in rec.residuals} if rec is not None else {}
@@ -415,7 +441,8 @@ def audit(db: ThermoDatabase | None = None, values: Iterable[ReactionValue] | No
     chosen: Sequence[ReactionValue] = list(values) if values is not None else list(load_reaction_values())
     result = AuditResult(threshold=threshold)
     for include in (False, True):
-        library = ReactionLibrary(db.with_unreviewed(include), chosen)
+        with _quiet(*QUIET_LOGGERS):
+            library = ReactionLibrary(db.with_unreviewed(include), chosen)
         result.entries.extend(_entries(library, "with_unreviewed" if include else "reviewed",
                                        threshold))
     return result
