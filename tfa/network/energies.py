@@ -187,6 +187,9 @@ class CompoundEnergyTable:
             statuses.append(ce.status)
         if known:
             parts.append("species data: " + ", ".join(sorted({self.compounds[m].key for m in known})))
+            held = [f for m in known for f in self.compounds[m].flags if f.startswith("E'°")
+                    and "held" in f]
+            parts.extend(dict.fromkeys(held))
         source = "species"
         audit_flags: list[str] = []
         for m in net:

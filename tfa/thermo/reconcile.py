@@ -17,6 +17,13 @@ species (nH and charge z from the compounds table; single-species approximation)
 
     δ_u(r) = nH RT ln10 (pH_r − pH_ref) − RTα (z² − nH) [f(I_r) − f(I_ref)],   f(I) = √I/(1 + 1.6√I)
 
+Magnesium: a value measured with Mg2+ states its pMg; its known compounds then enter at that
+pMg (their Mg-binding species, e.g. MgATP2−, MgHPO4, MgP2O7(2−), by Alberty's transform), which
+amounts to carrying the value to the Mg-free reference of the unknowns: ΔrG'°(no Mg) =
+ΔrG'°(pMg_r) − Σ_k ν_k [ΔfG'°_k(pMg_r) − ΔfG'°_k(no Mg)]. The unknowns' own Mg binding is not
+known and is neglected (below 0.5 kJ/mol at pMg ≥ 3 for phosphate monoesters, log K about 2;
+Alberty 2003, from memory).
+
 The literature value is brought to 298.15 K by the Gibbs-Helmholtz equation with constant ΔrH'°
 when ΔrH'° is given, ΔrG'°(T2) = ΔrG'°(T1)·T2/T1 + ΔrH'°(1 − T2/T1), and otherwise taken as
 independent of temperature (ΔrS'° = 0, the documented approximation of this module).
