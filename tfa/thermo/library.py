@@ -108,6 +108,8 @@ class ReactionLibrary:
                 formula = "".join(f"{e}{n if n != 1 else ''}" for e, n in counts.items())
                 record = reconciled_species(self.reconciliation, cid, RECONCILED_PREFIX + cid,
                                             formula)
+                if record is None:  # no formula to transform with: stays without data
+                    continue
                 records.append(record)
                 rows.append({"id": cid, "name": compound.name, "synonyms": list(compound.synonyms),
                              "kind": "aqueous", "species": [record.id], "formula": compound.formula,
