@@ -2,9 +2,16 @@
 each with its source (``tfa/data/reaction_values.csv``; sources in ``literature_sources.csv``).
 
 They serve two purposes: the data audit (:mod:`tfa.thermo.audit`) compares the species data
-against them, and reactions whose compounds lack species data can take them as reaction-level
-values. Values recalled from a source without the exact table entry at hand say "from memory"
-in their note.
+against them, and compounds without species data (acetyl-CoA, the THF carriers, the sugar
+phosphates, ...) take their energies from them (:mod:`tfa.thermo.library`).
+
+Every value states the conditions of its measurement: temperature, pH, ionic strength and pMg
+(``none``: measured, or taken, without Mg2+). Column ``basis`` says how far it was checked:
+``checked`` (against the printed source), ``from memory`` (recalled, not checked against the
+printed table) or ``common practice`` (a rule of thumb or an analogy, no measurement of its
+own); without the column, a note that says "from memory" or "common practice" decides. Column
+``anchors`` names the reactants of the species table that the table's generator re-anchored to
+this value (``scripts/make_species_table.py``): such a value is no independent check of them.
 """
 
 from __future__ import annotations
@@ -21,6 +28,49 @@ from ..equation import parse_equation
 
 COLUMNS = ("id", "equation", "dg0_prime_kJ", "sigma_kJ", "dh0_prime_kJ", "temperature_C", "ph",
            "ionic_strength", "pmg", "source_key", "peer_reviewed", "note")
+#: Optional columns (the bundled table has both).
+OPTIONAL_COLUMNS = ("basis", "anchors")
+#: How a value was checked, strongest first.
+BASES = ("checked", "from memory", "common practice")
+#: Words of the ``pmg`` column meaning "no Mg2+" (an empty cell means the same).
+NO_MAGNESIUM = ("", "none", "no", "no mg", "inf")
+
+
+def value_basis(note: str, given: str = "") -> str:
+    """The basis of a value: ``given`` when it is one of :data:`BASES`, else read from the note.
+
+    >>> value_basis("K about 3 (NIST compilation; from memory)"), value_basis("", "checked")
+    ('from memory', 'checked')
+    >>> value_basis("taken equal to its homologue: common practice")
+    'common practice'
+    """
+    given = (given or "").strip().lower()
+    if given:
+        if given not in BASES:
+            raise InputError(f"basis '{given}' unknown; write one of {', '.join(BASES)}")
+        return given
+    text = (note or "").lower()
+    if "common practice" in text:
+        return "common practice"
+    if "from memory" in text:
+        return "from memory"
+    return "checked"
+
+
+def parse_pmg(text: str, where: str) -> float | None:
+    """pMg of a reaction-value row: a number, or ``none`` (empty) for no Mg2+.
+
+    >>> parse_pmg("3", "x"), parse_pmg("none", "x")
+    (3.0, None)
+    """
+    text = str(text or "").strip()
+    if text.lower() in NO_MAGNESIUM:
+        return None
+    try:
+        return float(text)
+    except ValueError:
+        raise InputError(f"{where}: column pmg holds '{text}'; give a number or 'none' "
+                         "(measured without Mg2+)") from None
 
 
 @dataclass(frozen=True)
@@ -38,10 +88,15 @@ class ReactionValue:
         ΔrH'°, kJ/mol, where known.
     temperature_C, ph, ionic_strength : float
     pmg : float or None
+        pMg of the measurement; None: no Mg2+.
     source : str
         Source key (see ``literature_sources.csv``).
     peer_reviewed : bool
     note : str
+    basis : str
+        One of :data:`BASES`.
+    anchors : tuple of str
+        Reactants of the species table re-anchored to this value.
     """
 
     id: str
@@ -56,6 +111,8 @@ class ReactionValue:
     source: str
     peer_reviewed: bool
     note: str
+    basis: str = "checked"
+    anchors: tuple[str, ...] = ()
 
     @property
     def conditions(self) -> Conditions:
@@ -65,7 +122,8 @@ class ReactionValue:
 
     @property
     def from_memory(self) -> bool:
-        return "from memory" in self.note.lower()
+        """True when the value is recalled, not checked against its printed source."""
+        return self.basis == "from memory"
 
 
 def _number(text: str, where: str, column: str, optional: bool = False) -> float | None:
@@ -114,9 +172,11 @@ def read_reaction_values(path: str | Path) -> list[ReactionValue]:
                 temperature_C=_number(row["temperature_C"], where, "temperature_C"),
                 ph=_number(row["ph"], where, "ph"),
                 ionic_strength=_number(row["ionic_strength"], where, "ionic_strength"),
-                pmg=_number(row["pmg"], where, "pmg", optional=True),
+                pmg=parse_pmg(row["pmg"], where),
                 source=(row["source_key"] or "").strip(), peer_reviewed=flag == "yes",
-                note=(row["note"] or "").strip()))
+                note=(row["note"] or "").strip(),
+                basis=value_basis(row.get("note") or "", row.get("basis") or ""),
+                anchors=tuple(a.strip() for a in (row.get("anchors") or "").split(";") if a.strip())))
     return values
 
 

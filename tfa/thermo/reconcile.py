@@ -17,6 +17,13 @@ species (nH and charge z from the compounds table; single-species approximation)
 
     δ_u(r) = nH RT ln10 (pH_r − pH_ref) − RTα (z² − nH) [f(I_r) − f(I_ref)],   f(I) = √I/(1 + 1.6√I)
 
+Magnesium: a value measured with Mg2+ states its pMg; its known compounds then enter at that
+pMg (their Mg-binding species, e.g. MgATP2−, MgHPO4, MgP2O7(2−), by Alberty's transform), which
+amounts to carrying the value to the Mg-free reference of the unknowns: ΔrG'°(no Mg) =
+ΔrG'°(pMg_r) − Σ_k ν_k [ΔfG'°_k(pMg_r) − ΔfG'°_k(no Mg)]. The unknowns' own Mg binding is not
+known and is neglected (below 0.5 kJ/mol at pMg ≥ 3 for phosphate monoesters, log K about 2;
+Alberty 2003, from memory).
+
 The literature value is brought to 298.15 K by the Gibbs-Helmholtz equation with constant ΔrH'°
 when ΔrH'° is given, ΔrG'°(T2) = ΔrG'°(T1)·T2/T1 + ΔrH'°(1 − T2/T1), and otherwise taken as
 independent of temperature (ΔrS'° = 0, the documented approximation of this module).
@@ -114,6 +121,8 @@ class LiteratureValue:
         Whether the source is peer reviewed.
     note : str
         Free text.
+    basis : str
+        ``checked``, ``from memory`` or ``common practice`` (:data:`tfa.thermo.literature.BASES`).
     """
 
     id: str
@@ -125,6 +134,7 @@ class LiteratureValue:
     source_key: str = ""
     peer_reviewed: bool = True
     note: str = ""
+    basis: str = "checked"
 
     def __post_init__(self) -> None:
         if not (math.isfinite(self.dg0_prime) and math.isfinite(self.sigma) and self.sigma > 0):
@@ -566,6 +576,38 @@ def reconcile(
                           residuals, dict(species), heat_capacities)
 
 
+def reconciled_species(rec: Reconciliation, compound: str, key: str, formula: str):
+    """The species record (origin ``reconciled``) that carries a reconciled compound through the
+    Legendre transform and the temperature integration like species data, or None when the
+    compound has no formula (H count and charge) to transform with.
+
+    Its G is the minimum-norm ΔfG° of the reference species (I = 0, 298.15 K), S° and Cp° those of
+    :func:`reconcile`; ``sigma_G`` is √C_uu for an identified compound, None inside an open
+    conserved moiety (only combinations mean something there). ``key`` becomes the species id and
+    its reactant; ``formula`` the element formula without charge.
+
+    Examples
+    --------
+    >>> rec = reconcile([LiteratureValue("v", {"x": 1.0}, -10.0, 1.0, Conditions())],
+    ...                 lambda c, k: (0.0, 0.0), {"x": UnknownSpecies(n_h=0, charge=0)})
+    >>> sp = reconciled_species(rec, "x", "reconciled:x", "C")
+    >>> sp.origin, round(sp.G, 2), sp.sigma_G
+    ('reconciled', -10.0, 1.0)
+    """
+    from .species import Species
+
+    i = rec.unknowns.index(compound)
+    sp = rec.species[compound]
+    if not sp.defined:
+        return None
+    return Species(
+        id=key, reactant=key, formula=formula, state="aq", charge=int(sp.charge), n_h=int(sp.n_h),
+        n_mg=0, G=float(rec.species_energies[i]), H=None, S=float(rec.entropies[i]) * 1000.0,
+        Cp=float(rec.heat_capacities[i]) * 1000.0 if rec.heat_capacities.size else 0.0, V=None,
+        source=",".join(rec.source_keys({compound: 1.0})) or "literature", origin="reconciled",
+        sigma_G=rec.compound_sigma(compound) if rec.compound_identified(compound) else None)
+
+
 def read_literature_values(path, where: str | None = None) -> list[LiteratureValue]:
     """Read a reaction-values table (TSV or CSV, ``#`` comment lines allowed).
 
@@ -574,6 +616,7 @@ def read_literature_values(path, where: str | None = None) -> list[LiteratureVal
     :mod:`tfa.equation`. Errors name the file and line.
     """
     from ..equation import parse_equation
+    from .literature import parse_pmg, value_basis
 
     where = where or str(path)
     sep = "\t" if str(path).endswith(".tsv") else ","
@@ -613,12 +656,13 @@ def read_literature_values(path, where: str | None = None) -> list[LiteratureVal
         eq = parse_equation(row["equation"], where=line)
         conditions = Conditions.from_celsius(number("temperature_C"), ph=number("ph"),
                                              ionic_strength=number("ionic_strength"),
-                                             pmg=number("pmg", optional=True))
+                                             pmg=parse_pmg(row.get("pmg", ""), line))
         reviewed = str(row.get("peer_reviewed", "yes")).strip().lower() not in ("no", "false", "0", "n")
+        note = str(row.get("note", "")).strip()
         out.append(LiteratureValue(
             id=str(row["id"]).strip(), stoichiometry=eq.stoichiometry(),
             dg0_prime=number("dg0_prime_kJ"), sigma=number("sigma_kJ"),
             conditions=conditions, dh0_prime=number("dh0_prime_kJ", optional=True),
             source_key=str(row.get("source_key", "")).strip(), peer_reviewed=reviewed,
-            note=str(row.get("note", "")).strip()))
+            note=note, basis=value_basis(note, str(row.get("basis", "")))))
     return out
