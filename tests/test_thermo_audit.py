@@ -101,7 +101,7 @@ def test_reviewed_acyl_phosphates_come_from_values_and_agree(result):
 def test_audit_catches_any_planted_disagreement():
     # No special case: a value 12 kJ/mol off the established methanogenesis value is flagged.
     base = next(v for v in load_reaction_values() if v.id == "methanogenesis_gas")
-    planted = replace(base, id="planted", dg0_prime=base.dg0_prime - 12.0)
+    planted = replace(base, id="planted", delta_g_standard=base.delta_g_standard - 12.0)
     res = audit(ThermoDatabase.load(), [base, planted])
     flagged = [e.id for e in res.flagged("reviewed")]
     assert flagged == ["planted"]

@@ -115,7 +115,11 @@ COLUMNS: dict[str, Term] = _terms(
     ("delta_g_min_kJ_per_mol", "least ΔrG' over the feasible steady states", "kJ/mol"),
     ("delta_g_max_kJ_per_mol", "largest ΔrG' over the feasible steady states", "kJ/mol"),
     ("cumulative_delta_g_kJ_per_mol", "running sum of ΔrG' along the route", "kJ/mol"),
-    ("sigma_kJ_per_mol", "standard uncertainty of ΔrG'°", "kJ/mol"),
+    ("sigma_kJ_per_mol", "standard uncertainty of ΔrG'° (or of ΔfG'° in a table of compounds)",
+     "kJ/mol"),
+    ("formation_delta_g_standard_kJ_per_mol", "ΔfG'°, transformed standard formation energy of a "
+                                              "compound at the setting", "kJ/mol"),
+    ("delta_h_standard_kJ_per_mol", "ΔrH'°, transformed standard reaction enthalpy", "kJ/mol"),
     ("sigma_from_covariance_kJ_per_mol", "σ of ΔrG'° from the covariance of the draws", "kJ/mol"),
     ("shared_sigma_kJ_per_mol", "the part of σ shared with other reactions", "kJ/mol"),
     ("independent_sigma_kJ_per_mol", "the part of σ this reaction has alone", "kJ/mol"),

@@ -276,7 +276,7 @@ def numbers_to_verify(table: CompoundEnergyTable, reactions, sources=None) -> pd
             continue
         mets = [m for m in value.stoichiometry if m in compounds]
         rows.append({"item": value.id, "kind": "reaction value", "status": BASIS_STATUS[value.basis],
-                     "value": value.dg0_prime, "sigma": value.sigma, "unit": "kJ/mol",
+                     "value": value.delta_g_standard, "sigma": value.sigma, "unit": "kJ/mol",
                      "source": value.source_key, "citation": citation(value.source_key),
                      "conditions": value.conditions.describe()
                      + ("" if value.conditions.pmg is not None else ", no Mg2+"),

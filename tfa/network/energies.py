@@ -314,8 +314,9 @@ class CompoundEnergyTable:
         """One row per compound: source, ΔfG'° (kJ/mol), σ, identified, status, audit flags,
         provenance."""
         return pd.DataFrame([{
-            "compound": c.metabolite, "source": c.source, "dfG_prime_kJ": c.standard,
-            "sigma_kJ": c.uncertainty, "identified": c.identified, "key": c.key,
+            "compound": c.metabolite, "source": c.source,
+            "formation_delta_g_standard_kJ_per_mol": c.standard,
+            "sigma_kJ_per_mol": c.uncertainty, "identified": c.identified, "key": c.key,
             "status": c.status, "audit_flags": " | ".join(c.audit_flags),
             "provenance": c.provenance,
         } for c in self.compounds.values()])

@@ -259,7 +259,7 @@ def _conditions_text(value: ReactionValue) -> str:
 
 def _judge(value: ReactionValue, computed: float, sigma: float,
            threshold: float) -> tuple[bool, float]:
-    difference = computed - value.dg0_prime
+    difference = computed - value.delta_g_standard
     z = difference / sigma if sigma > 0 else math.copysign(math.inf, difference)
     return abs(z) > THRESHOLD_SIGMA or abs(difference) > threshold, z
 
@@ -297,7 +297,7 @@ def _entries_of(library, mode: str, threshold: float) -> list[AuditEntry]:
     for value, lv in zip(library.values, library.literature):
         compounds = tuple(c for c in lv.stoichiometry
                           if db.compound(c).kind not in FIXED_ACTIVITY_KINDS)
-        base = dict(id=value.id, equation=value.equation, mode=mode, literature=value.dg0_prime,
+        base = dict(id=value.id, equation=value.equation, mode=mode, literature=value.delta_g_standard,
                     literature_sigma=value.sigma, literature_source=value.source,
                     basis=value.basis, compounds=compounds, conditions=_conditions_text(value),
                     role="anchor" if value.anchors else "check")
@@ -326,7 +326,7 @@ def _entries_of(library, mode: str, threshold: float) -> list[AuditEntry]:
                 out.append(_unchecked(base, value.id, value.source, unknown))
                 continue
             difference, sigma = loo
-            computed, method = value.dg0_prime + difference, "leave-one-out"
+            computed, method = value.delta_g_standard + difference, "leave-one-out"
             sources = tuple(dict.fromkeys(
                 [k for c in lv.stoichiometry if c not in unknown
                  for k in db.formation_energy(c, value.conditions).sources]
@@ -334,10 +334,10 @@ def _entries_of(library, mode: str, threshold: float) -> list[AuditEntry]:
                                                if c in unknown}) if k != value.source]))
         flagged, z = _judge(value, computed, sigma, threshold)
         unreviewed = tuple(k for k in sources if not db.is_reviewed(k))
-        difference = computed - value.dg0_prime
+        difference = computed - value.delta_g_standard
         if flagged:
             message = (f"{value.id}: computed {computed:.1f} kJ/mol, literature "
-                       f"{value.dg0_prime:.1f} kJ/mol ({value.source}); off by {difference:+.1f} "
+                       f"{value.delta_g_standard:.1f} kJ/mol ({value.source}); off by {difference:+.1f} "
                        f"kJ/mol, {z:+.1f} sigma")
             if unreviewed:
                 message += f"; unreviewed source(s) entered: {', '.join(unreviewed)}"
@@ -386,7 +386,7 @@ def reconciliation_audit(rec, threshold: float = THRESHOLD_KJ, mode: str = "revi
     for value in rec.values:
         unknown = sorted(c for c, n in value.stoichiometry.items() if c in rec.unknowns and n)
         base = dict(id=value.id, equation=" + ".join(unknown), mode=mode,
-                    literature=value.dg0_prime, literature_sigma=value.sigma,
+                    literature=value.delta_g_standard, literature_sigma=value.sigma,
                     literature_source=value.source_key, basis=value.basis,
                     compounds=tuple(unknown), role="check",
                     conditions=value.conditions.describe())
@@ -399,7 +399,7 @@ def reconciliation_audit(rec, threshold: float = THRESHOLD_KJ, mode: str = "revi
         z = difference / sigma
         flagged = abs(z) > THRESHOLD_SIGMA or abs(difference) > threshold
         out.append(AuditEntry(
-            **base, computed=value.dg0_prime + difference, uncertainty=sigma,
+            **base, computed=value.delta_g_standard + difference, uncertainty=sigma,
             difference=difference, flagged=flagged, status="disagrees" if flagged else "agrees",
             sources=(value.source_key,), z=z, method="leave-one-out",
             message=f"{value.id}: {difference:+.1f} kJ/mol against the other values, {z:+.1f} sigma"))

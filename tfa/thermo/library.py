@@ -61,8 +61,8 @@ RECONCILED_PREFIX = "reconciled:"
 def literature_value(db: ThermoDatabase, value: ReactionValue) -> LiteratureValue:
     """A library value with its equation resolved to compound ids of ``db``."""
     net, _ = db.resolve(value.equation, where=f"reaction_values.csv, value {value.id}")
-    return LiteratureValue(value.id, net, value.dg0_prime, value.sigma, value.conditions,
-                           value.dh0_prime, value.source, value.peer_reviewed, value.note,
+    return LiteratureValue(value.id, net, value.delta_g_standard, value.sigma, value.conditions,
+                           value.delta_h_standard, value.source, value.peer_reviewed, value.note,
                            value.basis)
 
 

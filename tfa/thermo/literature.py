@@ -22,12 +22,33 @@ from functools import lru_cache
 from importlib import resources
 from pathlib import Path
 
+import logging
+
 from ..conditions import Conditions
 from ..errors import InputError
 from ..equation import parse_equation
 
-COLUMNS = ("id", "equation", "dg0_prime_kJ", "sigma_kJ", "dh0_prime_kJ", "temperature_C", "ph",
-           "ionic_strength", "pmg", "source_key", "peer_reviewed", "note")
+logger = logging.getLogger(__name__)
+
+COLUMNS = ("id", "equation", "delta_g_standard_kJ_per_mol", "sigma_kJ_per_mol",
+           "delta_h_standard_kJ_per_mol", "temperature_C", "ph", "ionic_strength", "pmg",
+           "source_key", "peer_reviewed", "note")
+#: Older spellings of the value columns, still read (with a warning) for one release.
+OLD_COLUMN_NAMES = {"dg0_prime_kJ": "delta_g_standard_kJ_per_mol", "sigma_kJ": "sigma_kJ_per_mol",
+                    "dh0_prime_kJ": "delta_h_standard_kJ_per_mol"}
+
+
+def renamed_columns(names: list[str], where: str) -> list[str]:
+    """A header with the old spellings of :data:`OLD_COLUMN_NAMES` replaced (logged once).
+
+    >>> renamed_columns(["id", "dg0_prime_kJ"], "values.tsv")
+    ['id', 'delta_g_standard_kJ_per_mol']
+    """
+    old = [n for n in names if n in OLD_COLUMN_NAMES]
+    if old:
+        logger.warning("%s: column(s) %s are old spellings; rename them to %s", where,
+                       ", ".join(old), ", ".join(OLD_COLUMN_NAMES[n] for n in old))
+    return [OLD_COLUMN_NAMES.get(n, n) for n in names]
 #: Optional columns (the bundled table has both).
 OPTIONAL_COLUMNS = ("basis", "anchors")
 #: How a value was checked, strongest first.
@@ -80,11 +101,11 @@ class ReactionValue:
     Attributes
     ----------
     id, equation : str
-    dg0_prime : float
+    delta_g_standard : float
         ΔrG'°, kJ/mol.
     sigma : float
-        Standard uncertainty of ``dg0_prime``, kJ/mol.
-    dh0_prime : float or None
+        Standard uncertainty of ``delta_g_standard``, kJ/mol.
+    delta_h_standard : float or None
         ΔrH'°, kJ/mol, where known.
     temperature_C, ph, ionic_strength : float
     pmg : float or None
@@ -101,9 +122,9 @@ class ReactionValue:
 
     id: str
     equation: str
-    dg0_prime: float
+    delta_g_standard: float
     sigma: float
-    dh0_prime: float | None
+    delta_h_standard: float | None
     temperature_C: float
     ph: float
     ionic_strength: float
@@ -149,7 +170,8 @@ def read_reaction_values(path: str | Path) -> list[ReactionValue]:
     path = Path(path)
     with path.open(newline="", encoding="utf-8") as handle:
         reader = csv.DictReader(handle)
-        missing = [c for c in COLUMNS if c not in (reader.fieldnames or [])]
+        reader.fieldnames = renamed_columns(list(reader.fieldnames or []), str(path))
+        missing = [c for c in COLUMNS if c not in reader.fieldnames]
         if missing:
             raise InputError(f"{path}: missing column(s) {', '.join(missing)}; expected "
                              f"{', '.join(COLUMNS)}")
@@ -166,9 +188,11 @@ def read_reaction_values(path: str | Path) -> list[ReactionValue]:
                 raise InputError(f"{where}: peer_reviewed is '{row['peer_reviewed']}'; write yes or no")
             values.append(ReactionValue(
                 id=rid, equation=row["equation"].strip(),
-                dg0_prime=_number(row["dg0_prime_kJ"], where, "dg0_prime_kJ"),
-                sigma=_number(row["sigma_kJ"], where, "sigma_kJ"),
-                dh0_prime=_number(row["dh0_prime_kJ"], where, "dh0_prime_kJ", optional=True),
+                delta_g_standard=_number(row["delta_g_standard_kJ_per_mol"], where,
+                                         "delta_g_standard_kJ_per_mol"),
+                sigma=_number(row["sigma_kJ_per_mol"], where, "sigma_kJ_per_mol"),
+                delta_h_standard=_number(row["delta_h_standard_kJ_per_mol"], where,
+                                         "delta_h_standard_kJ_per_mol", optional=True),
                 temperature_C=_number(row["temperature_C"], where, "temperature_C"),
                 ph=_number(row["ph"], where, "ph"),
                 ionic_strength=_number(row["ionic_strength"], where, "ionic_strength"),

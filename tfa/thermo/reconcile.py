@@ -107,13 +107,13 @@ class LiteratureValue:
         Identifier of the value (e.g. ``lit_citrate_lyase``).
     stoichiometry : dict
         Compound id -> net coefficient (negative consumed).
-    dg0_prime : float
+    delta_g_standard : float
         ΔrG'°, kJ/mol, at ``conditions``.
     sigma : float
-        Standard uncertainty of ``dg0_prime``, kJ/mol (> 0).
+        Standard uncertainty of ``delta_g_standard``, kJ/mol (> 0).
     conditions : Conditions
         Temperature, pH, ionic strength (and pMg) the value refers to.
-    dh0_prime : float or None
+    delta_h_standard : float or None
         ΔrH'°, kJ/mol, when the source gives it.
     source_key : str
         Key of the source in the sources table.
@@ -127,19 +127,19 @@ class LiteratureValue:
 
     id: str
     stoichiometry: dict[str, float]
-    dg0_prime: float
+    delta_g_standard: float
     sigma: float
     conditions: Conditions
-    dh0_prime: float | None = None
+    delta_h_standard: float | None = None
     source_key: str = ""
     peer_reviewed: bool = True
     note: str = ""
     basis: str = "checked"
 
     def __post_init__(self) -> None:
-        if not (math.isfinite(self.dg0_prime) and math.isfinite(self.sigma) and self.sigma > 0):
+        if not (math.isfinite(self.delta_g_standard) and math.isfinite(self.sigma) and self.sigma > 0):
             raise InputError(
-                f"literature value {self.id}: ΔrG'° {self.dg0_prime} and σ {self.sigma} must be finite "
+                f"literature value {self.id}: ΔrG'° {self.delta_g_standard} and σ {self.sigma} must be finite "
                 "numbers with σ > 0 kJ/mol; give the standard uncertainty of the value"
             )
 
@@ -156,21 +156,21 @@ class LiteratureValue:
         −8.84 kJ/mol at 298.15 K: −10·298.15/310.15 + 20·(1 − 298.15/310.15).
 
         >>> v = LiteratureValue("x", {"a": -1, "b": 1}, -10.0, 1.0,
-        ...                     Conditions.from_celsius(37.0), dh0_prime=20.0)
+        ...                     Conditions.from_celsius(37.0), delta_h_standard=20.0)
         >>> round(v.at_reference_temperature(), 2)
         -8.84
         """
         t1 = self.conditions.temperature
-        if self.dh0_prime is None or abs(t1 - T_REF) < 1e-9:
-            return self.dg0_prime
+        if self.delta_h_standard is None or abs(t1 - T_REF) < 1e-9:
+            return self.delta_g_standard
         ratio = T_REF / t1
-        return self.dg0_prime * ratio + self.dh0_prime * (1.0 - ratio)
+        return self.delta_g_standard * ratio + self.delta_h_standard * (1.0 - ratio)
 
     def entropy(self) -> float:
         """ΔrS'°, kJ/mol/K: (ΔrH'° − ΔrG'°)/T when ΔrH'° is given, else 0 (the approximation)."""
-        if self.dh0_prime is None:
+        if self.delta_h_standard is None:
             return 0.0
-        return (self.dh0_prime - self.dg0_prime) / self.conditions.temperature
+        return (self.delta_h_standard - self.delta_g_standard) / self.conditions.temperature
 
 
 @dataclass(frozen=True)
@@ -360,7 +360,7 @@ class Reconciliation:
         """
         w = self.value_weights(stoichiometry)
         rates = np.array([
-            ENTROPY_SIGMA_WITH_ENTHALPY if v.dh0_prime is not None else ENTROPY_SIGMA_NO_ENTHALPY
+            ENTROPY_SIGMA_WITH_ENTHALPY if v.delta_h_standard is not None else ENTROPY_SIGMA_NO_ENTHALPY
             for v in self.values
         ])
         return float(abs(temperature - T_REF) * np.sum(np.abs(w) * rates)) if w.size else 0.0
@@ -394,11 +394,11 @@ class Reconciliation:
         """One row per unknown compound: ΔfG'° at the reference, σ, identified, S°, ΔfG° of its species."""
         return pd.DataFrame({
             "compound": list(self.unknowns),
-            "dfG_prime_ref_kJ": self.energies,
-            "sigma_kJ": [self.compound_sigma(u) for u in self.unknowns],
+            "formation_delta_g_standard_kJ_per_mol": self.energies,
+            "sigma_kJ_per_mol": [self.compound_sigma(u) for u in self.unknowns],
             "identified": [self.compound_identified(u) for u in self.unknowns],
-            "S_species_kJ_K": self.entropies,
-            "dfG_species_kJ": self.species_energies,
+            "species_entropy_kJ_per_mol_K": self.entropies,
+            "species_formation_delta_g_kJ_per_mol": self.species_energies,
         })
 
     def residual_frame(self) -> pd.DataFrame:
@@ -611,12 +611,14 @@ def reconciled_species(rec: Reconciliation, compound: str, key: str, formula: st
 def read_literature_values(path, where: str | None = None) -> list[LiteratureValue]:
     """Read a reaction-values table (TSV or CSV, ``#`` comment lines allowed).
 
-    Columns: ``id, equation, dg0_prime_kJ, sigma_kJ, dh0_prime_kJ, temperature_C, ph,
-    ionic_strength, pmg, source_key, peer_reviewed, note``. Equations use the grammar of
-    :mod:`tfa.equation`. Errors name the file and line.
+    Columns: ``id, equation, delta_g_standard_kJ_per_mol, sigma_kJ_per_mol,
+    delta_h_standard_kJ_per_mol, temperature_C, ph, ionic_strength, pmg, source_key,
+    peer_reviewed, note`` (the old spellings of :data:`tfa.thermo.literature.OLD_COLUMN_NAMES`
+    are read with a warning). Equations use the grammar of :mod:`tfa.equation`. Errors name the
+    file and line.
     """
     from ..equation import parse_equation
-    from .literature import parse_pmg, value_basis
+    from .literature import parse_pmg, renamed_columns, value_basis
 
     where = where or str(path)
     sep = "\t" if str(path).endswith(".tsv") else ","
@@ -632,12 +634,15 @@ def read_literature_values(path, where: str | None = None) -> list[LiteratureVal
         frame = pd.read_csv(path, sep=sep, skiprows=comment_lines, dtype=str, keep_default_na=False)
     except (pd.errors.ParserError, pd.errors.EmptyDataError) as err:
         raise InputError(f"{where}: cannot read the reaction-values table ({err})") from err
-    required = ["id", "equation", "dg0_prime_kJ", "sigma_kJ", "temperature_C", "ph", "ionic_strength"]
+    frame.columns = renamed_columns([str(c) for c in frame.columns], where)
+    required = ["id", "equation", "delta_g_standard_kJ_per_mol", "sigma_kJ_per_mol",
+                "temperature_C", "ph", "ionic_strength"]
     missing = [c for c in required if c not in frame.columns]
     if missing:
         raise InputError(f"{where}: missing column(s) {', '.join(missing)}; the header must hold "
-                         "id, equation, dg0_prime_kJ, sigma_kJ, dh0_prime_kJ, temperature_C, ph, "
-                         "ionic_strength, pmg, source_key, peer_reviewed, note")
+                         "id, equation, delta_g_standard_kJ_per_mol, sigma_kJ_per_mol, "
+                         "delta_h_standard_kJ_per_mol, temperature_C, ph, ionic_strength, pmg, "
+                         "source_key, peer_reviewed, note")
     out = []
     for i, row in frame.iterrows():
         line = f"{where} line {i + 2 + comment_lines}"
@@ -661,8 +666,9 @@ def read_literature_values(path, where: str | None = None) -> list[LiteratureVal
         note = str(row.get("note", "")).strip()
         out.append(LiteratureValue(
             id=str(row["id"]).strip(), stoichiometry=eq.stoichiometry(),
-            dg0_prime=number("dg0_prime_kJ"), sigma=number("sigma_kJ"),
-            conditions=conditions, dh0_prime=number("dh0_prime_kJ", optional=True),
+            delta_g_standard=number("delta_g_standard_kJ_per_mol"),
+            sigma=number("sigma_kJ_per_mol"), conditions=conditions,
+            delta_h_standard=number("delta_h_standard_kJ_per_mol", optional=True),
             source_key=str(row.get("source_key", "")).strip(), peer_reviewed=reviewed,
             note=note, basis=value_basis(note, str(row.get("basis", "")))))
     return out
