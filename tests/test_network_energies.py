@@ -20,7 +20,7 @@ from tfa.network.energies import compound_energies, prepare, prepared, reaction_
 from tfa.network.environment import Environment, apply_environment
 from tfa.network.io_table import read_network
 from tfa.thermo.database import ThermoDatabase
-from tfa.thermo.reconcile import read_literature_values
+from tfa.thermo.literature import read_literature_values
 
 COMPOUNDS = """id\tname\tsynonyms\tformula\tcharge\tthermo_key\tconc_min\tconc_max\trole\tsmiles\tnotes
 h2o\twater\t\tH2O\t0\tH2O\t\t\twater\t\t

@@ -18,14 +18,8 @@ from tfa.conditions import Conditions
 from tfa.constants import LN10, R
 from tfa.errors import InputError, MissingDataError
 from tfa.thermo.legendre import debye_huckel_term
-from tfa.thermo.reconcile import (
-    ENTROPY_SIGMA_NO_ENTHALPY,
-    LiteratureValue,
-    UnknownSpecies,
-    legendre_offset,
-    read_literature_values,
-    reconcile,
-)
+from tfa.thermo.literature import LiteratureValue, read_literature_values
+from tfa.thermo.reconcile import ENTROPY_SIGMA_NO_ENTHALPY, UnknownSpecies, legendre_offset, reconcile
 
 REF = Conditions(298.15, 7.0, 0.25)
 

@@ -23,7 +23,8 @@ import pandas as pd
 from ..conditions import Conditions
 from ..errors import InputError
 from ..thermo.status import BASIS_STATUS, STATUSES, needs_checking
-from .energies import CompoundEnergyTable, compound_energies, network_sources, reaction_energies
+from .compound_table import CompoundEnergyTable
+from .energies import compound_energies, network_sources, reaction_energies
 from .thermo_model import ENERGY_SOURCES, ReactionEnergy
 
 #: Sources that count as "reviewed species data or a cited reaction-level value". A reconciled

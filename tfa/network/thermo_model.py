@@ -90,7 +90,7 @@ class ThermoModel:
         Role -> metabolite id for the fed compounds ("H2", "CO2", "H2S", "phosphate", "ammonia").
     compound_table : object or None
         The per-compound energies behind ``energies`` (a
-        :class:`tfa.network.energies.CompoundEnergyTable`), for coverage, correlated
+        :class:`tfa.network.compound_table.CompoundEnergyTable`), for coverage, correlated
         uncertainties and reports.
     all_energies : dict[str, ReactionEnergy]
         Every internal reaction's energy record, including those without a value (source

@@ -49,7 +49,8 @@ from .balance import parse_formula
 from .compounds import FIXED_ACTIVITY_KINDS
 from .database import ReactionEnergyResult, ThermoDatabase
 from .literature import ReactionValue, load_reaction_values
-from .reconcile import LiteratureValue, Reconciliation, UnknownSpecies, reconcile, reconciled_species
+from .literature import LiteratureValue
+from .reconcile import Reconciliation, UnknownSpecies, reconcile, reconciled_species
 from .status import combined_value_status, weakest
 
 logger = logging.getLogger(__name__)

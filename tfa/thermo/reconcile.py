@@ -81,6 +81,7 @@ from ..conditions import Conditions
 from ..constants import LN10, R, T_REF
 from ..errors import InputError, MissingDataError
 from .legendre import DEBYE_HUCKEL_B, rt_alpha
+from .literature import LiteratureValue
 
 log = logging.getLogger(__name__)
 
@@ -95,82 +96,6 @@ RANK_TOLERANCE = 1e-9
 
 #: ``known_energy(compound, conditions) -> (ΔfG'°, σ)`` in kJ/mol.
 KnownEnergy = Callable[[str, Conditions], "tuple[float, float]"]
-
-
-@dataclass(frozen=True)
-class LiteratureValue:
-    """One reaction-level literature value.
-
-    Attributes
-    ----------
-    id : str
-        Identifier of the value (e.g. ``lit_citrate_lyase``).
-    stoichiometry : dict
-        Compound id -> net coefficient (negative consumed).
-    delta_g_standard : float
-        ΔrG'°, kJ/mol, at ``conditions``.
-    sigma : float
-        Standard uncertainty of ``delta_g_standard``, kJ/mol (> 0).
-    conditions : Conditions
-        Temperature, pH, ionic strength (and pMg) the value refers to.
-    delta_h_standard : float or None
-        ΔrH'°, kJ/mol, when the source gives it.
-    source_key : str
-        Key of the source in the sources table.
-    peer_reviewed : bool
-        Whether the source is peer reviewed.
-    note : str
-        Free text.
-    basis : str
-        ``checked``, ``from memory`` or ``common practice`` (:data:`tfa.thermo.literature.BASES`).
-    """
-
-    id: str
-    stoichiometry: dict[str, float]
-    delta_g_standard: float
-    sigma: float
-    conditions: Conditions
-    delta_h_standard: float | None = None
-    source_key: str = ""
-    peer_reviewed: bool = True
-    note: str = ""
-    basis: str = "checked"
-
-    def __post_init__(self) -> None:
-        if not (math.isfinite(self.delta_g_standard) and math.isfinite(self.sigma) and self.sigma > 0):
-            raise InputError(
-                f"literature value {self.id}: ΔrG'° {self.delta_g_standard} and σ {self.sigma} must be finite "
-                "numbers with σ > 0 kJ/mol; give the standard uncertainty of the value"
-            )
-
-    def at_reference_temperature(self) -> float:
-        """ΔrG'° carried to 298.15 K, kJ/mol.
-
-        Equation (Gibbs-Helmholtz with constant ΔrH'°, Alberty 2003, eq. 3.2-7 in integrated form):
-        ΔrG'°(T2) = ΔrG'°(T1)·T2/T1 + ΔrH'°·(1 − T2/T1); without ΔrH'° the value is taken as
-        independent of temperature (ΔrS'° = 0).
-
-        Examples
-        --------
-        A value of −10 kJ/mol at 310.15 K with ΔrH'° = +20 kJ/mol (ΔrS'° = +96.7 J/mol/K) is
-        −8.84 kJ/mol at 298.15 K: −10·298.15/310.15 + 20·(1 − 298.15/310.15).
-
-        >>> v = LiteratureValue("x", {"a": -1, "b": 1}, -10.0, 1.0,
-        ...                     Conditions.from_celsius(37.0), delta_h_standard=20.0)
-        >>> round(v.at_reference_temperature(), 2)
-        -8.84
-        """
-        t1 = self.conditions.temperature
-        if self.delta_h_standard is None or abs(t1 - T_REF) < 1e-9:
-            return self.delta_g_standard
-        ratio = T_REF / t1
-        return self.delta_g_standard * ratio + self.delta_h_standard * (1.0 - ratio)
-
-    def entropy(self) -> float:
-        """ΔrS'°, kJ/mol/K: (ΔrH'° − ΔrG'°)/T when ΔrH'° is given, else 0 (the approximation)."""
-        if self.delta_h_standard is None:
-            return 0.0
-        return (self.delta_h_standard - self.delta_g_standard) / self.conditions.temperature
 
 
 @dataclass(frozen=True)
@@ -606,69 +531,3 @@ def reconciled_species(rec: Reconciliation, compound: str, key: str, formula: st
         Cp=float(rec.heat_capacities[i]) * 1000.0 if rec.heat_capacities.size else 0.0, V=None,
         source=",".join(rec.source_keys({compound: 1.0})) or "literature", origin="reconciled",
         sigma_G=rec.compound_sigma(compound) if rec.compound_identified(compound) else None)
-
-
-def read_literature_values(path, where: str | None = None) -> list[LiteratureValue]:
-    """Read a reaction-values table (TSV or CSV, ``#`` comment lines allowed).
-
-    Columns: ``id, equation, delta_g_standard_kJ_per_mol, sigma_kJ_per_mol,
-    delta_h_standard_kJ_per_mol, temperature_C, ph, ionic_strength, pmg, source_key,
-    peer_reviewed, note`` (the old spellings of :data:`tfa.thermo.literature.OLD_COLUMN_NAMES`
-    are read with a warning). Equations use the grammar of :mod:`tfa.equation`. Errors name the
-    file and line.
-    """
-    from ..equation import parse_equation
-    from .literature import parse_pmg, renamed_columns, value_basis
-
-    where = where or str(path)
-    sep = "\t" if str(path).endswith(".tsv") else ","
-    try:
-        with open(path, encoding="utf-8") as handle:
-            lines = handle.read().splitlines()
-    except OSError as err:
-        raise InputError(f"{where}: cannot read the reaction-values table ({err})") from err
-    comment_lines = 0
-    while comment_lines < len(lines) and lines[comment_lines].lstrip().startswith("#"):
-        comment_lines += 1
-    try:
-        frame = pd.read_csv(path, sep=sep, skiprows=comment_lines, dtype=str, keep_default_na=False)
-    except (pd.errors.ParserError, pd.errors.EmptyDataError) as err:
-        raise InputError(f"{where}: cannot read the reaction-values table ({err})") from err
-    frame.columns = renamed_columns([str(c) for c in frame.columns], where)
-    required = ["id", "equation", "delta_g_standard_kJ_per_mol", "sigma_kJ_per_mol",
-                "temperature_C", "ph", "ionic_strength"]
-    missing = [c for c in required if c not in frame.columns]
-    if missing:
-        raise InputError(f"{where}: missing column(s) {', '.join(missing)}; the header must hold "
-                         "id, equation, delta_g_standard_kJ_per_mol, sigma_kJ_per_mol, "
-                         "delta_h_standard_kJ_per_mol, temperature_C, ph, ionic_strength, pmg, "
-                         "source_key, peer_reviewed, note")
-    out = []
-    for i, row in frame.iterrows():
-        line = f"{where} line {i + 2 + comment_lines}"
-
-        def number(column: str, optional: bool = False) -> float | None:
-            text = str(row.get(column, "")).strip()
-            if not text:
-                if optional:
-                    return None
-                raise InputError(f"{line}: column {column} is empty; give a number")
-            try:
-                return float(text)
-            except ValueError:
-                raise InputError(f"{line}: column {column} holds '{text}', not a number") from None
-
-        eq = parse_equation(row["equation"], where=line)
-        conditions = Conditions.from_celsius(number("temperature_C"), ph=number("ph"),
-                                             ionic_strength=number("ionic_strength"),
-                                             pmg=parse_pmg(row.get("pmg", ""), line))
-        reviewed = str(row.get("peer_reviewed", "yes")).strip().lower() not in ("no", "false", "0", "n")
-        note = str(row.get("note", "")).strip()
-        out.append(LiteratureValue(
-            id=str(row["id"]).strip(), stoichiometry=eq.stoichiometry(),
-            delta_g_standard=number("delta_g_standard_kJ_per_mol"),
-            sigma=number("sigma_kJ_per_mol"), conditions=conditions,
-            delta_h_standard=number("delta_h_standard_kJ_per_mol", optional=True),
-            source_key=str(row.get("source_key", "")).strip(), peer_reviewed=reviewed,
-            note=note, basis=value_basis(note, str(row.get("basis", "")))))
-    return out
