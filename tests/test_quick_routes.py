@@ -61,13 +61,13 @@ def solver_calls(monkeypatch):
     calls = []
     real = builder.optimize
 
-    def spy(model_solver, time_limit, first_point=False):
+    def spy(model_solver, time_limit, first_point=False, presolve=True):
         if not first_point:
             calls.append("lp")
         else:
             loose = model_solver.configuration.tolerances.integrality == builder.LOOSE_INTEGRALITY
             calls.append("loose" if loose else "exact")
-        return real(model_solver, time_limit, first_point)
+        return real(model_solver, time_limit, first_point, presolve)
 
     monkeypatch.setattr(builder, "optimize", spy)
     return calls
@@ -100,7 +100,8 @@ def test_exact_milp_when_no_quick_route_finds_a_point(solver, solver_calls, monk
     with ThermoProblem(detour_network(solver), ProblemOptions(solver=solver)) as problem:
         sol = problem.solve()
         certify(problem, sol)
-    assert solver_calls == ["lp", "lp", "exact"]
+    # the exact MILP's point is confirmed by the linear program with its directions fixed
+    assert solver_calls == ["lp", "lp", "exact", "lp"]
     assert_detour_taken(sol)
     assert problem.solver.configuration.tolerances.integrality == builder.SOLVER_TOLERANCES["integrality"]
 

@@ -700,6 +700,8 @@ def _thermo_model(model: cobra.Model, environment, mode: str, db: ThermoDatabase
     else:
         bounds, feed_ids = log_bounds(model, environment, no_activity)
         demand_id = _apply_environment_fluxes(model, environment, feed_ids, no_activity)
+    if demand_id in energies:   # a two-sided demand (a lumped biomass reaction) is no chemistry
+        energies = {rid: e for rid, e in energies.items() if rid != demand_id}
     kept = {rid: e for rid, e in energies.items() if math.isfinite(e.standard)}
     for rid, e in energies.items():
         if rid not in kept:

@@ -36,10 +36,16 @@ from ..verify.certificate import CertificateInput
 from .bigm import direction_big_m, energy_intervals
 from .bulk import remove_rows_and_columns, set_rows
 from .flux_ranges import flux_caps, steady_state_flux_ranges
-from .solvers import InfeasibleProblem, check_status, optimize, solver_name_of, use_solver
+from .scaling import flux_scale, required_fluxes, scaled_bounds
+from .solvers import (InfeasibleProblem, best_bound, check_status, has_point, optimize, solver_name_of,
+                      use_solver)
 
 log = logging.getLogger(__name__)
 
+#: Mixed-integer points tried before a problem whose points its fixed-direction linear program
+#: never confirms is given up (a ComputationError): the first with the MIP presolve, the rest
+#: without, each further one with the previous pattern cut off.
+MAX_UNCONFIRMED_POINTS = 12
 #: Integrality tolerance of the loose search among the quick routes (GLPK's own default); its
 #: points are only candidates: their 0/1 values are fixed and the rest solved again exactly.
 LOOSE_INTEGRALITY = 1e-5
@@ -158,6 +164,10 @@ class Solution:
     driving_force : B for driving-force problems, else None
     objective : objective value (None for a pure feasibility problem)
     solver, seconds : solver name and wall time of the solve
+    bound : the solver's proven bound on the objective (None for a pure feasibility problem)
+    proven : False when a limit stopped the search and this is the best point found
+    confirmed_by : how the point was obtained as a point of the problem: "linear program with the
+        directions fixed" for every point returned by :meth:`ThermoProblem.solve`
     """
 
     reaction_ids: list[str]
@@ -174,6 +184,9 @@ class Solution:
     objective: float | None
     solver: str
     seconds: float
+    bound: float | None = None
+    proven: bool = True
+    confirmed_by: str = ""
 
     def flux(self, reaction_id: str) -> float:
         """Net flux of one reaction."""
@@ -234,15 +247,28 @@ class ThermoProblem:
                 vals.append(float(coef))
         self.stoich = (np.array(rows, int), np.array(cols, int), np.array(vals, float))
 
-        boundary = {r.id for r in model.boundary}
+        # one classification for the whole problem: only internal reactions have an energy, so
+        # only they fall under the unknown-energy policy (never the demand, exchanges or sinks)
+        self.reaction_kinds = tm.reaction_kinds()
         self.energy_ids = []
         self.unknown_energy_ids = []
         for r in self.reactions:
-            if r.id in boundary:
+            kind = self.reaction_kinds[r.id]
+            if kind != "internal":
                 if r.id in tm.energies:
-                    log.warning("boundary reaction %s carries an energy; it is ignored", r.id)
+                    log.warning("%s reaction %s carries an energy; it is ignored", kind, r.id)
                 continue
             (self.energy_ids if r.id in tm.energies else self.unknown_energy_ids).append(r.id)
+        if opts.unknown_energy == "block":
+            for rid in self.unknown_energy_ids:
+                r = model.reactions.get_by_id(rid)
+                if r.lower_bound > 0 or r.upper_bound < 0:
+                    raise InputError(f"reaction {rid} has no energy and its bounds ({r.lower_bound:g}, "
+                                     f"{r.upper_bound:g}) require flux, so the 'block' policy cannot "
+                                     "block it; give it an energy or use the 'free' policy")
+        lower, upper = self.flux_bounds()
+        self.flux_scale = flux_scale(lower, upper, self.reaction_ids)
+        self.scaled_lower, self.scaled_upper = scaled_bounds(lower, upper, self.flux_scale)
         standard = []
         sigma = []
         for rid in self.energy_ids:
@@ -295,6 +321,14 @@ class ThermoProblem:
             self.standard, self.slack_width, *self.thermo, self.envelope_lower,
             self.envelope_upper, tm.RT)
         self.big_m = direction_big_m(self.g_lower, self.g_upper, opts.min_driving_force)
+        reach = float(np.max(np.maximum(-self.g_lower, self.g_upper))) if len(self.energy_ids) else 0.0
+        if len(self.energy_ids) and not opts.driving_force and opts.min_driving_force > reach:
+            raise InputError(f"the least driving force {opts.min_driving_force:g} kJ/mol is larger than "
+                             f"any |Delta_r G'| the reactions can reach within their concentration "
+                             f"bounds (at most {reach:.4g} kJ/mol), so no reaction could run; choose a "
+                             "smaller --min-driving-force")
+        #: Energy scale of the certificate's tolerance: the largest |Delta_r G'| in the box, kJ/mol.
+        self.energy_scale = max(1.0, reach)
 
     # ------------------------------------------------------------------ build
     def _build(self) -> None:
@@ -308,7 +342,7 @@ class ThermoProblem:
                        for j in range(n_e)]
         self.eps_vars = [var(f"tfa_e_{j}", lb=-float(w), ub=float(w)) if w > 0 else None
                          for j, w in enumerate(self.slack_width)]
-        flux_lower, flux_upper = self.flux_bounds()
+        flux_lower, flux_upper = self.scaled_lower, self.scaled_upper   # in units of the flux scale
         bound_fwd = np.maximum(flux_upper[self.energy_reaction_index], 0.0)
         bound_bwd = np.maximum(-flux_lower[self.energy_reaction_index], 0.0)
         upper, lower = self._flux_caps(flux_lower, flux_upper, bound_fwd, bound_bwd)
@@ -410,14 +444,19 @@ class ThermoProblem:
         self._constraints = constraints
         set_rows(solver, constraints, [r[3] for r in rows])
 
-        if opts.unknown_energy == "block":
-            for rid in self.unknown_energy_ids:
-                r = self.reactions[self.reaction_index[rid]]
-                for v in (r.forward_variable, r.reverse_variable):
-                    self._saved_bounds.append((v, v.lb, v.ub))
-                    v.lb = 0.0
-                    v.ub = 0.0
+        self._set_scaled_flux_bounds()
         self.set_objective({})
+
+    def _set_scaled_flux_bounds(self) -> None:
+        """Give the flux columns the scaled bounds (:mod:`tfa.problem.scaling`; the unknown-energy
+        policy included); the cobra reactions keep their own bounds, restored on removal."""
+        for r, lo, hi in zip(self.reactions, self.scaled_lower, self.scaled_upper):
+            lo, hi = float(lo), float(hi)
+            for v, a, b in ((r.forward_variable, max(lo, 0.0), max(hi, 0.0)),
+                            (r.reverse_variable, max(-hi, 0.0), max(-lo, 0.0))):
+                if v.lb != a or v.ub != b:
+                    self._saved_bounds.append((v, v.lb, v.ub))
+                    v.set_bounds(a, b)
 
     # ------------------------------------------------------------------ changes
     def set_objective(self, coefficients: dict, direction: str = "min") -> None:
@@ -468,7 +507,7 @@ class ThermoProblem:
         self._extra_constraints.remove(constraint)
 
     # ------------------------------------------------------------------ solve
-    def solve(self, what: str = "the thermodynamic flux problem") -> Solution:
+    def solve(self, what: str = "the thermodynamic flux problem", accept_best: bool = False) -> Solution:
         """Solve; return the solution or raise InfeasibleProblem / UndeterminedError in plain words.
 
         A yes/no question (no objective) first takes the quick routes, each ending in a linear
@@ -479,6 +518,19 @@ class ThermoProblem:
 
         The exact MILP runs within the time left when neither finds a point. A relaxation
         without a point proves there is none (InfeasibleProblem) on the way.
+
+        Every point returned is confirmed as a point of the problem by a linear program with its
+        0/1 values fixed and every closed direction's flux column fixed at zero
+        (:meth:`solve_fixed`): a mixed-integer point whose 0/1 variables sit within the
+        integrality tolerance of 0 may pass a little flux through a closed direction, and GLPK's
+        MIP presolve has returned points that break a row by about 1e-6. When that linear
+        program finds no point, the MILP is solved once more without the MIP presolve, then
+        the directions that carry flux are tried; a point none of these confirms is a
+        ComputationError, never a result.
+
+        ``accept_best``: when a limit stops the search of an optimisation after it found a point,
+        return the best point found (``proven`` False, ``bound`` the solver's bound, when it gives
+        one) instead of raising UndeterminedError.
         """
         started = time.perf_counter()
         limit = self.options.time_limit
@@ -493,9 +545,64 @@ class ThermoProblem:
                 if solution is not None:
                     solution.seconds = time.perf_counter() - started
                     return solution
-        status = optimize(self.solver, time_left(), first_point=self._objective_is_zero)
-        check_status(status, what, self.options.time_limit)
-        return self._read_solution(time.perf_counter() - started)
+        cuts: list = []
+        try:
+            for attempt in range(MAX_UNCONFIRMED_POINTS):
+                presolve = attempt == 0
+                status = optimize(self.solver, time_left(), first_point=self._objective_is_zero,
+                                  presolve=presolve)
+                best = (accept_best and not self._objective_is_zero
+                        and status != optlang_status.OPTIMAL and has_point(self.solver))
+                if not best:
+                    check_status(status, what, self.options.time_limit)
+                bound = None if self._objective_is_zero else best_bound(self.solver, status)
+                point = self._read_solution(0.0)
+                solution = self._confirmed(point, what, time_left())
+                if solution is not None:
+                    solution.bound = bound
+                    solution.proven = not best
+                    solution.seconds = time.perf_counter() - started
+                    return solution
+                # the point lies within the solver's tolerance of the problem but its pattern has
+                # no exact point: solve again without the MIP presolve, then without that pattern
+                log.info("%s: a %s point was not confirmed by its fixed-direction linear program "
+                         "(attempt %d)", what, self.solver_name, attempt + 1)
+                if attempt > 0:
+                    cuts.append(self._exclude_pattern(point, f"tfa_unconfirmed_{attempt}"))
+        finally:
+            for c in cuts:
+                self.remove_constraint(c)
+        from ..errors import ComputationError
+
+        raise ComputationError(
+            f"{what}: the {self.solver_name} solver kept returning points that the linear program "
+            f"with their directions fixed does not confirm ({MAX_UNCONFIRMED_POINTS} tries; a "
+            "numerical fault of the solver); try the other solver (--solver glpk or highs)")
+
+    def _confirmed(self, point: Solution, what: str, time_limit: float | None) -> Solution | None:
+        """The point of the problem behind a mixed-integer point: :meth:`solve_fixed` on its 0/1
+        values, then on the directions that carry flux; None when neither has a point."""
+        uphill = np.isin(self.energy_ids, point.uphill) if self.u_vars else None
+        for forward, backward in ((point.forward, point.backward), self.flux_pattern(point)):
+            try:
+                return self.solve_fixed(forward, backward, uphill, what=what, time_limit=time_limit)
+            except InfeasibleProblem:
+                continue
+        return None
+
+    def _exclude_pattern(self, point: Solution, name: str):
+        """A no-good cut: at least one 0/1 variable differs from the point's (Balas & Jeroslow
+        1972, SIAM J. Appl. Math. 23:61); removed again by :meth:`solve`."""
+        uphill = set(point.uphill)
+        coefficients, ones = {}, 0
+        pairs = list(zip(self.f_vars, point.forward)) + list(zip(self.b_vars, point.backward))
+        pairs += [(v, rid in uphill) for v, rid in zip(self.u_vars, self.energy_ids)]
+        for v, on in pairs:
+            if v.ub < 1:
+                continue
+            coefficients[v] = -1.0 if on else 1.0
+            ones += int(bool(on))
+        return self.add_constraint(coefficients, 1.0 - ones, None, name)
 
     def _least_flux_point(self, what: str, time_limit: float | None) -> Solution | None:
         """A point of the problem from the flux pattern of least total flux, or None.
@@ -513,19 +620,26 @@ class ThermoProblem:
         network (native mode) it was downhill at none of 8 H2 levels from 1e-9 to 1e-2 mol/L.
         """
         relaxed = self.f_vars + self.b_vars
-        for v in relaxed:
-            v.type = "continuous"
+        self.set_objective({v: 1.0 for r in self.reactions
+                            for v in (r.forward_variable, r.reverse_variable)})
         try:
-            self.set_objective({v: 1.0 for r in self.reactions
-                                for v in (r.forward_variable, r.reverse_variable)})
-            status = optimize(self.solver, time_limit)
-            pattern = (self.flux_pattern(self._read_solution(0.0))
-                       if status == optlang_status.OPTIMAL else None)
-        finally:
             for v in relaxed:
-                v.type = "integer"
+                v.type = "continuous"
+            try:
+                status = optimize(self.solver, time_limit)
+                pattern = (self.flux_pattern(self._read_solution(0.0))
+                           if status == optlang_status.OPTIMAL else None)
+            finally:
+                for v in relaxed:
+                    v.type = "integer"
+            # the pattern's linear program keeps the total flux as its objective: the point
+            # reported is the least-flux one of its pattern
+            solution = self._repaired(status, pattern, what, time_limit, "the least-flux relaxation")
+        finally:
             self.set_objective({})
-        return self._repaired(status, pattern, what, time_limit, "the least-flux relaxation")
+        if solution is not None:
+            solution.objective = None
+        return solution
 
     def _loose_point(self, what: str, time_limit: float | None) -> Solution | None:
         """A point of the problem from the MILP at :data:`LOOSE_INTEGRALITY`, or None.
@@ -570,7 +684,8 @@ class ThermoProblem:
             return None
 
     def flux_pattern(self, solution: Solution, tolerance: float = 1e-9) -> tuple[np.ndarray, np.ndarray]:
-        """The directions in which a solution's reactions with an energy carry flux (|v| > tolerance).
+        """The directions in which a solution's reactions with an energy carry flux (|v| above
+        ``tolerance`` times the flux scale).
 
         Only these directions constrain the energies; a direction binary at 1 on a reaction
         without flux is an arbitrary choice of the solver, and fixing it would ask for a sign of
@@ -579,7 +694,8 @@ class ThermoProblem:
         did not).
         """
         v = solution.fluxes[self.energy_reaction_index]
-        return v > tolerance, v < -tolerance
+        limit = tolerance * self.flux_scale
+        return v > limit, v < -limit
 
     def solve_with_pattern(self, forward: np.ndarray, backward: np.ndarray,
                            what: str = "the thermodynamic flux problem",
@@ -591,25 +707,63 @@ class ThermoProblem:
         patterns. Used to carry a certified pattern (:meth:`flux_pattern`) from one scan point to
         the next; a direction not in the pattern carries no flux.
         """
-        saved = [(v, v.lb, v.ub) for v in self.f_vars + self.b_vars]
+        return self.solve_fixed(forward, backward, None, what, time_limit)
+
+    def solve_fixed(self, forward: np.ndarray, backward: np.ndarray, uphill: np.ndarray | None,
+                    what: str = "the thermodynamic flux problem",
+                    time_limit: float | None = None) -> Solution:
+        """The linear program of one pattern: every 0/1 variable fixed (direction binaries to
+        ``forward``/``backward``, uphill binaries to ``uphill``, or 0 when None) and the flux
+        column of every closed direction fixed at zero, so that no flux passes where the pattern
+        closes the way (a column bound is exact; a row is met only to the solver's tolerance).
+        The 0/1 variables are made continuous for the solve (GLPK then runs its simplex method,
+        HiGHS its LP solver) and restored afterwards. Keeps the objective.
+
+        Raises InfeasibleProblem when the pattern has no point (which proves nothing about other
+        patterns).
+        """
+        n_e = len(self.energy_ids)
+        up = np.zeros(n_e, bool) if uphill is None or not self.u_vars else np.asarray(uphill, bool)
+        fixed = []
+        for j in range(n_e):
+            f_on = bool(forward[j]) and self.f_vars[j].ub >= 1
+            b_on = bool(backward[j]) and self.b_vars[j].ub >= 1
+            fixed.append((self.f_vars[j], 1.0 if f_on else 0.0))
+            fixed.append((self.b_vars[j], 1.0 if b_on else 0.0))
+            if self.u_vars:
+                fixed.append((self.u_vars[j], 1.0 if up[j] else 0.0))
+            reaction = self.reactions[self.energy_reaction_index[j]]
+            for column, open_ in ((reaction.forward_variable, f_on or up[j]),
+                                  (reaction.reverse_variable, b_on or up[j])):
+                if open_ or column.ub == 0:
+                    continue
+                if column.lb > 0:   # the pattern closes a direction whose flux is required
+                    raise InfeasibleProblem(f"{what}: the pattern closes the required flux of "
+                                            f"{reaction.id}")
+                fixed.append((column, 0.0))
+        saved = [(v, v.lb, v.ub) for v, _ in fixed]
+        binaries = self.f_vars + self.b_vars + self.u_vars
         try:
-            for v, on in zip(self.f_vars, forward):
-                value = 1.0 if on and v.ub >= 1 else 0.0
-                v.set_bounds(value, value)
-            for v, on in zip(self.b_vars, backward):
-                value = 1.0 if on and v.ub >= 1 else 0.0
+            for v in binaries:
+                v.type = "continuous"
+            for v, value in fixed:
                 v.set_bounds(value, value)
             started = time.perf_counter()
             status = optimize(self.solver, time_limit or self.options.time_limit)
             check_status(status, what, self.options.time_limit)
-            return self._read_solution(time.perf_counter() - started)
+            solution = self._read_solution(time.perf_counter() - started)
+            solution.confirmed_by = "linear program with the directions fixed"
+            return solution
         finally:
-            for v, lb, ub in saved:
+            for v, lb, ub in reversed(saved):
                 v.set_bounds(lb, ub)
+            for v in binaries:
+                v.type = "integer"
 
     def _read_solution(self, seconds: float) -> Solution:
         primal = self.solver.primal_values
-        fluxes = np.array([primal[r.id] - primal[r.reverse_id] for r in self.reactions], float)
+        fluxes = self.flux_scale * np.array([primal[r.id] - primal[r.reverse_id]
+                                             for r in self.reactions], float)
         x = np.array([primal[v.name] for v in self.x_vars], float)
         g = np.array([primal[v.name] for v in self.g_vars], float)
         eps = np.array([primal[v.name] if v is not None else 0.0 for v in self.eps_vars], float)
@@ -669,7 +823,8 @@ class ThermoProblem:
             standard=self.standard, sigma=self.sigma, slack=solution.slack,
             uncertainty_k=self.options.uncertainty_k, thermo_rows=self.thermo[0],
             thermo_cols=self.thermo[1], thermo_values=self.thermo[2], rt=self.thermo_model.RT,
-            min_driving_force=delta, allowed_uphill=list(allowed_uphill or []))
+            min_driving_force=delta, allowed_uphill=list(allowed_uphill or []),
+            flux_scale=self.flux_scale, energy_scale=self.energy_scale)
 
     # ------------------------------------------------------------------ cleanup
     def remove(self) -> None:
