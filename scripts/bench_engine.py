@@ -48,8 +48,20 @@ H2_RANGE = (1e-9, 1e-2)
 PROTON_AND_WATER = {"h_c", "h_p", "h_e", "h2o_c", "h2o_p", "h2o_e"}
 
 
-def synthetic_genome_model(solver_module, seed: int = SEED):
-    """iJO1366 with synthetic, feasible-by-construction reaction energies (see module text)."""
+#: Genome-scale models of cobra's own package data (loaded offline): E. coli iJO1366 and the
+#: Salmonella Typhimurium LT2 reconstruction shipped as "salmonella".
+GENOME_MODELS = ("iJO1366", "salmonella")
+#: Seed of the choice of steps made uphill in the perturbed instances.
+PERTURB_SEED = 11
+#: Perturbed instances: this many steps that every steady state needs in one direction, and this
+#: many more that carry flux in the loopless solution, are made uphill at every concentration.
+PERTURB_REQUIRED, PERTURB_OTHER = 2, 3
+
+
+def synthetic_genome_model(solver_module, seed: int = SEED, name: str = "iJO1366",
+                           perturb: bool = False):
+    """A genome-scale model with synthetic, feasible-by-construction reaction energies (see
+    module text); ``perturb``: then some steps are made uphill (:func:`perturb_energies`)."""
     import cobra
     from cobra.flux_analysis import loopless_solution
     from scipy.optimize import linprog
@@ -59,7 +71,7 @@ def synthetic_genome_model(solver_module, seed: int = SEED):
     from tfa.network.thermo_model import ReactionEnergy, ThermoModel
 
     cobra.Configuration().solver = solver_module
-    model = cobra.io.load_model("iJO1366")
+    model = cobra.io.load_model(name)
     biomass = [r for r in model.reactions if r.objective_coefficient != 0][0]
     optimum = model.slim_optimize()
     v_star = loopless_solution(model).fluxes
@@ -102,10 +114,56 @@ def synthetic_genome_model(solver_module, seed: int = SEED):
     lo, hi = math.log(CONC_RANGE[0]), math.log(CONC_RANGE[1])
     log_bounds = {m.id: (lo, hi) for m in mets}
     biomass.lower_bound = 0.5 * optimum
-    tm = ThermoModel(model, conditions, energies, log_bounds, no_activity=set(PROTON_AND_WATER),
-                     mode="native", environment_name="iJO1366, synthetic energies",
-                     demand_id=biomass.id, feed_ids={"H2": "h2_c"})
+    no_activity = {m.id for m in mets if m.id.split("_")[0] in ("h", "h2o")}
+    tm = ThermoModel(model, conditions, energies, log_bounds, no_activity=no_activity,
+                     mode="native", environment_name=f"{name}, synthetic energies",
+                     demand_id=biomass.id, feed_ids={"H2": "h2_c"} if "h2_c" in model.metabolites else {})
+    if perturb:
+        perturb_energies(tm, v_star, seed=PERTURB_SEED)
     return tm
+
+
+def perturb_energies(tm, v_star, seed: int = PERTURB_SEED) -> list[str]:
+    """Make some steps uphill at every concentration in the direction they carry flux in the
+    loopless solution v*: ``PERTURB_REQUIRED`` steps that every steady state meeting the demand
+    needs in that direction (steady-state flux ranges, so each must be in every uphill set) and
+    ``PERTURB_OTHER`` more that carry flux in v* (the network may reroute around them). Returns
+    the ids. Delta_r G'deg is raised (or lowered) until the least Delta_r G' over the
+    concentration box is +5 kJ/mol in that direction."""
+    from dataclasses import replace as with_value
+
+    from tfa.problem.flux_ranges import steady_state_flux_ranges
+
+    model = tm.model
+    ids = [r.id for r in model.reactions]
+    m_index = {m.id: i for i, m in enumerate(model.metabolites)}
+    rows, cols, vals = [], [], []
+    for j, r in enumerate(model.reactions):
+        for m, c in r.metabolites.items():
+            rows.append(m_index[m.id]), cols.append(j), vals.append(float(c))
+    lower = np.array([r.lower_bound for r in model.reactions])
+    upper = np.array([r.upper_bound for r in model.reactions])
+    carrying = [j for j, rid in enumerate(ids) if rid in tm.energies and abs(v_star[rid]) > 1e-7]
+    lo, hi = steady_state_flux_ranges(np.array(rows), np.array(cols), np.array(vals),
+                                      len(m_index), lower, upper, np.array(carrying))
+    required = [j for j, a, b in zip(carrying, lo, hi) if a > 1e-6 or b < -1e-6]
+    rng = np.random.default_rng(seed)
+    chosen = list(rng.choice(required, PERTURB_REQUIRED, replace=False))
+    others = [j for j in carrying if j not in required]
+    chosen += list(rng.choice(others, PERTURB_OTHER, replace=False))
+    rt = tm.RT
+    for j in chosen:
+        rid = ids[j]
+        e = tm.energies[rid]
+        d = 1.0 if v_star[rid] > 0 else -1.0
+        stoich = [(m.id, c) for m, c in model.reactions.get_by_id(rid).metabolites.items()
+                  if m.id not in tm.no_activity]
+        terms = [(tm.log_bounds[m][0] * c, tm.log_bounds[m][1] * c) for m, c in stoich]
+        # the least d * Delta_r G' over the box, at Delta_r G'deg = 0
+        least = sum(min(d * a, d * b) for a, b in terms) * rt
+        tm.energies[rid] = with_value(e, standard=d * (5.0 - least),
+                                      provenance=e.provenance + "; PERTURBED uphill")
+    return [ids[j] for j in chosen]
 
 
 class _Undetermined:

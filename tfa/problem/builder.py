@@ -105,6 +105,10 @@ class ProblemOptions:
         For yes/no questions (no objective), try two quick routes to a point before the exact
         MILP (:meth:`ThermoProblem.solve`): the flux pattern of least total flux, and the MILP at
         a loose integrality tolerance with its 0/1 values then fixed exactly.
+    confirm_infeasible : str
+        Re-ask an "infeasible" yes/no answer of the other solver: "auto" (for networks with at
+        most :data:`tfa.analyses.results.CONFIRM_AUTO_LIMIT` reactions with an energy),
+        "always" or "never"; the answer's ``verification`` says what was done.
     flux_caps : str
         U_j and L_j of the direction rows: "ranges" (the largest flux any steady state gives the
         reaction, two linear programs per reaction with an energy), "bounds" (its flux bounds), or
@@ -123,11 +127,15 @@ class ProblemOptions:
     log_bound_overrides: dict[str, tuple[float, float]] = field(default_factory=dict)
     quick_routes: bool = True
     flux_caps: str = "auto"
+    confirm_infeasible: str = "auto"
 
     def __post_init__(self) -> None:
         if self.flux_caps not in FLUX_CAP_POLICIES:
             raise InputError(f"flux_caps must be one of {', '.join(FLUX_CAP_POLICIES)}, got "
                              f"{self.flux_caps!r}")
+        if self.confirm_infeasible not in ("auto", "always", "never"):
+            raise InputError(f"confirm_infeasible must be auto, always or never, got "
+                             f"{self.confirm_infeasible!r}")
         if self.unknown_energy not in UNKNOWN_ENERGY_POLICIES:
             raise InputError(f"unknown_energy must be 'free' or 'block', got {self.unknown_energy!r}")
         if not (math.isfinite(self.min_driving_force) and self.min_driving_force >= 0):
@@ -147,6 +155,7 @@ class ProblemOptions:
             "time_limit_s": self.time_limit,
             "quick_routes": self.quick_routes,
             "flux_caps": self.flux_caps,
+            "confirm_infeasible": self.confirm_infeasible,
         }
 
 
@@ -492,6 +501,16 @@ class ThermoProblem:
         xv = self.x_vars[self.metabolite_index[metabolite_id]]
         return float(xv.lb), float(xv.ub)
 
+    def start_from_last_point(self) -> bool:
+        """Hand the point of the last solve (a point of the problem, e.g. from
+        :meth:`solve_fixed`) to the next mixed-integer solve as its starting point (HiGHS; GLPK
+        takes none through this interface). Returns whether the solver took it."""
+        values = getattr(self, "_last_values", None)
+        if self.solver_name != "highs" or not values:
+            return False
+        self.solver.problem.settings["mip_start"] = dict(values)
+        return True
+
     def add_constraint(self, coefficients: dict, lb: float | None, ub: float | None, name: str):
         """Add a linear constraint (integer cuts, fixed directions); removed with the problem."""
         c = self.solver.interface.Constraint(Zero, lb=lb, ub=ub, name=name, sloppy=True)
@@ -711,13 +730,17 @@ class ThermoProblem:
 
     def solve_fixed(self, forward: np.ndarray, backward: np.ndarray, uphill: np.ndarray | None,
                     what: str = "the thermodynamic flux problem",
-                    time_limit: float | None = None) -> Solution:
+                    time_limit: float | None = None,
+                    uphill_open: tuple[np.ndarray, np.ndarray] | None = None) -> Solution:
         """The linear program of one pattern: every 0/1 variable fixed (direction binaries to
         ``forward``/``backward``, uphill binaries to ``uphill``, or 0 when None) and the flux
         column of every closed direction fixed at zero, so that no flux passes where the pattern
         closes the way (a column bound is exact; a row is met only to the solver's tolerance).
         The 0/1 variables are made continuous for the solve (GLPK then runs its simplex method,
         HiGHS its LP solver) and restored afterwards. Keeps the objective.
+
+        An uphill step (``uphill`` True) may carry flux either way, or only in the directions
+        ``uphill_open`` (forward mask, backward mask) leaves open.
 
         Raises InfeasibleProblem when the pattern has no point (which proves nothing about other
         patterns).
@@ -733,8 +756,10 @@ class ThermoProblem:
             if self.u_vars:
                 fixed.append((self.u_vars[j], 1.0 if up[j] else 0.0))
             reaction = self.reactions[self.energy_reaction_index[j]]
-            for column, open_ in ((reaction.forward_variable, f_on or up[j]),
-                                  (reaction.reverse_variable, b_on or up[j])):
+            up_f = up[j] and (uphill_open is None or bool(uphill_open[0][j]))
+            up_b = up[j] and (uphill_open is None or bool(uphill_open[1][j]))
+            for column, open_ in ((reaction.forward_variable, f_on or up_f),
+                                  (reaction.reverse_variable, b_on or up_b)):
                 if open_ or column.ub == 0:
                     continue
                 if column.lb > 0:   # the pattern closes a direction whose flux is required
@@ -762,6 +787,7 @@ class ThermoProblem:
 
     def _read_solution(self, seconds: float) -> Solution:
         primal = self.solver.primal_values
+        self._last_values = primal
         fluxes = self.flux_scale * np.array([primal[r.id] - primal[r.reverse_id]
                                              for r in self.reactions], float)
         x = np.array([primal[v.name] for v in self.x_vars], float)

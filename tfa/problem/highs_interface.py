@@ -155,6 +155,12 @@ class HighsProblem(mi.MatrixProblem):
         highs = hs.Highs()
         highs.passOptions(self._options())
         highs.passModel(lp)
+        start = self.settings.pop("mip_start", None)
+        if start and self.integer_vars:
+            # a known point (name -> value) for the branch and bound to start from (one solve)
+            given = hs.HighsSolution()
+            given.col_value = [float(start.get(name, 0.0)) for name in self.variables]
+            highs.setSolution(given)
         if highs.run() == hs.HighsStatus.kError and highs.getModelStatus() == hs.HighsModelStatus.kNotset:
             # HiGHS keeps one thread scheduler per process; another user of highspy in the same
             # process (a notebook) may have started it with another thread count, and HiGHS then
