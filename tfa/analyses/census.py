@@ -20,7 +20,7 @@ import pandas as pd
 
 from ..errors import InputError
 from ..network.thermo_model import MODES, ThermoModel
-from .results import AnalysisResult, provenance_of
+from .results import AnalysisResult, provenance_of, verification
 
 MILLIMOLAR = 1e-3
 
@@ -119,6 +119,8 @@ def census(tm: ThermoModel, ratio: float = 100.0) -> CensusResult:
     result = CensusResult(conditions=tm.conditions, mode=tm.mode, ratio=ratio, table=table)
     result.provenance = provenance_of(tm)
     result.provenance["note"] = "no optimisation: no certificate needed"
+    result.verification = verification("computed", "arithmetic on the reaction energies at fixed "
+                                       "concentrations (no optimisation)")
     return result
 
 
@@ -148,4 +150,6 @@ def census_by_mode(model, environment, modes: Iterable[str] = MODES, ratio: floa
             conditions = tm.conditions
             results.append(census(tm, ratio))
     return ModeCensusResult(conditions=conditions, results=results,
-                            provenance={"modes": [r.provenance for r in results]})
+                            provenance={"modes": [r.provenance for r in results]},
+                            verification=verification("computed", "arithmetic on the reaction "
+                                                      "energies of every mode (no optimisation)"))

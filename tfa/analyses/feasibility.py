@@ -21,7 +21,7 @@ from ..network.thermo_model import MODES, ThermoModel
 from ..problem.builder import ProblemOptions, Solution, ThermoProblem
 from ..problem.solvers import InfeasibleProblem
 from .results import (AnalysisResult, certificate_words, certify, concentration_table,
-                      confirm_infeasible, provenance_of, reaction_table, verification)
+                      confirm_infeasible, provenance_of, reaction_table, verification, weakest)
 from .uphill import ImpossibleDemandError, UphillResult, minimal_uphill_set
 
 log = logging.getLogger(__name__)
@@ -224,4 +224,6 @@ def feasibility_by_mode(model, environment, modes: Iterable[str] = MODES,
     for r in results:
         out.certificates.extend(r.certificates)
     out.provenance = {"modes": [r.provenance for r in results]}
+    out.verification = weakest([r.verification for r in results],
+                               [r.mode for r in results])
     return out

@@ -91,6 +91,23 @@ def verification(status: str, check: str, **details) -> dict:
     return {"status": status, "check": check, **details}
 
 
+def weakest(entries: list[dict], labels: list[str]) -> dict:
+    """One verification for several answers: the weakest status among them (in the order
+    certified/computed < proven < solver proof < best found) and each part's check, labelled.
+
+    >>> weakest([{"status": "certified", "check": "a"}, {"status": "proven", "check": "b"}],
+    ...         ["native", "h2_only"])["status"]
+    'proven'
+    """
+    order = {"computed": 0, "certified": 0, "proven": 1, "solver proof": 2, "best found": 3}
+    parts = [(label, e) for label, e in zip(labels, entries) if e]
+    if not parts:
+        return {}
+    status = max((e["status"] for _, e in parts), key=lambda s: order.get(s, 4))
+    return verification(status, "; ".join(f"{label}: {e['status']} ({e['check']})"
+                                          for label, e in parts))
+
+
 def certificate_words(certificate: Certificate, what: str = "the steady state") -> str:
     """What the independent check of one point verified, in plain words."""
     return (f"{what} passed the independent numpy check: mass balance {certificate.mass_balance_residual:.1e}"
