@@ -166,6 +166,63 @@ def perturb_energies(tm, v_star, seed: int = PERTURB_SEED) -> list[str]:
     return [ids[j] for j in chosen]
 
 
+def replicated_network(n_reactions: int):
+    """The bundled network with its internal reactions copied until it has about
+    ``n_reactions``: each copy has its own compounds, except those with a role (carriers,
+    nucleotides, water, H+, H2, phosphate), which all copies share, as in a genome-scale model."""
+    import cobra
+
+    from tfa.network.bundled import load_bundled_network
+    from tfa.network.checks import is_boundary_reaction
+    from tfa.network.roles import metabolite_role
+
+    model = load_bundled_network()
+    shared = {m.id for m in model.metabolites if metabolite_role(m) is not None}
+    internal = [r for r in model.reactions if not is_boundary_reaction(r)]
+    copies = max(0, (n_reactions - len(model.reactions)) // len(internal))
+    new_mets: dict = {}
+    added = []
+    for k in range(copies):
+        for r in internal:
+            reaction = cobra.Reaction(f"{r.id}__{k}", lower_bound=r.lower_bound, upper_bound=r.upper_bound)
+            terms = {}
+            for m, c in r.metabolites.items():
+                if m.id in shared:
+                    terms[m] = c
+                    continue
+                mid = f"{m.id}__{k}"
+                if mid not in new_mets:
+                    new_mets[mid] = m.copy()
+                    new_mets[mid].id = mid
+                terms[new_mets[mid]] = c
+            reaction.add_metabolites(terms)
+            reaction.notes = dict(r.notes)
+            added.append(reaction)
+    model.add_reactions(added)
+    return model
+
+
+def bench_rewrites(sizes=(1000, 5000, 20000)) -> list:
+    """Time of applying each mode (and undoing it) to replicated networks of growing size."""
+    from tfa.network.rewrites import apply_mode
+    from tfa.network.thermo_model import MODES
+
+    rows = []
+    print("\n== applying a mode (one batch), seconds: apply / apply and undo", flush=True)
+    for size in sizes:
+        model = replicated_network(size)
+        line = []
+        for mode in MODES:
+            started = time.perf_counter()
+            with apply_mode(model, mode):
+                applied = time.perf_counter() - started
+            undone = time.perf_counter() - started
+            line.append(f"{mode} {applied:.2f}/{undone:.2f}")
+            rows.append((len(model.reactions), mode, applied, undone))
+        print(f"  {len(model.reactions):6d} reactions: " + ", ".join(line), flush=True)
+    return rows
+
+
 class _Undetermined:
     """Stands for a task that hit its time limit (printed as such, never as a time)."""
 
@@ -321,6 +378,9 @@ def main(argv=None) -> int:
     parser.add_argument("--repeats", type=int, default=3)
     parser.add_argument("--skip-genome", action="store_true")
     parser.add_argument("--skip-bundled", action="store_true")
+    parser.add_argument("--skip-rewrites", action="store_true")
+    parser.add_argument("--rewrite-sizes", default="1000,5000,20000",
+                        help="network sizes (reactions) of the mode-rewrite timing")
     parser.add_argument("--solvers", default="glpk,highs")
     parser.add_argument("--time-limit", type=float, default=300.0)
     parser.add_argument("--seeds", default=str(SEED),
@@ -330,6 +390,8 @@ def main(argv=None) -> int:
     logging.getLogger("bench").setLevel(logging.INFO)
     from tfa.problem.solvers import resolve_solver
 
+    if not args.skip_rewrites:
+        bench_rewrites(tuple(int(x) for x in args.rewrite_sizes.split(",")))
     networks = []
     if not args.skip_bundled:
         try:
