@@ -103,7 +103,7 @@ def test_exact_milp_when_no_quick_route_finds_a_point(solver, solver_calls, monk
     # the exact MILP's point is confirmed by the linear program with its directions fixed
     assert solver_calls == ["lp", "lp", "exact", "lp"]
     assert_detour_taken(sol)
-    assert problem.solver.configuration.tolerances.integrality == builder.SOLVER_TOLERANCES["integrality"]
+    assert problem.solver.configuration.tolerances.integrality == problem.tolerances["integrality"]
 
 
 @pytest.mark.parametrize("solver", available_solvers())
@@ -144,4 +144,4 @@ def test_quick_routes_leave_the_problem_as_it_was(solver):
         assert problem._objective_is_zero
         assert [(v.lb, v.ub) for v in binaries] == before
         tolerance = problem.solver.configuration.tolerances.integrality
-        assert tolerance == builder.SOLVER_TOLERANCES["integrality"]
+        assert tolerance == problem.tolerances["integrality"]

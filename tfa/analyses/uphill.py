@@ -192,6 +192,13 @@ def forced_uphill(problem: ThermoProblem) -> list[str]:
 FORCED_FLUX = 1e-6
 
 
+#: Rounds of the first-set heuristic (:func:`_start_set`): each reroutes the least-flux pattern
+#: around the steps the previous round let run uphill.
+START_ROUNDS = 3
+#: Cost per unit of (scaled) flux through a step that an earlier round let run uphill.
+REROUTE_COST = 10.0
+
+
 def _start_set(problem: ThermoProblem, forced: list[str]) -> Solution | None:
     """A first uphill set, as a point of the problem, from the flux pattern of least total flux.
 
@@ -199,30 +206,50 @@ def _start_set(problem: ThermoProblem, forced: list[str]) -> Solution | None:
        the number of uphill steps plus 1e-3 of the total flux: a flux pattern P.
     2. Over concentrations and slacks alone (a linear program, :func:`_fewest_violations`), the
        least weighted excess s_j >= d_j g_j + delta of the steps of P, reweighted three times
-       (w_j = 1 / (s_j + 0.1), which drives most s_j to zero): the steps with s_j > 0 form the set.
-    3. :meth:`ThermoProblem.solve_fixed` on P with that set uphill: a point of the problem, or
-       None. The set's size is an upper bound of the minimum.
+       (w_j = 1 / (s_j + 0.1), which drives most s_j to zero): the steps with s_j > 0 form a set.
+    3. Up to :data:`START_ROUNDS` rounds, each making flux through the steps of the sets found so
+       far (other than those uphill in every solution) cost :data:`REROUTE_COST` per unit, so
+       that the pattern goes round them where it can; the smallest set is kept.
+    4. :meth:`ThermoProblem.solve_fixed` on its pattern with that set uphill: a point of the
+       problem, or None. The set's size is an upper bound of the minimum.
     """
     binaries = problem.f_vars + problem.b_vars + problem.u_vars
-    objective = {v: 1.0 for v in problem.u_vars}
+    base = {v: 1.0 for v in problem.u_vars}
     for r in problem.reactions:
-        objective[r.forward_variable] = objective[r.reverse_variable] = 1e-3
-    problem.set_objective(objective, "min")
+        base[r.forward_variable] = base[r.reverse_variable] = 1e-3
+    avoided: set[int] = set()
+    best = None
+    forced_set = set(forced)
     try:
-        for v in binaries:
-            v.type = "continuous"
-        try:
-            status = optimize(problem.solver, problem.options.time_limit)
-            relaxed = problem._read_solution(0.0) if status == "optimal" else None
-        finally:
+        for _ in range(START_ROUNDS):
+            objective = dict(base)
+            for j in avoided:
+                reaction = problem.reactions[problem.energy_reaction_index[j]]
+                objective[reaction.forward_variable] = objective[reaction.reverse_variable] = REROUTE_COST
+            problem.set_objective(objective, "min")
             for v in binaries:
-                v.type = "integer"
-        if relaxed is None:
+                v.type = "continuous"
+            try:
+                status = optimize(problem.solver, problem.options.time_limit)
+                relaxed = problem._read_solution(0.0) if status == "optimal" else None
+            finally:
+                for v in binaries:
+                    v.type = "integer"
+            if relaxed is None:
+                break
+            forward, backward = problem.flux_pattern(relaxed)
+            uphill = _fewest_violations(problem, forward, backward, forced_set)
+            if uphill is None:
+                break
+            if best is None or uphill.sum() < best[2].sum():
+                best = (forward, backward, uphill)
+            if uphill.sum() <= len(forced):
+                break
+            avoided |= {int(j) for j in np.flatnonzero(uphill)
+                        if problem.energy_ids[j] not in forced_set}
+        if best is None:
             return None
-        forward, backward = problem.flux_pattern(relaxed)
-        uphill = _fewest_violations(problem, forward, backward, set(forced))
-        if uphill is None:
-            return None
+        forward, backward, uphill = best
         problem.set_objective({v: 1.0 for v in problem.u_vars}, "min")
         try:
             return problem.solve_fixed(forward & ~uphill, backward & ~uphill, uphill,
@@ -317,7 +344,10 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
         result.provenance = provenance_of(tm, options, problem)
         count = {v: 1.0 for v in problem.u_vars}
         index = {rid: j for j, rid in enumerate(problem.energy_ids)}
-        if try_downhill_first:
+        # steps uphill in every solution: when there are any, the network is infeasible as it
+        # stands and the downhill-only question need not be asked
+        forced = forced_uphill(problem)
+        if try_downhill_first and not forced:
             for v in problem.u_vars:
                 v.set_bounds(0, 0)
             try:
@@ -336,7 +366,6 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                 result.verification = verification("certified", certificate_words(cert),
                                                    bound=0, gap=0.0)
                 return result
-        forced = forced_uphill(problem)
         result.lower_bound = len(forced)
         for rid in forced:
             problem.u_vars[index[rid]].lb = 1
@@ -371,8 +400,16 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                         raise
                     sol = start      # nothing better found in time: the first set
                     sol.objective, sol.bound, sol.proven = float(len(start.uphill)), None, False
-                if k == 0 and start is not None and not sol.proven and len(start.uphill) < len(sol.uphill):
-                    start.objective, start.bound, start.proven = float(len(start.uphill)), sol.bound, False
+                if k == 0 and start is not None and len(start.uphill) < len(sol.uphill):
+                    # the first set is smaller: a search stopped early, or a wrong proof (the
+                    # first set is a point of the problem): keep it, not proven
+                    if sol.proven:
+                        checks.append(f"{problem.solver_name} claimed a minimum of {len(sol.uphill)}, "
+                                      f"contradicted by a set of {len(start.uphill)}")
+                        log.warning("minimal uphill set: %s claimed %d, a certified set of %d exists",
+                                    problem.solver_name, len(sol.uphill), len(start.uphill))
+                    start.objective, start.proven = float(len(start.uphill)), False
+                    start.bound = float(len(forced))
                     sol = start
                 if sol.bound is not None:
                     sol.bound = max(sol.bound, float(len(forced)))

@@ -42,6 +42,10 @@ from .solvers import (InfeasibleProblem, best_bound, check_status, has_point, op
 
 log = logging.getLogger(__name__)
 
+#: Statuses of a search stopped by a limit (time, iterations, nodes), after which the best point
+#: found may be returned (ThermoProblem.solve with accept_best).
+STOPPED_BY_A_LIMIT = (optlang_status.TIME_LIMIT, optlang_status.FEASIBLE, optlang_status.SUBOPTIMAL,
+                      optlang_status.ITERATION_LIMIT, optlang_status.NODE_LIMIT)
 #: Mixed-integer points tried before a problem whose points its fixed-direction linear program
 #: never confirms is given up (a ComputationError): the first with the MIP presolve, the rest
 #: without, each further one with the previous pattern cut off.
@@ -57,10 +61,17 @@ DEFAULT_MIN_DRIVING_FORCE = 0.1
 #: Default time limit of one solve, s.
 DEFAULT_TIME_LIMIT = 300.0
 UNKNOWN_ENERGY_POLICIES = ("free", "block")
-#: Solver tolerances set on the model's solver: tight enough that thresholds agree with their
-#: analytic values to 1e-6 relative and that 0/1 variables are 0 or 1 to 1e-9 (so a blocked
-#: direction lets through at most 1e-9 * U of flux).
-SOLVER_TOLERANCES = {"feasibility": 1e-9, "integrality": 1e-9}
+#: Solver tolerances set on the model's solver: feasibility tight enough that thresholds agree
+#: with their analytic values to 1e-6 relative; integrality 1e-9 (GLPK) or 1e-7 (HiGHS), so a
+#: mixed-integer point can pass at most that times U (1e-5 or 1e-3 of the flux scale) through a
+#: closed direction, and every point is solved again with its 0/1 values fixed
+#: (ThermoProblem.solve), which passes none. At 1e-9 HiGHS with its presolve proved a wrong
+#: minimum: 3 uphill steps on the perturbed Salmonella instance of scripts/bench_engine.py, where
+#: a set of 2 passes the certificate (HiGHS finds it at 1e-7, or without its presolve); GLPK at
+#: 1e-7 left the bundled network's native question at demand 10 undetermined after 120 s (0.3 s
+#: at 1e-9).
+SOLVER_TOLERANCES = {"glpk": {"feasibility": 1e-9, "integrality": 1e-9},
+                     "highs": {"feasibility": 1e-9, "integrality": 1e-7}}
 #: HiGHS ``mip_heuristic_effort`` for our MILPs (HiGHS default 0.05); see ThermoProblem._build.
 HIGHS_HEURISTIC_EFFORT = 0.25
 #: Flux caps of the direction rows: "ranges" (steady-state flux ranges, :mod:`tfa.problem.flux_ranges`),
@@ -220,6 +231,7 @@ class ThermoProblem:
         started = time.perf_counter()
         self.solver_name = use_solver(self.model, self.options.solver)
         self.solver = self.model.solver
+        self.tolerances = SOLVER_TOLERANCES.get(self.solver_name, SOLVER_TOLERANCES["glpk"])
         self._variables: list = []
         self._constraints: list = []
         self._extra_constraints: list = []
@@ -390,7 +402,7 @@ class ThermoProblem:
         elif self.solver_name == "glpk":
             _tune_glpk(solver)
         tolerances = solver.configuration.tolerances
-        for name, value in SOLVER_TOLERANCES.items():
+        for name, value in self.tolerances.items():
             try:
                 setattr(tolerances, name, value)
             except Exception:  # noqa: BLE001 - an interface without that tolerance keeps its own
@@ -571,7 +583,7 @@ class ThermoProblem:
                 status = optimize(self.solver, time_left(), first_point=self._objective_is_zero,
                                   presolve=presolve)
                 best = (accept_best and not self._objective_is_zero
-                        and status != optlang_status.OPTIMAL and has_point(self.solver))
+                        and status in STOPPED_BY_A_LIMIT and has_point(self.solver))
                 if not best:
                     check_status(status, what, self.options.time_limit)
                 bound = None if self._objective_is_zero else best_bound(self.solver, status)
@@ -682,7 +694,7 @@ class ThermoProblem:
             status = optimize(self.solver, time_limit, first_point=True)
             found = self._read_solution(0.0) if status == optlang_status.OPTIMAL else None
         finally:
-            tolerances.integrality = SOLVER_TOLERANCES["integrality"]
+            tolerances.integrality = self.tolerances["integrality"]
         pattern = None if found is None else (found.forward, found.backward)
         return self._repaired(status, pattern, what, time_limit, "the loose search")
 

@@ -37,6 +37,11 @@ SOLVER_NAMES = ("glpk", "highs")
 #: points can fail the certificate, so that search is only one of the quick routes, whose points
 #: are repaired at exact 0/1 values (tfa.problem.builder.ThermoProblem._loose_point).
 GLPK_ANY_POINT_BACKTRACKING = "GLP_BT_BPH"
+#: GLPK's MIP presolve (glp_intopt's ``presolve``): off. It returned points that break a row by
+#: about 1e-6 and let the search time out where it finds a point at once without it: the bundled
+#: network's native question at demand 10, three hash seeds (column orders): undetermined after
+#: 20 s with it, 1.7-3.0 s without (the loose search: 0.01 s without, 20 s with).
+GLPK_MIP_PRESOLVE = False
 
 
 class InfeasibleProblem(ComputationError):
@@ -157,8 +162,8 @@ def optimize(model_solver, time_limit: float | None, first_point: bool = False,
     """Solve an optlang model once, within ``time_limit`` seconds; return its optlang status.
 
     HiGHS (and any other interface): ``model_solver.optimize()``. GLPK: one call of
-    ``glp_intopt`` (``glp_simplex`` for a problem without integer columns) with GLPK's presolver
-    on, instead of optlang's GLPK ``optimize``, which solves the relaxation once before the
+    ``glp_intopt`` (``glp_simplex`` for a problem without integer columns), its MIP presolve off
+    (:data:`GLPK_MIP_PRESOLVE`), instead of optlang's GLPK ``optimize``, which solves the relaxation once before the
     branch and bound and repeats the whole solve (up to four branch-and-bound runs) whenever the
     answer is "infeasible" or the time limit is hit: an infeasible answer cost four times a
     feasible one and a time limit of N s could run for 4N s.
@@ -251,7 +256,11 @@ def _optimize_glpk(model_solver, time_limit: float | None, first_point: bool,
     limit_ms = 2**31 - 1 if time_limit is None else int(min(2**31 - 1, math.ceil(time_limit * 1000)))
     if glpk.glp_get_num_int(lp) == 0:
         code = glpk.glp_simplex(lp, _glpk_simplex_parameters(model_solver, limit_ms))
-        if code in (glpk.GLP_EBADB, glpk.GLP_ESING, glpk.GLP_ECOND):
+        if code in (glpk.GLP_EBADB, glpk.GLP_ESING, glpk.GLP_ECOND) or (
+                code == 0 and glpk.glp_get_status(lp) == glpk.GLP_NOFEAS):
+            # a warm start can end in a wrong "no feasible point" (seen on a four-reaction
+            # network after other problems were solved in the process): once more from a
+            # fresh basis, whose answer stands
             glpk.glp_adv_basis(lp, 0)
             code = glpk.glp_simplex(lp, _glpk_simplex_parameters(model_solver, limit_ms))
         solved_status = glpk.glp_get_status
@@ -261,22 +270,25 @@ def _optimize_glpk(model_solver, time_limit: float | None, first_point: bool,
         settings = model_solver.configuration._iocp
         for name in ("tol_int", "tol_obj", "mip_gap", "fp_heur"):
             setattr(iocp, name, getattr(settings, name))
-        iocp.presolve = glpk.GLP_ON if presolve else glpk.GLP_OFF
+        presolve = presolve and GLPK_MIP_PRESOLVE
         iocp.msg_lev = glpk.GLP_MSG_OFF
         iocp.tm_lim = limit_ms
         if first_point:
             iocp.bt_tech = getattr(glpk, GLPK_ANY_POINT_BACKTRACKING)
-        code = 0
         if not presolve:   # without its presolver glp_intopt starts from an optimal LP basis
             code = glpk.glp_simplex(lp, _glpk_simplex_parameters(model_solver, limit_ms))
+            if code != 0:  # the basis left by the last problem did not serve: a fresh one
+                glpk.glp_adv_basis(lp, 0)
+                code = glpk.glp_simplex(lp, _glpk_simplex_parameters(model_solver, limit_ms))
             if code == 0 and glpk.glp_get_status(lp) != glpk.GLP_OPT:
                 relaxed = glpk.glp_get_status(lp)
                 model_solver._status = (optlang_status.INFEASIBLE
                                         if relaxed in (glpk.GLP_NOFEAS, glpk.GLP_INFEAS)
                                         else optlang_status.UNDEFINED)
                 return model_solver._status
-        if code == 0:
-            code = glpk.glp_intopt(lp, iocp)
+            presolve = code != 0   # no optimal basis: glp_intopt's presolver starts afresh
+        iocp.presolve = glpk.GLP_ON if presolve else glpk.GLP_OFF
+        code = glpk.glp_intopt(lp, iocp)
         solved_status = glpk.glp_mip_status
     found = solved_status(lp) in (glpk.GLP_OPT, glpk.GLP_FEAS)
     if first_point and found:        # any integer point answers the question, whatever the code
