@@ -1,10 +1,10 @@
 """Side-by-side timing of the feasibility engine against plain and loopless flux balance.
 
-Networks: the bundled ancestral network (when ``tfa.network.bundled`` and
-``tfa.network.energies`` are present) and cobra's bundled genome-scale E. coli model iJO1366.
-iJO1366 carries no reaction energies: the script gives it SYNTHETIC standard energies from a fixed
-seed, built so that a loopless flux solution is downhill at mid-range concentrations (so the
-instance is feasible and the timings mean something):
+Networks: the bundled ancestral network and cobra's bundled genome-scale models iJO1366 (E. coli,
+2,583 reactions) and "salmonella" (S. Typhimurium LT2, 3,357 reactions), both loaded offline from
+cobra's package data. They carry no reaction energies: the script gives them SYNTHETIC standard
+energies from a fixed seed, built so that a loopless flux solution is downhill at mid-range
+concentrations (so the instance is feasible and the timings mean something):
 
 1. a loopless flux solution v* (cobra's CycleFreeFlux LP) at the maximal growth rate;
 2. chemical potentials mu (kJ/mol) closest in L1 to random normal targets (seed 20240601,
@@ -14,19 +14,28 @@ instance is feasible and the timings mean something):
 3. Delta_r G'deg_j = S_j^T mu - RT sum_i S_ij ln(1e-4): at 0.1 mM of every compound
    (mid-range of 1 uM .. 10 mM) each reaction carrying flux in v* is downhill by >= 1 kJ/mol.
 
+The minimal uphill set is timed on an instance that needs uphill steps: the bundled network in
+bare chemistry, and each genome-scale model PERTURBED (:func:`perturb_energies`, seed 11): two
+steps every steady state needs and three more that carry flux in v* made uphill at every
+concentration, so that at least two steps must be driven.
+
 Timed, per network and per solver (GLPK, HiGHS): plain flux balance (LP), cobra's loopless flux
 balance (add_loopless, MILP; its build and its solve, in a child process killed at the time
 limit), our feasibility (build + solve + certificate + tables; also with the quick routes off,
-the exact MILP alone), our minimal uphill set, a 20-point H2 scan (build once + 20 solves).
-Medians of repeated runs; ratios to plain flux balance and to loopless on the same solver; a
-task that hits the time limit is printed as "undetermined within N s", never as a time.
+the exact MILP alone), feasibility and the minimal uphill set on the instance needing uphill
+steps, a 20-point H2 scan (build once + 20 solves), and first the time of applying each mode to
+networks of 1,000 to 20,000 reactions (the bundled network's reactions copied). Medians of
+repeated runs; ratios to plain flux balance and to loopless on the same solver; a task that hits
+the time limit is printed as "undetermined within N s", never as a time.
 
 A summary at the end gives, per network and solver, the ratios the engine is judged by: our
-feasibility against loopless flux balance on the same solver, the build time, and the 20-point
-scan against one feasibility solve.
+feasibility and our minimal uphill set against loopless flux balance on the same solver, and the
+minimal uphill set against the feasibility check of the same instance (target: at most 5 with
+HiGHS).
 
 Usage: python scripts/bench_engine.py [--repeats 3] [--skip-genome] [--skip-bundled]
-       [--time-limit 300] [--seeds 20240601,7,3] [--solvers glpk,highs]
+       [--skip-rewrites] [--genome-models iJO1366,salmonella] [--time-limit 300]
+       [--seeds 20240601,7,3] [--solvers glpk,highs]
 """
 
 from __future__ import annotations
@@ -316,8 +325,11 @@ def loopless_in_child(model, solver: str, time_limit: float) -> tuple:
     return build, (seconds if status == "optimal" else _Undetermined(f"{limit} ({status})"))
 
 
-def bench_network(label: str, tm, solver: str, repeats: int, time_limit: float) -> dict:
-    """Time the six tasks on one ThermoModel with one solver."""
+def bench_network(label: str, tm, solver: str, repeats: int, time_limit: float,
+                  uphill_tm=None) -> dict:
+    """Time the tasks on one ThermoModel with one solver; the minimal uphill set (and a
+    feasibility check beside it) on ``uphill_tm``, an instance of the same network that needs
+    uphill steps (the bundled network's bare chemistry, a perturbed genome-scale instance)."""
     from tfa.analyses.feasibility import feasibility
     from tfa.analyses.hydrogen import h2_scan
     from tfa.analyses.uphill import minimal_uphill_set
@@ -362,8 +374,16 @@ def bench_network(label: str, tm, solver: str, repeats: int, time_limit: float) 
     exact_only = replace(opts, quick_routes=False)
     out["  feasibility, exact MILP only"], _ = timed(
         lambda: feasibility(tm, exact_only, diagnose=False), repeats)
-    out["our minimal uphill set"], res = timed(lambda: minimal_uphill_set(tm, opts), repeats)
-    out["  (uphill set size)"] = len(res.sets[0]) if getattr(res, "sets", None) else None
+    if uphill_tm is not None:
+        use_solver(uphill_tm.model, solver)
+        out["feasibility, needing uphill steps"], res = timed(
+            lambda: feasibility(uphill_tm, opts, diagnose=False), repeats)
+        out["  (feasible, needing uphill steps)"] = getattr(res, "feasible", None)
+        out["our minimal uphill set"], res = timed(lambda: minimal_uphill_set(uphill_tm, opts),
+                                                   repeats)
+        out["  (uphill set size)"] = len(res.sets[0]) if getattr(res, "sets", None) else None
+        out["  (uphill set status)"] = (res.verification.get("status")
+                                        if res is not None else None)
     h2 = {k.lower(): v for k, v in tm.feed_ids.items()}.get("h2")
     if h2:
         levels = np.logspace(math.log10(H2_RANGE[0]), math.log10(H2_RANGE[1]), 20)
@@ -383,6 +403,8 @@ def main(argv=None) -> int:
                         help="network sizes (reactions) of the mode-rewrite timing")
     parser.add_argument("--solvers", default="glpk,highs")
     parser.add_argument("--time-limit", type=float, default=300.0)
+    parser.add_argument("--genome-models", default=",".join(GENOME_MODELS),
+                        help="cobra's bundled genome-scale models to time (iJO1366, salmonella)")
     parser.add_argument("--seeds", default=str(SEED),
                         help="comma-separated seeds of the synthetic iJO1366 energies")
     args = parser.parse_args(argv)
@@ -398,22 +420,26 @@ def main(argv=None) -> int:
             from tfa.network.bundled import load_bundled_network
             from tfa.network.energies import prepare
             from tfa.network.environment import bundled_environment
-            networks.append(("bundled ancestral network", lambda solver: prepare(
-                load_bundled_network(), bundled_environment(), "native")))
+            networks.append(("bundled ancestral network", lambda solver: (
+                prepare(load_bundled_network(), bundled_environment(), "native"),
+                prepare(load_bundled_network(), bundled_environment(), "no_atp_bare"))))
         except ImportError as err:
             print(f"bundled network skipped: {err}")
     if not args.skip_genome:
-        for seed in (int(s) for s in args.seeds.split(",")):
-            networks.append((f"iJO1366 (SYNTHETIC energies, seed {seed})",
-                             lambda solver, seed=seed: synthetic_genome_model(
-                                 resolve_solver(solver)[1], seed)))
+        for name in args.genome_models.split(","):
+            for seed in (int(s) for s in args.seeds.split(",")):
+                networks.append((f"{name} (SYNTHETIC energies, seed {seed})",
+                                 lambda solver, seed=seed, name=name: (
+                                     synthetic_genome_model(resolve_solver(solver)[1], seed, name),
+                                     synthetic_genome_model(resolve_solver(solver)[1], seed, name,
+                                                            perturb=True))))
     rows = []
     for label, make in networks:
         for solver in args.solvers.split(","):
-            tm = make(solver)
+            tm, uphill_tm = make(solver)
             print(f"\n== {label}, solver {solver}: {len(tm.model.reactions)} reactions, "
                   f"{len(tm.energies)} with energy", flush=True)
-            result = bench_network(label, tm, solver, args.repeats, args.time_limit)
+            result = bench_network(label, tm, solver, args.repeats, args.time_limit, uphill_tm)
             fba = result["flux balance (LP)"]
             ll = result["loopless flux balance (MILP)"]
             for task, value in result.items():
@@ -429,26 +455,30 @@ def main(argv=None) -> int:
 
 
 def print_summary(rows: list) -> None:
-    """One line per network and solver: the three ratios the engine is judged by."""
+    """Per network and solver: the ratios the engine is judged by (times in s)."""
     def ratio(a, b):
         return f"{a / b:8.2f}" if isinstance(a, float) and isinstance(b, float) and b > 0 else \
             f"{'n/a':>8s}"
 
-    print("\n== summary (times in s; 'n/a' where a task hit its time limit)")
-    print(f"  {'network':44s} {'solver':6s} {'loopless':>9s} {'ours':>9s} {'ours/ll':>8s} "
-          f"{'exact':>9s} {'build':>7s} {'scan':>9s} {'scan/ours':>9s}")
+    def shown(value):
+        return f"{value:9.2f}" if isinstance(value, float) else f"{'undet.':>9s}"
+
+    print("\n== summary (times in s; 'n/a' where a task hit its time limit; 'uphill' on the "
+          "instance needing uphill steps, 'feas.u' the feasibility check of that instance)")
+    print(f"  {'network':40s} {'solver':6s} {'loopless':>9s} {'ours':>9s} {'ours/ll':>8s} "
+          f"{'feas.u':>9s} {'uphill':>9s} {'up/ll':>8s} {'up/feas.u':>9s} {'exact':>9s} "
+          f"{'build':>7s} {'scan':>9s}")
     for label, solver, result in rows:
         ll = result.get("loopless flux balance (MILP)")
         ours = result.get("our feasibility")
+        feas_u = result.get("feasibility, needing uphill steps")
+        uphill = result.get("our minimal uphill set")
         scan = result.get("our 20-point H2 scan")
         build = result.get("  build of our problem")
         exact = result.get("  feasibility, exact MILP only")
-
-        def shown(value):
-            return f"{value:9.2f}" if isinstance(value, float) else f"{'undet.':>9s}"
-
-        print(f"  {label[:44]:44s} {solver:6s} {shown(ll)} {shown(ours)} {ratio(ours, ll)} "
-              f"{shown(exact)} {build:7.2f} {shown(scan)} {ratio(scan, ours):>9s}")
+        print(f"  {label[:40]:40s} {solver:6s} {shown(ll)} {shown(ours)} {ratio(ours, ll)} "
+              f"{shown(feas_u)} {shown(uphill)} {ratio(uphill, ll)} {ratio(uphill, feas_u):>9s} "
+              f"{shown(exact)} {build:7.2f} {shown(scan) if scan is not None else f'{chr(45):>9s}'}")
 
 
 if __name__ == "__main__":

@@ -37,10 +37,14 @@ SOLVER_NAMES = ("glpk", "highs")
 #: points can fail the certificate, so that search is only one of the quick routes, whose points
 #: are repaired at exact 0/1 values (tfa.problem.builder.ThermoProblem._loose_point).
 GLPK_ANY_POINT_BACKTRACKING = "GLP_BT_BPH"
-#: GLPK's MIP presolve (glp_intopt's ``presolve``): off. It returned points that break a row by
-#: about 1e-6 and let the search time out where it finds a point at once without it: the bundled
-#: network's native question at demand 10, three hash seeds (column orders): undetermined after
-#: 20 s with it, 1.7-3.0 s without (the loose search: 0.01 s without, 20 s with).
+#: GLPK's MIP presolve (glp_intopt's ``presolve``) for yes/no questions: off. It returned points
+#: that break a row by about 1e-6 and let the search time out where it finds a point at once
+#: without it: the bundled network's native question at demand 10, three hash seeds (column
+#: orders): undetermined after 20 s with it, 1.7-3.0 s without (the loose search: 0.01 s without,
+#: 20 s with). Optimisations keep it on the first try (the bundled network's minimal uphill set
+#: with H2 in place of carriers at demand 1e-6: best set 5, unproven, after 120 s without it; 1,
+#: proven, in seconds with it); every point is confirmed by its fixed-direction linear program
+#: and the search repeated without the presolve when it is not.
 GLPK_MIP_PRESOLVE = False
 
 
@@ -270,12 +274,17 @@ def _optimize_glpk(model_solver, time_limit: float | None, first_point: bool,
         settings = model_solver.configuration._iocp
         for name in ("tol_int", "tol_obj", "mip_gap", "fp_heur"):
             setattr(iocp, name, getattr(settings, name))
-        presolve = presolve and GLPK_MIP_PRESOLVE
+        presolve = presolve and (GLPK_MIP_PRESOLVE or not first_point)
         iocp.msg_lev = glpk.GLP_MSG_OFF
         iocp.tm_lim = limit_ms
         if first_point:
             iocp.bt_tech = getattr(glpk, GLPK_ANY_POINT_BACKTRACKING)
         if not presolve:   # without its presolver glp_intopt starts from an optimal LP basis
+            # from a basis built afresh (glp_adv_basis), not the one the last problem left: the
+            # search then does not depend on what was solved before (on the bundled network the
+            # native question took 0.3 s from a fresh problem and ran past 30 s after a problem
+            # was built and removed; 0.8 s with the fresh basis, 1.8 s from the standard basis)
+            glpk.glp_adv_basis(lp, 0)
             code = glpk.glp_simplex(lp, _glpk_simplex_parameters(model_solver, limit_ms))
             if code != 0:  # the basis left by the last problem did not serve: a fresh one
                 glpk.glp_adv_basis(lp, 0)
