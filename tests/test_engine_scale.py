@@ -129,3 +129,21 @@ def test_highs_after_another_use_of_highspy_in_the_same_process():
     done = subprocess.run([sys.executable, "-c", script], capture_output=True, text=True, timeout=120)
     assert done.returncode == 0, done.stderr[-2000:]
     assert done.stdout.strip().splitlines()[-1] == "True"
+
+
+@pytest.mark.parametrize("policy", ["free", "block"])
+def test_a_two_sided_demand_is_never_a_reaction_without_an_energy(policy):
+    # a lumped biomass reaction has products too (iJO1366's makes ADP, phosphate and H+): as the
+    # environment's demand it is a boundary, so neither policy for reactions without an energy
+    # touches its lower bound of 1. A (1 mM) <=> B at -5 kJ/mol with B down to 1 uM is downhill
+    # (-5 + RT ln(1e-6/1e-3) = -22.1 kJ/mol), so the network is feasible.
+    tm = build_thermo_model({"R1": ("A <=> B", -5.0, 1.0), "GROWTH": ("B -> X", None, 0.0)},
+                            {"A": (1e-3, 1e-3), "B": (1e-6, 1e-2), "X": (1e-6, 1e-2)},
+                            exchanges={"A": (-10, 10), "X": (0, 10)}, solver="glpk")
+    tm.model.reactions.GROWTH.lower_bound = 1.0
+    tm.demand_id = "GROWTH"
+    assert tm.reaction_kinds() == {"R1": "internal", "GROWTH": "demand", "EX_A": "exchange",
+                                   "EX_X": "exchange"}
+    result = feasibility(tm, ProblemOptions(solver="glpk", unknown_energy=policy))
+    assert result.feasible and result.reactions_without_energy == []
+    assert result.solution.flux("GROWTH") >= 1.0 - 1e-9
