@@ -12,6 +12,7 @@ demand flux.
 from __future__ import annotations
 
 import logging
+import math
 from dataclasses import dataclass, field
 from typing import Callable, Iterable
 
@@ -120,7 +121,9 @@ def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
     if outcome == "point":
         result.verification["check"] += f"; {words}"
         return result
-    how = "its linear relaxation has no point" if "relaxation" in proof else "branch and bound"
+    how = ("its linear relaxation has none" if "relaxation has none" in proof
+           else "its loose search has none" if "loose search has none" in proof
+           else "branch and bound")
     check = f"no point: {solver} ({how}); {words}"
     status = "proven" if outcome == "confirmed" else "solver proof"
     result.feasible = False
@@ -143,14 +146,16 @@ def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
     amounts = diagnosis.uphill_by[0] if diagnosis.uphill_by else {}
     short = diagnosis.short_by[0] if diagnosis.short_by else {}
     listed = ", ".join(_uphill_words(r, amounts.get(r, float("nan")), short.get(r)) for r in members)
+    best = diagnosis.verification.get("status") == "best found"
     result.message = (f"infeasible: no steady state meets the demand with every reaction "
-                      f"downhill; at least {diagnosis.size} reaction(s) must be driven uphill "
-                      f"(coupled to an energy source): {listed}"
+                      f"downhill; {'at most' if best else 'at least'} {diagnosis.size} "
+                      f"reaction(s) must be driven uphill (coupled to an energy source): {listed}"
                       + (f"; {len(diagnosis.sets)} alternative minimal sets"
                          if len(diagnosis.sets) > 1 else ""))
-    if diagnosis.verification.get("status") == "best found":
-        result.message += (" (the best set found within the time limit; the solver proved at "
-                           f"least {diagnosis.verification.get('bound')})")
+    if best:
+        bound = diagnosis.verification.get("bound")
+        result.message += (" (the best set found within the time limit; at least "
+                           f"{0 if bound is None else math.ceil(bound - 1e-6)} proven)")
     result.verification = verification(status, f"{check}; diagnosis: {diagnosis.verification['check']}",
                                        diagnosis_status=diagnosis.verification.get("status"))
     return result

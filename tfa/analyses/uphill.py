@@ -449,7 +449,8 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                      f"{result.lower_bound} step(s) uphill in every solution (flux ranges)"]
             words += checks
             words.append(f"minimality {'proven' if status == 'proven' else 'not proven'}: "
-                         f"{problem.solver_name}'s bound {bound}")
+                         f"bound {bound} (the larger of {problem.solver_name}'s and the steps "
+                         "uphill in every solution)")
             result.verification["check"] = "; ".join(words)
     if impossible:
         raise impossible_demand(tm, "the uphill-set problem")

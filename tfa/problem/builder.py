@@ -709,7 +709,8 @@ class ThermoProblem:
         a larger set); otherwise :meth:`solve_with_pattern` on the directions it found, or None
         when they have no point (nothing proven)."""
         if status in (optlang_status.INFEASIBLE, optlang_status.INFEASIBLE_OR_UNBOUNDED):
-            check_status(status, what, self.options.time_limit)
+            raise InfeasibleProblem(f"{what}: no point satisfies all constraints (infeasible: "
+                                    f"{source} has none)")
         if pattern is None:
             log.debug("%s: %s ended %s", what, source, status)
             return None
