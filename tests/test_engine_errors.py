@@ -99,16 +99,22 @@ def test_model_left_as_it_was():
 def test_glpk_answers_infeasible_with_one_branch_and_bound(monkeypatch):
     # optlang's own GLPK optimize solves the relaxation first and repeats the whole solve when
     # the answer is not "optimal"; tfa.problem.solvers.optimize calls glp_intopt once, so a
-    # "no" costs what a "yes" costs. B >= 0.5 M makes R1 uphill everywhere: -5 + RT ln(500)
-    # = +10.4 kJ/mol at 298.15 K (Alberty 2003, eq. 4.1-4). The quick routes are off: their
-    # pattern LPs and loose search are glp_intopt calls too (tests/test_quick_routes.py).
+    # "no" costs what a "yes" costs. A (1 mM) <=> P at +10 kJ/mol runs forward only when
+    # P < 1e-3 exp(-10.1/RT) = 1.70e-5 M, P <=> Q at 0 kJ/mol only when P > Q exp(0.1/RT) >=
+    # 1.04e-4 M (Q >= 0.1 mM): both cannot run, so the demand on Q cannot be met downhill, while
+    # the linear relaxation (0/1 variables between 0 and 1) has a point, so the branch and
+    # bound must decide (Alberty 2003, eq. 4.1-4, at 298.15 K). The quick routes are off: they
+    # are linear programs and a loose search of their own (tests/test_quick_routes.py).
     import swiglpk
 
     calls = []
     real = swiglpk.glp_intopt
     monkeypatch.setattr(swiglpk, "glp_intopt", lambda lp, parm: calls.append(1) or real(lp, parm))
     options = ProblemOptions(solver="glpk", quick_routes=False)
-    with ThermoProblem(net("glpk", b_bounds=(0.5, 1.0)), options) as problem:
+    tm = build_thermo_model({"R1": ("A <=> P", 10.0, 1.0), "R2": ("P <=> Q", 0.0, 1.0)},
+                            {"A": (1e-3, 1e-3), "P": (1e-6, 1e-2), "Q": (1e-4, 1e-2)},
+                            exchanges={"A": (-10.0, 10.0)}, demand=("Q", 1.0), solver="glpk")
+    with ThermoProblem(tm, options) as problem:
         with pytest.raises(InfeasibleProblem, match="no point satisfies"):
             problem.solve()
     assert calls == [1]
@@ -126,9 +132,10 @@ def test_glpk_time_limit_is_reported_as_undetermined(monkeypatch):
         return swiglpk.GLP_ETMLIM
 
     monkeypatch.setattr(swiglpk, "glp_intopt", stopped)
-    with ThermoProblem(net("glpk"), ProblemOptions(solver="glpk", time_limit=3)) as problem:
+    # the quick routes are off: they are linear programs (glp_simplex), which would answer first
+    options = ProblemOptions(solver="glpk", time_limit=3, quick_routes=False)
+    with ThermoProblem(net("glpk"), options) as problem:
         with pytest.raises(UndeterminedError, match="undetermined within 3 s"):
             problem.solve()
-    # one branch-and-bound call, given what is left of the 3 s after the quick routes' first
-    # linear program (glp_simplex, not stopped here)
+    # one branch-and-bound call, given what is left of the 3 s
     assert len(calls) == 1 and 2000 < calls[0] <= 3000

@@ -29,7 +29,7 @@ from tfa.constants import CELSIUS_ZERO, R
 from tfa.errors import InputError
 from tfa.network.environment import Environment
 from tfa.conditions import Conditions
-from tfa.problem.builder import DEFAULT_MIN_DRIVING_FORCE
+from tfa.problem.options import DEFAULT_MIN_DRIVING_FORCE
 from tfa.util.points import HASH_SEED, read_results
 
 HERE = Path(__file__).resolve().parent

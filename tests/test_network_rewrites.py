@@ -197,3 +197,42 @@ def test_bifurcating_hydrogenase_disappears_under_h2_only(model):
     assert balance_report(model).set_index("reaction").loc["HYDABC", "implicit_protons"] == 0
     with h2_only(model) as summary:
         assert "HYDABC" in summary.removed
+
+
+def solver_terms(model: cobra.Model, rid: str) -> dict[str, float]:
+    """The reaction's column as the solver holds it (compound row -> coefficient; rows of
+    compounds only)."""
+    variable = model.solver.variables[rid]
+    out = {}
+    for row in model.solver.constraints:
+        c = row.get_linear_coefficients([variable])[variable]
+        if c and row.name in model.metabolites:
+            out[row.name] = float(c)
+    return out
+
+
+@pytest.mark.parametrize("extra_rows", [False, True])
+def test_batch_rewrite_keeps_solver_and_network_in_step(model, extra_rows):
+    # the rewrites change the network in one batch (see tfa.network.rewrites); the solver must
+    # hold the rewritten stoichiometry (EC 1.1.1.27 LDH: pyruvate + H2 -> lactate, worked out in
+    # the test above), also when another problem has added its own rows and columns to the
+    # solver, and everything must come back exactly, also when two rewrites are nested
+    if extra_rows:
+        extra = model.problem.Variable("extra_column", lb=0, ub=1)
+        model.solver.add([extra])
+        row = model.problem.Constraint(extra + model.reactions.LDH.forward_variable, ub=1000,
+                                       name="extra_row")
+        model.solver.add([row])
+    before = snapshot(model)
+    with h2_only(model):
+        assert solver_terms(model, "LDH") == {"pyr": -1, "h2": -1, "lac": 1}
+        assert solver_terms(model, "FDH") == stoich(model, "FDH")
+        with no_atp_bare_chemistry(model):
+            assert solver_terms(model, "ACK") == stoich(model, "ACK")
+            assert solver_terms(model, "LDH") == {"pyr": -1, "h2": -1, "lac": 1}
+            model.slim_optimize()
+        assert "HYD" not in model.solver.variables
+    assert snapshot(model) == before
+    assert solver_terms(model, "LDH") == stoich(model, "LDH")
+    if extra_rows:
+        assert "extra_row" in model.solver.constraints and "extra_column" in model.solver.variables

@@ -1,4 +1,4 @@
-"""The quick routes of yes/no questions (tfa.problem.builder.ThermoProblem.solve).
+"""The quick routes of yes/no questions (tfa.problem.search, ThermoProblem.solve).
 
 Before the exact MILP, a yes/no question tries the flux pattern of least total flux (the
 objective of parsimonious flux balance, Lewis et al. 2010, Mol. Syst. Biol. 6:390) as a linear
@@ -17,7 +17,8 @@ import pytest
 sys.path.insert(0, str(Path(__file__).parent))
 from engine_networks import build_thermo_model  # noqa: E402
 
-import tfa.problem.builder as builder  # noqa: E402
+import tfa.problem.search as search  # noqa: E402
+from tfa.problem.options import LOOSE_INTEGRALITY  # noqa: E402
 from tfa.analyses import feasibility  # noqa: E402
 from tfa.analyses.results import certify  # noqa: E402
 from tfa.problem import InfeasibleProblem, ProblemOptions, ThermoProblem, available_solvers  # noqa: E402
@@ -59,17 +60,17 @@ def solver_calls(monkeypatch):
     a pattern with every 0/1 variable fixed), "loose" (the MILP at the loose integrality
     tolerance) or "exact" (the MILP at the working tolerance)."""
     calls = []
-    real = builder.optimize
+    real = search.optimize
 
-    def spy(model_solver, time_limit, first_point=False):
+    def spy(model_solver, time_limit, first_point=False, presolve=True):
         if not first_point:
             calls.append("lp")
         else:
-            loose = model_solver.configuration.tolerances.integrality == builder.LOOSE_INTEGRALITY
+            loose = model_solver.configuration.tolerances.integrality == LOOSE_INTEGRALITY
             calls.append("loose" if loose else "exact")
-        return real(model_solver, time_limit, first_point)
+        return real(model_solver, time_limit, first_point, presolve)
 
-    monkeypatch.setattr(builder, "optimize", spy)
+    monkeypatch.setattr(search, "optimize", spy)
     return calls
 
 
@@ -100,9 +101,10 @@ def test_exact_milp_when_no_quick_route_finds_a_point(solver, solver_calls, monk
     with ThermoProblem(detour_network(solver), ProblemOptions(solver=solver)) as problem:
         sol = problem.solve()
         certify(problem, sol)
-    assert solver_calls == ["lp", "lp", "exact"]
+    # the exact MILP's point is confirmed by the linear program with its directions fixed
+    assert solver_calls == ["lp", "lp", "exact", "lp"]
     assert_detour_taken(sol)
-    assert problem.solver.configuration.tolerances.integrality == builder.SOLVER_TOLERANCES["integrality"]
+    assert problem.solver.configuration.tolerances.integrality == problem.tolerances["integrality"]
 
 
 @pytest.mark.parametrize("solver", available_solvers())
@@ -143,4 +145,4 @@ def test_quick_routes_leave_the_problem_as_it_was(solver):
         assert problem._objective_is_zero
         assert [(v.lb, v.ub) for v in binaries] == before
         tolerance = problem.solver.configuration.tolerances.integrality
-        assert tolerance == builder.SOLVER_TOLERANCES["integrality"]
+        assert tolerance == problem.tolerances["integrality"]

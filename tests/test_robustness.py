@@ -26,7 +26,7 @@ from tfa.analyses.robustness import robustness, robustness_points
 from tfa.conditions import Conditions
 from tfa.constants import R
 from tfa.errors import InputError
-from tfa.problem.builder import DEFAULT_MIN_DRIVING_FORCE, ProblemOptions
+from tfa.problem.options import DEFAULT_MIN_DRIVING_FORCE, ProblemOptions
 
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE))

@@ -25,7 +25,7 @@ _EXPORTS = {
     "load_environment": ("tfa.network.inputs", "load_environment"),
     "ThermoDatabase": ("tfa.thermo.database", "ThermoDatabase"),
     "Conditions": ("tfa.conditions", "Conditions"),
-    "ProblemOptions": ("tfa.problem.builder", "ProblemOptions"),
+    "ProblemOptions": ("tfa.problem.options", "ProblemOptions"),
     "MODES": ("tfa.modes", "MODES"),
 }
 

@@ -23,7 +23,8 @@ from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions, ThermoProblem
 from ..problem.solvers import InfeasibleProblem, check_status, optimize, resolve_solver
 from ..verify.certificate import CertificateInput, check_solution
-from .results import AnalysisResult, certify, concentration_table, provenance_of
+from .results import (AnalysisResult, certificate_words, certify, concentration_table,
+                      optimum_words, provenance_of, verification)
 
 #: Bottleneck: a reaction whose -d g lies within this of B, kJ/mol.
 BOTTLENECK_TOLERANCE = 1e-6
@@ -158,6 +159,9 @@ def pathway_driving_force(tm: ThermoModel, directions: dict[str, int],
     result.provenance["solver"] = name
     result.provenance["pathway"] = dict(directions)
     result.certificates.append(cert)
+    result.verification = verification(
+        "proven", certificate_words(cert, "the concentrations") + f"; the optimum of a linear "
+        f"program ({name}), whose optimality its solver proves", bound=b, gap=0.0)
     return result
 
 
@@ -175,7 +179,7 @@ def network_driving_force(tm: ThermoModel, options: ProblemOptions | None = None
         result.provenance = provenance_of(tm, options, problem)
         problem.set_objective({problem.b_var: 1.0}, "max")
         try:
-            sol = problem.solve("max-min driving force of the network")
+            sol = problem.solve("max-min driving force of the network", accept_best=True)
         except InfeasibleProblem:
             from .uphill import impossible_demand_message
 
@@ -183,6 +187,10 @@ def network_driving_force(tm: ThermoModel, options: ProblemOptions | None = None
         b = float(sol.driving_force)
         cert = certify(problem, sol, min_driving_force=b)
         result.certificates.append(cert)
+        status, details = optimum_words(sol, "B")
+        result.verification = verification(
+            status, certificate_words(cert) + f" at B = {b:.4g} kJ/mol; optimality: "
+            f"{problem.solver_name}'s bound {details.get('bound')}", **details)
         g = cert.recomputed_energies
         index = problem.energy_reaction_index
         v = sol.fluxes[index]

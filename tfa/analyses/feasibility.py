@@ -12,6 +12,7 @@ demand flux.
 from __future__ import annotations
 
 import logging
+import math
 from dataclasses import dataclass, field
 
 import pandas as pd
@@ -19,8 +20,8 @@ import pandas as pd
 from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions, Solution, ThermoProblem
 from ..problem.solvers import InfeasibleProblem
-from .results import (AnalysisResult, concentration_table, certify, provenance_of,
-                      reaction_table)
+from .results import (AnalysisResult, certificate_words, certify, concentration_table,
+                      confirm_infeasible, provenance_of, reaction_table, verification)
 from .uphill import ImpossibleDemandError, UphillResult, minimal_uphill_set
 
 log = logging.getLogger(__name__)
@@ -135,45 +136,83 @@ def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
     with ThermoProblem(tm, options) as problem:
         result.provenance = provenance_of(tm, options, problem)
         result.reactions_without_energy = list(problem.unknown_energy_ids)
+        solver = problem.solver_name
         try:
             sol = problem.solve(f"feasibility ({tm.mode})")
-        except InfeasibleProblem:
+        except InfeasibleProblem as err:
             infeasible = True
+            proof = str(err)
         else:
-            cert = certify(problem, sol)
-            result.certificates.append(cert)
-            result.feasible = True
-            result.solution = sol
-            result._reactions = reaction_table(problem, sol, cert)
-            result._concentrations = concentration_table(sol)
-            free = len(problem.unknown_energy_ids)
-            result.message = ("feasible: a steady state meets the demand with every reaction that "
-                              "carries flux running downhill"
-                              + (f" ({free} reaction(s) without an energy were left "
-                                 f"{'free' if options.unknown_energy == 'free' else 'blocked'})"
-                                 if free else ""))
-    if infeasible:
-        result.feasible = False
-        if not diagnose:
-            result.message = ("infeasible: no steady state meets the demand with every reaction "
-                              "downhill")
-            return result
-        try:
-            diagnosis = minimal_uphill_set(tm, options, alternatives=alternatives,
-                                           try_downhill_first=False)
-        except ImpossibleDemandError as err:
-            result.demand_impossible = True
-            result.message = f"infeasible: {err}"
-            return result
-        result.diagnosis = diagnosis
-        result.certificates.extend(diagnosis.certificates)
-        members = diagnosis.sets[0] if diagnosis.sets else []
-        amounts = diagnosis.uphill_by[0] if diagnosis.uphill_by else {}
-        listed = ", ".join(f"{r} (uphill by {amounts.get(r, float('nan')):.1f} kJ/mol)"
-                           for r in members)
-        result.message = (f"infeasible: no steady state meets the demand with every reaction "
-                          f"downhill; at least {diagnosis.size} reaction(s) must be driven uphill "
-                          f"(coupled to an energy source): {listed}"
-                          + (f"; {len(diagnosis.sets)} alternative minimal sets"
-                             if len(diagnosis.sets) > 1 else ""))
+            _feasible(result, problem, sol, certify(problem, sol), options)
+    if not infeasible:
+        return result
+    outcome, words = confirm_infeasible(
+        tm, options, f"feasibility ({tm.mode})",
+        on_point=lambda problem, sol, cert: _feasible(result, problem, sol, cert, options))
+    if outcome == "point":
+        result.verification["check"] += f"; {words}"
+        return result
+    how = ("its linear relaxation has none" if "relaxation has none" in proof
+           else "its loose search has none" if "loose search has none" in proof
+           else "branch and bound")
+    check = f"no point: {solver} ({how}); {words}"
+    status = "proven" if outcome == "confirmed" else "solver proof"
+    result.feasible = False
+    if not diagnose:
+        result.message = ("infeasible: no steady state meets the demand with every reaction "
+                          "downhill")
+        result.verification = verification(status, check)
+        return result
+    try:
+        diagnosis = minimal_uphill_set(tm, options, alternatives=alternatives,
+                                       try_downhill_first=False)
+    except ImpossibleDemandError as err:
+        result.demand_impossible = True
+        result.message = f"infeasible: {err}"
+        result.verification = verification(status, f"{check}; {err.verification['check']}")
+        return result
+    result.diagnosis = diagnosis
+    result.certificates.extend(diagnosis.certificates)
+    members = diagnosis.sets[0] if diagnosis.sets else []
+    amounts = diagnosis.uphill_by[0] if diagnosis.uphill_by else {}
+    short = diagnosis.short_by[0] if diagnosis.short_by else {}
+    listed = ", ".join(_uphill_words(r, amounts.get(r, float("nan")), short.get(r)) for r in members)
+    best = diagnosis.verification.get("status") == "best found"
+    result.message = (f"infeasible: no steady state meets the demand with every reaction "
+                      f"downhill; {'at most' if best else 'at least'} {diagnosis.size} "
+                      f"reaction(s) must be driven uphill (coupled to an energy source): {listed}"
+                      + (f"; {len(diagnosis.sets)} alternative minimal sets"
+                         if len(diagnosis.sets) > 1 else ""))
+    if best:
+        bound = diagnosis.verification.get("bound")
+        result.message += (" (the best set found within the time limit; at least "
+                           f"{0 if bound is None else math.ceil(bound - 1e-6)} proven)")
+    result.verification = verification(status, f"{check}; diagnosis: {diagnosis.verification['check']}",
+                                       diagnosis_status=diagnosis.verification.get("status"))
     return result
+
+
+def _feasible(result: FeasibilityResult, problem: ThermoProblem, sol: Solution, cert,
+              options: ProblemOptions) -> None:
+    """Fill a feasible answer from a certified point."""
+    result.certificates.append(cert)
+    result.feasible = True
+    result.solution = sol
+    result._reactions = reaction_table(problem, sol, cert)
+    result._concentrations = concentration_table(sol)
+    free = len(problem.unknown_energy_ids)
+    result.message = ("feasible: a steady state meets the demand with every reaction that "
+                      "carries flux running downhill"
+                      + (f" ({free} internal reaction(s) without an energy were left "
+                         f"{'free' if options.unknown_energy == 'free' else 'blocked'})"
+                         if free else ""))
+    result.verification = verification("certified", certificate_words(cert)
+                                       + f" ({sol.solver}, {sol.confirmed_by})")
+
+
+def _uphill_words(reaction: str, uphill_by: float, short_by: float | None) -> str:
+    """One member of a minimal uphill set in words: how far uphill it runs (never negative) and,
+    when it runs downhill by less than the least driving force, by how much it falls short."""
+    if short_by is not None and uphill_by <= 0.0:
+        return f"{reaction} (short of the least driving force by {short_by:.2g} kJ/mol)"
+    return f"{reaction} (uphill by {uphill_by:.1f} kJ/mol)"

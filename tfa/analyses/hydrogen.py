@@ -30,7 +30,8 @@ from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions, Solution, ThermoProblem
 from ..problem.solvers import InfeasibleProblem
 from ..vocabulary import DEFAULT_H2_LEVELS, DEFAULT_H2_RANGE
-from .results import AnalysisResult, certify, provenance_of
+from .results import (AnalysisResult, certificate_words, certify, confirm_infeasible, optimum_words,
+                      provenance_of, verification)
 
 log = logging.getLogger(__name__)
 
@@ -218,6 +219,12 @@ def h2_scan(tm: ThermoModel, levels: Sequence[float], options: ProblemOptions | 
     table["h2_unit"] = result.unit
     result.table = table[SCAN_COLUMNS]
     tick(len(arr) + n_infeasible_max)
+    n_no = len(infeasible)
+    result.verification = verification(
+        "certified" if n_no == 0 else "solver proof",
+        f"{len(rows) - n_no} feasible level(s): each point passed the independent numpy check"
+        + (f"; {n_no} infeasible level(s): no point, by {main.solver or 'the default solver'}'s "
+           "branch and bound (not re-asked of the other solver)" if n_no else ""))
     return result
 
 
@@ -275,23 +282,39 @@ def h2_threshold(tm: ThermoModel, options: ProblemOptions | None = None, h2_id: 
             raise InputError(f"H2 compound {h2} takes part in no reaction with an energy, so there "
                              "is no H2 threshold")
         problem.set_objective({problem.x_vars[problem.metabolite_index[h2]]: 1.0}, "min")
+        solver = problem.solver_name
         try:
-            sol = problem.solve("H2 threshold")
+            sol = problem.solve("H2 threshold", accept_best=True)
         except InfeasibleProblem:
-            result.message = (f"infeasible at every H2 level from {lo:.3g} to {hi:.3g}: no H2 supply "
-                              "in this range lets the network run downhill; see the minimal uphill "
-                              "set for which steps need driving")
-            return result
-        result.certificates.append(certify(problem, sol))
-        x = float(sol.log_conc[problem.metabolite_index[h2]])
-        result.feasible = True
-        result.threshold = math.exp(x)
-        result.solution = sol
-        at_floor = abs(x - math.log(lo)) < 1e-9
-        result.message = (f"the least H2 at which the network is feasible is "
-                          f"{result.threshold:.4g} {result.unit}"
-                          + (" (the bottom of the range searched: lower it to look further)"
-                             if at_floor else ""))
+            sol = None
+        if sol is not None:
+            cert = certify(problem, sol)
+            result.certificates.append(cert)
+            status, details = optimum_words(sol, "ln H2")
+            result.verification = verification(
+                status, certificate_words(cert) + f" at the threshold; optimality: {solver}'s "
+                f"bound on ln[H2] {details.get('bound')}", **details)
+    if sol is None:
+        outcome, words = confirm_infeasible(tm, opts, "H2 threshold")
+        result.message = (f"infeasible at every H2 level from {lo:.3g} to {hi:.3g}: no H2 supply "
+                          "in this range lets the network run downhill; see the minimal uphill "
+                          "set for which steps need driving")
+        result.verification = verification("proven" if outcome == "confirmed" else "solver proof",
+                                            f"no point: {solver} (branch and bound); {words}")
+        if outcome == "point":   # the other solver found a point: ask again for the least H2
+            return h2_threshold(tm, replace(options, solver="glpk" if solver == "highs" else "highs"),
+                                h2_id, h2_range)
+        return result
+    x = float(sol.log_conc[sol.metabolite_ids.index(h2)])
+    result.feasible = True
+    result.threshold = math.exp(x)
+    result.solution = sol
+    at_floor = abs(x - math.log(lo)) < 1e-9
+    result.message = (f"the least H2 at which the network is feasible is "
+                      f"{result.threshold:.4g} {result.unit}"
+                      + (" (the bottom of the range searched: lower it to look further)"
+                         if at_floor else "")
+                      + ("" if sol.proven else " (the best found within the time limit)"))
     return result
 
 

@@ -222,7 +222,8 @@ def outcome(tm: ThermoModel, options: ProblemOptions, parts=("uphill", "threshol
     diagnose = "uphill" in parts
     result = feasibility(tm, options, diagnose=diagnose)
     out: dict[str, Any] = {"feasible": bool(result.feasible),
-                           "demand_impossible": bool(result.demand_impossible)}
+                           "demand_impossible": bool(result.demand_impossible),
+                           "verification": result.verification.get("status")}
     if diagnose:
         if result.feasible:
             out["uphill_set_size"], out["uphill_set"] = 0, []
@@ -254,3 +255,13 @@ def _driving_force(tm: ThermoModel, options: ProblemOptions) -> float | None:
         return _number(network_driving_force(tm, options).driving_force)
     except InfeasibleProblem:
         return None
+
+
+def points_verification(records: list[dict]) -> dict:
+    """How the answers at the points are backed: the count of each verification status."""
+    from collections import Counter
+
+    counts = Counter(r.get("verification") for r in records if r.get("error") is None)
+    return {"status": "per point", "check": "each point's feasibility answer: "
+            + ", ".join(f"{n} {status or 'not recorded'}" for status, n in sorted(
+                counts.items(), key=lambda item: str(item[0])))}

@@ -29,7 +29,7 @@ import pandas as pd
 from ..errors import InputError
 from ..modes import parse_modes
 from ..util.points import RunSummary, run_and_read
-from .jobs import CONDITION_AXES, NetworkJob, outcome
+from .jobs import CONDITION_AXES, NetworkJob, outcome, points_verification
 
 log = logging.getLogger(__name__)
 
@@ -166,6 +166,7 @@ class MapResult:
                 "x": {"name": self.x_name, "values": self.x_values},
                 "y": {"name": self.y_name, "values": self.y_values}, "modes": self.modes,
                 "provenance": self.provenance,
+                "verification": points_verification(self.records),
                 "table": self.to_frame().to_dict(orient="records")}
 
 

@@ -31,11 +31,16 @@ class AnalysisResult:
     certificates : list of Certificate
         One passed independent check per solution behind the result (empty when no optimisation
         was needed).
+    verification : dict
+        What kind of answer this is and what backs it: ``status`` (one of
+        :data:`VERIFICATION_STATUSES`), ``check`` (plain words: what was checked, by what), and
+        for optimisations the solver's ``bound`` and relative ``gap``.
     """
 
     conditions: Conditions
     provenance: dict = field(default_factory=dict)
     certificates: list[Certificate] = field(default_factory=list)
+    verification: dict = field(default_factory=dict)
 
     analysis: str = "analysis"
 
@@ -59,8 +64,118 @@ class AnalysisResult:
             "conditions": self.conditions.to_dict(),
             "provenance": self.provenance,
             "certificates": [c.to_dict() for c in self.certificates],
+            "verification": dict(self.verification),
             "table": frame.to_dict(orient="records"),
         }
+
+
+#: Kinds of answer: "certified" (a returned point passed the independent numpy check), "proven"
+#: (a solver's proof, of infeasibility or of optimality, confirmed by a second route named in the
+#: check, or an optimum whose bound the solver proved), "solver proof" (a solver's proof of
+#: infeasibility that no second route confirmed), "best found" (a limit stopped the search: the
+#: best point found, certified, with the solver's bound and gap), "computed" (arithmetic, no
+#: optimisation).
+VERIFICATION_STATUSES = ("certified", "proven", "solver proof", "best found", "computed")
+#: A network with at most this many reactions with an energy has an "infeasible" answer re-asked
+#: of the other solver (ProblemOptions.confirm_infeasible "auto"); beyond it the second solver
+#: can take far longer than the first (GLPK on iJO1366, scripts/bench_engine.py).
+CONFIRM_AUTO_LIMIT = 1000
+#: Time limit of that second asking, s (at most the problem's own limit).
+CONFIRM_TIME_LIMIT = 60.0
+
+
+def verification(status: str, check: str, **details) -> dict:
+    """The ``verification`` entry of a result.
+
+    >>> verification("proven", "no point (HiGHS); confirmed by GLPK")["status"]
+    'proven'
+    """
+    if status not in VERIFICATION_STATUSES:
+        raise ValueError(f"unknown verification status {status!r}")
+    return {"status": status, "check": check, **details}
+
+
+def weakest(entries: list[dict], labels: list[str]) -> dict:
+    """One verification for several answers: the weakest status among them (in the order
+    certified/computed < proven < solver proof < best found) and each part's check, labelled.
+
+    >>> weakest([{"status": "certified", "check": "a"}, {"status": "proven", "check": "b"}],
+    ...         ["native", "h2_only"])["status"]
+    'proven'
+    """
+    order = {"computed": 0, "certified": 0, "proven": 1, "solver proof": 2, "best found": 3}
+    parts = [(label, e) for label, e in zip(labels, entries) if e]
+    if not parts:
+        return {}
+    status = max((e["status"] for _, e in parts), key=lambda s: order.get(s, 4))
+    return verification(status, "; ".join(f"{label}: {e['status']} ({e['check']})"
+                                          for label, e in parts))
+
+
+def certificate_words(certificate: Certificate, what: str = "the steady state") -> str:
+    """What the independent check of one point verified, in plain words."""
+    return (f"{what} passed the independent numpy check: mass balance {certificate.mass_balance_residual:.1e}"
+            f" (tolerance {certificate.flux_tolerance:.1e}), flux and concentration bounds, and the "
+            f"second law on {certificate.n_flux_carrying} reaction(s) carrying flux (tolerance "
+            f"{certificate.energy_tolerance:.1e} kJ/mol)")
+
+
+def optimum_words(solution: Solution, objective: str, integral: bool = False) -> tuple[str, dict]:
+    """Status and details of an optimum from the solver's bound: "proven" when the bound meets
+    the value (for a count, when the bound rounded up does), else "best found"."""
+    value, bound = solution.objective, solution.bound
+    details: dict = {"objective": value, "bound": bound}
+    if value is not None and bound is not None:
+        gap = abs(value - bound)
+        details["gap"] = gap / max(1.0, abs(value))
+        closed = (gap < 0.5) if integral else details["gap"] <= 1e-6
+    else:
+        closed = solution.proven
+        details["gap"] = 0.0 if closed else None
+    if solution.proven and closed:
+        return "proven", details
+    return "best found", details
+
+
+def confirm_infeasible(tm: ThermoModel, options: ProblemOptions, what: str,
+                       on_point=None) -> tuple[str, str]:
+    """Ask a yes/no question that one solver answered "no point" of the other solver.
+
+    Returns (outcome, words): "confirmed" (no point either), "undetermined" (the other solver hit
+    :data:`CONFIRM_TIME_LIMIT`), "skipped" (not asked: ``options.confirm_infeasible`` or the size
+    rule of :data:`CONFIRM_AUTO_LIMIT`, or the other solver is not installed) or "point" (the
+    other solver found a point, certified; ``on_point(problem, solution, certificate)`` is called
+    with it while its problem exists, and the first answer was wrong).
+    """
+    import dataclasses
+
+    from ..errors import UndeterminedError
+    from ..problem.solvers import InfeasibleProblem, available_solvers, resolve_solver
+
+    first = resolve_solver(options.solver)[0]
+    other = "glpk" if first == "highs" else "highs"
+    policy = options.confirm_infeasible
+    if policy == "never" or (policy == "auto" and len(tm.energies) > CONFIRM_AUTO_LIMIT):
+        return "skipped", (f"not re-asked of {other} (more than {CONFIRM_AUTO_LIMIT} reactions with "
+                           "an energy)" if policy == "auto" else f"not re-asked of {other}")
+    if other not in available_solvers():
+        return "skipped", f"not re-asked: {other} is not installed"
+    limit = min(CONFIRM_TIME_LIMIT, options.time_limit or CONFIRM_TIME_LIMIT)
+    copy = dataclasses.replace(tm, model=tm.model.copy())
+    second = dataclasses.replace(options, solver=other, time_limit=limit)
+    with ThermoProblem(copy, second) as problem:
+        try:
+            solution = problem.solve(f"{what}, asked of {other}")
+        except InfeasibleProblem:
+            return "confirmed", f"confirmed by {other} (no point either)"
+        except UndeterminedError:
+            return "undetermined", f"{other} undetermined within {limit:g} s"
+        certificate = certify(problem, solution)
+        if on_point is not None:
+            on_point(problem, solution, certificate)
+    log.warning("%s: %s found no point but %s found a certified one; the certified point is the "
+                "answer", what, first, other)
+    return "point", f"{first} found no point, {other} found one (certified), which is the answer"
 
 
 def provenance_of(tm: ThermoModel, options: ProblemOptions | None = None,

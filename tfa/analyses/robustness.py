@@ -38,7 +38,7 @@ from ..conditions import Conditions
 from ..errors import InputError
 from ..modes import STANDARD_MODES, parse_modes
 from ..util.points import RunSummary, run_and_read
-from .jobs import NetworkJob, outcome
+from .jobs import NetworkJob, outcome, points_verification
 from .uncertainty import energy_covariance, with_energies
 
 log = logging.getLogger(__name__)
@@ -212,6 +212,7 @@ class RobustnessResult:
                 "n_draws": self.n_draws, "sigma_scale": self.sigma_scale, "modes": self.modes,
                 "conditions": self.conditions.to_dict() if self.conditions else None,
                 "provenance": self.provenance,
+                "verification": points_verification(self.records),
                 **{name: frame.to_dict(orient="records") for name, frame in self.frames().items()}}
 
 

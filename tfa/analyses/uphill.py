@@ -20,17 +20,24 @@ from dataclasses import dataclass, field, replace
 import numpy as np
 import pandas as pd
 
-from ..errors import ComputationError
+from ..errors import ComputationError, UndeterminedError
 from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions, Solution, ThermoProblem
-from ..problem.solvers import InfeasibleProblem
-from .results import AnalysisResult, certify, provenance_of
+from ..problem.solvers import InfeasibleProblem, optimize
+from ..problem.scaling import FLUX_REACH
+from .results import AnalysisResult, certificate_words, certify, optimum_words, provenance_of, verification
 
 log = logging.getLogger(__name__)
 
 
 class ImpossibleDemandError(ComputationError):
-    """The demand cannot be met by the stoichiometry and flux bounds, whatever the energies."""
+    """The demand cannot be met by the stoichiometry and flux bounds, whatever the energies.
+
+    ``verification``: how that was established (the plain flux-balance linear program)."""
+
+    def __init__(self, message: str, verification: dict | None = None) -> None:
+        super().__init__(message)
+        self.verification = verification or {}
 
 
 @dataclass(kw_only=True)
@@ -44,12 +51,21 @@ class UphillResult(AnalysisResult):
     sets : list of list of str
         Alternative minimal sets (all of ``size``), at most the number asked for.
     uphill_by : list of dict
-        Per set: reaction -> d_j * Delta_r G' (kJ/mol) at the concentrations that make the set's
-        total uphill energy smallest (positive = uphill; d_j the flux direction, +1 or -1).
+        Per set: reaction -> how far it runs uphill, max(0, d_j * Delta_r G') (kJ/mol, never
+        negative; d_j the flux direction, +1 or -1), at the concentrations that make the set's
+        total uphill energy smallest.
     directions : list of dict
         Per set: reaction -> +1 (forward) or -1 (backward).
     exhausted : bool
         True when no further set of the same size exists.
+    short_by : list of dict
+        Per set: reaction -> d_j * Delta_r G' + delta, by how much the step misses the least
+        driving force delta at those concentrations (kJ/mol; positive for every member of a
+        proven minimal set, which is why it must be driven: a member can run slightly downhill,
+        by less than delta).
+    lower_bound : int
+        Steps known to be uphill in every solution before the search (a direction that every
+        steady state meeting the demand uses and that the concentration bounds make uphill).
     """
 
     size: int = 0
@@ -57,6 +73,8 @@ class UphillResult(AnalysisResult):
     uphill_by: list[dict[str, float]] = field(default_factory=list)
     directions: list[dict[str, int]] = field(default_factory=list)
     exhausted: bool = False
+    short_by: list[dict[str, float]] = field(default_factory=list)
+    lower_bound: int = 0
     analysis: str = "minimal uphill set"
 
     def to_frame(self) -> pd.DataFrame:
@@ -65,15 +83,21 @@ class UphillResult(AnalysisResult):
             for rid in members:
                 rows.append({"set": k + 1, "reaction": rid,
                              "direction": "forward" if self.directions[k].get(rid, 1) > 0 else "backward",
-                             "uphill_by_kJ_per_mol": self.uphill_by[k].get(rid, float("nan"))})
-        return pd.DataFrame(rows, columns=["set", "reaction", "direction", "uphill_by_kJ_per_mol"])
+                             "uphill_by_kJ_per_mol": self.uphill_by[k].get(rid, float("nan")),
+                             "short_by_kJ_per_mol": (self.short_by[k].get(rid, float("nan"))
+                                                     if k < len(self.short_by) else float("nan"))})
+        return pd.DataFrame(rows, columns=["set", "reaction", "direction", "uphill_by_kJ_per_mol",
+                                           "short_by_kJ_per_mol"])
 
     def summary(self) -> str:
         if self.size == 0:
             return "no reaction needs to run uphill: the network is feasible as it stands"
         listed = "; ".join(", ".join(s) for s in self.sets)
-        return (f"at least {self.size} reaction(s) must run uphill (coupled to an energy source); "
-                f"{len(self.sets)} minimal set(s): {listed}")
+        best = self.verification.get("status") == "best found"
+        return (f"{'at most' if best else 'at least'} {self.size} reaction(s) must run uphill "
+                f"(coupled to an energy source); {len(self.sets)} "
+                f"{'best set(s) found' if best else 'minimal set(s)'}: {listed}"
+                + (f" (the solver proved at least {self.verification.get('bound')})" if best else ""))
 
 
 def demand_capacity(tm: ThermoModel) -> float:
@@ -100,41 +124,199 @@ def impossible_demand_message(tm: ThermoModel) -> str:
     if np.isnan(capacity):
         return ("no steady state satisfies the flux bounds even without thermodynamics and with no "
                 f"demand on {tm.demand_id}: check the forced fluxes and the feed")
+    if capacity >= required * (1 - 1e-9):
+        return (f"the demand cannot be met within the flux reach: {tm.demand_id} can carry "
+                f"{capacity:g} ignoring thermodynamics, but not with every flux at most "
+                f"{FLUX_REACH:g} times the demand ({required:g}); check for fluxes that must be "
+                "that large")
     return (f"the demand cannot be met even ignoring thermodynamics: {tm.demand_id} must carry at "
             f"least {required:g}, but the stoichiometry and feed allow at most {capacity:g}; lower "
             "the demand or open the missing feed/exchange")
 
 
-def _uphill_amounts(problem: ThermoProblem, members: list[str], sol: Solution,
-                    options: ProblemOptions) -> tuple[dict[str, float], dict[str, int], Solution]:
-    """Fix the set, minimise sum d_j g_j over it; return amounts, directions and the solution."""
+def impossible_demand(tm: ThermoModel, what: str) -> ImpossibleDemandError:
+    """The error for a demand no steady state meets, with its verification: the uphill-set
+    problem (every step allowed uphill) has no point, and cobra's flux balance, a linear program
+    without any of the thermodynamic rows, gives the largest demand flux."""
+    message = impossible_demand_message(tm)
+    check = (f"{what} has no point with every step allowed uphill; a plain flux-balance linear "
+             f"program (cobra) gives the largest demand flux")
+    return ImpossibleDemandError(message, verification("proven", check))
+
+
+def _uphill_amounts(problem: ThermoProblem, members: list[str], sol: Solution
+                    ) -> tuple[dict[str, float], dict[str, float], dict[str, int], Solution]:
+    """Fix the set and the flux pattern, minimise sum d_j g_j over the set (a linear program);
+    return how far each member runs uphill (never negative), by how much it misses the least
+    driving force, the directions and the solution."""
     index = {rid: j for j, rid in enumerate(problem.energy_ids)}
-    directions = {}
-    for rid in members:
-        directions[rid] = 1 if sol.flux(rid) >= 0 else -1
-    # fix every 0/1 variable at its value in the minimal-set solution: what remains is a linear
-    # program over concentrations and fluxes (the best concentrations for this flux pattern)
-    member_set = set(members)
-    fixed = [(v, 1.0 if problem.energy_ids[j] in member_set else 0.0)
-             for j, v in enumerate(problem.u_vars)]
-    fixed += [(v, 1.0 if on else 0.0) for v, on in zip(problem.f_vars, sol.forward)]
-    fixed += [(v, 1.0 if on else 0.0) for v, on in zip(problem.b_vars, sol.backward)]
-    saved = [(v, v.lb, v.ub) for v, _ in fixed]
-    for v, value in fixed:
-        v.set_bounds(value, value)
+    directions = {rid: 1 if sol.flux(rid) >= 0 else -1 for rid in members}
+    uphill = np.isin(problem.energy_ids, members)
+    forward = np.array([directions.get(r, 0) > 0 for r in problem.energy_ids])
+    backward = np.array([directions.get(r, 0) < 0 for r in problem.energy_ids])
+    problem.set_objective({problem.g_vars[index[r]]: float(directions[r]) for r in members}, "min")
+    best = problem.solve_fixed(sol.forward, sol.backward, uphill, "least uphill energy of the set",
+                               uphill_open=(forward, backward))
+    delta = problem.options.min_driving_force
+    signed = {r: float(directions[r] * best.energies[index[r]]) for r in members}
+    amounts = {r: max(0.0, v) for r, v in signed.items()}
+    short = {r: v + delta for r, v in signed.items()}
+    return amounts, short, directions, best
+
+
+def forced_uphill(problem: ThermoProblem) -> list[str]:
+    """Steps uphill in every solution, known before any search: a direction that every steady
+    state meeting the bounds uses (least flux along it > 0, one linear program each,
+    :func:`tfa.problem.flux_ranges.least_signed_fluxes`) and that no concentration in the box
+    makes downhill by the least driving force (interval bounds of Delta_r G',
+    :mod:`tfa.problem.bigm`). Every uphill set contains them."""
+    from ..problem.flux_ranges import least_signed_fluxes
+
+    wanted, signs = [], []
+    for j, rid in enumerate(problem.energy_ids):
+        col = problem.energy_reaction_index[j]
+        if problem.scaled_upper[col] > 0 and not problem.big_m.forward_possible[j]:
+            wanted.append(col), signs.append(1.0)
+        if problem.scaled_lower[col] < 0 and not problem.big_m.backward_possible[j]:
+            wanted.append(col), signs.append(-1.0)
+    least = least_signed_fluxes(*problem.stoich, problem.n_metabolites, problem.scaled_lower,
+                                problem.scaled_upper, np.array(wanted, int), np.array(signs),
+                                problem.options.time_limit)
+    if least is None:
+        return []
+    return sorted({problem.reaction_ids[c] for c, v in zip(wanted, least) if v > FORCED_FLUX})
+
+
+#: Least flux (units of the flux scale) along a direction for it to count as used by every
+#: steady state (far above the solvers' 1e-9, far below any required flux).
+FORCED_FLUX = 1e-6
+
+
+#: Rounds of the first-set heuristic (:func:`_start_set`): each reroutes the least-flux pattern
+#: around the steps the previous round let run uphill.
+START_ROUNDS = 3
+#: Cost per unit of (scaled) flux through a step that an earlier round let run uphill.
+REROUTE_COST = 10.0
+
+
+def _start_set(problem: ThermoProblem, forced: list[str]) -> Solution | None:
+    """A first uphill set, as a point of the problem, from the flux pattern of least total flux.
+
+    1. The linear relaxation of the uphill-set problem (0/1 variables continuous), minimising
+       the number of uphill steps plus 1e-3 of the total flux: a flux pattern P.
+    2. Over concentrations and slacks alone (a linear program, :func:`_fewest_violations`), the
+       least weighted excess s_j >= d_j g_j + delta of the steps of P, reweighted three times
+       (w_j = 1 / (s_j + 0.1), which drives most s_j to zero): the steps with s_j > 0 form a set.
+    3. Up to :data:`START_ROUNDS` rounds, each making flux through the steps of the sets found so
+       far (other than those uphill in every solution) cost :data:`REROUTE_COST` per unit, so
+       that the pattern goes round them where it can; the smallest set is kept.
+    4. :meth:`ThermoProblem.solve_fixed` on its pattern with that set uphill: a point of the
+       problem, or None. The set's size is an upper bound of the minimum.
+    """
+    binaries = problem.f_vars + problem.b_vars + problem.u_vars
+    base = {v: 1.0 for v in problem.u_vars}
+    for r in problem.reactions:
+        base[r.forward_variable] = base[r.reverse_variable] = 1e-3
+    avoided: set[int] = set()
+    best = None
+    forced_set = set(forced)
     try:
-        problem.set_objective({problem.g_vars[index[r]]: float(directions[r]) for r in members}, "min")
-        best = problem.solve("least uphill energy of the set")
+        for _ in range(START_ROUNDS):
+            objective = dict(base)
+            for j in avoided:
+                reaction = problem.reactions[problem.energy_reaction_index[j]]
+                objective[reaction.forward_variable] = objective[reaction.reverse_variable] = REROUTE_COST
+            problem.set_objective(objective, "min")
+            for v in binaries:
+                v.type = "continuous"
+            try:
+                status = optimize(problem.solver, problem.options.time_limit)
+                relaxed = problem._read_solution(0.0) if status == "optimal" else None
+            finally:
+                for v in binaries:
+                    v.type = "integer"
+            if relaxed is None:
+                break
+            forward, backward = problem.flux_pattern(relaxed)
+            uphill = _fewest_violations(problem, forward, backward, forced_set)
+            if uphill is None:
+                break
+            if best is None or uphill.sum() < best[2].sum():
+                best = (forward, backward, uphill)
+            if uphill.sum() <= len(forced):
+                break
+            avoided |= {int(j) for j in np.flatnonzero(uphill)
+                        if problem.energy_ids[j] not in forced_set}
+        if best is None:
+            return None
+        forward, backward, uphill = best
+        problem.set_objective({v: 1.0 for v in problem.u_vars}, "min")
+        try:
+            return problem.solve_fixed(forward & ~uphill, backward & ~uphill, uphill,
+                                       "a first uphill set", uphill_open=(forward, backward))
+        except InfeasibleProblem:
+            return None
     finally:
-        for v, lb, ub in saved:
-            v.set_bounds(lb, ub)
-    amounts = {r: float(directions[r] * best.energies[index[r]]) for r in members}
-    return amounts, directions, best
+        problem.set_objective({v: 1.0 for v in problem.u_vars}, "min")
+
+
+def _fewest_violations(problem: ThermoProblem, forward: np.ndarray, backward: np.ndarray,
+                       forced: set[str]) -> np.ndarray | None:
+    """Steps of a flux pattern to let run uphill so that the rest can run downhill: an L1
+    linear program over ln c and the slacks eps, reweighted (Candes, Wakin & Boyd 2008, J.
+    Fourier Anal. Appl. 14:877). Returns a mask over the reactions with an energy, or None."""
+    from scipy.optimize import linprog
+    from scipy.sparse import coo_matrix
+
+    steps = np.flatnonzero(forward | backward)
+    if steps.size == 0:
+        return np.zeros(len(problem.energy_ids), bool)
+    d = np.where(forward[steps], 1.0, -1.0)
+    n_x, n_s = len(problem.metabolite_ids), steps.size
+    position = {int(j): k for k, j in enumerate(steps)}
+    rows, cols, vals = [], [], []
+    for k_row, i, coef in zip(*problem.thermo):
+        k = position.get(int(k_row))
+        if k is not None:
+            rows.append(k), cols.append(int(i)), vals.append(d[k] * problem.thermo_model.RT * coef)
+    width = problem.slack_width[steps]
+    # columns: x (n_x), eps of each step (n_s), s (n_s); rows: d g_j - s_j <= -delta
+    rows += list(range(n_s)) * 2
+    cols += [n_x + k for k in range(n_s)] + [n_x + n_s + k for k in range(n_s)]
+    vals += list(d) + [-1.0] * n_s
+    a = coo_matrix((vals, (rows, cols)), shape=(n_s, n_x + 2 * n_s)).tocsr()
+    b = -problem.options.min_driving_force - d * problem.standard[steps]
+    x_lo = np.array([v.lb for v in problem.x_vars])
+    x_hi = np.array([v.ub for v in problem.x_vars])
+    bounds = ([(a_, b_) for a_, b_ in zip(x_lo, x_hi)] + [(-w, w) for w in width]
+              + [(0, None)] * n_s)
+    weights = np.ones(n_s)
+    excess = None
+    for _ in range(4):
+        cost = np.concatenate([np.zeros(n_x + n_s), weights])
+        res = linprog(cost, A_ub=a, b_ub=b, bounds=bounds, method="highs")
+        if res.status != 0:
+            return None
+        excess = res.x[n_x + n_s:]
+        weights = 1.0 / (excess + 0.1)
+    mask = np.zeros(len(problem.energy_ids), bool)
+    mask[steps[excess > 1e-7]] = True
+    for rid in forced:
+        mask[problem.energy_ids.index(rid)] = True
+    return mask
 
 
 def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                        alternatives: int = 1, try_downhill_first: bool = True) -> UphillResult:
     """Fewest reactions that must run against their gradient for the demand to be met.
+
+    What is known is used before the search (measured on genome-scale instances with
+    ``scripts/bench_engine.py``): the steps uphill in every solution (:func:`forced_uphill`, a
+    lower bound fixed at 1), and a first set from the flux pattern of least total flux
+    (:func:`_start_set`, an upper bound, handed to HiGHS as its start). When the two bounds meet
+    the set is proven minimal without a branch and bound; otherwise the MILP minimises
+    sum_j u_j. A limit that stops the search returns the best set found ("best found" in
+    ``verification``, with the proven bound) instead of nothing.
 
     Parameters
     ----------
@@ -152,6 +334,8 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
     ImpossibleDemandError
         When no steady state meets the demand even ignoring thermodynamics (plain words, with the
         largest possible demand flux).
+    UndeterminedError
+        When the time limit stops the search before any set is found.
     """
     options = replace(options or ProblemOptions(), uphill=True, driving_force=False)
     result = UphillResult(conditions=tm.conditions)
@@ -159,8 +343,11 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
     with ThermoProblem(tm, options) as problem:
         result.provenance = provenance_of(tm, options, problem)
         count = {v: 1.0 for v in problem.u_vars}
-        size = None
-        if try_downhill_first:
+        index = {rid: j for j, rid in enumerate(problem.energy_ids)}
+        # steps uphill in every solution: when there are any, the network is infeasible as it
+        # stands and the downhill-only question need not be asked
+        forced = forced_uphill(problem)
+        if try_downhill_first and not forced:
             for v in problem.u_vars:
                 v.set_bounds(0, 0)
             try:
@@ -171,43 +358,100 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                 for v in problem.u_vars:
                     v.set_bounds(0, 1)
             if sol is not None:
-                result.certificates.append(certify(problem, sol))
+                cert = certify(problem, sol)
+                result.certificates.append(cert)
                 result.sets, result.uphill_by, result.directions = [[]], [{}], [{}]
+                result.short_by = [{}]
                 result.exhausted = True
+                result.verification = verification("certified", certificate_words(cert),
+                                                   bound=0, gap=0.0)
                 return result
+        result.lower_bound = len(forced)
+        for rid in forced:
+            problem.u_vars[index[rid]].lb = 1
+        problem.set_objective(count, "min")
+        start = _start_set(problem, forced)
+        # the point of the last solve is the first set's: HiGHS starts its search from it
+        started = start is not None and problem.start_from_last_point()
+        size = None
+        checks = []
         for k in range(max(1, alternatives)):
             problem.set_objective(count, "min")
-            try:
-                sol = problem.solve("minimal uphill set")
-            except InfeasibleProblem:
-                if k == 0:
-                    impossible = True
-                else:
-                    result.exhausted = True
-                break
+            sol = None
+            if k == 0 and start is not None and len(start.uphill) <= len(forced):
+                sol = start          # the first set meets the lower bound: minimal, no search
+                sol.objective, sol.bound, sol.proven = float(len(start.uphill)), float(len(forced)), True
+                checks.append(f"set of {len(forced)} step(s) uphill in every solution, found by "
+                              "the least-flux pattern: lower and upper bound meet")
+            else:
+                if k == 0 and started:
+                    checks.append(f"HiGHS started from a set of {len(start.uphill)}")
+                try:
+                    sol = problem.solve("minimal uphill set", accept_best=True)
+                except InfeasibleProblem:
+                    if k == 0:
+                        impossible = True
+                    else:
+                        result.exhausted = True
+                        checks.append(f"no further set of {size}: {problem.solver_name} proved it")
+                    break
+                except UndeterminedError:
+                    if k > 0 or start is None:
+                        raise
+                    sol = start      # nothing better found in time: the first set
+                    sol.objective, sol.bound, sol.proven = float(len(start.uphill)), None, False
+                if k == 0 and start is not None and len(start.uphill) < len(sol.uphill):
+                    # the first set is smaller: a search stopped early, or a wrong proof (the
+                    # first set is a point of the problem): keep it, not proven
+                    if sol.proven:
+                        checks.append(f"{problem.solver_name} claimed a minimum of {len(sol.uphill)}, "
+                                      f"contradicted by a set of {len(start.uphill)}")
+                        log.warning("minimal uphill set: %s claimed %d, a certified set of %d exists",
+                                    problem.solver_name, len(sol.uphill), len(start.uphill))
+                    start.objective, start.proven = float(len(start.uphill)), False
+                    start.bound = float(len(forced))
+                    sol = start
+                if sol.bound is not None:
+                    sol.bound = max(sol.bound, float(len(forced)))
+                elif k == 0:
+                    sol.bound = float(len(forced))
             members = sorted(sol.uphill)
             if size is None:
                 size = len(members)
+                status, details = optimum_words(sol, "uphill steps", integral=True)
+                result.verification = verification(status, "", **details)
             elif len(members) > size:
                 result.exhausted = True
+                checks.append(f"no further set of {size}: the next best has {len(members)}")
                 break
-            result.certificates.append(certify(problem, sol, allowed_uphill=members))
+            cert = certify(problem, sol, allowed_uphill=members)
+            result.certificates.append(cert)
             if members:
-                amounts, directions, best = _uphill_amounts(problem, members, sol, options)
+                amounts, short, directions, best = _uphill_amounts(problem, members, sol)
                 result.certificates.append(certify(problem, best, allowed_uphill=members))
             else:
-                amounts, directions = {}, {}
+                amounts, short, directions = {}, {}, {}
             result.sets.append(members)
             result.uphill_by.append(amounts)
+            result.short_by.append(short)
             result.directions.append(directions)
             if not members:
                 result.exhausted = True
                 break
             if k + 1 < alternatives:
-                index = {rid: j for j, rid in enumerate(problem.energy_ids)}
                 problem.add_constraint({problem.u_vars[index[r]]: 1.0 for r in members}, None,
                                        len(members) - 1, f"tfa_cut_{k}")
         result.size = size or 0
+        if not impossible:
+            status = result.verification["status"]
+            bound = result.verification.get("bound")
+            words = [f"each set's steady state passed the independent numpy check ({len(result.certificates)} points)",
+                     f"{result.lower_bound} step(s) uphill in every solution (flux ranges)"]
+            words += checks
+            words.append(f"minimality {'proven' if status == 'proven' else 'not proven'}: "
+                         f"bound {bound} (the larger of {problem.solver_name}'s and the steps "
+                         "uphill in every solution)")
+            result.verification["check"] = "; ".join(words)
     if impossible:
-        raise ImpossibleDemandError(impossible_demand_message(tm))
+        raise impossible_demand(tm, "the uphill-set problem")
     return result

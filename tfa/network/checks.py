@@ -36,6 +36,46 @@ def is_boundary_reaction(reaction: cobra.Reaction) -> bool:
     return bool(coefficients) and (all(c < 0 for c in coefficients) or all(c > 0 for c in coefficients))
 
 
+#: The kinds of reaction, classified once by :func:`classify_reactions`: only internal reactions
+#: have a transformed Gibbs energy (and so fall under a policy for reactions without one).
+REACTION_KINDS = ("internal", "exchange", "demand", "sink")
+
+
+def reaction_kind(reaction: cobra.Reaction, demand_id: str | None = None) -> str:
+    """The kind of one reaction: "internal", "exchange", "demand" or "sink".
+
+    - "demand": the environment's demand reaction (``demand_id``), whatever its shape (a lumped
+      biomass reaction has products too), or a one-sided reaction of several compounds that can
+      only drain them;
+    - "exchange": a one-sided reaction of one compound (feed, outlet, free water or H+);
+    - "sink": a one-sided reaction of several compounds that can also supply them;
+    - "internal": everything else (compounds on both sides), the reactions with a transformed
+      Gibbs energy.
+
+    >>> r = cobra.Reaction("DM_x", lower_bound=0.01); r.add_metabolites({cobra.Metabolite("a"): -1,
+    ...                                                                 cobra.Metabolite("b"): -2})
+    >>> reaction_kind(r), reaction_kind(r, demand_id="DM_x")
+    ('demand', 'demand')
+    >>> r.lower_bound = -1; reaction_kind(r)
+    'sink'
+    """
+    if demand_id is not None and reaction.id == demand_id:
+        return "demand"
+    if not is_boundary_reaction(reaction):
+        return "internal"
+    coefficients = list(reaction.metabolites.values())
+    if len(coefficients) == 1:
+        return "exchange"
+    consumes = coefficients[0] < 0
+    drains_only = reaction.lower_bound >= 0 if consumes else reaction.upper_bound <= 0
+    return "demand" if drains_only else "sink"
+
+
+def classify_reactions(model: cobra.Model, demand_id: str | None = None) -> dict[str, str]:
+    """Reaction id -> kind (:func:`reaction_kind`) for every reaction of ``model``, in model order."""
+    return {r.id: reaction_kind(r, demand_id) for r in model.reactions}
+
+
 def balance_report(model: cobra.Model, include_boundary: bool = False) -> pd.DataFrame:
     """One row per reaction: is it balanced, how many H+ are implicit, what is off.
 

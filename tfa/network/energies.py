@@ -485,6 +485,8 @@ def _thermo_model(model: cobra.Model, environment: Environment, mode: str, db: T
     table = compound_energies(model, environment, db, literature)
     energies = reaction_energies(model, table)
     applied = apply_environment(model, environment, without_activity(model, _kind_of(db)))
+    if applied.demand_id in energies:   # a two-sided demand (a lumped biomass reaction) is no chemistry
+        energies = {rid: e for rid, e in energies.items() if rid != applied.demand_id}
     kept = {rid: e for rid, e in energies.items() if math.isfinite(e.standard)}
     for rid, e in energies.items():
         if rid not in kept:

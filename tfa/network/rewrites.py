@@ -24,7 +24,16 @@
 Every rewritten reaction gets ``notes['rewritten']`` saying what was done. All changes go through
 cobra's ``with model:`` history (undone when the context ends); the order of reactions,
 metabolites and the terms within each reaction is restored as well, so the model after the
-context equals the model before it.
+context equals the model before it. A rewrite works inside another's context too (they compose:
+H2 in place of carriers and bare chemistry at once).
+
+The changes of one rewrite are applied as one batch (:class:`_Batch`): new stoichiometries and
+removed reactions and compounds are set on the cobra objects, then the solver's problem is built
+once from the rewritten network (one row per compound, set in one call), and on leaving the
+context the solver's problem from before is put back as it was. Changing reaction by reaction
+through cobra rewrites a compound's whole row for every reaction it is in (a shared H+ or water
+row once per reaction), which grew quadratically: 3,000 reactions took about 40 s, 20,000 did
+not finish in 10 minutes (``scripts/bench_engine.py`` prints the batch's time against size).
 
 Compounds are recognised by their role (``notes['role']``, see :mod:`tfa.network.roles`).
 
@@ -40,6 +49,7 @@ from __future__ import annotations
 
 import contextlib
 import logging
+from collections import defaultdict
 from dataclasses import dataclass, field
 from functools import partial
 from typing import Iterator
@@ -47,6 +57,8 @@ from typing import Iterator
 import cobra
 import pandas as pd
 from cobra.util.context import get_context
+from cobra.util.solver import linear_reaction_coefficients
+from optlang.symbolics import Zero
 
 from ..errors import InputError
 from ..thermo.balance import check_balance
@@ -134,19 +146,176 @@ def _note(context, reaction: cobra.Reaction, text: str, summary: RewriteSummary)
     summary.rewritten[reaction.id] = text
 
 
-def _set_stoichiometry(reaction: cobra.Reaction, new: dict[cobra.Metabolite, float]) -> None:
-    """Change the reaction's terms to ``new`` through cobra (history-registered)."""
-    old = reaction.metabolites
-    delta: dict[cobra.Metabolite, float] = {}
-    for met in set(old) | set(new):
-        change = new.get(met, 0.0) - old.get(met, 0.0)
-        if abs(change) > _TOL:
-            delta[met] = change
-    if delta:
-        reaction.add_metabolites(delta, combine=True)
-    leftovers = {m: c for m, c in reaction.metabolites.items() if abs(c) <= _TOL}
-    if leftovers:
-        reaction.subtract_metabolites(leftovers, combine=True)
+def _replace_contents(items, members: list) -> None:
+    """Set the members of a cobra DictList in one pass (its index rebuilt once)."""
+    list.clear(items)
+    list.extend(items, members)
+    items._generate_index()
+
+
+def _write_terms(terms: dict) -> None:
+    """Give each reaction its terms (reaction -> {metabolite: coefficient}) on the cobra objects,
+    keeping every metabolite's set of reactions in step (no solver change)."""
+    for reaction, new in terms.items():
+        for met in reaction._metabolites:  # noqa: SLF001
+            if met not in new:
+                met._reaction.discard(reaction)  # noqa: SLF001
+        for met in new:
+            met._reaction.add(reaction)  # noqa: SLF001
+        reaction._metabolites = dict(new)  # noqa: SLF001
+
+
+class _Batch:
+    """The changes of one rewrite, applied at once by :meth:`apply` (see the module text).
+
+    ``terms``: reaction -> its new terms; ``removed``: reactions to take out; ``gone``: compounds
+    to take out (after their reactions and terms are gone). Bounds are set through cobra as
+    usual before :meth:`apply` (one variable each, no row rewritten).
+    """
+
+    def __init__(self, model: cobra.Model, context) -> None:
+        self.model = model
+        self.context = context
+        self.terms: dict[cobra.Reaction, dict[cobra.Metabolite, float]] = {}
+        self.removed: list[cobra.Reaction] = []
+        self.gone: list[cobra.Metabolite] = []
+
+    def set_terms(self, reaction: cobra.Reaction, new: dict[cobra.Metabolite, float]) -> None:
+        self.terms[reaction] = {m: c for m, c in new.items() if abs(c) > _TOL}
+
+    def apply(self) -> None:
+        model, context = self.model, self.context
+        if not (self.terms or self.removed or self.gone):
+            return
+        old_solver = model.solver
+        plain = (len(old_solver.variables) == 2 * len(model.reactions)
+                 and len(old_solver.constraints) == len(model.metabolites))
+        objective = {r.id: c for r, c in linear_reaction_coefficients(model).items()}
+        direction = old_solver.objective.direction
+        # the cobra objects
+        before = {r: dict(r._metabolites) for r in self.terms}  # noqa: SLF001
+        _write_terms(self.terms)
+        context(partial(_write_terms, before))
+        removed = set(self.removed)
+        if removed:
+            reactions = list(model.reactions)
+            for r in self.removed:
+                r._model = None  # noqa: SLF001
+                for met in r._metabolites:  # noqa: SLF001
+                    met._reaction.discard(r)  # noqa: SLF001
+            _replace_contents(model.reactions, [r for r in reactions if r not in removed])
+            context(partial(self._put_back_reactions, reactions, list(self.removed)))
+        gone = set(self.gone)
+        if gone:
+            metabolites = list(model.metabolites)
+            for met in self.gone:
+                met._model = None  # noqa: SLF001
+            _replace_contents(model.metabolites, [m for m in metabolites if m not in gone])
+            context(partial(self._put_back_metabolites, metabolites, list(self.gone)))
+        if not plain:
+            # the solver carries more than the network (another problem's rows and columns):
+            # change it in place, one call per row, and take out the removed columns and rows
+            self._change_in_place(old_solver, before, removed, gone)
+            return
+        model._solver = _solver_of(model, old_solver, objective, direction)  # noqa: SLF001
+        context(partial(setattr, model, "_solver", old_solver))
+
+    def _put_back_reactions(self, reactions: list, removed: list) -> None:
+        for r in removed:
+            r._model = self.model  # noqa: SLF001
+            for met in r._metabolites:  # noqa: SLF001
+                met._reaction.add(r)  # noqa: SLF001
+        _replace_contents(self.model.reactions, reactions)
+
+    def _put_back_metabolites(self, metabolites: list, gone: list) -> None:
+        for met in gone:
+            met._model = self.model  # noqa: SLF001
+        _replace_contents(self.model.metabolites, metabolites)
+
+    def _change_in_place(self, solver, before: dict, removed: set, gone: set) -> None:
+        rows = _row_changes(self.terms, before)
+        undo = _row_changes(before, self.terms)
+        _set_row_coefficients(solver, rows)
+        self.context(partial(_set_row_coefficients, solver, undo))
+        columns = [solver.variables[name] for r in removed for name in (r.id, r.reverse_id)]
+        constraints = [solver.constraints[m.id] for m in gone if m.id in solver.constraints]
+        if columns or constraints:
+            bounds = [(v.name, v.lb, v.ub) for v in columns]
+            terms = {r: dict(r._metabolites) for r in removed}  # noqa: SLF001
+            solver.remove(constraints + columns)
+            self.context(partial(_restore_rows_and_columns, solver, constraints, columns, bounds,
+                                 terms))
+
+
+def _row_changes(target: dict, current: dict) -> dict:
+    """Per compound row: {column name: coefficient} turning ``current`` terms into ``target``."""
+    rows: dict[str, dict[str, float]] = defaultdict(dict)
+    for reaction, new in target.items():
+        old = current.get(reaction, {})
+        for met in set(old) | set(new):
+            c = new.get(met, 0.0)
+            if met in new and met in old and old[met] == c:
+                continue
+            rows[met.id][reaction.id] = c
+            rows[met.id][reaction.reverse_id] = -c
+    return rows
+
+
+def _set_row_coefficients(solver, rows: dict) -> None:
+    """One call per row."""
+    solver.update()
+    for row, coefficients in rows.items():
+        if row in solver.constraints:
+            solver.constraints[row].set_linear_coefficients(
+                {solver.variables[name]: c for name, c in coefficients.items()
+                 if name in solver.variables})
+
+
+def _restore_rows_and_columns(solver, constraints: list, columns: list, bounds: list,
+                              terms: dict) -> None:
+    solver.add(columns)
+    solver.add(constraints, sloppy=True)
+    for name, lb, ub in bounds:
+        solver.variables[name].set_bounds(lb, ub)
+    _set_row_coefficients(solver, _row_changes(terms, {}))
+
+
+def _solver_of(model: cobra.Model, template, objective: dict[str, float], direction: str):
+    """A new solver problem of the network as it now is, with ``template``'s interface and
+    configuration: a column pair per reaction (cobra's forward and reverse variables, same
+    names), a row per compound (steady state), each row set in one call; the objective from
+    ``objective`` (reaction id -> coefficient)."""
+    interface = template.interface
+    solver = interface.Model()
+    solver.configuration = interface.Configuration.clone(template.configuration, problem=solver)
+    columns = {}
+    for r in model.reactions:
+        lb, ub = r.lower_bound, r.upper_bound
+        columns[r.id] = interface.Variable(r.id, lb=max(lb, 0.0), ub=max(ub, 0.0))
+        columns[r.reverse_id] = interface.Variable(r.reverse_id, lb=max(-ub, 0.0), ub=max(-lb, 0.0))
+    solver.add(list(columns.values()))
+    rows = [interface.Constraint(Zero, name=m.id, lb=0, ub=0) for m in model.metabolites]
+    solver.add(rows, sloppy=True)
+    solver.update()
+    terms: dict[str, dict] = defaultdict(dict)
+    for r in model.reactions:
+        forward, reverse = columns[r.id], columns[r.reverse_id]
+        for met, c in r._metabolites.items():  # noqa: SLF001
+            terms[met.id][forward] = c
+            terms[met.id][reverse] = -c
+    for row in rows:
+        if terms.get(row.name):
+            row.set_linear_coefficients(terms[row.name])
+    solver.objective = interface.Objective(Zero, direction=direction, sloppy=True)
+    coefficients = {}
+    for r in model.reactions:
+        if objective.get(r.id):
+            coefficients[columns[r.id]] = objective[r.id]
+            coefficients[columns[r.reverse_id]] = -objective[r.id]
+    if coefficients:
+        solver.objective.set_linear_coefficients(coefficients)
+    solver.update()
+    return solver
 
 
 def _is_empty(stoichiometry: dict[cobra.Metabolite, float], inert: set[str]) -> bool:
@@ -164,8 +333,9 @@ def _fmt(value: float) -> str:
 
 
 def _finish(model: cobra.Model, summary: RewriteSummary, remove: list[cobra.Reaction],
-            gone: set[cobra.Metabolite], label: str, context) -> None:
-    """Drop the given compounds from boundary reactions, remove reactions and compounds."""
+            gone: set[cobra.Metabolite], label: str, context, batch: _Batch) -> None:
+    """Drop the given compounds from boundary reactions, remove reactions and compounds: the
+    whole batch applied at once."""
     remove_ids = {r.id for r in remove}
     for reaction in model.reactions:
         if reaction.id in remove_ids or not is_boundary(reaction):
@@ -178,15 +348,22 @@ def _finish(model: cobra.Model, summary: RewriteSummary, remove: list[cobra.Reac
             remove_ids.add(reaction.id)
             _note(context, reaction, f"{label}: boundary reaction of {', '.join(m.id for m in present)} removed", summary)
         else:
-            _set_stoichiometry(reaction, {m: c for m, c in reaction.metabolites.items() if m not in gone})
+            batch.set_terms(reaction, {m: c for m, c in reaction.metabolites.items() if m not in gone})
             _note(context, reaction, f"{label}: {', '.join(m.id for m in present)} dropped", summary)
+    for reaction in model.reactions:   # any other term of a removed compound goes with it
+        if reaction.id in remove_ids:
+            continue
+        terms = batch.terms.get(reaction, reaction._metabolites)  # noqa: SLF001
+        if any(m in gone for m in terms):
+            batch.set_terms(reaction, {m: c for m, c in terms.items() if m not in gone})
     if remove:
         summary.removed.extend(r.id for r in remove)
-        model.remove_reactions(remove)
+        batch.removed.extend(remove)
     leftovers = [m for m in model.metabolites if m in gone]
     if leftovers:
         summary.removed_metabolites.extend(m.id for m in leftovers)
-        model.remove_metabolites(leftovers)
+        batch.gone.extend(leftovers)
+    batch.apply()
 
 
 # --------------------------------------------------------------------------------------------
@@ -227,6 +404,7 @@ def h2_only(model: cobra.Model) -> Iterator[RewriteSummary]:
     """
     summary = RewriteSummary("h2_only")
     with _exact_context(model) as context:
+        batch = _Batch(model, context)
         pairs = carrier_pairs(model)
         carriers = {p.reduced for p in pairs.values()} | {p.oxidised for p in pairs.values()}
         h2 = single_with_role(model, "h2", ("h2",))
@@ -279,10 +457,10 @@ def h2_only(model: cobra.Model) -> Iterator[RewriteSummary]:
                 _note(context, reaction, "h2_only: removed, only regenerates carriers ("
                       + ", ".join(parts) + " becomes nothing)", summary)
                 continue
-            _set_stoichiometry(reaction, new)
+            batch.set_terms(reaction, new)
             _note(context, reaction, "h2_only: " + ", ".join(parts) + f" replaced by {_fmt(h2_change)} H2"
                   + (f", H+ {_fmt(proton_change)}" if abs(proton_change) > _TOL else ""), summary)
-        _finish(model, summary, remove, carriers, "h2_only", context)
+        _finish(model, summary, remove, carriers, "h2_only", context, batch)
         logger.info("h2_only: %d reactions rewritten, %d removed", len(summary.rewritten) - len(summary.removed),
                     len(summary.removed))
         yield summary
@@ -307,6 +485,7 @@ def no_atp_strict(model: cobra.Model) -> Iterator[RewriteSummary]:
     """
     summary = RewriteSummary("no_atp_strict")
     with _exact_context(model) as context:
+        batch = _Batch(model, context)
         nucleotides = set(nucleotide_metabolites(model).values())
         for reaction in model.reactions:
             present = sorted(m.id for m in reaction.metabolites if m in nucleotides)
@@ -314,12 +493,14 @@ def no_atp_strict(model: cobra.Model) -> Iterator[RewriteSummary]:
                 continue
             if is_boundary(reaction) and len(present) < len(reaction.metabolites):
                 # a demand of several compounds: ask for the others only
-                _set_stoichiometry(reaction, {m: c for m, c in reaction.metabolites.items() if m not in nucleotides})
+                batch.set_terms(reaction, {m: c for m, c in reaction.metabolites.items()
+                                           if m not in nucleotides})
                 _note(context, reaction, f"no_atp_strict: {', '.join(present)} dropped", summary)
                 continue
             reaction.bounds = (0.0, 0.0)
             summary.blocked.append(reaction.id)
             _note(context, reaction, f"no_atp_strict: blocked, needs {', '.join(present)}", summary)
+        batch.apply()
         logger.info("no_atp_strict: %d reactions blocked", len(summary.blocked))
         yield summary
 
@@ -391,6 +572,7 @@ def no_atp_bare_chemistry(model: cobra.Model) -> Iterator[RewriteSummary]:
     """
     summary = RewriteSummary("no_atp_bare")
     with _exact_context(model) as context:
+        batch = _Batch(model, context)
         nucleotides = nucleotide_metabolites(model)
         role_of = {met: role for role, met in nucleotides.items()}
         water = single_with_role(model, "water", ("h2o", "h2o_c"))
@@ -440,9 +622,9 @@ def no_atp_bare_chemistry(model: cobra.Model) -> Iterator[RewriteSummary]:
                 _note(context, reaction, f"no_atp_bare: removed, a nucleotide interconversion ({used} "
                       "leaves nothing)", summary)
                 continue
-            _set_stoichiometry(reaction, new)
+            batch.set_terms(reaction, new)
             _note(context, reaction, f"no_atp_bare: {used}", summary)
-        _finish(model, summary, remove, set(nucleotides.values()), "no_atp_bare", context)
+        _finish(model, summary, remove, set(nucleotides.values()), "no_atp_bare", context, batch)
         logger.info("no_atp_bare: %d reactions rewritten, %d removed",
                     len(summary.rewritten) - len(summary.removed), len(summary.removed))
         yield summary

@@ -114,11 +114,18 @@ class ThermoModel:
         """R*T in kJ/mol at the model's temperature."""
         return self.conditions.RT
 
-    def internal_reactions(self) -> list[cobra.Reaction]:
-        """Reactions that are not boundary (exchange, demand, sink) reactions: one side empty."""
-        from .checks import is_boundary_reaction
+    def reaction_kinds(self) -> dict[str, str]:
+        """Reaction id -> "internal", "exchange", "demand" or "sink"
+        (:func:`tfa.network.checks.classify_reactions`; the demand reaction is never internal)."""
+        from .checks import classify_reactions
 
-        return [r for r in self.model.reactions if not is_boundary_reaction(r)]
+        return classify_reactions(self.model, self.demand_id)
+
+    def internal_reactions(self) -> list[cobra.Reaction]:
+        """Reactions with compounds on both sides that are not the demand: the only reactions with
+        a transformed Gibbs energy (exchanges, demands and sinks have none)."""
+        kinds = self.reaction_kinds()
+        return [r for r in self.model.reactions if kinds[r.id] == "internal"]
 
     def relax(self, reactions: Iterable[str]) -> "ThermoModel":
         """A copy without the energies of ``reactions``: they may then run either way, as if

@@ -24,10 +24,8 @@ from __future__ import annotations
 import logging
 import math
 import time
-from dataclasses import dataclass, field
 
 import numpy as np
-from optlang import interface as optlang_status
 from optlang.symbolics import Zero
 
 from ..errors import InputError, MissingDataError
@@ -36,155 +34,15 @@ from ..verify.certificate import CertificateInput
 from .bigm import direction_big_m, energy_intervals
 from .bulk import remove_rows_and_columns, set_rows
 from .flux_ranges import flux_caps, steady_state_flux_ranges
-from .solvers import InfeasibleProblem, check_status, optimize, solver_name_of, use_solver
+from .scaling import flux_scale, scaled_bounds
+from .options import (FLUX_RANGES_AUTO_LIMIT, GLPK_FEASIBILITY_PUMP, HIGHS_HEURISTIC_EFFORT,
+                      SOLVER_TOLERANCES, ProblemOptions, Solution)
+from .search import PointSearch
+from .solvers import use_solver
 
 log = logging.getLogger(__name__)
 
-#: Integrality tolerance of the loose search among the quick routes (GLPK's own default); its
-#: points are only candidates: their 0/1 values are fixed and the rest solved again exactly.
-LOOSE_INTEGRALITY = 1e-5
-#: Default least driving force delta, kJ/mol. It is four orders of magnitude above what solver
-#: tolerances (~1e-6 on variables, times RT*|S| ~ 10) can fake, so a certified sign is real, and
-#: well below the standard uncertainty of reaction energies (1-5 kJ/mol), so it does not move
-#: the answer (common practice in thermodynamics-based flux analysis uses 0 to 1 kJ/mol).
-DEFAULT_MIN_DRIVING_FORCE = 0.1
-#: Default time limit of one solve, s.
-DEFAULT_TIME_LIMIT = 300.0
-UNKNOWN_ENERGY_POLICIES = ("free", "block")
-#: Solver tolerances set on the model's solver: tight enough that thresholds agree with their
-#: analytic values to 1e-6 relative and that 0/1 variables are 0 or 1 to 1e-9 (so a blocked
-#: direction lets through at most 1e-9 * U of flux).
-SOLVER_TOLERANCES = {"feasibility": 1e-9, "integrality": 1e-9}
-#: HiGHS ``mip_heuristic_effort`` for our MILPs (HiGHS default 0.05); see ThermoProblem._build.
-HIGHS_HEURISTIC_EFFORT = 0.25
-#: Flux caps of the direction rows: "ranges" (steady-state flux ranges, :mod:`tfa.problem.flux_ranges`),
-#: "bounds" (the reactions' own bounds) or "auto": ranges with GLPK when at most this many
-#: reactions carry an energy, else bounds. Measured on the bundled network (138 reactions with an
-#: energy; the ranges take 0.02 s): with GLPK the "H2 only" mode is proven infeasible in 0.12 s
-#: with ranges and undetermined after 120 s with bounds; with HiGHS native feasibility takes
-#: 1.3 s with ranges and 0.23 s with bounds. On iJO1366 (2,252) the ranges cost 2.6 s, more than
-#: its whole feasibility question (about 1.4 s).
-FLUX_RANGES_AUTO_LIMIT = 1000
-FLUX_CAP_POLICIES = ("auto", "ranges", "bounds")
-#: GLPK feasibility pump (``fp_heur``) for our MILPs: off, as GLPK's default; measured on iJO1366
-#: with synthetic energies it changed nothing (45 s on, 44 s off).
-GLPK_FEASIBILITY_PUMP = False
-
-
-@dataclass
-class ProblemOptions:
-    """Options of the thermodynamic flux problem.
-
-    Attributes
-    ----------
-    solver : str or None
-        "glpk", "highs" or None (the measured default, :data:`tfa.problem.solvers.DEFAULT_SOLVER`).
-    min_driving_force : float
-        delta, kJ/mol: a reaction that carries flux must have -g >= delta in its direction.
-    uncertainty_k : float
-        Allowed slack eps_j in multiples of sigma_j (0: energies taken as exact).
-    unknown_energy : str
-        "free" (reactions without an energy carry flux without a thermodynamic constraint; they
-        are reported) or "block" (they carry no flux).
-    time_limit : float or None
-        Seconds per solve; hitting it raises ``UndeterminedError``.
-    uphill : bool
-        Add the uphill binaries u_j (minimal uphill set).
-    driving_force : bool
-        Replace delta by a variable B (max-min driving force).
-    log_bound_overrides : dict
-        Metabolite id -> (ln lo, ln hi) used instead of the model's bounds at build time (the
-        envelope of an H2 scan or threshold; later bound changes must stay inside it).
-    quick_routes : bool
-        For yes/no questions (no objective), try two quick routes to a point before the exact
-        MILP (:meth:`ThermoProblem.solve`): the flux pattern of least total flux, and the MILP at
-        a loose integrality tolerance with its 0/1 values then fixed exactly.
-    flux_caps : str
-        U_j and L_j of the direction rows: "ranges" (the largest flux any steady state gives the
-        reaction, two linear programs per reaction with an energy), "bounds" (its flux bounds), or
-        "auto" (ranges with GLPK up to :data:`FLUX_RANGES_AUTO_LIMIT` reactions with an energy,
-        else bounds; measured choice). Computed at build time: changing flux bounds later needs a
-        new problem.
-    """
-
-    solver: str | None = None
-    min_driving_force: float = DEFAULT_MIN_DRIVING_FORCE
-    uncertainty_k: float = 0.0
-    unknown_energy: str = "free"
-    time_limit: float | None = DEFAULT_TIME_LIMIT
-    uphill: bool = False
-    driving_force: bool = False
-    log_bound_overrides: dict[str, tuple[float, float]] = field(default_factory=dict)
-    quick_routes: bool = True
-    flux_caps: str = "auto"
-
-    def __post_init__(self) -> None:
-        if self.flux_caps not in FLUX_CAP_POLICIES:
-            raise InputError(f"flux_caps must be one of {', '.join(FLUX_CAP_POLICIES)}, got "
-                             f"{self.flux_caps!r}")
-        if self.unknown_energy not in UNKNOWN_ENERGY_POLICIES:
-            raise InputError(f"unknown_energy must be 'free' or 'block', got {self.unknown_energy!r}")
-        if not (math.isfinite(self.min_driving_force) and self.min_driving_force >= 0):
-            raise InputError(f"the least driving force must be >= 0 kJ/mol, got {self.min_driving_force}")
-        if not (math.isfinite(self.uncertainty_k) and self.uncertainty_k >= 0):
-            raise InputError(f"the uncertainty multiple k must be >= 0, got {self.uncertainty_k}")
-        if self.time_limit is not None and not self.time_limit > 0:
-            raise InputError(f"the time limit must be positive seconds, got {self.time_limit}")
-
-    def to_dict(self) -> dict:
-        """Plain dictionary for provenance."""
-        return {
-            "solver": self.solver,
-            "min_driving_force_kJ": self.min_driving_force,
-            "uncertainty_k": self.uncertainty_k,
-            "unknown_energy": self.unknown_energy,
-            "time_limit_s": self.time_limit,
-            "quick_routes": self.quick_routes,
-            "flux_caps": self.flux_caps,
-        }
-
-
-@dataclass
-class Solution:
-    """One solution of the problem, as numpy arrays (read from the solver, not yet certified).
-
-    Attributes
-    ----------
-    reaction_ids, fluxes : all reactions and their net fluxes (forward minus reverse)
-    metabolite_ids, log_conc : compounds with an activity term and ln c (mol/L or bar)
-    energy_ids, energies, slack : reactions with an energy, g_j (kJ/mol, solver's value), eps_j
-    forward, backward : the direction binaries (bool)
-    uphill : reactions whose uphill binary is 1 (uphill problems only)
-    driving_force : B for driving-force problems, else None
-    objective : objective value (None for a pure feasibility problem)
-    solver, seconds : solver name and wall time of the solve
-    """
-
-    reaction_ids: list[str]
-    fluxes: np.ndarray
-    metabolite_ids: list[str]
-    log_conc: np.ndarray
-    energy_ids: list[str]
-    energies: np.ndarray
-    slack: np.ndarray
-    forward: np.ndarray
-    backward: np.ndarray
-    uphill: list[str]
-    driving_force: float | None
-    objective: float | None
-    solver: str
-    seconds: float
-
-    def flux(self, reaction_id: str) -> float:
-        """Net flux of one reaction."""
-        return float(self.fluxes[self.reaction_ids.index(reaction_id)])
-
-    def concentration(self, metabolite_id: str) -> float:
-        """Concentration (mol/L or bar) of one compound."""
-        return float(np.exp(self.log_conc[self.metabolite_ids.index(metabolite_id)]))
-
-
-class ThermoProblem:
+class ThermoProblem(PointSearch):
     """The thermodynamic flux problem attached to a ThermoModel's cobra model.
 
     Use as a context manager (or call :meth:`remove`) so the model is left as it was;
@@ -198,6 +56,7 @@ class ThermoProblem:
         started = time.perf_counter()
         self.solver_name = use_solver(self.model, self.options.solver)
         self.solver = self.model.solver
+        self.tolerances = SOLVER_TOLERANCES.get(self.solver_name, SOLVER_TOLERANCES["glpk"])
         self._variables: list = []
         self._constraints: list = []
         self._extra_constraints: list = []
@@ -234,15 +93,28 @@ class ThermoProblem:
                 vals.append(float(coef))
         self.stoich = (np.array(rows, int), np.array(cols, int), np.array(vals, float))
 
-        boundary = {r.id for r in model.boundary}
+        # one classification for the whole problem: only internal reactions have an energy, so
+        # only they fall under the unknown-energy policy (never the demand, exchanges or sinks)
+        self.reaction_kinds = tm.reaction_kinds()
         self.energy_ids = []
         self.unknown_energy_ids = []
         for r in self.reactions:
-            if r.id in boundary:
+            kind = self.reaction_kinds[r.id]
+            if kind != "internal":
                 if r.id in tm.energies:
-                    log.warning("boundary reaction %s carries an energy; it is ignored", r.id)
+                    log.warning("%s reaction %s carries an energy; it is ignored", kind, r.id)
                 continue
             (self.energy_ids if r.id in tm.energies else self.unknown_energy_ids).append(r.id)
+        if opts.unknown_energy == "block":
+            for rid in self.unknown_energy_ids:
+                r = model.reactions.get_by_id(rid)
+                if r.lower_bound > 0 or r.upper_bound < 0:
+                    raise InputError(f"reaction {rid} has no energy and its bounds ({r.lower_bound:g}, "
+                                     f"{r.upper_bound:g}) require flux, so the 'block' policy cannot "
+                                     "block it; give it an energy or use the 'free' policy")
+        lower, upper = self.flux_bounds()
+        self.flux_scale = flux_scale(lower, upper, self.reaction_ids)
+        self.scaled_lower, self.scaled_upper = scaled_bounds(lower, upper, self.flux_scale)
         standard = []
         sigma = []
         for rid in self.energy_ids:
@@ -295,6 +167,14 @@ class ThermoProblem:
             self.standard, self.slack_width, *self.thermo, self.envelope_lower,
             self.envelope_upper, tm.RT)
         self.big_m = direction_big_m(self.g_lower, self.g_upper, opts.min_driving_force)
+        reach = float(np.max(np.maximum(-self.g_lower, self.g_upper))) if len(self.energy_ids) else 0.0
+        if len(self.energy_ids) and not opts.driving_force and opts.min_driving_force > reach:
+            raise InputError(f"the least driving force {opts.min_driving_force:g} kJ/mol is larger than "
+                             f"any |Delta_r G'| the reactions can reach within their concentration "
+                             f"bounds (at most {reach:.4g} kJ/mol), so no reaction could run; choose a "
+                             "smaller --min-driving-force")
+        #: Energy scale of the certificate's tolerance: the largest |Delta_r G'| in the box, kJ/mol.
+        self.energy_scale = max(1.0, reach)
 
     # ------------------------------------------------------------------ build
     def _build(self) -> None:
@@ -308,7 +188,7 @@ class ThermoProblem:
                        for j in range(n_e)]
         self.eps_vars = [var(f"tfa_e_{j}", lb=-float(w), ub=float(w)) if w > 0 else None
                          for j, w in enumerate(self.slack_width)]
-        flux_lower, flux_upper = self.flux_bounds()
+        flux_lower, flux_upper = self.scaled_lower, self.scaled_upper   # in units of the flux scale
         bound_fwd = np.maximum(flux_upper[self.energy_reaction_index], 0.0)
         bound_bwd = np.maximum(-flux_lower[self.energy_reaction_index], 0.0)
         upper, lower = self._flux_caps(flux_lower, flux_upper, bound_fwd, bound_bwd)
@@ -347,7 +227,7 @@ class ThermoProblem:
         elif self.solver_name == "glpk":
             _tune_glpk(solver)
         tolerances = solver.configuration.tolerances
-        for name, value in SOLVER_TOLERANCES.items():
+        for name, value in self.tolerances.items():
             try:
                 setattr(tolerances, name, value)
             except Exception:  # noqa: BLE001 - an interface without that tolerance keeps its own
@@ -410,14 +290,19 @@ class ThermoProblem:
         self._constraints = constraints
         set_rows(solver, constraints, [r[3] for r in rows])
 
-        if opts.unknown_energy == "block":
-            for rid in self.unknown_energy_ids:
-                r = self.reactions[self.reaction_index[rid]]
-                for v in (r.forward_variable, r.reverse_variable):
-                    self._saved_bounds.append((v, v.lb, v.ub))
-                    v.lb = 0.0
-                    v.ub = 0.0
+        self._set_scaled_flux_bounds()
         self.set_objective({})
+
+    def _set_scaled_flux_bounds(self) -> None:
+        """Give the flux columns the scaled bounds (:mod:`tfa.problem.scaling`; the unknown-energy
+        policy included); the cobra reactions keep their own bounds, restored on removal."""
+        for r, lo, hi in zip(self.reactions, self.scaled_lower, self.scaled_upper):
+            lo, hi = float(lo), float(hi)
+            for v, a, b in ((r.forward_variable, max(lo, 0.0), max(hi, 0.0)),
+                            (r.reverse_variable, max(-hi, 0.0), max(-lo, 0.0))):
+                if v.lb != a or v.ub != b:
+                    self._saved_bounds.append((v, v.lb, v.ub))
+                    v.set_bounds(a, b)
 
     # ------------------------------------------------------------------ changes
     def set_objective(self, coefficients: dict, direction: str = "min") -> None:
@@ -453,6 +338,16 @@ class ThermoProblem:
         xv = self.x_vars[self.metabolite_index[metabolite_id]]
         return float(xv.lb), float(xv.ub)
 
+    def start_from_last_point(self) -> bool:
+        """Hand the point of the last solve (a point of the problem, e.g. from
+        :meth:`solve_fixed`) to the next mixed-integer solve as its starting point (HiGHS; GLPK
+        takes none through this interface). Returns whether the solver took it."""
+        values = getattr(self, "_last_values", None)
+        if self.solver_name != "highs" or not values:
+            return False
+        self.solver.problem.settings["mip_start"] = dict(values)
+        return True
+
     def add_constraint(self, coefficients: dict, lb: float | None, ub: float | None, name: str):
         """Add a linear constraint (integer cuts, fixed directions); removed with the problem."""
         c = self.solver.interface.Constraint(Zero, lb=lb, ub=ub, name=name, sloppy=True)
@@ -468,160 +363,6 @@ class ThermoProblem:
         self._extra_constraints.remove(constraint)
 
     # ------------------------------------------------------------------ solve
-    def solve(self, what: str = "the thermodynamic flux problem") -> Solution:
-        """Solve; return the solution or raise InfeasibleProblem / UndeterminedError in plain words.
-
-        A yes/no question (no objective) first takes the quick routes, each ending in a linear
-        program with every 0/1 variable fixed, so any point they find is a point of the problem:
-
-        1. :meth:`_least_flux_point`, two linear programs;
-        2. :meth:`_loose_point`, the MILP at a loose integrality tolerance, then repaired.
-
-        The exact MILP runs within the time left when neither finds a point. A relaxation
-        without a point proves there is none (InfeasibleProblem) on the way.
-        """
-        started = time.perf_counter()
-        limit = self.options.time_limit
-
-        def time_left() -> float | None:
-            return None if limit is None else max(limit - (time.perf_counter() - started), 1.0)
-
-        if (self._objective_is_zero and self.options.quick_routes
-                and all(v.ub == 0 for v in self.u_vars)):
-            for route in (self._least_flux_point, self._loose_point):
-                solution = route(what, time_left())
-                if solution is not None:
-                    solution.seconds = time.perf_counter() - started
-                    return solution
-        status = optimize(self.solver, time_left(), first_point=self._objective_is_zero)
-        check_status(status, what, self.options.time_limit)
-        return self._read_solution(time.perf_counter() - started)
-
-    def _least_flux_point(self, what: str, time_limit: float | None) -> Solution | None:
-        """A point of the problem from the flux pattern of least total flux, or None.
-
-        1. The linear relaxation (direction binaries continuous in [0, 1]) minimising the total
-           flux sum_j (v_fwd_j + v_rev_j), the objective of parsimonious flux balance (Lewis et
-           al. 2010, Mol. Syst. Biol. 6:390), which leaves out most internal cycles. When it is
-           infeasible, so is the problem (a relaxation): InfeasibleProblem.
-        2. The directions that carry flux there, fixed as in :meth:`solve_with_pattern` (a linear
-           program). A point found is a point of the full problem, certified like any other;
-           when there is none, nothing is proven and None is returned.
-
-        Measured with scripts/bench_engine.py (iJO1366, synthetic energies, GLPK): 0.3 s for
-        both steps against 25-31 s for the exact MILP's first integer point. On the bundled
-        network (native mode) it was downhill at none of 8 H2 levels from 1e-9 to 1e-2 mol/L.
-        """
-        relaxed = self.f_vars + self.b_vars
-        for v in relaxed:
-            v.type = "continuous"
-        try:
-            self.set_objective({v: 1.0 for r in self.reactions
-                                for v in (r.forward_variable, r.reverse_variable)})
-            status = optimize(self.solver, time_limit)
-            pattern = (self.flux_pattern(self._read_solution(0.0))
-                       if status == optlang_status.OPTIMAL else None)
-        finally:
-            for v in relaxed:
-                v.type = "integer"
-            self.set_objective({})
-        return self._repaired(status, pattern, what, time_limit, "the least-flux relaxation")
-
-    def _loose_point(self, what: str, time_limit: float | None) -> Solution | None:
-        """A point of the problem from the MILP at :data:`LOOSE_INTEGRALITY`, or None.
-
-        At that tolerance a 0/1 variable may sit at 1e-5 and let 1e-5 U of flux through a closed
-        direction, so the search ends sooner, but its point may break the second law (the
-        certificate catches it). Its 0/1 values (rounded) are fixed and the rest solved again as
-        a linear program at exact 0/1 values (:meth:`solve_with_pattern`). A loose search without
-        a point proves there is none (it searches a larger set): InfeasibleProblem.
-
-        Measured on the bundled network with GLPK, native mode, H2 1e-9 to 1e-2 mol/L: every
-        level found and repaired in 0.1-1.9 s, where the exact search was undetermined after
-        40 s at some levels (its time depends on the order of rows and columns).
-        """
-        tolerances = self.solver.configuration.tolerances
-        try:
-            tolerances.integrality = LOOSE_INTEGRALITY
-        except Exception:  # noqa: BLE001 - an interface without that tolerance: no loose route
-            return None
-        try:
-            status = optimize(self.solver, time_limit, first_point=True)
-            found = self._read_solution(0.0) if status == optlang_status.OPTIMAL else None
-        finally:
-            tolerances.integrality = SOLVER_TOLERANCES["integrality"]
-        pattern = None if found is None else (found.forward, found.backward)
-        return self._repaired(status, pattern, what, time_limit, "the loose search")
-
-    def _repaired(self, status: str, pattern: tuple[np.ndarray, np.ndarray] | None, what: str,
-                  time_limit: float | None, source: str) -> Solution | None:
-        """The end of a quick route: its search without a point proves infeasibility (it searched
-        a larger set); otherwise :meth:`solve_with_pattern` on the directions it found, or None
-        when they have no point (nothing proven)."""
-        if status in (optlang_status.INFEASIBLE, optlang_status.INFEASIBLE_OR_UNBOUNDED):
-            check_status(status, what, self.options.time_limit)
-        if pattern is None:
-            log.debug("%s: %s ended %s", what, source, status)
-            return None
-        try:
-            return self.solve_with_pattern(*pattern, what=what, time_limit=time_limit)
-        except InfeasibleProblem:
-            log.debug("%s: the directions of %s have no point", what, source)
-            return None
-
-    def flux_pattern(self, solution: Solution, tolerance: float = 1e-9) -> tuple[np.ndarray, np.ndarray]:
-        """The directions in which a solution's reactions with an energy carry flux (|v| > tolerance).
-
-        Only these directions constrain the energies; a direction binary at 1 on a reaction
-        without flux is an arbitrary choice of the solver, and fixing it would ask for a sign of
-        Delta_r G' that nothing needs (measured on iJO1366 with synthetic energies: fixing every
-        binary of one H2 level failed at each next level, fixing only the carried directions
-        did not).
-        """
-        v = solution.fluxes[self.energy_reaction_index]
-        return v > tolerance, v < -tolerance
-
-    def solve_with_pattern(self, forward: np.ndarray, backward: np.ndarray,
-                           what: str = "the thermodynamic flux problem",
-                           time_limit: float | None = None) -> Solution:
-        """Solve with every direction binary fixed to a given flux pattern (a linear program).
-
-        A solution found this way is a solution of the full problem (the pattern is one of its
-        choices), so it proves feasibility; InfeasibleProblem here proves nothing about other
-        patterns. Used to carry a certified pattern (:meth:`flux_pattern`) from one scan point to
-        the next; a direction not in the pattern carries no flux.
-        """
-        saved = [(v, v.lb, v.ub) for v in self.f_vars + self.b_vars]
-        try:
-            for v, on in zip(self.f_vars, forward):
-                value = 1.0 if on and v.ub >= 1 else 0.0
-                v.set_bounds(value, value)
-            for v, on in zip(self.b_vars, backward):
-                value = 1.0 if on and v.ub >= 1 else 0.0
-                v.set_bounds(value, value)
-            started = time.perf_counter()
-            status = optimize(self.solver, time_limit or self.options.time_limit)
-            check_status(status, what, self.options.time_limit)
-            return self._read_solution(time.perf_counter() - started)
-        finally:
-            for v, lb, ub in saved:
-                v.set_bounds(lb, ub)
-
-    def _read_solution(self, seconds: float) -> Solution:
-        primal = self.solver.primal_values
-        fluxes = np.array([primal[r.id] - primal[r.reverse_id] for r in self.reactions], float)
-        x = np.array([primal[v.name] for v in self.x_vars], float)
-        g = np.array([primal[v.name] for v in self.g_vars], float)
-        eps = np.array([primal[v.name] if v is not None else 0.0 for v in self.eps_vars], float)
-        f = np.array([primal[v.name] > 0.5 for v in self.f_vars], bool)
-        b = np.array([primal[v.name] > 0.5 for v in self.b_vars], bool)
-        uphill = [self.energy_ids[j] for j, v in enumerate(self.u_vars) if primal[v.name] > 0.5]
-        b_value = float(primal[self.b_var.name]) if self.b_var is not None else None
-        objective = None if self._objective_is_zero else float(self.solver.objective.value)
-        return Solution(list(self.reaction_ids), fluxes, list(self.metabolite_ids), x,
-                        list(self.energy_ids), g, eps, f, b, uphill, b_value, objective,
-                        self.solver_name, seconds)
-
     def flux_bounds(self) -> tuple[np.ndarray, np.ndarray]:
         """Lower and upper flux bounds of every reaction as the problem sees them (read from the
         cobra model; zero for reactions without an energy under the "block" policy)."""
@@ -669,7 +410,8 @@ class ThermoProblem:
             standard=self.standard, sigma=self.sigma, slack=solution.slack,
             uncertainty_k=self.options.uncertainty_k, thermo_rows=self.thermo[0],
             thermo_cols=self.thermo[1], thermo_values=self.thermo[2], rt=self.thermo_model.RT,
-            min_driving_force=delta, allowed_uphill=list(allowed_uphill or []))
+            min_driving_force=delta, allowed_uphill=list(allowed_uphill or []),
+            flux_scale=self.flux_scale, energy_scale=self.energy_scale)
 
     # ------------------------------------------------------------------ cleanup
     def remove(self) -> None:

@@ -69,9 +69,38 @@ def steady_state_flux_ranges(rows: np.ndarray, cols: np.ndarray, values: np.ndar
     wanted = np.asarray(wanted, int)
     if wanted.size == 0:
         return np.zeros(0), np.zeros(0)
-    return _ranges_glpk(np.asarray(rows, int), np.asarray(cols, int), np.asarray(values, float),
-                 int(n_metabolites), np.asarray(lower, float), np.asarray(upper, float), wanted,
-                 time_limit)
+    tasks = [(int(j), "max") for j in wanted] + [(int(j), "min") for j in wanted]
+    found = _solve_glpk_tasks(np.asarray(rows, int), np.asarray(cols, int),
+                              np.asarray(values, float), int(n_metabolites),
+                              np.asarray(lower, float), np.asarray(upper, float), tasks, time_limit)
+    if found is None:
+        return None
+    return found[len(wanted):], found[:len(wanted)]
+
+
+def least_signed_fluxes(rows: np.ndarray, cols: np.ndarray, values: np.ndarray, n_metabolites: int,
+                        lower: np.ndarray, upper: np.ndarray, wanted: np.ndarray, signs: np.ndarray,
+                        time_limit: float | None = None) -> np.ndarray | None:
+    """For each column j in ``wanted`` with sign d_j (+1 or -1), the least d_j v_j over the steady
+    states (one linear program each, half of :func:`steady_state_flux_ranges`). A positive value
+    means every steady state uses the direction d_j of reaction j. None when there is no steady
+    state (or the time limit was reached).
+
+    >>> import numpy as np
+    >>> rows, cols, vals = np.array([0, 0, 1, 1]), np.array([0, 1, 1, 2]), np.array([1., -1, 1, -1])
+    >>> least_signed_fluxes(rows, cols, vals, 2, np.array([0., 0, 2]), np.array([10., 4, 10]),
+    ...                     np.array([1, 0]), np.array([1, -1])).round(6).tolist()
+    [2.0, -4.0]
+    """
+    wanted = np.asarray(wanted, int)
+    if wanted.size == 0:
+        return np.zeros(0)
+    signs = np.asarray(signs, float)
+    tasks = [(int(j), "min" if d > 0 else "max") for j, d in zip(wanted, signs)]
+    found = _solve_glpk_tasks(np.asarray(rows, int), np.asarray(cols, int), np.asarray(values, float),
+                              int(n_metabolites), np.asarray(lower, float), np.asarray(upper, float),
+                              tasks, time_limit)
+    return None if found is None else signs * found
 
 
 def flux_caps(lo: np.ndarray, hi: np.ndarray, forward_bound: np.ndarray,
@@ -91,7 +120,9 @@ def flux_caps(lo: np.ndarray, hi: np.ndarray, forward_bound: np.ndarray,
     return cap(np.asarray(hi, float), forward_bound), cap(-np.asarray(lo, float), backward_bound)
 
 
-def _ranges_glpk(rows, cols, values, n_met, lower, upper, wanted, time_limit):
+def _solve_glpk_tasks(rows, cols, values, n_met, lower, upper, tasks, time_limit):
+    """Optimal v_j of each (column j, "min" or "max") task over the steady states, in order,
+    each linear program warm-started from the last one's basis; None on failure."""
     import swiglpk as glpk
 
     lp = glpk.glp_create_prob()
@@ -118,27 +149,25 @@ def _ranges_glpk(rows, cols, values, n_met, lower, upper, wanted, time_limit):
         parm.msg_lev = glpk.GLP_MSG_OFF
         limit_ms = None if time_limit is None else int(math.ceil(time_limit * 1000))
         started = glpk.glp_time()
-        lo = np.empty(len(wanted))
-        hi = np.empty(len(wanted))
+        out = np.empty(len(tasks))
         glpk.glp_adv_basis(lp, 0)
-        for out, direction in ((hi, glpk.GLP_MAX), (lo, glpk.GLP_MIN)):
-            glpk.glp_set_obj_dir(lp, direction)
-            for t, j in enumerate(wanted):
-                glpk.glp_set_obj_coef(lp, int(j) + 1, 1.0)
-                if limit_ms is not None:
-                    parm.tm_lim = max(1, limit_ms - int(glpk.glp_difftime(glpk.glp_time(), started) * 1000))
+        for t, (j, sense) in enumerate(tasks):
+            glpk.glp_set_obj_dir(lp, glpk.GLP_MAX if sense == "max" else glpk.GLP_MIN)
+            glpk.glp_set_obj_coef(lp, int(j) + 1, 1.0)
+            if limit_ms is not None:
+                parm.tm_lim = max(1, limit_ms - int(glpk.glp_difftime(glpk.glp_time(), started) * 1000))
+            code = glpk.glp_simplex(lp, parm)
+            if code != 0 or glpk.glp_get_status(lp) != glpk.GLP_OPT:
+                # a warm start can lose its way numerically: once more from a fresh basis
+                glpk.glp_adv_basis(lp, 0)
                 code = glpk.glp_simplex(lp, parm)
-                if code != 0 or glpk.glp_get_status(lp) != glpk.GLP_OPT:
-                    # a warm start can lose its way numerically: once more from a fresh basis
-                    glpk.glp_adv_basis(lp, 0)
-                    code = glpk.glp_simplex(lp, parm)
-                if code != 0 or glpk.glp_get_status(lp) != glpk.GLP_OPT:
-                    log.debug("flux ranges: GLPK ended with code %d, status %d at column %d; "
-                              "nominal caps kept", code, glpk.glp_get_status(lp), j)
-                    return None
-                out[t] = glpk.glp_get_col_prim(lp, int(j) + 1)
-                glpk.glp_set_obj_coef(lp, int(j) + 1, 0.0)
-        return lo, hi
+            if code != 0 or glpk.glp_get_status(lp) != glpk.GLP_OPT:
+                log.debug("flux ranges: GLPK ended with code %d, status %d at column %d; "
+                          "nominal caps kept", code, glpk.glp_get_status(lp), j)
+                return None
+            out[t] = glpk.glp_get_col_prim(lp, int(j) + 1)
+            glpk.glp_set_obj_coef(lp, int(j) + 1, 0.0)
+        return out
     finally:
         glpk.glp_delete_prob(lp)
         glpk.glp_term_out(terminal)

@@ -151,10 +151,23 @@ class HighsProblem(mi.MatrixProblem):
             lp.row_upper_ = sp.bounds[:, 1]
         if self.integer_vars:
             lp.integrality_ = list(_VAR_TYPES[sp.integer])
+        self.primals, self.cprimals = {}, {}
         highs = hs.Highs()
         highs.passOptions(self._options())
         highs.passModel(lp)
-        highs.run()
+        start = self.settings.pop("mip_start", None)
+        if start and self.integer_vars:
+            # a known point (name -> value) for the branch and bound to start from (one solve)
+            given = hs.HighsSolution()
+            given.col_value = [float(start.get(name, 0.0)) for name in self.variables]
+            highs.setSolution(given)
+        if highs.run() == hs.HighsStatus.kError and highs.getModelStatus() == hs.HighsModelStatus.kNotset:
+            # HiGHS keeps one thread scheduler per process; another user of highspy in the same
+            # process (a notebook) may have started it with another thread count, and HiGHS then
+            # refuses to run ("Not Set", read as interrupted). Start it anew for this instance.
+            log.debug("HiGHS refused to run (thread scheduler of another instance); restarting it")
+            hs.Highs.resetGlobalScheduler(True)
+            highs.run()
         self.status = highs.modelStatusToString(highs.getModelStatus())
         info = highs.getInfo()
         sol = highs.getSolution()

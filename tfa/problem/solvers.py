@@ -37,6 +37,15 @@ SOLVER_NAMES = ("glpk", "highs")
 #: points can fail the certificate, so that search is only one of the quick routes, whose points
 #: are repaired at exact 0/1 values (tfa.problem.builder.ThermoProblem._loose_point).
 GLPK_ANY_POINT_BACKTRACKING = "GLP_BT_BPH"
+#: GLPK's MIP presolve (glp_intopt's ``presolve``) for yes/no questions: off. It returned points
+#: that break a row by about 1e-6 and let the search time out where it finds a point at once
+#: without it: the bundled network's native question at demand 10, three hash seeds (column
+#: orders): undetermined after 20 s with it, 1.7-3.0 s without (the loose search: 0.01 s without,
+#: 20 s with). Optimisations keep it on the first try (the bundled network's minimal uphill set
+#: with H2 in place of carriers at demand 1e-6: best set 5, unproven, after 120 s without it; 1,
+#: proven, in seconds with it); every point is confirmed by its fixed-direction linear program
+#: and the search repeated without the presolve when it is not.
+GLPK_MIP_PRESOLVE = False
 
 
 class InfeasibleProblem(ComputationError):
@@ -152,12 +161,13 @@ def check_status(status: str, what: str, time_limit: float | None) -> None:
     raise ComputationError(f"{what}: {words}; try the other solver (--solver glpk or highs)")
 
 
-def optimize(model_solver, time_limit: float | None, first_point: bool = False) -> str:
+def optimize(model_solver, time_limit: float | None, first_point: bool = False,
+             presolve: bool = True) -> str:
     """Solve an optlang model once, within ``time_limit`` seconds; return its optlang status.
 
     HiGHS (and any other interface): ``model_solver.optimize()``. GLPK: one call of
-    ``glp_intopt`` (``glp_simplex`` for a problem without integer columns) with GLPK's presolver
-    on, instead of optlang's GLPK ``optimize``, which solves the relaxation once before the
+    ``glp_intopt`` (``glp_simplex`` for a problem without integer columns), its MIP presolve off
+    (:data:`GLPK_MIP_PRESOLVE`), instead of optlang's GLPK ``optimize``, which solves the relaxation once before the
     branch and bound and repeats the whole solve (up to four branch-and-bound runs) whenever the
     answer is "infeasible" or the time limit is hit: an infeasible answer cost four times a
     feasible one and a time limit of N s could run for 4N s.
@@ -166,14 +176,82 @@ def optimize(model_solver, time_limit: float | None, first_point: bool = False) 
     :data:`GLPK_ANY_POINT_BACKTRACKING` and the first integer point found is the answer (status
     OPTIMAL). Leave it False for a real optimisation. HiGHS stops at its first integer point by
     itself when there is no objective.
+
+    ``presolve=False`` solves a mixed-integer problem without the solver's MIP presolve: GLPK's
+    returned points that break a row by about 1e-6 and "optimal" answers that were not
+    (:meth:`tfa.problem.builder.ThermoProblem.solve` falls back to it when a point is not
+    confirmed by the linear program with its directions fixed).
     """
     model_solver.configuration.timeout = None if time_limit is None else int(math.ceil(time_limit))
     if solver_name_of(model_solver) != "glpk":
-        return model_solver.optimize()
-    return _optimize_glpk(model_solver, time_limit, first_point)
+        if presolve:
+            return model_solver.optimize()
+        configuration = model_solver.configuration
+        saved = configuration.presolve
+        configuration.presolve = False
+        try:
+            return model_solver.optimize()
+        finally:
+            configuration.presolve = saved
+    return _optimize_glpk(model_solver, time_limit, first_point, presolve)
 
 
-def _optimize_glpk(model_solver, time_limit: float | None, first_point: bool) -> str:
+def has_point(model_solver) -> bool:
+    """True when the last solve left a point of the problem (an incumbent), whatever its status."""
+    if solver_name_of(model_solver) == "glpk":
+        import swiglpk as glpk
+
+        lp = model_solver.problem
+        if glpk.glp_get_num_int(lp) == 0:
+            return glpk.glp_get_status(lp) in (glpk.GLP_OPT, glpk.GLP_FEAS)
+        return glpk.glp_mip_status(lp) in (glpk.GLP_OPT, glpk.GLP_FEAS)
+    info = getattr(model_solver.problem, "info", None)
+    return info is not None and int(info.primal_solution_status) == 2   # HiGHS: feasible
+
+
+def best_bound(model_solver, status: str) -> float | None:
+    """The solver's proven bound on the objective after the last solve (None when it gives none).
+
+    HiGHS reports its dual bound (``mip_dual_bound``) for a mixed-integer problem, the objective
+    for a linear one. GLPK gives no bound on a search stopped early; at a proven optimum (its
+    relative gap tolerance is 0 here) the bound is the objective.
+    """
+    if solver_name_of(model_solver) == "glpk":
+        if status == optlang_status.OPTIMAL:
+            return float(model_solver.objective.value)
+        return None
+    problem = model_solver.problem
+    info = getattr(problem, "info", None)
+    if info is None:
+        return None
+    direction = float(getattr(problem, "direction", 1.0))
+    if problem.integer_vars:
+        value = float(info.mip_dual_bound)
+    elif status == optlang_status.OPTIMAL:
+        value = float(info.objective_function_value)
+    else:
+        return None
+    return value * direction if math.isfinite(value) else None
+
+
+def _glpk_simplex_parameters(model_solver, limit_ms: int):
+    """GLPK simplex parameters: presolve on, quiet, the time limit, and the model's own
+    feasibility tolerance (``tol_bnd``, set from the problem's tolerances)."""
+    import swiglpk as glpk
+
+    smcp = glpk.glp_smcp()
+    glpk.glp_init_smcp(smcp)
+    settings = getattr(model_solver.configuration, "_smcp", None)
+    if settings is not None:
+        smcp.tol_bnd = settings.tol_bnd
+    smcp.presolve = glpk.GLP_OFF
+    smcp.msg_lev = glpk.GLP_MSG_OFF
+    smcp.tm_lim = limit_ms
+    return smcp
+
+
+def _optimize_glpk(model_solver, time_limit: float | None, first_point: bool,
+                   presolve: bool = True) -> str:
     import swiglpk as glpk
 
     model_solver.update()
@@ -181,12 +259,14 @@ def _optimize_glpk(model_solver, time_limit: float | None, first_point: bool) ->
     glpk.glp_scale_prob(lp, glpk.GLP_SF_AUTO)
     limit_ms = 2**31 - 1 if time_limit is None else int(min(2**31 - 1, math.ceil(time_limit * 1000)))
     if glpk.glp_get_num_int(lp) == 0:
-        smcp = glpk.glp_smcp()
-        glpk.glp_init_smcp(smcp)
-        smcp.presolve = glpk.GLP_ON
-        smcp.msg_lev = glpk.GLP_MSG_OFF
-        smcp.tm_lim = limit_ms
-        code = glpk.glp_simplex(lp, smcp)
+        code = glpk.glp_simplex(lp, _glpk_simplex_parameters(model_solver, limit_ms))
+        if code in (glpk.GLP_EBADB, glpk.GLP_ESING, glpk.GLP_ECOND) or (
+                code == 0 and glpk.glp_get_status(lp) == glpk.GLP_NOFEAS):
+            # a warm start can end in a wrong "no feasible point" (seen on a four-reaction
+            # network after other problems were solved in the process): once more from a
+            # fresh basis, whose answer stands
+            glpk.glp_adv_basis(lp, 0)
+            code = glpk.glp_simplex(lp, _glpk_simplex_parameters(model_solver, limit_ms))
         solved_status = glpk.glp_get_status
     else:
         iocp = glpk.glp_iocp()
@@ -194,11 +274,29 @@ def _optimize_glpk(model_solver, time_limit: float | None, first_point: bool) ->
         settings = model_solver.configuration._iocp
         for name in ("tol_int", "tol_obj", "mip_gap", "fp_heur"):
             setattr(iocp, name, getattr(settings, name))
-        iocp.presolve = glpk.GLP_ON
+        presolve = presolve and (GLPK_MIP_PRESOLVE or not first_point)
         iocp.msg_lev = glpk.GLP_MSG_OFF
         iocp.tm_lim = limit_ms
         if first_point:
             iocp.bt_tech = getattr(glpk, GLPK_ANY_POINT_BACKTRACKING)
+        if not presolve:   # without its presolver glp_intopt starts from an optimal LP basis
+            # from a basis built afresh (glp_adv_basis), not the one the last problem left: the
+            # search then does not depend on what was solved before (on the bundled network the
+            # native question took 0.3 s from a fresh problem and ran past 30 s after a problem
+            # was built and removed; 0.8 s with the fresh basis, 1.8 s from the standard basis)
+            glpk.glp_adv_basis(lp, 0)
+            code = glpk.glp_simplex(lp, _glpk_simplex_parameters(model_solver, limit_ms))
+            if code != 0:  # the basis left by the last problem did not serve: a fresh one
+                glpk.glp_adv_basis(lp, 0)
+                code = glpk.glp_simplex(lp, _glpk_simplex_parameters(model_solver, limit_ms))
+            if code == 0 and glpk.glp_get_status(lp) != glpk.GLP_OPT:
+                relaxed = glpk.glp_get_status(lp)
+                model_solver._status = (optlang_status.INFEASIBLE
+                                        if relaxed in (glpk.GLP_NOFEAS, glpk.GLP_INFEAS)
+                                        else optlang_status.UNDEFINED)
+                return model_solver._status
+            presolve = code != 0   # no optimal basis: glp_intopt's presolver starts afresh
+        iocp.presolve = glpk.GLP_ON if presolve else glpk.GLP_OFF
         code = glpk.glp_intopt(lp, iocp)
         solved_status = glpk.glp_mip_status
     found = solved_status(lp) in (glpk.GLP_OPT, glpk.GLP_FEAS)
@@ -215,7 +313,8 @@ def _optimize_glpk(model_solver, time_limit: float | None, first_point: bool) ->
     elif code == glpk.GLP_ENODFS:   # no dual feasible point: unbounded or infeasible
         status = optlang_status.INFEASIBLE_OR_UNBOUNDED
     elif code in (glpk.GLP_ETMLIM, glpk.GLP_ESTOP):
-        status = optlang_status.TIME_LIMIT
+        status = (optlang_status.FEASIBLE if solved_status(lp) == glpk.GLP_FEAS
+                  else optlang_status.TIME_LIMIT)
     else:
         log.debug("glp_intopt/glp_simplex returned %d; solving through optlang instead", code)
         return model_solver.optimize()

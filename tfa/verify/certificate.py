@@ -10,12 +10,19 @@ transformed Gibbs energy from the returned concentrations
 (Alberty 2003, eq. 4.1-4; the form used by Henry, Broadbelt & Hatzimanikatis 2007,
 Biophys. J. 92:1792) and verifies, within stated tolerances:
 
-1. mass balance: |S v|_inf small relative to the flux scale (steady state);
-2. flux bounds: lower <= v <= upper;
-3. concentration bounds: ln c_min <= x <= ln c_max;
-4. uncertainty slack: |eps_j| <= k sigma_j;
-5. second law: a reaction carrying flux forward has g_j <= -delta, backward g_j >= +delta,
-   except the reactions listed as allowed uphill (minimal uphill sets).
+1. mass balance: |S v|_inf <= 1e-6 s (steady state);
+2. flux bounds: lower - 1e-6 s <= v <= upper + 1e-6 s;
+3. concentration bounds: ln c_min <= x <= ln c_max (to 1e-6);
+4. uncertainty slack: |eps_j| <= k sigma_j (to 1e-6 E);
+5. second law: a reaction carrying flux (|v| > 1e-9 s) forward has g_j <= -delta, backward
+   g_j >= +delta (to 1e-6 E), except the reactions listed as allowed uphill (minimal uphill sets).
+
+Every tolerance is relative to a scale handed over with the arrays: the flux scale s (the
+largest required flux, :mod:`tfa.problem.scaling`), so that a demand of 1e-6 is checked as
+strictly as one of 10, and the energy scale E (the largest |Delta_r G'| the concentration box
+allows, at least 1 kJ/mol), the size of the numbers the solver balanced. A flux above 1e-9 s
+counts as carried: the points checked come from linear programs whose closed directions are
+fixed at zero flux, so a flux through a closed direction is an error, not noise.
 
 A failed check raises :class:`tfa.errors.CertificateError`; a solution that fails is never a
 result. This module imports nothing from ``tfa`` but :mod:`tfa.errors`.
@@ -29,10 +36,13 @@ import numpy as np
 
 from ..errors import CertificateError
 
-#: Relative tolerance of the mass balance, flux bounds and flux-carrying threshold.
+#: Tolerance of the mass balance and flux bounds, relative to the flux scale.
 FLUX_RELATIVE_TOLERANCE = 1e-6
-#: Absolute tolerance on recomputed reaction energies, kJ/mol (solver feasibility ~1e-6, RT*S ~ 10).
-ENERGY_TOLERANCE = 1e-4
+#: A flux above this, relative to the flux scale, counts as carried (second law checked).
+FLUX_CARRYING_TOLERANCE = 1e-9
+#: Tolerance on recomputed reaction energies and slacks, relative to the energy scale (solver
+#: feasibility 1e-9 on rows whose coefficients reach RT*|S| ~ 10 and big-M ~ the energy scale).
+ENERGY_RELATIVE_TOLERANCE = 1e-6
 #: Tolerance on log concentrations.
 LOG_TOLERANCE = 1e-6
 
@@ -72,6 +82,10 @@ class CertificateInput:
         Reactions allowed to run against their gradient (minimal uphill set solutions).
     check_mass_balance : bool
         False for a fixed pathway (directions given, no steady state asked).
+    flux_scale : float
+        The flux scale s (units of the fluxes): flux tolerances are relative to it.
+    energy_scale : float
+        The energy scale E, kJ/mol: energy tolerances are relative to it.
     """
 
     reaction_ids: list[str]
@@ -98,6 +112,8 @@ class CertificateInput:
     min_driving_force: float
     allowed_uphill: list[str] = field(default_factory=list)
     check_mass_balance: bool = True
+    flux_scale: float = 1.0
+    energy_scale: float = 1.0
 
 
 @dataclass
@@ -114,6 +130,8 @@ class Certificate:
     n_flux_carrying: int
     recomputed_energies: np.ndarray
     uphill_reactions: list[str]
+    flux_tolerance: float = 0.0
+    energy_tolerance: float = 0.0
 
     def summary(self) -> str:
         """One line for reports."""
@@ -133,6 +151,8 @@ class Certificate:
             "slack_violation": self.slack_violation,
             "second_law_violation": self.second_law_violation,
             "flux_threshold": self.flux_threshold,
+            "flux_tolerance": self.flux_tolerance,
+            "energy_tolerance_kJ": self.energy_tolerance,
             "n_flux_carrying": self.n_flux_carrying,
             "uphill_reactions": list(self.uphill_reactions),
         }
@@ -179,8 +199,11 @@ def check_solution(data: CertificateInput) -> Certificate:
     """
     failures: list[str] = []
     v = np.asarray(data.fluxes, float)
-    scale = max(1.0, float(np.max(np.abs(v))) if v.size else 1.0)
-    flux_tol = FLUX_RELATIVE_TOLERANCE * scale * 10.0
+    if not (np.isfinite(data.flux_scale) and data.flux_scale > 0):
+        raise CertificateError(f"the flux scale must be positive, got {data.flux_scale}")
+    flux_tol = FLUX_RELATIVE_TOLERANCE * data.flux_scale
+    carrying = FLUX_CARRYING_TOLERANCE * data.flux_scale
+    energy_tol = ENERGY_RELATIVE_TOLERANCE * max(1.0, data.energy_scale)
 
     # 1. steady state
     residual = 0.0
@@ -218,7 +241,7 @@ def check_solution(data: CertificateInput) -> Certificate:
     allowed = data.uncertainty_k * np.asarray(data.sigma, float)
     slack_excess = np.abs(slack) - allowed
     slack_violation = float(max(0.0, np.max(slack_excess))) if slack.size else 0.0
-    if slack_violation > ENERGY_TOLERANCE:
+    if slack_violation > energy_tol:
         j = int(np.argmax(slack_excess))
         rid = data.reaction_ids[int(data.energy_reaction_index[j])]
         failures.append(f"uncertainty slack: reaction {rid} uses {slack[j]:.4g} kJ/mol, more than "
@@ -230,15 +253,15 @@ def check_solution(data: CertificateInput) -> Certificate:
     uphill = set(data.allowed_uphill)
     ids = [data.reaction_ids[int(j)] for j in data.energy_reaction_index]
     exempt = np.array([rid in uphill for rid in ids], dtype=bool)
-    forward = (v_energy > flux_tol) & ~exempt
-    backward = (v_energy < -flux_tol) & ~exempt
+    forward = (v_energy > carrying) & ~exempt
+    backward = (v_energy < -carrying) & ~exempt
     delta = data.min_driving_force
     excess_g = np.zeros(len(g))
     excess_g[forward] = g[forward] + delta
     excess_g[backward] = delta - g[backward]
     law_violation = float(max(0.0, np.max(excess_g))) if len(g) else 0.0
-    if law_violation > ENERGY_TOLERANCE:
-        bad = np.flatnonzero(excess_g > ENERGY_TOLERANCE)
+    if law_violation > energy_tol:
+        bad = np.flatnonzero(excess_g > energy_tol)
         worst = bad[np.argsort(-excess_g[bad])][:5]
         listed = ", ".join(f"{ids[j]} (flux {v_energy[j]:.4g}, Delta_r G' = {g[j]:.3f} kJ/mol)"
                            for j in worst)
@@ -248,6 +271,6 @@ def check_solution(data: CertificateInput) -> Certificate:
     if failures:
         raise CertificateError("the solution failed its independent check, so it is not reported: "
                                + "; ".join(failures))
-    n_carrying = int(np.sum(np.abs(v_energy) > flux_tol)) if len(g) else 0
+    n_carrying = int(np.sum(np.abs(v_energy) > carrying)) if len(g) else 0
     return Certificate(True, residual, flux_violation, conc_violation, slack_violation,
-                       law_violation, flux_tol, n_carrying, g, sorted(uphill))
+                       law_violation, carrying, n_carrying, g, sorted(uphill), flux_tol, energy_tol)
