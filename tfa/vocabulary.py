@@ -74,6 +74,11 @@ COLUMNS: dict[str, Term] = _terms(
     ("used_by", "reactions whose energy uses the datum, joined by ', '", ""),
     ("recalled_values", "numbers of a source used without checking its printed table", ""),
     ("set", "number of an alternative minimal uphill set (1 = the first found)", ""),
+    ("verification", "how the answer was checked: certified (the point passed the independent "
+                     "check), proven (a solver's proof confirmed by a second route, or an optimum "
+                     "whose bound the solver proved), solver proof (not confirmed), best found "
+                     "(a limit stopped the search), computed (no optimisation)", ""),
+    ("checked_by", "the check behind the verification, in words", ""),
     ("uphill_set", "members of a minimal uphill set, joined by ', '", ""),
     ("h2_compound", "the network's H2 compound", ""),
     ("h2_unit", "unit the H2 supply is given in: mol/L (dissolved) or bar (gas)", ""),
@@ -127,6 +132,8 @@ COLUMNS: dict[str, Term] = _terms(
      "kJ/mol"),
     ("uphill_by_kJ_per_mol", "how far uphill a reaction runs in its direction (ΔrG' > 0) at the "
                              "concentrations that make its set's total smallest", "kJ/mol"),
+    ("short_by_kJ_per_mol", "how far a member of an uphill set falls short of the least driving "
+                            "force when it runs downhill by less than it", "kJ/mol"),
     # fluxes and activities
     ("flux", "net flux (forward minus backward), in the network's flux unit", "flux unit"),
     ("activity", "concentration over 1 mol/L, or partial pressure over 1 bar for a gas", ""),
@@ -167,6 +174,7 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("summary", "the answer in plain sentences", ""),
     ("timings_s", "seconds per step", "s"),
     ("steps", "the steps that ran, in order", ""),
+    ("verifications", "per step (and mode): how each answer was checked, status and check", ""),
     ("route_driving_force_kJ_per_mol", "max-min driving force of the named route", "kJ/mol"),
     ("route_bottlenecks", "reactions at the named route's max-min driving force", ""),
     ("command", "the command that printed the JSON", ""),

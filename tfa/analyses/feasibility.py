@@ -28,9 +28,11 @@ log = logging.getLogger(__name__)
 
 
 #: Columns of the ``feasibility`` table (one row per mode).
-FEASIBILITY_COLUMNS = ["mode", "feasible", "uphill_set_size", "demand_impossible", "message"]
+FEASIBILITY_COLUMNS = ["mode", "feasible", "uphill_set_size", "demand_impossible", "message",
+                       "verification", "checked_by"]
 #: Columns of the ``uphill_sets`` table (one row per member of a set, per mode).
-UPHILL_SET_COLUMNS = ["mode", "set", "reaction", "direction", "uphill_by_kJ_per_mol"]
+UPHILL_SET_COLUMNS = ["mode", "set", "reaction", "direction", "uphill_by_kJ_per_mol",
+                      "short_by_kJ_per_mol"]
 
 
 @dataclass(kw_only=True)
@@ -90,7 +92,9 @@ class FeasibilityResult(AnalysisResult):
         """The answer as one row of the ``feasibility`` table."""
         return {"mode": self.mode, "feasible": self.feasible,
                 "uphill_set_size": self.uphill_set_size,
-                "demand_impossible": self.demand_impossible, "message": self.message}
+                "demand_impossible": self.demand_impossible, "message": self.message,
+                "verification": self.verification.get("status", ""),
+                "checked_by": self.verification.get("check", "")}
 
     def uphill_rows(self) -> list[dict]:
         """The minimal uphill sets as rows of the ``uphill_sets`` table (empty when feasible)."""

@@ -101,8 +101,13 @@ class Assessment:
         data: dict[str, Any] = {"network": self.network.id,
                                 "environment": f"{env.name} ({env.conditions.describe()})",
                                 "mode": self.context.settings.mode}
+        checks = {}
         for step in self.steps:
             data.update(step.summary_data(self.result(step.id), self.context))
+            check = step.verification(self.result(step.id), self.context)
+            if check:
+                checks[step.id] = check
+        data["verifications"] = checks
         data["notes"] = list(self.notes)
         data["steps"] = [s.id for s in self.steps]
         return data

@@ -110,6 +110,13 @@ class Step:
         """The step's keys in ``summary.json`` (plain data)."""
         return {}
 
+    def verification(self, result: Any, ctx: "RunContext") -> dict:
+        """How the answer was checked (``status``, ``check``): the result's own ``verification``
+        (for a dict of results, one per key); empty when there is none."""
+        if isinstance(result, dict):
+            return {key: dict(getattr(r, "verification", {}) or {}) for key, r in result.items()}
+        return dict(getattr(result, "verification", {}) or {})
+
     def sections(self, result: Any, ctx: "RunContext") -> list[Section]:
         """The step's report sections (default: one section with its tables)."""
         stems = list(self.tables(result, ctx))

@@ -64,8 +64,17 @@ def quantity(value: float, unit: str) -> str:
     return f"{value:.2e} {unit}"
 
 
+def checked(status: str) -> str:
+    """The verification of an answer as a short suffix of its sentence (nothing when unknown).
+
+    >>> checked("proven"), checked("")
+    (' [proven]', '')
+    """
+    return f" [{status}]" if status else ""
+
+
 def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]] | None = None,
-              demand_impossible: bool = False, undetermined: str = "") -> str:
+              demand_impossible: bool = False, undetermined: str = "", status: str = "") -> str:
     """The answer of one mode in a sentence.
 
     Parameters
@@ -78,6 +87,8 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
         Minimal uphill sets found (alternatives of the same size).
     demand_impossible : bool
         The demand cannot be met even ignoring thermodynamics.
+    status : str
+        How the answer was checked (certified, proven, ...), shown after it.
 
     Examples
     --------
@@ -90,10 +101,10 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
         return f"{question}: undetermined (the solver gave no proven answer)" + (
             f"; {undetermined}" if undetermined else "")
     if feasible:
-        return f"{question}: yes"
+        return f"{question}: yes" + checked(status)
     line = f"{question}: no"
     if demand_impossible:
-        return line + " (the demand cannot be met even ignoring thermodynamics)"
+        return line + " (the demand cannot be met even ignoring thermodynamics)" + checked(status)
     sets = [list(s) for s in (sets or []) if s is not None]
     if sets:
         first = sets[0]
@@ -102,10 +113,11 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
             line += f" (or, as an alternative set of the same size: {names(sets[1])})"
         elif len(sets) > 2:
             line += f" ({number_in_words(len(sets))} alternative sets of this size; the first shown)"
-    return line
+    return line + checked(status)
 
 
-def h2_line(threshold: float | None, h2_range: Sequence[float] | None, unit: str = "mol/L") -> str:
+def h2_line(threshold: float | None, h2_range: Sequence[float] | None, unit: str = "mol/L",
+            status: str = "") -> str:
     """The H2 answer in a sentence.
 
     >>> h2_line(2.3e-5, (1e-9, 1e-2))
@@ -118,21 +130,21 @@ def h2_line(threshold: float | None, h2_range: Sequence[float] | None, unit: str
     if threshold is None or (isinstance(threshold, float) and math.isnan(threshold)):
         where = (f" between {quantity(h2_range[0], unit)} and {quantity(h2_range[1], unit)}"
                  if h2_range else "")
-        return f"H2 needed: no amount{where} lets the network run"
+        return f"H2 needed: no amount{where} lets the network run" + checked(status)
     value = float(threshold)
     if h2_range and value <= float(h2_range[0]) * (1 + 1e-6):
         return (f"H2 needed: less than the lowest level searched; the network runs down to "
-                f"{quantity(float(h2_range[0]), unit)}")
-    return f"H2 needed: at least {quantity(value, unit)}"
+                f"{quantity(float(h2_range[0]), unit)}" + checked(status))
+    return f"H2 needed: at least {quantity(value, unit)}" + checked(status)
 
 
-def driving_force_line(force: float, bottlenecks: Sequence[str] = ()) -> str:
+def driving_force_line(force: float, bottlenecks: Sequence[str] = (), status: str = "") -> str:
     """The max-min driving force in a sentence.
 
     >>> driving_force_line(0.84, ["mtr"])
     'max-min driving force: 0.84 kJ/mol (tightest: mtr)'
     """
-    line = f"max-min driving force: {force:.3g} kJ/mol"
+    line = f"max-min driving force: {force:.3g} kJ/mol" + checked(status)
     if bottlenecks:
         line += f" (tightest: {names(bottlenecks)})"
     return line

@@ -47,12 +47,10 @@ class DrivingForceStep(Step):
         from ...report.text import driving_force_line
 
         lines = []
-        if result.network is not None:
-            lines.append(driving_force_line(result.network.driving_force,
-                                            result.network.bottlenecks))
-        if result.route is not None:
-            lines.append("route " + driving_force_line(result.route.driving_force,
-                                                       result.route.bottlenecks))
+        for label, answer in (("", result.network), ("route ", result.route)):
+            if answer is not None:
+                lines.append(label + driving_force_line(answer.driving_force, answer.bottlenecks,
+                                                        answer.verification.get("status", "")))
         return lines
 
     def summary_data(self, result: DrivingForceAnswer, ctx: RunContext) -> dict:
@@ -60,7 +58,14 @@ class DrivingForceStep(Step):
         if result.network is not None:
             out["driving_force_kJ_per_mol"] = result.network.driving_force
             out["bottlenecks"] = list(result.network.bottlenecks)
+        if result.route is not None:
+            out["route_driving_force_kJ_per_mol"] = result.route.driving_force
+            out["route_bottlenecks"] = list(result.route.bottlenecks)
         return out
+
+    def verification(self, result: DrivingForceAnswer, ctx: RunContext) -> dict:
+        return {label: dict(answer.verification) for label, answer in
+                (("network", result.network), ("route", result.route)) if answer is not None}
 
     def sections(self, result: DrivingForceAnswer, ctx: RunContext) -> list[Section]:
         if result.network is None and result.route is None:

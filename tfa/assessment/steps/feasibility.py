@@ -41,7 +41,8 @@ class FeasibilityStep(Step):
             undetermined = r.message.startswith("undetermined")
             sets = r.diagnosis.sets if r.diagnosis is not None else []
             lines.append(mode_line(MODES[mode].question, None if undetermined else r.feasible,
-                                   sets, r.demand_impossible))
+                                   sets, r.demand_impossible,
+                                   status=r.verification.get("status", "")))
         return lines
 
     def summary_data(self, result: dict[str, FeasibilityResult], ctx: RunContext) -> dict:

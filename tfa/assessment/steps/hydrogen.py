@@ -80,7 +80,7 @@ class H2ThresholdStep(Step):
         if result is None:
             return []
         return [h2_line(result.threshold if result.feasible else None, result.search_range,
-                        result.unit)]
+                        result.unit, result.verification.get("status", ""))]
 
     def summary_data(self, result: H2ThresholdResult | None, ctx: RunContext) -> dict:
         if result is None:

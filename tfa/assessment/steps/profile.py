@@ -72,6 +72,9 @@ class EnergyProfileStep(Step):
     def tables(self, result: ProfileResult, ctx: RunContext) -> dict:
         return {"energy_profile": result.table}
 
+    def verification(self, result: ProfileResult, ctx: RunContext) -> dict:
+        return dict(getattr(result.reference, "verification", {}) or {})
+
     def figures(self, result: ProfileResult, ctx: RunContext) -> dict:
         if not len(result.table):
             return {}

@@ -59,6 +59,11 @@ class RobustnessStep(Step):
             return {}
         return {"robustness": result.feasibility_frame().to_dict(orient="records")}
 
+    def verification(self, result: RobustnessResult | None, ctx: RunContext) -> dict:
+        from ...analyses.jobs import points_verification
+
+        return {} if result is None else points_verification(result.records)
+
     def sections(self, result: RobustnessResult | None, ctx: RunContext) -> list[Section]:
         if result is None:
             return []
