@@ -17,7 +17,9 @@ from typing import Any
 import cobra
 import pandas as pd
 
+from ..conditions import condition_overrides
 from ..errors import InputError
+from ..util.files import check_input_file, read_input_text
 from .bundled import bundled_environment_path, bundled_folder
 from .environment import Environment
 from .io_sbml import load_network as read_any
@@ -109,13 +111,19 @@ def resolve_inputs(network: Any = None, environment: Any = None,
                              "compounds.tsv or leave --compounds out")
         model = read_any(path, compounds, require_balanced=require_balanced)
         folder = _network_folder(path)
-        literature = reaction_values_beside(folder / "reactions.tsv")
+        # the readers keep a reaction_values_path note only within the file's folder
+        note = (model.notes or {}).get("reaction_values_path")
+        literature = Path(note) if note else reaction_values_beside(folder / "reactions.tsv")
+        if literature is not None:
+            model.notes["reaction_values_path"] = str(literature)
         network_source = str(path)
         default_env = default_environment_path(path) or bundled_environment_path()
     elif isinstance(network, cobra.Model):
         model = network
+        # a model made in Python is the caller's own: its note is followed, through the gate
         path = (model.notes or {}).get("reaction_values_path")
-        literature = Path(path) if path else None
+        literature = (check_input_file(path, "reaction values named by the model's note")
+                      if path else None)
         network_source = f"cobra model {model.id}"
         default_env = bundled_environment_path()
     else:
@@ -130,9 +138,10 @@ def resolve_inputs(network: Any = None, environment: Any = None,
     else:
         raise InputError(f"environment: expected a path or an Environment, got "
                          f"{type(environment).__name__}")
-    changes = {k: v for k, v in conditions.items() if v is not None}
+    changes = condition_overrides(conditions)
     if changes:
         env = env.with_conditions(**changes)
+    env.check_network(model)
     return Inputs(model, env, network_source, env_source, literature, folder)
 
 
@@ -157,7 +166,7 @@ def load_environment(path: str | Path | None = None, network: str | Path | None 
     ``pressure``, ``pmg``) override the file's."""
     env_path = Path(path) if path is not None else default_environment_path(network)
     environment = Environment.from_toml(env_path or bundled_environment_path())
-    changes = {k: v for k, v in conditions.items() if v is not None}
+    changes = condition_overrides(conditions)
     return environment.with_conditions(**changes) if changes else environment
 
 
@@ -172,12 +181,16 @@ def network_sources(folder: Path | None) -> pd.DataFrame | None:
     """
     if folder is None:
         return None
+    import io
+
     for name, sep in SOURCES_FILES:
         path = folder / name
-        if path.is_file():
+        if path.exists():
+            text = read_input_text(path, "table of sources")
             try:
-                frame = pd.read_csv(path, sep=sep, comment="#", dtype=str, keep_default_na=False)
-            except (pd.errors.ParserError, UnicodeDecodeError) as err:
+                frame = pd.read_csv(io.StringIO(text), sep=sep, comment="#", dtype=str,
+                                    keep_default_na=False)
+            except (pd.errors.ParserError, pd.errors.EmptyDataError) as err:
                 raise InputError(f"{path}: cannot be read as a table ({err}); fix it or remove it")
             return frame if "key" in frame.columns else None
     return None
