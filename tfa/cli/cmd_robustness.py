@@ -16,9 +16,10 @@ import sys
 from pathlib import Path
 
 from ..errors import InputError
+from ..util.numbers import MAX_SIGMA_SCALE
 from ..util.points import HASH_SEED
 from .options import (add_deprecated, add_modes_option, add_network_options, add_option,
-                      add_output_options, add_problem_options, add_threshold_switch,
+                      add_output_options, add_problem_options, add_threshold_switch, gated,
                       parse_workers, report_deprecations)
 from .output import print_json, print_table, solver_output_silenced
 from .step_command import progress_for
@@ -108,7 +109,8 @@ def register(subparsers) -> None:
     add_option(parser, "draws", "robustness", type=int)
     add_option(parser, "seed", "robustness", type=int)
     add_modes_option(parser, "robustness")
-    parser.add_argument("--sigma-scale", type=float, default=1.0, metavar="F",
+    parser.add_argument("--sigma-scale", type=gated(minimum=0.0, maximum=MAX_SIGMA_SCALE),
+                        default=1.0, metavar="F",
                         help="multiply every uncertainty by F (0: every draw is the deterministic "
                         "answer; default 1)")
     add_threshold_switch(parser)

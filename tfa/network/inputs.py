@@ -10,14 +10,15 @@ vent field). Condition overrides (``celsius``, ``ph``, ``ionic_strength``, ``pre
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+import warnings
+from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
 import cobra
 import pandas as pd
 
-from ..conditions import condition_overrides
+from ..conditions import ModelRangeWarning, condition_overrides
 from ..errors import InputError
 from ..util.files import check_input_file, read_input_text
 from .bundled import bundled_environment_path, bundled_folder
@@ -43,6 +44,8 @@ class Inputs:
         The network's own table of reaction values, when there is one.
     network_folder : Path or None
         The folder of the network's files.
+    warnings : list of str
+        Model-range warnings raised while reading (conditions past a model's usual range).
     """
 
     model: cobra.Model
@@ -51,6 +54,7 @@ class Inputs:
     environment_source: str
     literature_path: Path | None = None
     network_folder: Path | None = None
+    warnings: list[str] = field(default_factory=list)
 
     def network_sources(self) -> pd.DataFrame | None:
         """The network's own ``sources.tsv`` (or ``.csv``) beside its reactions table, if any."""
@@ -72,6 +76,22 @@ def default_environment_path(network: str | Path | None) -> Path | None:
 def resolve_inputs(network: Any = None, environment: Any = None,
                    compounds: str | Path | None = None, require_balanced: bool = True,
                    **conditions: float | None) -> Inputs:
+    """Read the network and the environment as ``tfa`` resolves them everywhere (see
+    :func:`_resolve`); model-range warnings raised on the way are recorded in
+    :attr:`Inputs.warnings` (and shown as usual)."""
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ModelRangeWarning)
+        inputs = _resolve(network, environment, compounds, require_balanced, **conditions)
+    for item in caught:
+        if issubclass(item.category, ModelRangeWarning) and str(item.message) not in inputs.warnings:
+            inputs.warnings.append(str(item.message))
+        warnings.warn_explicit(item.message, item.category, item.filename, item.lineno)
+    return inputs
+
+
+def _resolve(network: Any = None, environment: Any = None,
+             compounds: str | Path | None = None, require_balanced: bool = True,
+             **conditions: float | None) -> Inputs:
     """Read the network and the environment as ``tfa`` resolves them everywhere.
 
     Parameters

@@ -124,12 +124,15 @@ class ProblemOptions:
                              f"{self.flux_caps!r}")
         if self.unknown_energy not in UNKNOWN_ENERGY_POLICIES:
             raise InputError(f"unknown_energy must be 'free' or 'block', got {self.unknown_energy!r}")
-        if not (math.isfinite(self.min_driving_force) and self.min_driving_force >= 0):
-            raise InputError(f"the least driving force must be >= 0 kJ/mol, got {self.min_driving_force}")
-        if not (math.isfinite(self.uncertainty_k) and self.uncertainty_k >= 0):
-            raise InputError(f"the uncertainty multiple k must be >= 0, got {self.uncertainty_k}")
-        if self.time_limit is not None and not self.time_limit > 0:
-            raise InputError(f"the time limit must be positive seconds, got {self.time_limit}")
+        from ..util.numbers import MAX_DRIVING_FORCE, MAX_K_SIGMA, MAX_TIME_LIMIT, read_number
+
+        read_number(self.min_driving_force, "the least driving force", minimum=0.0,
+                    maximum=MAX_DRIVING_FORCE, unit="kJ/mol")
+        read_number(self.uncertainty_k, "the uncertainty multiple k", minimum=0.0,
+                    maximum=MAX_K_SIGMA)
+        if self.time_limit is not None:
+            read_number(self.time_limit, "the time limit", above=0.0, maximum=MAX_TIME_LIMIT,
+                        unit="s")
 
     def to_dict(self) -> dict:
         """Plain dictionary for provenance."""

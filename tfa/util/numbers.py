@@ -171,13 +171,14 @@ def read_number(value: Any, field: str, where: str = "", *, minimum: float | Non
 
 
 def read_count(value: Any, field: str, where: str = "", *, minimum: int = 1,
-               maximum: int | None = None) -> int:
-    """A whole number between ``minimum`` and ``maximum`` (a count, a seed, workers).
+               maximum: int | None = None, text: bool = True) -> int:
+    """A whole number between ``minimum`` and ``maximum`` (a count, a seed, workers); with
+    ``text=False`` (arguments of the Python API) only an ``int`` is taken.
 
     >>> read_count(3, "alternatives", maximum=MAX_ALTERNATIVES)
     3
     """
-    if isinstance(value, float):
+    if isinstance(value, float) or (not text and isinstance(value, str)):
         raise InputError(f"{_prefix(where)}{field} {value!r} is not a whole number; give e.g. 3")
     return read_number(value, field, where, minimum=minimum, maximum=maximum, integer=True)
 
