@@ -230,6 +230,7 @@ class OutputFolder:
         self.target = check_output_folder(target, option)
         self.staging = _side_name(self.target, "partial")
         self.committed = False
+        self.cancelled = False
         self._lock = None
 
     # ---------------------------------------------------------------- entering
@@ -300,6 +301,11 @@ class OutputFolder:
         self.committed = True
         return self.target
 
+    def keep_aside(self) -> None:
+        """Do not swap in on leaving (an interrupted resumable run): the previous result stays,
+        the partial folder waits for ``resume``."""
+        self.cancelled = True
+
     def abandon(self) -> None:
         """Leave the previous result as it was; keep the partial folder only for a resume."""
         if not self.committed and not self.journal:
@@ -307,7 +313,7 @@ class OutputFolder:
 
     def __exit__(self, kind, error, trace) -> None:
         try:
-            if kind is None:
+            if kind is None and not self.cancelled:
                 self.commit()
             else:
                 self.abandon()
