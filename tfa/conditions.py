@@ -237,7 +237,7 @@ def condition_overrides(given, where: str = "conditions") -> dict:
             raise ConditionsError(f"{where}: 'temperature' does not say its unit; give celsius="
                                   f"{value!r} (degC) or temperature_K={value!r} (K)")
         if key not in CONDITION_KEYS:
-            close = difflib.get_close_matches(str(key), list(CONDITION_KEYS), n=1)
+            close = difflib.get_close_matches(str(key), list(CONDITION_KEYS), n=1, cutoff=0.4)
             hint = f"did you mean '{close[0]}'? " if close else ""
             raise ConditionsError(f"{where}: unknown key {key!r}; {hint}use "
                                   f"{', '.join(CONDITION_KEYS)}")

@@ -63,7 +63,10 @@ def main(argv: list[str] | None = None) -> int:
 
     prepare_streams()
     parser = build_parser()
-    args = parser.parse_args(argv)
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as stop:  # --help, --version, or a one-line usage error (exit code 2)
+        return stop.code if isinstance(stop.code, int) else 2
     if not getattr(args, "command", None):
         parser.print_help()
         return 2

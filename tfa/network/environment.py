@@ -508,7 +508,8 @@ def _positive(where: str, section: str, key: str, value: Any) -> float:
             f"{where} [{section}] {key}: {value!r} is not a concentration; give a value > 0 "
             "(mol/L; gases bar), or remove the entry"
         )
-    _real(where, section, key, value)
+    if isinstance(value, str):
+        _real(where, section, key, value)
     try:
         return read_activity(value, f"[{section}] {key}", where)
     except InputError as exc:

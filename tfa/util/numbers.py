@@ -152,13 +152,6 @@ def read_number(value: Any, field: str, where: str = "", *, minimum: float | Non
     if math.isinf(number) and not allow_infinite:
         raise InputError(f"{at}{field} {_shown(value)} is infinite; give a finite number"
                          f"{unit_text}")
-    cap = MAX_MAGNITUDE if maximum is None else max(MAX_MAGNITUDE, abs(maximum))
-    if math.isfinite(number) and abs(number) > cap:
-        raise InputError(f"{at}{field} {_shown(value)} is beyond any sensible magnitude; give at "
-                         f"most {cap:g}{unit_text}")
-    if integer and (not math.isfinite(number) or number != int(number)):
-        raise InputError(f"{at}{field} {_shown(value)} is not an integer; give a whole number, "
-                         "e.g. 3")
     low = [] if minimum is None else [f">= {minimum:g}"]
     low += [] if above is None else [f"> {above:g}"]
     high = [] if maximum is None else [f"<= {maximum:g}"]
@@ -167,6 +160,12 @@ def read_number(value: Any, field: str, where: str = "", *, minimum: float | Non
             or (maximum is not None and number > maximum)):
         raise InputError(f"{at}{field} {_shown(value)} is out of range; give a value "
                          f"{wanted}{unit_text}")
+    if math.isfinite(number) and abs(number) > MAX_MAGNITUDE and maximum is None:
+        raise InputError(f"{at}{field} {_shown(value)} is beyond any sensible magnitude; give at "
+                         f"most {MAX_MAGNITUDE:g}{unit_text}")
+    if integer and (not math.isfinite(number) or number != int(number)):
+        raise InputError(f"{at}{field} {_shown(value)} is not an integer; give a whole number, "
+                         "e.g. 3")
     return int(number) if integer else number
 
 
