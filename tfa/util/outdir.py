@@ -308,7 +308,10 @@ class OutputFolder:
 
     def abandon(self) -> None:
         """Leave the previous result as it was; keep the partial folder only for a resume."""
-        if not self.committed and not self.journal:
+        if self.committed:
+            return
+        journal = self.staging / self.journal if self.journal else None
+        if journal is None or not journal.is_file() or journal.stat().st_size == 0:
             _remove(self.staging)
 
     def __exit__(self, kind, error, trace) -> None:
