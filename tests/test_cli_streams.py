@@ -139,3 +139,11 @@ def test_resume_skips_torn_and_mistyped_lines(mini_folder, tmp_path, capsys):
     assert resumed["draws"] == first["draws"] and resumed["feasibility"] == first["feasibility"]
     _, records = read_results(journal)
     assert len(records) == 4                                   # the mean and three draws
+
+
+def test_a_read_only_home_does_not_break_the_model_cache(mini_folder):
+    """cobra makes its model cache under the home folder when imported; a home that cannot hold
+    it was a NotADirectoryError traceback."""
+    env = {k: v for k, v in os.environ.items() if k != "XDG_CACHE_HOME"}
+    run = tfa("feasible", str(mini_folder), "--modes", "native", "-q", env=dict(env, HOME="/dev/null"))
+    assert run.returncode == 0 and "Traceback" not in run.stderr, run.stderr

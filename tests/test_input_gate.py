@@ -5,7 +5,7 @@ command line and the Python API; water must be liquid; the caps are enforced.
 Physical references: the saturation pressure of water from the IAPWS-95 formulation (Wagner and
 Pruss 2002, J. Phys. Chem. Ref. Data 31:387; values from memory) and from pychnosz's SUPCRT92
 water model (the model of the species data). The caps themselves are "common practice" rules
-of thumb, documented in tfa/util/numbers.py and docs/design.md.
+of thumb, documented in tfa/util/numbers.py and the design notes ("Limits").
 """
 
 from __future__ import annotations
