@@ -14,8 +14,8 @@ import argparse
 import sys
 
 from ..errors import InputError
-from .cmd_robustness import (add_execution_options, execution_kwargs, interrupted, load_network,
-                             output_folder, point_progress, problem_kwargs, same_hash_seed)
+from .cmd_robustness import (add_execution_options, execution_kwargs, interrupted, point_progress,
+                             problem_kwargs, start_points_run)
 from .options import (add_modes_option, add_network_options, add_output_options,
                       add_problem_options, add_threshold_switch, report_deprecations)
 from .output import print_json, print_table, solver_output_silenced
@@ -60,9 +60,7 @@ def run(args: argparse.Namespace) -> int:
         raise InputError(f"--x and --y are both {x[0]}; give two different conditions")
     modes = parse_modes(args.modes)
     execution = execution_kwargs(args)
-    same_hash_seed(args)
-    folder = output_folder(args, "map.jsonl")
-    inputs = load_network(args)
+    folder, inputs = start_points_run(args, "map.jsonl")
     model, environment = inputs.model, inputs.environment
     with folder as opened:
         out = opened.staging if opened is not None else None

@@ -83,17 +83,19 @@ def load_network(args: argparse.Namespace):
     return load_inputs(args, require_balanced=False)
 
 
-def output_folder(args: argparse.Namespace, journal: str):
-    """The :class:`~tfa.util.outdir.OutputFolder` of ``--out`` (checked now, before anything
-    runs), with its resumable results file; a do-nothing context without ``--out``."""
+def start_points_run(args: argparse.Namespace, journal: str):
+    """What a many-point command needs before it runs: this process under the common hash seed,
+    the :class:`~tfa.util.outdir.OutputFolder` of ``--out`` with its resumable results file
+    ``journal`` (checked now; a do-nothing context without ``--out``), and the inputs."""
     import contextlib
 
     from ..util.outdir import OutputFolder
 
-    if args.out is None:
-        return contextlib.nullcontext()
-    return OutputFolder(args.out, "--out", journal=journal, resume=args.resume,
-                        overwrite=args.overwrite, command=args.command)
+    same_hash_seed(args)
+    folder = (contextlib.nullcontext() if args.out is None else
+              OutputFolder(args.out, "--out", journal=journal, resume=args.resume,
+                           overwrite=args.overwrite, command=args.command))
+    return folder, load_network(args)
 
 
 def interrupted(args: argparse.Namespace, folder, unit: str) -> int:
@@ -156,9 +158,7 @@ def run(args: argparse.Namespace) -> int:
         raise InputError(f"--draws {args.draws}: give at least 1")
     if args.seed < 0:
         raise InputError(f"--seed {args.seed}: give a whole number >= 0")
-    same_hash_seed(args)
-    folder = output_folder(args, "robustness.jsonl")
-    inputs = load_network(args)
+    folder, inputs = start_points_run(args, "robustness.jsonl")
     model, environment = inputs.model, inputs.environment
     with folder as opened:
         out = opened.staging if opened is not None else None
