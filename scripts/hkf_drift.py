@@ -95,11 +95,14 @@ def tfa_reaction_gibbs(reaction: DriftReaction, celsius: float,
                        constant_enthalpy: bool = False) -> float:
     """ΔrG° (kJ/mol) from the bundled table with constant-Cp integration, 1 bar.
 
-    ``constant_enthalpy=True`` drops Cp (the constant-ΔH fallback) for comparison.
+    ``constant_enthalpy=True`` drops Cp (the constant-ΔH fallback) for comparison. Species that
+    the table's generator re-anchored to biochemical values enter with the source's own G (the
+    shift is removed; it is the same at every temperature), so that this compares the
+    integration with HKF, not the data with their source.
     """
     table = table or species_by_id()
     ids = list(reaction.stoichiometry)
-    members = [table[i] for i in ids]
+    members = [replace(table[i], G=table[i].G - (table[i].shift or 0.0)) for i in ids]
     if constant_enthalpy:
         members = [replace(m, Cp=None) for m in members]
     values, _ = standard_gibbs(members, celsius + CELSIUS_ZERO)

@@ -236,8 +236,8 @@ def test_reaction_values_are_balanced_sourced_and_used(compounds, reactions, val
         report = check_balance(_stoich(v["equation"], v["id"]), formulas)
         assert report.ok, f"{v['id']}: {report.message}"
         assert v["source_key"] in sources, v["id"]
-        assert float(v["sigma_kJ"]) > 0, v["id"]
-        assert float(v["dg0_prime_kJ"]) != 0.0, v["id"]
+        assert float(v["sigma_kJ_per_mol"]) > 0, v["id"]
+        assert float(v["delta_g_standard_kJ_per_mol"]) != 0.0, v["id"]
         assert v["temperature_C"] and v["ph"] and v["ionic_strength"], v["id"]
         assert "memory" in v["note"] or "common practice" in v["note"], v["id"]
     for r in reactions:
@@ -261,7 +261,7 @@ def test_phosphoryl_values_are_mutually_consistent(values):
     """Nelson & Cox (Lehninger) tables: PGK = BPG hydrolysis - ATP hydrolysis, pyruvate kinase =
     PEP hydrolysis - ATP hydrolysis (ATP hydrolysis -30.5 kJ/mol in the same tables, from memory),
     within the stated uncertainties."""
-    by_id = {v["id"]: float(v["dg0_prime_kJ"]) for v in values}
+    by_id = {v["id"]: float(v["delta_g_standard_kJ_per_mol"]) for v in values}
     atp = -30.5
     assert by_id["pgk"] == pytest.approx(-(by_id["bpg_hydrolysis"] - atp), abs=2.0)
     assert by_id["pyk"] == pytest.approx(by_id["pep_hydrolysis"] - atp, abs=2.0)
@@ -275,7 +275,7 @@ def test_formaldehyde_thf_value_is_on_the_total_formaldehyde_basis(values):
     (about -19 kJ/mol, which the value carried before) may be applied."""
     row = {v["id"]: v for v in values}["hcho_thf"]
     rt = 8.314462618e-3 * 298.15
-    assert float(row["dg0_prime_kJ"]) == pytest.approx(-rt * math.log(3.2e4), abs=0.3)
+    assert float(row["delta_g_standard_kJ_per_mol"]) == pytest.approx(-rt * math.log(3.2e4), abs=0.3)
     assert float(row["temperature_C"]) == 25 and float(row["ph"]) == 7.2
     assert "total" in row["note"]
 
@@ -287,14 +287,14 @@ def test_acyl_phosphate_kinase_analogues_lie_in_the_textbook_range(values):
     to phosphoglycerate kinase +18.5; and the two acyl-phosphate reductases must equal the
     glyceraldehyde-3-phosphate dehydrogenase value they are taken from."""
     by_id = {v["id"]: v for v in values}
-    low = -float(by_id["actp_hydrolysis"]["dg0_prime_kJ"]) - 30.5
-    high = float(by_id["pgk"]["dg0_prime_kJ"])
+    low = -float(by_id["actp_hydrolysis"]["delta_g_standard_kJ_per_mol"]) - 30.5
+    high = float(by_id["pgk"]["delta_g_standard_kJ_per_mol"])
     for rid in ("ak", "g5k"):
-        g, sigma = float(by_id[rid]["dg0_prime_kJ"]), float(by_id[rid]["sigma_kJ"])
+        g, sigma = float(by_id[rid]["delta_g_standard_kJ_per_mol"]), float(by_id[rid]["sigma_kJ_per_mol"])
         assert low - sigma <= g <= high + sigma, rid
         assert sigma >= (high - low) / 2, rid
     for rid in ("asd", "g5sd"):
-        assert float(by_id[rid]["dg0_prime_kJ"]) == float(by_id["gapdh"]["dg0_prime_kJ"]), rid
+        assert float(by_id[rid]["delta_g_standard_kJ_per_mol"]) == float(by_id["gapdh"]["delta_g_standard_kJ_per_mol"]), rid
 
 
 def test_every_internal_reaction_has_an_energy_at_the_demo_setting():

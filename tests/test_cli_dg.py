@@ -24,10 +24,11 @@ def test_json_keys_and_methanogenesis_value(capsys):
     # Thauer et al. 1977 (from memory): -131 kJ/mol at 25 degC, pH 7.
     data = run_json(capsys, "4 H2(g) + CO2(g) <=> CH4(g) + 2 H2O", "--temperature", "25", "--ph", "7",
                     "--ionic-strength", "0")
-    for key in ("reaction_gibbs_standard", "reaction_gibbs", "uncertainty", "balanced", "sources",
+    for key in ("delta_g_standard_kJ_per_mol", "delta_g_kJ_per_mol", "sigma_kJ_per_mol", "balanced",
+                "sources",
                 "conditions", "provenance", "flags"):
         assert key in data
-    assert data["reaction_gibbs_standard"] == pytest.approx(-131.0, abs=2.0)
+    assert data["delta_g_standard_kJ_per_mol"] == pytest.approx(-131.0, abs=2.0)
     assert data["balanced"] is True
     assert "WEP+82" in data["sources"]
 
@@ -37,8 +38,8 @@ def test_activities_move_the_actual_energy(capsys):
     # and 1 mM formate, dG' = dG'0 + RT ln(1e-3 / 1e-3) = dG'0.
     data = run_json(capsys, "H2(g) + CO2(g) <=> formate", "--ph", "7",
                     "--activity", "H2(g)=1e-3", "--activity", "formate=1e-3")
-    assert data["reaction_gibbs_standard"] == pytest.approx(3.4, abs=2.0)
-    assert data["reaction_gibbs"] == pytest.approx(data["reaction_gibbs_standard"], abs=1e-9)
+    assert data["delta_g_standard_kJ_per_mol"] == pytest.approx(3.4, abs=2.0)
+    assert data["delta_g_kJ_per_mol"] == pytest.approx(data["delta_g_standard_kJ_per_mol"], abs=1e-9)
     assert data["activities"]["H2(g)"] == pytest.approx(1e-3)
 
 
@@ -73,12 +74,15 @@ def test_bad_activity_exit_2(capsys):
 
 
 def test_unreviewed_data_only_on_request(capsys):
-    code = main(["dg", "acetyl phosphate + H2O <=> acetate + phosphate"])
-    captured = capsys.readouterr()
-    assert code != 0 and captured.out == ""
-    assert "include-unreviewed" in captured.err
+    # By default acetyl phosphate comes from the library's reaction values (Nelson & Cox 2008
+    # -43.1, Thauer et al. 1977 -44.8, both from memory), never from the unreviewed species.
+    data = run_json(capsys, "acetyl phosphate + H2O <=> acetate + phosphate", "--ionic-strength",
+                    "0.25")
+    assert "LDS+26" not in data["sources"] and {"NC08", "TJD77"} <= set(data["sources"])
+    assert data["status"] == "recalled value (from memory)"
+    assert data["delta_g_standard_kJ_per_mol"] == pytest.approx(-43.9, abs=3.0)
     data = run_json(capsys, "acetyl phosphate + H2O <=> acetate + phosphate", "--include-unreviewed")
-    assert "LDS+26" in data["sources"]
+    assert "LDS+26" in data["sources"] and data["status"] == "unreviewed"
 
 
 def _entry_point() -> list[str]:
@@ -95,7 +99,7 @@ def test_readme_first_command_through_the_installed_entry_point():
                           capture_output=True, text=True, timeout=120)
     assert proc.returncode == 0, proc.stderr
     data = json.loads(proc.stdout)
-    assert data["reaction_gibbs_standard"] == pytest.approx(-112.4, abs=1.0)
+    assert data["delta_g_standard_kJ_per_mol"] == pytest.approx(-112.4, abs=1.0)
     assert data["conditions"]["temperature_C"] == pytest.approx(70.0)
 
 

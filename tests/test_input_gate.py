@@ -218,8 +218,9 @@ def test_environment_keys_and_values_are_checked(mini_folder, old, new, words):
 def test_a_byte_order_mark_is_accepted_in_every_table_and_toml(mini_folder):
     """A UTF-8 BOM was refused in reaction_values.tsv and environment.toml (common practice:
     spreadsheet programs write one)."""
-    values = ("id\tequation\tdg0_prime_kJ\tsigma_kJ\tdh0_prime_kJ\ttemperature_C\tph\t"
-              "ionic_strength\tpmg\tsource_key\tpeer_reviewed\tnote\n"
+    values = ("id\tequation\tdelta_g_standard_kJ_per_mol\tsigma_kJ_per_mol\t"
+              "delta_h_standard_kJ_per_mol\ttemperature_C\tph\tionic_strength\tpmg\tsource_key\t"
+              "peer_reviewed\tnote\n"
               "v1\tac + atp <=> actp + adp\t13.0\t1.0\t\t25\t7\t0.25\t\tS1\tyes\tinvented test value\n")
     (mini_folder / "reaction_values.tsv").write_text(values)
     (mini_folder / "sources.tsv").write_text("key\tauthors\tyear\tcitation\tdoi\tpeer_reviewed\n"
@@ -231,7 +232,7 @@ def test_a_byte_order_mark_is_accepted_in_every_table_and_toml(mini_folder):
     inputs = resolve_inputs(mini_folder)
     assert inputs.environment.name == "mini test setting"
     assert list(inputs.network_sources()["key"]) == ["S1"]
-    from tfa.thermo.reconcile import read_literature_values
+    from tfa.thermo.literature import read_literature_values
 
     assert [v.id for v in read_literature_values(inputs.literature_path)] == ["v1"]
 

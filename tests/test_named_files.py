@@ -16,8 +16,9 @@ from tfa.errors import InputError, NetworkFileError
 from tfa.network.io_sbml import load_network, write_cobra_json, write_sbml
 from tfa.network.inputs import resolve_inputs
 
-VALUES = ("id\tequation\tdg0_prime_kJ\tsigma_kJ\tdh0_prime_kJ\ttemperature_C\tph\tionic_strength\t"
-          "pmg\tsource_key\tpeer_reviewed\tnote\n"
+VALUES = ("id\tequation\tdelta_g_standard_kJ_per_mol\tsigma_kJ_per_mol\t"
+          "delta_h_standard_kJ_per_mol\ttemperature_C\tph\tionic_strength\tpmg\tsource_key\t"
+          "peer_reviewed\tnote\n"
           "v1\tac + atp <=> actp + adp\t13.0\t1.0\t\t25\t7\t0.25\t\tS1\tyes\tinvented test value\n")
 
 

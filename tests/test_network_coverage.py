@@ -8,31 +8,23 @@ The small-network check uses acetyl phosphate hydrolysis, −43.1 kJ/mol at pH 7
 
 from __future__ import annotations
 
-import importlib.util
 import math
+import sys
 from pathlib import Path
 
 import pytest
 
-from tfa.conditions import Conditions
-from tfa.network.coverage import coverage
-from tfa.network.io_table import read_network
-from tfa.thermo.database import ThermoDatabase
+sys.path.insert(0, str(Path(__file__).parent))
+from tiny_network import write_tiny_network  # noqa: E402
 
-
-def _tiny():
-    spec = importlib.util.spec_from_file_location(
-        "_tiny_network", Path(__file__).with_name("test_network_energies.py"))
-    module = importlib.util.module_from_spec(spec)
-    spec.loader.exec_module(module)
-    return module
+from tfa.conditions import Conditions  # noqa: E402
+from tfa.network.coverage import coverage  # noqa: E402
+from tfa.network.io_table import read_network  # noqa: E402
+from tfa.thermo.database import ThermoDatabase  # noqa: E402
 
 
 def test_small_network_split_and_accounting(tmp_path):
-    tiny = _tiny()
-    (tmp_path / "compounds.tsv").write_text(tiny.COMPOUNDS)
-    (tmp_path / "reactions.tsv").write_text(tiny.REACTIONS)
-    (tmp_path / "reaction_values.tsv").write_text(tiny.VALUES)
+    write_tiny_network(tmp_path)
     model = read_network(tmp_path / "reactions.tsv")
     report = coverage(model, Conditions(298.15, 7.0, 0.25), ThermoDatabase.load(),
                       tmp_path / "reaction_values.tsv", estimate=False)

@@ -20,7 +20,7 @@ from tfa.network.energies import compound_energies, prepare, prepared, reaction_
 from tfa.network.environment import Environment, apply_environment
 from tfa.network.io_table import read_network
 from tfa.thermo.database import ThermoDatabase
-from tfa.thermo.reconcile import read_literature_values
+from tfa.thermo.literature import read_literature_values
 
 COMPOUNDS = """id\tname\tsynonyms\tformula\tcharge\tthermo_key\tconc_min\tconc_max\trole\tsmiles\tnotes
 h2o\twater\t\tH2O\t0\tH2O\t\t\twater\t\t
@@ -47,7 +47,7 @@ EX_pi\tpi <=> \t\t\tboundary\t\t\t\t
 DM_pyr\tpyr -> \t\t\tdemand\t\t\t\t
 """
 
-VALUES = """id\tequation\tdg0_prime_kJ\tsigma_kJ\tdh0_prime_kJ\ttemperature_C\tph\tionic_strength\tpmg\tsource_key\tpeer_reviewed\tnote
+VALUES = """id\tequation\tdelta_g_standard_kJ_per_mol\tsigma_kJ_per_mol\tdelta_h_standard_kJ_per_mol\ttemperature_C\tph\tionic_strength\tpmg\tsource_key\tpeer_reviewed\tnote
 actp_hydrolysis\tactp + h2o <=> ac + pi + h\t-43.1\t2.0\t\t25\t7\t0.25\t\tNC08\tyes\tLehninger Table 13-6, from memory
 """
 

@@ -7,6 +7,7 @@ the numbers below are what the current data and models give, read off the README
 them right is checked elsewhere against published values (tests/test_thermo_*.py for the
 energies, tests/test_engine_*.py for the optimisation on hand-solved networks); here the point
 is that the pipeline still gives the same answers, and that the README says what it prints.
+Tolerances: the digits the README prints (common practice for pinned regression answers).
 """
 
 from __future__ import annotations

@@ -18,14 +18,8 @@ from tfa.conditions import Conditions
 from tfa.constants import LN10, R
 from tfa.errors import InputError, MissingDataError
 from tfa.thermo.legendre import debye_huckel_term
-from tfa.thermo.reconcile import (
-    ENTROPY_SIGMA_NO_ENTHALPY,
-    LiteratureValue,
-    UnknownSpecies,
-    legendre_offset,
-    read_literature_values,
-    reconcile,
-)
+from tfa.thermo.literature import LiteratureValue, read_literature_values
+from tfa.thermo.reconcile import ENTROPY_SIGMA_NO_ENTHALPY, UnknownSpecies, legendre_offset, reconcile
 
 REF = Conditions(298.15, 7.0, 0.25)
 
@@ -58,8 +52,8 @@ def test_two_unknowns_with_a_conserved_moiety_hand_solution():
     assert d == pytest.approx(-240.4, abs=1e-9)
     assert sigma == pytest.approx(1 / math.sqrt(1.25), abs=1e-9)
     frame = rec.to_frame().set_index("compound")
-    assert frame.loc["XC", "dfG_prime_ref_kJ"] == pytest.approx(-120.2, abs=1e-9)
-    assert frame.loc["C", "dfG_prime_ref_kJ"] == pytest.approx(120.2, abs=1e-9)
+    assert frame.loc["XC", "formation_delta_g_standard_kJ_per_mol"] == pytest.approx(-120.2, abs=1e-9)
+    assert frame.loc["C", "formation_delta_g_standard_kJ_per_mol"] == pytest.approx(120.2, abs=1e-9)
     assert not frame.loc["XC", "identified"] and not frame.loc["C", "identified"]
     # residuals: v1 row [1,-1], b = -240, fitted -240.4 -> e = +0.4, leverage h = 1/1.25 = 0.8,
     # studentized 0.4/(1*sqrt(0.2)) = 0.894; v2: b = 42 + 200 = 242, fitted 240.4 -> e = 1.6,
@@ -147,7 +141,7 @@ def test_entropy_reproduces_the_literature_temperature_dependence(dh):
         return -100.0 - 0.2 * (k.temperature - 298.15), 0.0
 
     sp = UnknownSpecies(n_h=4, charge=-1)
-    vals = [LiteratureValue("v", {"A": -1, "X": 1}, -10.0, 1.0, REF, dh0_prime=dh)]
+    vals = [LiteratureValue("v", {"A": -1, "X": 1}, -10.0, 1.0, REF, delta_h_standard=dh)]
     rec = reconcile(vals, known_t, {"X": sp}, reference=REF)
     t = 348.15
     ds = 0.0 if dh is None else (dh + 10.0) / 298.15
@@ -166,14 +160,14 @@ def test_bad_value_and_file_errors(tmp_path):
     good = tmp_path / "values.tsv"
     good.write_text(
         "# literature values\n"
-        "id\tequation\tdg0_prime_kJ\tsigma_kJ\tdh0_prime_kJ\ttemperature_C\tph\tionic_strength\tpmg\tsource_key\tpeer_reviewed\tnote\n"
+        "id\tequation\tdelta_g_standard_kJ_per_mol\tsigma_kJ_per_mol\tdelta_h_standard_kJ_per_mol\ttemperature_C\tph\tionic_strength\tpmg\tsource_key\tpeer_reviewed\tnote\n"
         "v1\ta + c <=> xc + b\t10\t1\t\t25\t7\t0.25\t\tS1\tyes\tnote # with hash\n"
         "v2\txc <=> p + c\tabc\t2\t\t25\t7\t0.25\t\tS2\tyes\t\n")
-    with pytest.raises(InputError, match=r"values.tsv line 4: column dg0_prime_kJ holds 'abc'"):
+    with pytest.raises(InputError, match=r"values.tsv line 4: column delta_g_standard_kJ_per_mol holds 'abc'"):
         read_literature_values(good)
     good.write_text(good.read_text().replace("abc", "42"))
     vals = read_literature_values(good)
     assert [v.id for v in vals] == ["v1", "v2"]
     assert vals[0].stoichiometry == {"a": -1.0, "c": -1.0, "xc": 1.0, "b": 1.0}
-    assert vals[0].note == "note # with hash" and vals[0].dh0_prime is None
-    assert np.isclose(vals[1].dg0_prime, 42.0)
+    assert vals[0].note == "note # with hash" and vals[0].delta_h_standard is None
+    assert np.isclose(vals[1].delta_g_standard, 42.0)

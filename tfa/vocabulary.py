@@ -59,6 +59,20 @@ COLUMNS: dict[str, Term] = _terms(
     ("message", "the answer in plain words", ""),
     ("kind", "what a row describes", ""),
     ("error", "why a point could not be answered (empty when it was)", ""),
+    ("status", "how far the numbers behind an energy were checked: reviewed species data, cited "
+               "reaction value, reconciled, recalled value (from memory), common practice, "
+               "estimated, unreviewed", ""),
+    ("audit_flags", "open disagreements of the data audit that touch the energy", ""),
+    ("item", "the datum to verify: a reaction value, a species, a carrier potential, an estimate",
+     ""),
+    ("value", "the number, in the unit of the column unit", ""),
+    ("sigma", "its standard uncertainty, in the unit of the column unit", ""),
+    ("unit", "unit of value and sigma", ""),
+    ("citation", "the published source in full", ""),
+    ("conditions", "temperature, pH, ionic strength, pMg of a measurement", ""),
+    ("note", "remarks on the datum (where it comes from, why it was corrected)", ""),
+    ("used_by", "reactions whose energy uses the datum, joined by ', '", ""),
+    ("recalled_values", "numbers of a source used without checking its printed table", ""),
     ("set", "number of an alternative minimal uphill set (1 = the first found)", ""),
     ("uphill_set", "members of a minimal uphill set, joined by ', '", ""),
     ("h2_compound", "the network's H2 compound", ""),
@@ -101,7 +115,11 @@ COLUMNS: dict[str, Term] = _terms(
     ("delta_g_min_kJ_per_mol", "least ΔrG' over the feasible steady states", "kJ/mol"),
     ("delta_g_max_kJ_per_mol", "largest ΔrG' over the feasible steady states", "kJ/mol"),
     ("cumulative_delta_g_kJ_per_mol", "running sum of ΔrG' along the route", "kJ/mol"),
-    ("sigma_kJ_per_mol", "standard uncertainty of ΔrG'°", "kJ/mol"),
+    ("sigma_kJ_per_mol", "standard uncertainty of ΔrG'° (or of ΔfG'° in a table of compounds)",
+     "kJ/mol"),
+    ("formation_delta_g_standard_kJ_per_mol", "ΔfG'°, transformed standard formation energy of a "
+                                              "compound at the setting", "kJ/mol"),
+    ("delta_h_standard_kJ_per_mol", "ΔrH'°, transformed standard reaction enthalpy", "kJ/mol"),
     ("sigma_from_covariance_kJ_per_mol", "σ of ΔrG'° from the covariance of the draws", "kJ/mol"),
     ("shared_sigma_kJ_per_mol", "the part of σ shared with other reactions", "kJ/mol"),
     ("independent_sigma_kJ_per_mol", "the part of σ this reaction has alone", "kJ/mol"),
@@ -154,7 +172,6 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("route_driving_force_kJ_per_mol", "max-min driving force of the named route", "kJ/mol"),
     ("route_bottlenecks", "reactions at the named route's max-min driving force", ""),
     ("command", "the command that printed the JSON", ""),
-    ("conditions", "temperature, pH, ionic strength, pressure and pMg of the setting", ""),
     ("tables", "every table of the answer: file stem -> rows", ""),
 )
 

@@ -11,11 +11,17 @@ from typing import TYPE_CHECKING
 import pandas as pd
 
 from ..report.html import ReportSection, build_report
+from ..thermo.status import RECALLED
 from ..report.sections import (cautions_section, conventions_section, environment_section,
                                sources_section)
 
 if TYPE_CHECKING:
     from .result import Assessment
+
+#: Words before the table of data sources.
+SOURCES_TEXT = ("recalled_values counts the numbers taken from a source without checking them "
+                "against its printed table (marked \"from memory\"); verify those before "
+                "publishing (the to_verify table lists each with the reactions that use it).")
 
 
 def write_report(assessment: "Assessment", tables: dict[str, pd.DataFrame],
@@ -40,7 +46,9 @@ def write_report(assessment: "Assessment", tables: dict[str, pd.DataFrame],
                                           figure_paths=figure_paths, figure_captions=captions,
                                           table_caption=first_caption,
                                           more_tables=tuple(shown[1:])))
-    sections.append(sources_section(*_sources(assessment)))
+    sources, used = _sources(assessment)
+    sections.append(sources_section(sources, used, text=SOURCES_TEXT if "recalled_values" in sources
+                                    else ""))
     sections.append(conventions_section())
     sections.append(cautions_section())
     env = ctx.environment
@@ -72,6 +80,11 @@ def _sources(assessment: "Assessment") -> tuple[pd.DataFrame, list[str]]:
     if extra is not None and len(extra):
         table = pd.concat([table, extra[[c for c in table.columns if c in extra.columns]]],
                           ignore_index=True).drop_duplicates("key", keep="last")
+    coverage = ctx.results.get("coverage")
+    if coverage is not None:
+        verify = coverage.to_verify()
+        recalled = verify.loc[verify["status"] == RECALLED, "source"].value_counts()
+        table["recalled_values"] = [int(recalled.get(k, 0)) for k in table["key"]]
     known = set(table["key"].astype(str))
     used = [k for k in _used_source_keys(ctx.thermo_model(ctx.settings.mode)) if k in known]
     return table, used

@@ -20,6 +20,7 @@ from ..errors import TfaError
 COMMANDS: dict[str, str] = {
     "assess": "cmd_assess",
     "dg": "cmd_dg",
+    "audit": "cmd_audit",
     "inspect": "cmd_inspect",
     "feasible": "cmd_feasible",
     "uphill": "cmd_uphill",

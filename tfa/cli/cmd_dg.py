@@ -1,8 +1,13 @@
 """``tfa dg``: transformed Gibbs energy of one reaction at given conditions.
 
-Prints ΔrG'° and ΔrG' (kJ/mol) with their standard uncertainty, the balance, the sources and
-the provenance of every compound. Bad input (unknown compound, unbalanced equation, bad
-activity) prints an error on stderr only and exits with code 2.
+Prints ΔrG'° and ΔrG' (kJ/mol) with their standard uncertainty, the balance, the status of the
+data (reviewed species data, recalled value, ...), the open audit disagreements that touch it,
+the sources and the provenance of every compound. The energies come from the reaction library
+(:class:`tfa.thermo.library.ReactionLibrary`: species data and the literature values of
+``tfa/data``, reconciled, so acetyl-CoA, the THF carriers, acyl phosphates, PEP and the sugar
+phosphates are there), or with ``--network`` from a network's own data. Bad input (unknown
+compound, unbalanced equation, bad activity) prints an error on stderr only and exits with
+code 2; a reaction the data do not fix exits with code 1.
 """
 
 from __future__ import annotations
@@ -28,9 +33,14 @@ def register(subparsers) -> None:
         "dg",
         help="transformed Gibbs energy of a reaction (ΔrG'°, ΔrG', uncertainty, balance, sources)",
         description="Transformed reaction Gibbs energy at the given temperature, pH, ionic "
-        "strength and pressure. Compounds are named by id, name or synonym (case does not "
-        "matter): CO2 is dissolved CO2, CO2(g) the gas and CO2tot total CO2 (it carries one "
-        "water). Arrows: <=>, =, ->.",
+        "strength, pMg and pressure, from species data and the literature reaction values of "
+        "the library (reconciled: acetyl-CoA, CoA, THF carriers, acyl phosphates, PEP, sugar "
+        "phosphates). Compounds are named by id, name or synonym (case does not matter): CO2 "
+        "is dissolved CO2, CO2(g) the gas and CO2tot total CO2 (it carries one water); "
+        "ferredoxin is the pair Fd_ox/Fd_red per two electrons ('Fd' and 'ferredoxin' name the "
+        "oxidised form, 'Fd2-' the reduced one); S0 is solid sulfur. Arrows: <=>, =, ->. The "
+        "output says how far the data were checked (status) and names every open audit "
+        "disagreement that touches the reaction (tfa audit lists them all).",
         epilog='example: tfa dg "H2 + CO2tot <=> formate + H2O" --temperature 70 --ph 6.5 '
         "--ionic-strength 0.2 --activity H2=1e-3",
     )
@@ -40,6 +50,10 @@ def register(subparsers) -> None:
                         help="activity of a compound for ΔrG' (mol/L; gases: bar); repeatable. "
                         "Compounds not given are at 1 (standard state)")
     add_unreviewed_option(parser)
+    parser.add_argument("--network", metavar="PATH",
+                        help="use a network's own data instead of the library (its reactions "
+                        "table or folder: species data, its reaction_values.tsv, estimates); "
+                        "compounds are then named as in its compounds table")
     add_output_options(parser)
     parser.set_defaults(run=run)
 
@@ -88,10 +102,14 @@ def _text(result: "ReactionEnergyResult", defaulted: list[str]) -> str:
         f"ΔrG'        {result.actual:9.2f} ± {result.uncertainty:.2f} kJ/mol  (at the activities below)",
         "activities  " + (", ".join(f"{k}={v:g}" for k, v in result.activities.items()) or "none"),
         f"balance     {result.balance.message}",
+        f"status      {result.status}",
         f"sources     {', '.join(result.sources) or 'none'}",
         "provenance",
     ]
     lines += [f"  {line}" for line in result.provenance]
+    if result.audit_flags:
+        lines.append("audit (open disagreements that touch this reaction; tfa audit lists all)")
+        lines += [f"  {flag}" for flag in result.audit_flags]
     if result.flags:
         lines.append("flags")
         lines += [f"  {flag}" for flag in result.flags]
@@ -104,11 +122,22 @@ def run(args: argparse.Namespace) -> int:
     from ..thermo.database import ThermoDatabase
 
     db = ThermoDatabase.load(include_unreviewed=args.include_unreviewed)
-    result = db.reaction_energy(args.equation, conditions, activities=activities)
+    if args.network:
+        from ..network.energies import network_reaction_energy
+        from .step_command import load_inputs
+
+        inputs = load_inputs(argparse.Namespace(network=args.network), require_balanced=False)
+        result = network_reaction_energy(inputs.model, conditions, args.equation, activities, db)
+    else:
+        from ..thermo.library import ReactionLibrary
+
+        library = ReactionLibrary.load(include_unreviewed=args.include_unreviewed)
+        result = library.reaction_energy(args.equation, conditions, activities=activities)
     if args.json:
         payload = result.to_dict()
         payload["defaults"] = defaulted
         payload["include_unreviewed"] = bool(args.include_unreviewed)
+        payload["network"] = args.network
         print_json(payload)
     else:
         sys.stdout.write(_text(result, defaulted))

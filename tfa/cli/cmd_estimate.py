@@ -81,7 +81,8 @@ def _resolve(text: str) -> tuple[str, str]:
 
 
 def run(args: argparse.Namespace) -> int:
-    from ..thermo.group_contribution import estimate_species, fitted_model
+    from ..thermo.estimates import estimate_species
+    from ..thermo.group_contribution import fitted_model
 
     smiles, where = _resolve(args.structure)
     estimate = estimate_species(smiles, name=args.structure)

@@ -36,6 +36,10 @@ def register(subparsers) -> None:
     add_network_options(parser)
     parser.add_argument("--no-estimates", action="store_true",
                         help="do not estimate compounds without data (they stay placeholders)")
+    parser.add_argument("--to-verify", action="store_true",
+                        help="list only the numbers to verify before publishing: recalled and "
+                        "common-practice values, estimates, re-anchored species data and "
+                        "carrier potentials, open audit disagreements, with their sources")
     add_output_options(parser)
     parser.set_defaults(run=run)
 
@@ -68,6 +72,8 @@ def run(args: argparse.Namespace) -> int:
     unbalanced = balance[~balance["balanced"].astype(bool)]
     report = coverage(model, environment, db, literature if literature else [],
                       estimate=not args.no_estimates)
+    if args.to_verify:
+        return _to_verify(report, args)
     if args.json:
         payload = report.to_dict()
         payload["environment_file"] = str(env_path)
@@ -97,21 +103,63 @@ def run(args: argparse.Namespace) -> int:
                                           for k in counts if counts[k]) + "\n")
     out.write(f"             reviewed species data or cited literature values (restated or "
               f"reconciled): {100 * report.reviewed_or_cited_fraction:.1f}% of {report.total}\n")
+    statuses = report.status_counts
+    out.write("status       " + ", ".join(f"{k} {v}" for k, v in statuses.items() if v)
+              + "  (tfa inspect --to-verify lists what to check)\n")
     for d in report.disagreements:
         out.write(f"disagreement literature value {d['id']} ({d['source_key']}): residual "
                   f"{d['residual_kJ_per_mol']:.1f} kJ/mol, {d['studentized']:.1f} σ\n")
     frame = report.to_frame()
     frame["delta_g_standard_kJ_per_mol"] = frame["delta_g_standard_kJ_per_mol"].map(_fmt)
     frame["sigma_kJ_per_mol"] = frame["sigma_kJ_per_mol"].map(_fmt)
-    frame["provenance"] = frame["provenance"].map(
-        lambda t: t if len(t) <= PROVENANCE_WIDTH else t[: PROVENANCE_WIDTH - 1] + "…")
+    frame["flags"] = [len(r.audit_flags) or "" for r in report.reactions]
+    frame["provenance"] = frame["provenance"].map(_cut)
     out.write("\n")
     print_table(frame[["reaction", "delta_g_standard_kJ_per_mol", "sigma_kJ_per_mol", "source",
-                       "pathway", "provenance"]]
+                       "status", "flags", "pathway", "provenance"]]
                 .rename(columns={"delta_g_standard_kJ_per_mol": "ΔrG'° kJ/mol",
                                  "sigma_kJ_per_mol": "σ kJ/mol"}))
     missing = report.without_reviewed_data()
     if missing:
         out.write(f"\nwithout reviewed species data or cited values ({len(missing)}): "
                   + ", ".join(f"{r.reaction_id} ({r.source})" for r in missing) + "\n")
+    flagged: dict[str, list[str]] = {}
+    for r in report.reactions:
+        for flag in r.audit_flags:
+            flagged.setdefault(flag, []).append(r.reaction_id)
+    if flagged:
+        out.write(f"\nopen audit disagreements and class checks ({len(flagged)}):\n")
+        for flag, ids in flagged.items():
+            out.write(f"  {flag}\n    touches {', '.join(ids)}\n")
+    return 0
+
+
+def _cut(text: str) -> str:
+    return text if len(text) <= PROVENANCE_WIDTH else text[: PROVENANCE_WIDTH - 1] + "…"
+
+
+def _to_verify(report, args: argparse.Namespace) -> int:
+    """Print the numbers to verify before publishing (text or JSON)."""
+    frame = report.to_verify()
+    if args.json:
+        print_json({"network": report.network, "conditions": report.conditions.to_dict(),
+                    "to_verify": frame.to_dict(orient="records")})
+        return 0
+    out = sys.stdout
+    out.write(f"numbers to verify before publishing: {report.network} at "
+              f"{report.conditions.describe()} ({len(frame)} items)\n")
+    for kind, group in frame.groupby("kind", sort=False):
+        out.write(f"\n{kind} ({len(group)})\n")
+        for row in group.itertuples():
+            value = "" if row.value != row.value else f"{row.value:.4g}"
+            sigma = "" if row.sigma != row.sigma else f" +/- {row.sigma:.3g}"
+            head = f"  {row.item}: {value}{sigma} {row.unit}".rstrip()
+            out.write(f"{head}  [{row.status or 'flag'}; {row.source or 'no source'}]\n")
+            if row.citation:
+                out.write(f"      source: {row.citation}\n")
+            if row.conditions:
+                out.write(f"      conditions: {row.conditions}\n")
+            out.write(f"      {row.note}\n")
+            if row.used_by:
+                out.write(f"      used by: {row.used_by}\n")
     return 0

@@ -59,32 +59,26 @@ import contextlib
 import dataclasses
 import logging
 import math
-from dataclasses import dataclass, field
 from importlib import resources
 from pathlib import Path
 from typing import Any, Iterator, Mapping, Sequence
 
 import cobra
-import numpy as np
-import pandas as pd
 
 from ..conditions import Conditions
-from ..constants import T_REF
 from ..errors import InputError, MissingDataError, NetworkFileError, UnknownCompoundError
+from ..thermo.audit import reconciliation_audit
 from ..thermo.balance import parse_formula
 from ..thermo.database import ThermoDatabase
-from ..thermo.group_contribution import estimate_species, estimated_species_records
-from ..thermo.reconcile import (
-    LiteratureValue,
-    Reconciliation,
-    UnknownSpecies,
-    legendre_offset,
-    read_literature_values,
-    reconcile,
-)
+from ..thermo.estimates import estimate_species, estimated_species_records
+from ..thermo.literature import LiteratureValue, read_literature_values
+from ..thermo.reconcile import (Reconciliation, UnknownSpecies, legendre_offset, reconcile,
+                                reconciled_species)
 from ..thermo.species import Species
+from ..thermo.status import ESTIMATED, combined_value_status
+from .compound_table import CompoundEnergy, CompoundEnergyTable, extend_unique
 from .environment import Environment, apply_environment
-from .roles import water_and_protons
+from .roles import without_activity
 from .thermo_model import ReactionEnergy, ThermoModel
 
 logger = logging.getLogger(__name__)
@@ -94,206 +88,6 @@ RECONCILED_PREFIX = "reconciled:"
 ESTIMATED_PREFIX = "estimated:"
 #: Name of the literature-values table beside a network's reactions table.
 REACTION_VALUES_FILE = "reaction_values.tsv"
-
-
-@dataclass
-class CompoundEnergy:
-    """ΔfG'° of one network compound at the environment.
-
-    ``standard`` is NaN when ``source`` is "placeholder" or "none". ``key`` is the compound id in
-    the (extended) thermodynamic database; ``estimate_key`` the id of its estimate, if any.
-    For a reconciled compound inside an unidentified moiety ``standard`` is the minimum-norm
-    value, usable only in identified combinations (``identified`` False).
-    """
-
-    metabolite: str
-    source: str
-    standard: float
-    uncertainty: float
-    provenance: str
-    key: str | None = None
-    estimate_key: str | None = None
-    sources: tuple[str, ...] = ()
-    flags: tuple[str, ...] = ()
-    identified: bool = True
-    smiles: str = ""
-
-
-@dataclass
-class CompoundEnergyTable:
-    """Energies of every compound of a network at one set of conditions.
-
-    Built by :func:`compound_energies`; :meth:`reaction_energy` sums them for any stoichiometry
-    over metabolite ids.
-    """
-
-    conditions: Conditions
-    compounds: dict[str, CompoundEnergy]
-    database: ThermoDatabase
-    reconciliation: Reconciliation | None = None
-    literature: tuple[LiteratureValue, ...] = ()
-    skipped_values: dict[str, str] = field(default_factory=dict)
-
-    # ----------------------------------------------------------------------------------------
-    def reaction_energy(self, reaction_id: str, stoichiometry: Mapping[str, float],
-                        energy_source: str = "auto") -> ReactionEnergy:
-        """ΔrG'° of a reaction given as metabolite id -> coefficient (see the module rules).
-
-        Returns a :class:`ReactionEnergy` whose ``standard`` is NaN (source "placeholder" or
-        "none") when the data do not determine it; never zero by default.
-        """
-        net = {m: float(n) for m, n in stoichiometry.items() if abs(float(n)) > 1e-12}
-        missing = [m for m in net if m not in self.compounds]
-        if missing:
-            raise InputError(f"reaction {reaction_id}: compound(s) {', '.join(missing)} not in the "
-                             "network's compound energies; rebuild them after changing the network")
-        known = {m: n for m, n in net.items() if self.compounds[m].source == "species"}
-        other = {m: n for m, n in net.items() if m not in known}
-        value = 0.0
-        variance = 0.0
-        terms: dict[str, float] = {}
-        sources: list[str] = []
-        parts: list[str] = []
-        # species part, netted per database compound (as the database does for a reaction)
-        by_key: dict[str, float] = {}
-        for m, n in known.items():
-            by_key[self.compounds[m].key] = by_key.get(self.compounds[m].key, 0.0) + n
-        key_energy = {self.compounds[m].key: self.compounds[m] for m in known}
-        for key, n in by_key.items():
-            if abs(n) < 1e-12:
-                continue
-            ce = key_energy[key]
-            value += n * ce.standard
-            variance += (n * ce.uncertainty) ** 2
-            terms[key] = terms.get(key, 0.0) + n
-            _extend(sources, ce.sources)
-        if known:
-            parts.append("species data: " + ", ".join(sorted({self.compounds[m].key for m in known})))
-        source = "species"
-        if other:
-            result = self._unknown_part(reaction_id, other, energy_source)
-            if result is None:
-                blockers = self._blockers(other)
-                kind = "placeholder" if blockers and all(self.compounds[m].smiles for m in blockers) else "none"
-                why = self._why_unresolved(other, blockers)
-                return ReactionEnergy(reaction_id, math.nan, math.nan, kind,
-                                      f"no energy: {why}" + (f"; {parts[0]}" if parts else ""),
-                                      {})
-            u_value, u_variance, u_source, u_terms, u_sources, u_text = result
-            value += u_value
-            variance += u_variance
-            for k, v in u_terms.items():
-                terms[k] = terms.get(k, 0.0) + v
-            _extend(sources, u_sources)
-            parts.insert(0, u_text)
-            source = u_source
-        sigma = math.sqrt(max(variance, 0.0))
-        provenance = "; ".join(parts)
-        if sources:
-            provenance += f" [{', '.join(sources)}]"
-        return ReactionEnergy(reaction_id, float(value), sigma, source, provenance, terms)
-
-    def _unknown_part(self, reaction_id: str, other: dict[str, float], energy_source: str):
-        """(value, variance, source, terms, sources, text) of the compounds without species data,
-        or None when they are not determined."""
-        rec = self.reconciliation
-        reconciled = {m: n for m, n in other.items() if self.compounds[m].source == "reconciled"}
-        rest = {m: n for m, n in other.items() if m not in reconciled}
-        if reconciled and rec is not None and rec.identified(reconciled) and all(
-                self.compounds[m].source == "estimated" for m in rest):
-            value, variance, terms, sources = 0.0, 0.0, {}, []
-            g_ref, s_ref = rec.reaction_energy(reconciled)
-            t_sigma = rec.temperature_sigma(reconciled, self.conditions.temperature)
-            for m, n in reconciled.items():
-                value += n * self.compounds[m].standard
-                terms[self.compounds[m].key] = n
-            variance += s_ref ** 2 + t_sigma ** 2
-            ids = rec.value_ids(reconciled)
-            _extend(sources, rec.source_keys(reconciled))
-            label = "reconciled"
-            if not rest and self._restates_one_value(reconciled, energy_source):
-                label = "literature"
-            text = (f"{label} ({', '.join(sorted(reconciled))} from literature value(s) "
-                    f"{', '.join(ids)}; ±{s_ref:.2f} kJ/mol at 25 degC")
-            if t_sigma > 0:
-                text += f", ±{t_sigma:.2f} kJ/mol for temperature"
-            text += ")"
-            if rest:
-                e_value, e_var, e_terms, e_sources = self._estimated_sum(rest)
-                value += e_value
-                variance += e_var
-                terms.update(e_terms)
-                _extend(sources, e_sources)
-                text += f"; estimated: {', '.join(sorted(rest))}"
-                label = "estimated"
-            return value, variance, label, terms, sources, text
-        if all(self.compounds[m].estimate_key for m in other):
-            e_value, e_var, e_terms, e_sources = self._estimated_sum(other)
-            return e_value, e_var, "estimated", e_terms, e_sources, (
-                f"estimated (group contribution: {', '.join(sorted(other))})")
-        return None
-
-    def _estimated_sum(self, stoich: Mapping[str, float]):
-        value, variance, terms, sources = 0.0, 0.0, {}, []
-        for m, n in stoich.items():
-            key = self.compounds[m].estimate_key
-            fe = self.database.formation_energy(key, self.conditions)
-            value += n * fe.value
-            variance += (n * fe.uncertainty) ** 2
-            terms[key] = n
-            _extend(sources, fe.sources)
-        return value, variance, terms, sources
-
-    def _restates_one_value(self, reconciled: Mapping[str, float], energy_source: str) -> bool:
-        """True when the unknown stoichiometry is a multiple of one literature value's."""
-        rec = self.reconciliation
-        v = rec.vector(reconciled)
-        candidates = rec.values
-        if energy_source and energy_source != "auto":
-            candidates = tuple(x for x in rec.values if x.id == energy_source) or candidates
-        for value in candidates:
-            row = rec.vector(value.stoichiometry)
-            norm_v, norm_r = np.linalg.norm(v), np.linalg.norm(row)
-            if norm_r == 0 or norm_v == 0:
-                continue
-            if abs(abs(float(v @ row)) - norm_v * norm_r) <= 1e-9 * norm_v * norm_r:
-                return True
-        return False
-
-    def _blockers(self, other: Mapping[str, float]) -> list[str]:
-        """Compounds that keep a reaction from having an energy."""
-        out = [m for m in other if self.compounds[m].source in ("placeholder", "none")]
-        reconciled = {m: n for m, n in other.items() if self.compounds[m].source == "reconciled"}
-        rec = self.reconciliation
-        if reconciled and (rec is None or not rec.identified(reconciled)):
-            out += [m for m in reconciled if not self.compounds[m].estimate_key]
-        return out
-
-    def _why_unresolved(self, other: Mapping[str, float], blockers: Sequence[str]) -> str:
-        reasons = []
-        for m in blockers:
-            ce = self.compounds[m]
-            if ce.source == "reconciled":
-                reasons.append(f"{m} is reconciled, but the literature values do not fix this "
-                               "combination of its conserved moiety, and it has no estimate")
-            else:
-                reasons.append(f"{m}: {ce.provenance}")
-        return "; ".join(reasons) or "compounds without data"
-
-    # ----------------------------------------------------------------------------------------
-    def to_frame(self) -> pd.DataFrame:
-        """One row per compound: source, ΔfG'° (kJ/mol), σ, identified, provenance."""
-        return pd.DataFrame([{
-            "compound": c.metabolite, "source": c.source, "dfG_prime_kJ": c.standard,
-            "sigma_kJ": c.uncertainty, "identified": c.identified, "key": c.key,
-            "provenance": c.provenance,
-        } for c in self.compounds.values()])
-
-
-def _extend(target: list[str], items: Sequence[str]) -> None:
-    for item in items:
-        if item and item not in target:
-            target.append(item)
 
 
 # ------------------------------------------------------------------------------------ inputs
@@ -306,15 +100,35 @@ def bundled_reaction_values_path() -> Path | None:
     return Path(str(path)) if path.is_file() else None
 
 
-def _default_literature(model: cobra.Model) -> list[LiteratureValue]:
+def _reaction_values_path(model: cobra.Model) -> Path | None:
     path = (model.notes or {}).get("reaction_values_path")
     if not path:
         bundled = bundled_reaction_values_path()
         if bundled is not None and model.id == bundled.parent.name:
             path = bundled
+    return Path(path) if path else None
+
+
+def _default_literature(model: cobra.Model) -> list[LiteratureValue]:
+    path = _reaction_values_path(model)
     if not path:
         return []
     return read_literature_values(path)
+
+
+def network_sources(model: cobra.Model) -> dict:
+    """The network's own sources (``sources.tsv`` beside its reaction values), key -> Source;
+    empty when there is none."""
+    from ..thermo.species import read_sources_file
+
+    path = _reaction_values_path(model)
+    if path is None:
+        return {}
+    for name in ("sources.tsv", "sources.csv"):
+        candidate = path.parent / name
+        if candidate.is_file():
+            return read_sources_file(candidate)
+    return {}
 
 
 def _metabolite_species(met: cobra.Metabolite) -> UnknownSpecies:
@@ -326,6 +140,13 @@ def _metabolite_species(met: cobra.Metabolite) -> UnknownSpecies:
         return UnknownSpecies()
     z = met.charge if met.charge is not None else charge
     return UnknownSpecies(n_h=float(counts.get("H", 0)), charge=float(z))
+
+
+def _library_audit(db: ThermoDatabase):
+    """The data audit of the bundled library in the review mode of ``db`` (cached there)."""
+    from ..thermo.library import ReactionLibrary
+
+    return ReactionLibrary.load(db.include_unreviewed).audit()
 
 
 def _note(met: cobra.Metabolite, key: str) -> str:
@@ -423,23 +244,19 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
     rows: list[dict[str, Any]] = []
     reconciled_key: dict[str, str] = {}
     if rec is not None:
-        for i, m in enumerate(rec.unknowns):
+        for m in rec.unknowns:
             met = unknown[m]
-            sp = rec.species[m]
-            if not sp.defined:
-                continue
             key = RECONCILED_PREFIX + m
-            counts, _ = parse_formula(met.formula, where=f"compound '{m}'")
+            counts, _ = parse_formula(met.formula or "", where=f"compound '{m}'")
             formula = "".join(f"{e}{n if n != 1 else ''}" for e, n in counts.items())
-            records.append(Species(
-                id=key, reactant=key, formula=formula, state="aq", charge=int(sp.charge),
-                n_h=int(sp.n_h), n_mg=0, G=float(rec.species_energies[i]), H=None,
-                S=float(rec.entropies[i]) * 1000.0, Cp=float(rec.heat_capacities[i]) * 1000.0, V=None,
-                source=",".join(rec.source_keys({m: 1.0})) or "literature",
-                origin="reconciled", sigma_G=rec.compound_sigma(m) if rec.compound_identified(m) else None))
-            rows.append(_species_row(key, met, [key], formula, int(sp.charge)))
+            record = reconciled_species(rec, m, key, formula)
+            if record is None:
+                continue
+            records.append(record)
+            rows.append(_species_row(key, met, [key], formula, record.charge))
             reconciled_key[m] = key
     estimated_key: dict[str, str] = {}
+    group_counts: dict[str, dict[str, int]] = {}
     estimate_errors: dict[str, str] = {}
     if estimate:
         for m, met in unknown.items():
@@ -456,9 +273,13 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
             records.extend(recs)
             rows.append(_species_row(key, met, [r.id for r in recs], est.formula, est.charge))
             estimated_key[m] = key
+            group_counts[m] = dict(est.groups)
     ext = db.with_extra_species(records, rows) if records else db
 
-    # 4. the table
+    # 4. the table, with the status of every energy and the audit flags that touch it
+    library_audit = _library_audit(db)
+    network_audit = [e for e in reconciliation_audit(rec) if e.flagged] if rec is not None else []
+    basis = {v.id: v.basis for v in usable}
     table: dict[str, CompoundEnergy] = {}
     for met in model.metabolites:
         m = met.id
@@ -466,7 +287,8 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
         if m in keyed:
             fe = db.formation_energy(keyed[m], conditions)
             table[m] = CompoundEnergy(m, "species", fe.value, fe.uncertainty, fe.provenance, keyed[m],
-                                      None, tuple(fe.sources), tuple(fe.flags), True, smiles)
+                                      None, tuple(fe.sources), tuple(fe.flags), True, smiles,
+                                      fe.status, library_audit.flags_for([keyed[m]]))
             continue
         est_key = estimated_key.get(m)
         if rec is not None and m in rec.unknowns:
@@ -480,16 +302,22 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
                 value = rec.species_gibbs(m, conditions.temperature) + legendre_offset(rec.species[m], conditions)
                 flags = (f"{m}: no formula, Legendre transform not applied",)
             ids = rec.value_ids({m: 1.0}) if identified else [v.id for v in rec.values if m in v.stoichiometry]
+            status = combined_value_status(basis.get(i, "checked") for i in ids)
             text = (f"{m}: reconciled from literature value(s) {', '.join(ids)}"
-                    + ("" if identified else " (inside a conserved moiety: only combinations are fixed)"))
+                    + ("" if identified else " (inside a conserved moiety: only combinations are fixed)")
+                    + f" ({status})")
             table[m] = CompoundEnergy(m, "reconciled", value, sigma, text, reconciled_key.get(m, m),
-                                      est_key, tuple(rec.source_keys({m: 1.0})), flags, identified, smiles)
+                                      est_key, tuple(rec.source_keys({m: 1.0})), flags, identified, smiles,
+                                      status, tuple(e.flag_text() for e in network_audit
+                                                    if m in e.compounds),
+                                      group_counts.get(m, {}))
             continue
         if est_key:
             fe = ext.formation_energy(est_key, conditions)
             table[m] = CompoundEnergy(m, "estimated", fe.value, fe.uncertainty,
                                       f"{m}: group-contribution estimate from SMILES", est_key, est_key,
-                                      tuple(fe.sources), tuple(fe.flags), True, smiles)
+                                      tuple(fe.sources), tuple(fe.flags), True, smiles, ESTIMATED, (),
+                                      group_counts.get(m, {}))
             continue
         if smiles:
             why = estimate_errors.get(m) or "estimates were switched off"
@@ -519,8 +347,126 @@ def reaction_energies(model: cobra.Model, table: CompoundEnergyTable) -> dict[st
                 f"reaction '{reaction.id}': energy_source '{source}' is not an id of the literature "
                 "values (reaction_values.tsv); write 'auto' or a value id")
         stoich = {m.id: c for m, c in reaction.metabolites.items()}
-        out[reaction.id] = table.reaction_energy(reaction.id, stoich, source)
+        out[reaction.id] = checked_estimate(table.reaction_energy(reaction.id, stoich, source), table)
     return out
+
+
+def network_reaction_energy(model: cobra.Model, conditions: Conditions, equation: str,
+                            activities: Mapping[str, float] | None = None,
+                            db: ThermoDatabase | None = None, literature=None,
+                            estimate: bool = True):
+    """ΔrG'° and ΔrG' of any reaction over a network's compounds, from the network's own data.
+
+    The compounds are named by metabolite id, name, synonym or thermo key; their energies are
+    those the network uses (:func:`compound_energies`: species data, its own reaction values
+    reconciled, estimates), so this answers "what does this network take for this reaction".
+
+    Returns
+    -------
+    tfa.thermo.database.ReactionEnergyResult
+        With ``status`` and ``audit_flags``; ``compounds`` is empty (the per-compound energies are
+        in :func:`compound_energies`).
+
+    Raises
+    ------
+    UnknownCompoundError
+        A name that is no compound of the network (with close matches).
+    UnbalancedReactionError
+        The reaction does not balance over the network's formulas and charges.
+    MissingDataError
+        The network's data do not fix the reaction's energy.
+    """
+    import difflib
+
+    from ..equation import format_equation, parse_equation
+    from ..thermo.balance import check_balance, require_balanced
+    from ..thermo.compounds import normalise_name
+    from ..thermo.database import ReactionEnergyResult
+
+    db = db or ThermoDatabase.load()
+    index: dict[str, str] = {}
+    for met in model.metabolites:
+        names = [met.id, met.name, _note(met, "thermo_key")] + _note(met, "synonyms").split(";")
+        for name in names:
+            if name and name.strip():
+                index.setdefault(normalise_name(name), met.id)
+
+    def resolve(name: str) -> str:
+        key = normalise_name(name)
+        if key in index:
+            return index[key]
+        close = difflib.get_close_matches(key, list(index), n=5, cutoff=0.6)
+        matches = tuple(dict.fromkeys(index[k] for k in close))
+        hint = f"; did you mean: {', '.join(matches)}?" if matches else ""
+        raise UnknownCompoundError(f"'{name}' is no compound of network {model.id}{hint} Write a "
+                                   "metabolite id, name or synonym of its compounds table",
+                                   name=name, matches=matches)
+
+    parsed = parse_equation(equation)
+    net: dict[str, float] = {}
+    for name, nu in parsed.stoichiometry().items():
+        met_id = resolve(name)
+        net[met_id] = net.get(met_id, 0.0) + nu
+    net = {m: n for m, n in net.items() if abs(n) > 1e-12}
+    text = format_equation(net, "<=>" if parsed.arrow == "=" else parsed.arrow)
+    mets = {m: model.metabolites.get_by_id(m) for m in net}
+    formulas = {m: (parse_formula(met.formula or "", where=f"compound '{m}'")[0],
+                    int(met.charge or 0)) for m, met in mets.items()}
+    balance = check_balance(net, formulas)
+    require_balanced(balance, text, where=f"network {model.id}")
+    table = compound_energies(model, conditions, db, literature, estimate=estimate)
+    energy = checked_estimate(table.reaction_energy("equation", net), table)
+    if not math.isfinite(energy.standard):
+        raise MissingDataError(f"network {model.id} does not fix the energy of {text}: "
+                               f"{energy.provenance}")
+    fixed = without_activity(model, _kind_of(db))
+    used: dict[str, float] = {}
+    flags: list[str] = []
+    given = {resolve(k): float(v) for k, v in (activities or {}).items()}
+    for m in given:
+        if m not in net or m in fixed:
+            raise InputError(f"activity given for '{m}', which is not a variable compound of the "
+                             "reaction (water and H+ are fixed); remove it")
+    actual = energy.standard
+    for m, nu in net.items():
+        if m in fixed:
+            continue
+        a = given.get(m, 1.0)
+        if not (math.isfinite(a) and a > 0):
+            raise InputError(f"activity of '{m}' must be a positive number (mol/L or bar)")
+        used[m] = a
+        actual += nu * conditions.RT * math.log(a)
+    defaulted = [m for m in used if m not in given]
+    if defaulted:
+        flags.append("activity 1 (standard state) used for " + ", ".join(defaulted))
+    sources: list[str] = []
+    for m in net:
+        extend_unique(sources, table.compounds[m].sources)
+    return ReactionEnergyResult(text, net, energy.standard, actual, energy.uncertainty, balance,
+                                tuple(sources), (f"network {model.id}: {energy.source}; "
+                                                 f"{energy.provenance}",),
+                                tuple(flags), used, conditions, {}, energy.status,
+                                energy.audit_flags)
+
+
+def checked_estimate(energy: ReactionEnergy, table: CompoundEnergyTable) -> ReactionEnergy:
+    """An estimated reaction energy checked against its reaction class
+    (:mod:`tfa.thermo.reaction_classes`): flagged and its σ widened when it lies more than 3σ
+    outside the class's typical range at 25 °C, pH 7, I = 0.25 M; other energies unchanged."""
+    from ..thermo.reaction_classes import REFERENCE, check_estimate
+
+    if energy.source != "estimated" or not math.isfinite(energy.standard):
+        return energy
+    at_reference = sum(n * table.database.formation_energy(key, REFERENCE).value
+                       for key, n in energy.compound_terms.items())
+    check = check_estimate(energy.compound_terms, at_reference, energy.uncertainty,
+                           energy.reaction_id, table.database.include_unreviewed)
+    if check is None:
+        return energy
+    if not check.flagged:
+        return dataclasses.replace(energy, provenance=f"{energy.provenance}; {check.message}")
+    return dataclasses.replace(energy, uncertainty=check.sigma,
+                               audit_flags=energy.audit_flags + (check.message,))
 
 
 # ---------------------------------------------------------------------------- environment
@@ -538,7 +484,7 @@ def _thermo_model(model: cobra.Model, environment: Environment, mode: str, db: T
                   literature) -> ThermoModel:
     table = compound_energies(model, environment, db, literature)
     energies = reaction_energies(model, table)
-    applied = apply_environment(model, environment, water_and_protons(model, _kind_of(db)))
+    applied = apply_environment(model, environment, without_activity(model, _kind_of(db)))
     kept = {rid: e for rid, e in energies.items() if math.isfinite(e.standard)}
     for rid, e in energies.items():
         if rid not in kept:

@@ -53,7 +53,7 @@ from ..errors import ConditionsError, InputError, NetworkFileError
 from ..util.files import read_input_text
 from ..util.numbers import MAX_FLUX, read_activity, read_number
 from .checks import is_boundary_reaction
-from .roles import water_and_protons
+from .roles import without_activity
 
 if sys.version_info >= (3, 11):
     import tomllib
@@ -323,14 +323,14 @@ class Environment:
                           no_activity: set[str] | None = None) -> dict[str, tuple[float, float]]:
         """Metabolite id -> (lower, upper) concentration (mol/L; gases bar) for every compound with
         a concentration variable (water and H+, ``no_activity``, are left out; default: found by
-        :func:`tfa.network.roles.water_and_protons`).
+        :func:`tfa.network.roles.without_activity`).
 
         A per-compound ``[bounds]`` entry that names no compound of this network is logged and
         ignored (the same environment serves networks with and without, e.g., ATP).
         """
         fed = self.feed_metabolites(model)
         if no_activity is None:
-            no_activity = water_and_protons(model)
+            no_activity = without_activity(model)
         own: dict[str, tuple[float, float]] = {}
         for key, pair in self.bounds.items():
             try:
@@ -369,7 +369,7 @@ class Environment:
     def exchange_bounds(self, model: cobra.Model, flux_bound: float = 1000.0,
                         no_activity: set[str] | None = None) -> dict[str, tuple[float, float]]:
         """Bounds of every boundary reaction in this environment (``no_activity``: water and H+,
-        default found by :func:`tfa.network.roles.water_and_protons`).
+        default found by :func:`tfa.network.roles.without_activity`).
 
         Exchanges (one compound, one empty side) of fed compounds, water and H+ are open both
         ways; those of outlets may only export; all other boundary reactions are closed, except
@@ -389,7 +389,7 @@ class Environment:
                 outlets.add(self.resolve(model, key).id)
             except NetworkFileError:
                 logger.warning("%s: outlet '%s' ignored, not a compound of network %s", where, key, model.id)
-        free = fed | (water_and_protons(model) if no_activity is None else set(no_activity))
+        free = fed | (without_activity(model) if no_activity is None else set(no_activity))
         exchanges: dict[str, cobra.Reaction] = {}
         result: dict[str, tuple[float, float]] = {}
         for reaction in model.reactions:

@@ -19,6 +19,7 @@ import cobra
 
 from ..errors import InputError
 from ..thermo.balance import parse_formula
+from ..thermo.compounds import FIXED_ACTIVITY_KINDS
 
 #: Roles without parameters.
 SIMPLE_ROLES = ("proton", "water", "h2", "phosphate", "atp", "adp", "amp", "pyrophosphate")
@@ -64,11 +65,11 @@ def metabolite_role(metabolite: cobra.Metabolite) -> str | CarrierRole | None:
     return parse_role((metabolite.notes or {}).get("role"), where=f"compound '{metabolite.id}'")
 
 
-def water_and_protons(model: cobra.Model, kind_of=None) -> set[str]:
-    """Ids of the metabolites without a concentration variable: water (activity 1) and H+ (fixed
-    by the pH). Found by their role (``water``, ``proton``) or, when ``kind_of`` is given (a
-    function from a ``thermo_key`` to the kind of the compound it names, or None), by a thermo
-    key that names water or the proton.
+def without_activity(model: cobra.Model, kind_of=None) -> set[str]:
+    """Ids of the metabolites without a concentration variable: water and pure solids (activity
+    1) and H+ (fixed by the pH). Found by their role (``water``, ``proton``) or, when ``kind_of``
+    is given (a function from a ``thermo_key`` to the kind of the compound it names, or None), by
+    a thermo key that names one of :data:`tfa.thermo.compounds.FIXED_ACTIVITY_KINDS`.
     """
     found = set()
     for met in model.metabolites:
@@ -76,7 +77,7 @@ def water_and_protons(model: cobra.Model, kind_of=None) -> set[str]:
             found.add(met.id)
             continue
         key = str((met.notes or {}).get("thermo_key") or "").strip()
-        if kind_of is not None and key and kind_of(key) in ("water", "proton"):
+        if kind_of is not None and key and kind_of(key) in FIXED_ACTIVITY_KINDS:
             found.add(met.id)
     return found
 

@@ -39,6 +39,13 @@ class ReactionEnergy:
     compound_terms : dict
         Net stoichiometry over the thermodynamic compounds used (compound id -> coefficient),
         so uncertainties of shared compounds can be correlated (empty when not applicable).
+    status : str
+        How far the data behind the value were checked, the weakest of them
+        (:data:`tfa.thermo.status.STATUSES`: reviewed species data, cited reaction value,
+        reconciled, recalled value (from memory), common practice, estimated, unreviewed).
+    audit_flags : tuple of str
+        Open disagreements of the data audit that touch the reaction's compounds, and the
+        class check of an estimate (:mod:`tfa.thermo.reaction_classes`).
     """
 
     reaction_id: str
@@ -47,6 +54,8 @@ class ReactionEnergy:
     source: str
     provenance: str = ""
     compound_terms: dict[str, float] = field(default_factory=dict)
+    status: str = ""
+    audit_flags: tuple[str, ...] = ()
 
     def __post_init__(self) -> None:
         if self.source not in ENERGY_SOURCES:
@@ -81,7 +90,7 @@ class ThermoModel:
         Role -> metabolite id for the fed compounds ("H2", "CO2", "H2S", "phosphate", "ammonia").
     compound_table : object or None
         The per-compound energies behind ``energies`` (a
-        :class:`tfa.network.energies.CompoundEnergyTable`), for coverage, correlated
+        :class:`tfa.network.compound_table.CompoundEnergyTable`), for coverage, correlated
         uncertainties and reports.
     all_energies : dict[str, ReactionEnergy]
         Every internal reaction's energy record, including those without a value (source

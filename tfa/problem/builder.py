@@ -125,14 +125,11 @@ class ProblemOptions:
         if self.unknown_energy not in UNKNOWN_ENERGY_POLICIES:
             raise InputError(f"unknown_energy must be 'free' or 'block', got {self.unknown_energy!r}")
         from ..util.numbers import MAX_DRIVING_FORCE, MAX_K_SIGMA, MAX_TIME_LIMIT, read_number
-
-        read_number(self.min_driving_force, "the least driving force", minimum=0.0,
-                    maximum=MAX_DRIVING_FORCE, unit="kJ/mol")
-        read_number(self.uncertainty_k, "the uncertainty multiple k", minimum=0.0,
-                    maximum=MAX_K_SIGMA)
+        read_number(self.min_driving_force, "the least driving force [kJ/mol]", minimum=0.0,
+                    maximum=MAX_DRIVING_FORCE)
+        read_number(self.uncertainty_k, "the multiple k of σ", minimum=0.0, maximum=MAX_K_SIGMA)
         if self.time_limit is not None:
-            read_number(self.time_limit, "the time limit", above=0.0, maximum=MAX_TIME_LIMIT,
-                        unit="s")
+            read_number(self.time_limit, "the time limit [s]", above=0.0, maximum=MAX_TIME_LIMIT)
 
     def to_dict(self) -> dict:
         """Plain dictionary for provenance."""

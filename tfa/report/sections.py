@@ -3,12 +3,15 @@ sources, the conventions and their limits, and the cautions."""
 
 from __future__ import annotations
 
+import logging
 from typing import Any, Iterable, Mapping
 
 import pandas as pd
 
 from ..errors import InputError
 from .html import ReportSection
+
+logger = logging.getLogger(__name__)
 
 CAUTIONS_TEXT = """\
 H2, H2S and CO are hazardous gases: H2 is flammable and forms explosive mixtures with air; \
@@ -125,9 +128,9 @@ def sources_section(sources: pd.DataFrame, used_keys: Iterable[str] | None = Non
         if unknown:
             logger.warning("sources not in the sources table: %s", ", ".join(unknown))
     reviewed = table["peer_reviewed"].astype(str).str.lower().isin(["yes", "true", "1"])
-    words = text or (f"{len(table)} sources; {int(reviewed.sum())} peer reviewed, "
-                     f"{int((~reviewed).sum())} not. DOIs are given as text; nothing in this "
-                     "file links outside it.")
+    words = (f"{len(table)} sources; {int(reviewed.sum())} peer reviewed, "
+             f"{int((~reviewed).sum())} not. DOIs are given as text; nothing in this file links "
+             "outside it." + (f" {text}" if text else ""))
     return ReportSection("Data sources", words, table.reset_index(drop=True),
                          table_caption="Data sources")
 

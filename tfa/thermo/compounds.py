@@ -27,7 +27,10 @@ from .balance import parse_formula
 from .potentials import CarrierCouple
 
 #: Kinds of compound.
-KINDS = ("aqueous", "gas", "water", "proton", "carrier")
+KINDS = ("aqueous", "gas", "water", "proton", "carrier", "solid")
+#: Kinds whose activity is fixed by convention and never a variable: water (activity 1), the
+#: buffered proton (fixed by the pH) and a pure solid phase (activity 1, e.g. rhombic sulfur).
+FIXED_ACTIVITY_KINDS = ("water", "proton", "solid")
 
 
 def normalise_name(name: str) -> str:
@@ -160,17 +163,30 @@ class CompoundRegistry:
         raise self.unknown(name)
 
     def close_matches(self, name: str, n: int = 5) -> tuple[str, ...]:
-        """Known ids or names close to ``name`` (difflib ratio, case-insensitive)."""
+        """Known compounds whose id, name or synonym is close to ``name``, most similar first.
+
+        Every known name is scored by its similarity to ``name`` (difflib's ratio,
+        case-insensitive); names with a ratio of at least 0.6, and names that contain ``name``
+        ("phospho" -> the phosphates), are candidates, ranked by that ratio (shorter names first
+        among equals), each compound once.
+
+        >>> reg = CompoundRegistry([Compound("S0", "sulfur", "solid", "S", 0),
+        ...                         Compound("BPG", "1,3-bisphosphoglycerate", "aqueous", "C3H8O10P2", 0)])
+        >>> reg.close_matches("sulphur")
+        ('S0',)
+        """
         key = normalise_name(name)
-        keys = difflib.get_close_matches(key, list(self._index), n=3 * n, cutoff=0.6)
+        if not key:
+            return ()
+        scored = []
+        for known, (_, compound_id) in self._index.items():
+            ratio = difflib.SequenceMatcher(None, key, known).ratio()
+            if ratio >= 0.6 or (len(key) >= 3 and key in known):
+                scored.append((-ratio, len(known), known, compound_id))
         out: list[str] = []
-        for k in keys:
-            compound_id = self._index[k][1]
+        for _, _, _, compound_id in sorted(scored):
             if compound_id not in out:
                 out.append(compound_id)
-        if not out:  # fall back on substring hits ("phospho" -> every phosphate)
-            out = [c.id for c in self._compounds.values()
-                   if key and (key in c.id.lower() or key in c.name.lower())]
         return tuple(out[:n])
 
     def unknown(self, name: str, where: str = "") -> UnknownCompoundError:
@@ -229,15 +245,48 @@ def compounds_from_rows(
 
 
 def compounds_from_couples(couples: Iterable[CarrierCouple]) -> list[Compound]:
-    """The oxidised and reduced compounds of each carrier couple."""
+    """The oxidised and reduced compounds of each carrier couple.
+
+    The couple's own id and synonyms (``ferredoxin``, ``Fd``) name its oxidised form, as the
+    carrier's formula does (the reduced form carries the electrons: ``Fd-2``);
+    :func:`carrier_explanation` says so wherever the pair is used.
+    """
     out = []
     for couple in couples:
         for role, cid, synonyms, formula in (
-            ("oxidised", couple.oxidised, couple.oxidised_synonyms, couple.oxidised_formula),
-            ("reduced", couple.reduced, couple.reduced_synonyms, couple.reduced_formula),
+            ("oxidised", couple.oxidised,
+             tuple(couple.oxidised_synonyms) + (couple.id,) + tuple(couple.synonyms),
+             couple.oxidised_formula),
+            ("reduced", couple.reduced,
+             tuple(couple.reduced_synonyms) + _formula_names(couple.reduced_formula),
+             couple.reduced_formula),
         ):
             counts, charge = parse_formula(formula, where=f"potentials.csv, couple {couple.id}")
             out.append(Compound(id=cid, name=f"{couple.name}, {role}", kind="carrier",
                                 formula=formula, charge=charge, synonyms=tuple(synonyms),
                                 couple=couple, role=role))
     return out
+
+
+def _formula_names(formula: str) -> tuple[str, ...]:
+    """A carrier's reduced formula as a name, both ways of writing a charge: Fd-2 and Fd2-."""
+    match = re.fullmatch(r"(.*?)([+-])(\d*)", formula)
+    if not match or not match.group(3):
+        return (formula,)
+    return (formula, f"{match.group(1)}{match.group(3)}{match.group(2)}")
+
+
+def carrier_explanation(couple: CarrierCouple) -> str:
+    """One line on a carrier pair: which name is which form and the half reaction.
+
+    >>> from tfa.thermo.potentials import load_potentials
+    >>> fd = next(c for c in load_potentials() if c.id == "ferredoxin")
+    >>> carrier_explanation(fd)[:80]
+    "ferredoxin (per two electrons): Fd_ox + 2 e- -> Fd_red, E'° = -420 mV at pH 7 (f"
+    """
+    protons = f" + {couple.n_protons} H+" if couple.n_protons else ""
+    names = ", ".join(dict.fromkeys((couple.id,) + tuple(couple.synonyms)))
+    return (f"{couple.name}: {couple.oxidised} + {couple.n_electrons} e-{protons} -> "
+            f"{couple.reduced}, E'° = {1000 * couple.e0_prime:.0f} mV at pH {couple.ph:g} "
+            f"({names} name the oxidised form {couple.oxidised}; the reduced form is "
+            f"{couple.reduced}, written {couple.reduced_formula} in formulas)")

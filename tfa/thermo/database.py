@@ -42,7 +42,6 @@ from __future__ import annotations
 
 import logging
 import math
-from dataclasses import dataclass, field
 from functools import lru_cache
 from typing import Any, Iterable, Mapping, Sequence
 
@@ -54,10 +53,14 @@ from ..constants import FARADAY, T_REF
 from ..equation import ParsedEquation, format_equation, parse_equation
 from ..errors import InputError, MissingDataError
 from .balance import BalanceReport, check_balance, parse_formula, require_balanced
-from .compounds import Compound, CompoundRegistry, compounds_from_couples, compounds_from_rows
+from .energy_records import FormationEnergy, ReactionEnergyResult, species_status
+from .compounds import (FIXED_ACTIVITY_KINDS, Compound, CompoundRegistry, carrier_explanation,
+                        compounds_from_couples, compounds_from_rows)
 from .legendre import reactant_energy, species_fractions, transformed_species_energy
 from .potentials import CarrierCouple, load_potentials
-from .species import Source, Species, load_compound_rows, load_sources, load_species
+from .species import (Source, Species, load_compound_rows, load_sources, load_species,
+                      load_value_compound_rows)
+from .status import weakest
 from .temperature import IntegrationFlag, standard_gibbs
 from .uncertainty import (base_sigma, is_conventional_zero, reaction_sigma, reactant_sigma,
                           species_sigma)
@@ -66,107 +69,6 @@ logger = logging.getLogger(__name__)
 
 #: Id of the magnesium-ion species whose ΔfG° enters the pMg transform.
 MAGNESIUM_SPECIES = "Mg+2"
-
-
-@dataclass(frozen=True)
-class FormationEnergy:
-    """Transformed standard Gibbs energy of formation of one compound at given conditions.
-
-    Attributes
-    ----------
-    compound : str
-        Compound id.
-    value : float
-        ΔfG'°, kJ/mol.
-    uncertainty : float
-        Standard uncertainty, kJ/mol.
-    provenance : str
-        Plain words: species used (with their fractions) or carrier potential, and sources.
-    sources : tuple of str
-        Source keys that entered.
-    flags : tuple of str
-        Fallbacks and caveats (constant ΔH, unreviewed data, held potentials, ...).
-    species : tuple of str
-        Species ids used.
-    fractions : tuple of float
-        Equilibrium fraction of each species within the reactant.
-    """
-
-    compound: str
-    value: float
-    uncertainty: float
-    provenance: str
-    sources: tuple[str, ...] = ()
-    flags: tuple[str, ...] = ()
-    species: tuple[str, ...] = ()
-    fractions: tuple[float, ...] = ()
-
-
-@dataclass(frozen=True)
-class ReactionEnergyResult:
-    """Transformed reaction energies of one reaction at given conditions.
-
-    Attributes
-    ----------
-    equation : str
-        The reaction as written over compound ids.
-    stoichiometry : dict
-        Compound id -> net coefficient (negative consumed).
-    standard : float
-        ΔrG'°, kJ/mol.
-    actual : float
-        ΔrG' at the given activities, kJ/mol.
-    uncertainty : float
-        Standard uncertainty of both (the activity term is exact), kJ/mol.
-    balance : BalanceReport
-    sources : tuple of str
-        Source keys of every datum that entered.
-    provenance : tuple of str
-        One line per compound.
-    flags : tuple of str
-        Fallbacks, defaulted activities, unreviewed data.
-    activities : dict
-        Compound id -> activity used in ΔrG' (water and H+ excluded).
-    conditions : Conditions
-    compounds : dict
-        Compound id -> its :class:`FormationEnergy`.
-    """
-
-    equation: str
-    stoichiometry: dict[str, float]
-    standard: float
-    actual: float
-    uncertainty: float
-    balance: BalanceReport
-    sources: tuple[str, ...]
-    provenance: tuple[str, ...]
-    flags: tuple[str, ...]
-    activities: dict[str, float]
-    conditions: Conditions
-    compounds: dict[str, FormationEnergy] = field(default_factory=dict)
-
-    def to_dict(self) -> dict:
-        """Plain dictionary for JSON output (energies in kJ/mol)."""
-        return {
-            "equation": self.equation,
-            "stoichiometry": dict(self.stoichiometry),
-            "reaction_gibbs_standard": self.standard,
-            "reaction_gibbs": self.actual,
-            "uncertainty": self.uncertainty,
-            "units": "kJ/mol",
-            "balanced": self.balance.ok,
-            "balance": self.balance.to_dict(),
-            "sources": list(self.sources),
-            "provenance": list(self.provenance),
-            "flags": list(self.flags),
-            "activities": dict(self.activities),
-            "conditions": self.conditions.to_dict(),
-            "formation_energies": {
-                cid: {"value": fe.value, "uncertainty": fe.uncertainty, "species": list(fe.species),
-                      "fractions": list(fe.fractions), "sources": list(fe.sources)}
-                for cid, fe in self.compounds.items()
-            },
-        }
 
 
 def _carbon_atoms(formula: str) -> int:
@@ -311,8 +213,13 @@ class ThermoDatabase:
             return self._carrier_energy(compound, c)
         members = list(compound.species)
         if not members:
+            if not compound.dropped_species:
+                raise MissingDataError(
+                    f"compound '{compound.id}' has no species data: its energy comes from "
+                    "reaction-level values only (tfa.thermo.library.ReactionLibrary, which tfa dg "
+                    "uses, or a network's reaction_values.tsv)")
             why = ", ".join(f"{s} ({self.dropped.get(s, 'not available')})"
-                            for s in compound.dropped_species) or "no species listed"
+                            for s in compound.dropped_species)
             raise MissingDataError(
                 f"compound '{compound.id}' has no usable species data: {why}. Pass "
                 "include_unreviewed=True (command line: --include-unreviewed) to use unreviewed "
@@ -338,10 +245,15 @@ class ThermoDatabase:
         fractions = species_fractions(transformed, c.temperature)
         sigmas = []
         sources: list[str] = []
+        statuses: list[str] = []
         moved = abs(c.temperature - T_REF) > 1e-9
         for sp, flag_bits in zip(members, int_flags):
             flag = IntegrationFlag(int(flag_bits))
             reviewed = self.is_reviewed(sp.source)
+            statuses.append(species_status(sp, reviewed))
+            if "re-anchored" in sp.flag:
+                flags.append(f"{compound.id}: species data re-anchored by {sp.shift or 0.0:+.2f} "
+                             f"kJ/mol to measured values ({sp.anchor}; scripts/make_species_table.py)")
             if is_conventional_zero(sp):
                 sigmas.append(0.0)
             else:
@@ -372,7 +284,7 @@ class ThermoDatabase:
             provenance += f"; left out (unreviewed): {', '.join(compound.dropped_species)}"
         return FormationEnergy(compound.id, value, sigma, provenance, tuple(sources),
                                tuple(dict.fromkeys(flags)), tuple(s.id for s in members),
-                               tuple(float(r) for r in fractions))
+                               tuple(float(r) for r in fractions), weakest(statuses))
 
     def _carrier_energy(self, compound: Compound, c: Conditions) -> FormationEnergy:
         couple = compound.couple
@@ -382,18 +294,22 @@ class ThermoDatabase:
             flags.append(held)
         if c.ionic_strength > 0:
             flags.append(f"E'° of {couple.name} has no ionic-strength correction")
+        status = couple.status
         if compound.role == "oxidised":
             return FormationEnergy(
                 compound.id, 0.0, 0.0,
                 f"{compound.id}: reference value 0 for the oxidised carrier (cancels, the pair "
-                f"{couple.oxidised}/{couple.reduced} is conserved)", (couple.source,), tuple(flags))
+                f"{couple.oxidised}/{couple.reduced} is conserved)", (couple.source,), tuple(flags),
+                status=status)
         e = couple.potential(c.ph, c.temperature)
         value = couple.reduced_minus_oxidised(c.ph, c.temperature)
-        sigma = couple.energy_uncertainty()
+        sigma = couple.energy_uncertainty(c.temperature)
         text = (f"{compound.id}: −nFE'° = {value:.2f} ± {sigma:.2f} kJ/mol relative to "
-                f"{couple.oxidised}, E'° = {1000 * e:.0f} mV at pH {c.ph:g} (n = "
-                f"{couple.n_electrons}, {couple.n_protons} H+; {couple.source})")
-        return FormationEnergy(compound.id, value, sigma, text, (couple.source,), tuple(flags))
+                f"{couple.oxidised}, E'° = {1000 * e:.0f} ± {1000 * couple.potential_sigma(c.temperature):.0f}"
+                f" mV at pH {c.ph:g} (n = {couple.n_electrons}, {couple.n_protons} H+; "
+                f"{couple.source}; {status})")
+        return FormationEnergy(compound.id, value, sigma, text, (couple.source,), tuple(flags),
+                               status=status)
 
     def speciation(self, name: str, conditions: Conditions) -> dict[str, float]:
         """Equilibrium fraction of each species of a compound at ``conditions``."""
@@ -475,7 +391,7 @@ class ThermoDatabase:
         used_activities: dict[str, float] = {}
         for cid, nu in net.items():
             compound = self.compound(cid)
-            if compound.kind in ("water", "proton"):
+            if compound.kind in FIXED_ACTIVITY_KINDS:
                 continue
             a = activity_by_id.get(cid)
             if a is None:
@@ -492,10 +408,43 @@ class ThermoDatabase:
                 if key not in sources:
                     sources.append(key)
             flags.extend(fe.flags)
+        flags.extend(self.magnesium_flags(net, conditions))
+        couples = {self.compound(cid).couple for cid in net} - {None}
+        flags.extend(carrier_explanation(c) for c in sorted(couples, key=lambda c: c.id))
         provenance = tuple(energies[cid].provenance for cid in net)
+        status = weakest(fe.status for cid, fe in energies.items()
+                         if self.compound(cid).kind not in FIXED_ACTIVITY_KINDS)
         return ReactionEnergyResult(text, net, standard, actual, sigma, balance, tuple(sources),
                                     provenance, tuple(dict.fromkeys(flags)), used_activities,
-                                    conditions, energies)
+                                    conditions, energies, status)
+
+    def magnesium_flags(self, net: Mapping[str, float], conditions: Conditions) -> list[str]:
+        """Warnings when a pMg is given but reactants have no Mg2+-binding species data.
+
+        A charged reactant (anions bind Mg2+) whose species carry no Mg is taken as not binding
+        Mg2+ at all; the flag names them, and says so when no reactant of the reaction has Mg
+        species (the pMg then changes nothing). Also logged as a warning.
+        """
+        if conditions.pmg is None:
+            return []
+        lacking, binding = [], []
+        for cid in net:
+            compound = self.compound(cid)
+            if compound.kind in FIXED_ACTIVITY_KINDS or compound.kind in ("gas", "carrier"):
+                continue
+            if any(sp.n_mg for sp in compound.species):
+                binding.append(cid)
+            elif compound.charge < 0:
+                lacking.append(cid)
+        if not lacking:
+            return []
+        text = (f"pMg {conditions.pmg:g} given, but {', '.join(lacking)} "
+                f"{'has' if len(lacking) == 1 else 'have'} no Mg2+-binding species data: their "
+                "binding of Mg2+ is neglected")
+        if not binding:
+            text += "; no reactant of this reaction has Mg species, so the pMg changes nothing"
+        logger.warning(text)
+        return [text]
 
     def _activities(self, net: Mapping[str, float], activities: Mapping[str, float]) -> dict[str, float]:
         out: dict[str, float] = {}
@@ -506,6 +455,9 @@ class ThermoDatabase:
             if compound.kind == "water":
                 raise InputError(f"activity of '{name}': water has activity 1 by convention; "
                                  "remove it from the activities")
+            if compound.kind == "solid":
+                raise InputError(f"activity of '{name}': a pure solid has activity 1 by "
+                                 "convention; remove it from the activities")
             if compound.id not in net:
                 raise InputError(f"activity given for '{name}', which is not in the reaction; "
                                  "remove it or check the spelling")
@@ -549,5 +501,5 @@ class ThermoDatabase:
 
 @lru_cache(maxsize=2)
 def _load_cached(include_unreviewed: bool) -> ThermoDatabase:
-    return ThermoDatabase(load_species(), load_compound_rows(), load_potentials(), load_sources(),
-                          include_unreviewed)
+    return ThermoDatabase(load_species(), load_compound_rows() + load_value_compound_rows(),
+                          load_potentials(), load_sources(), include_unreviewed)

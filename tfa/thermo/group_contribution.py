@@ -40,7 +40,8 @@ peer-reviewed acyclic polyol is in the data, so glycerol and its phosphates come
 45-50 kJ/mol too high (glycerol 3-phosphate(2-): -1294 against -1345 kJ/mol of an unreviewed
 source); lysine's ions lie 30-40 kJ/mol below what the groups give.
 
-Protonation states. Ionisable sites are found by :data:`PKA_RULES` (SMARTS, pKa and source of
+Protonation states (:mod:`tfa.thermo.estimates`). Ionisable sites are found by
+:data:`tfa.thermo.groups.PKA_RULES` (SMARTS, pKa and source of
 each). With independent sites of acidity constants pKa_i, the macrostate holding n protons more
 than the fully dissociated form has [3]
 
@@ -69,9 +70,8 @@ from typing import Iterable
 
 import numpy as np
 
-from ..constants import LN10, R, T_REF
 from ..errors import InputError
-from .balance import parse_formula
+from .groups import _CONTEXT_HINTS, GROUPS
 
 log = logging.getLogger(__name__)
 
@@ -95,180 +95,15 @@ class StructureError(InputError):
 
 
 # --------------------------------------------------------------------------------------------
-# Group table
-# --------------------------------------------------------------------------------------------
-
-
-@dataclass(frozen=True)
-class GroupDefinition:
-    """One group: ``name``, SMARTS ``pattern`` (every atom of it is owned, context goes in
-    recursive SMARTS ``$()``), ``kind`` ("atoms", "correction" or "ring"), ``description``."""
-
-    name: str
-    pattern: str
-    kind: str = "atoms"
-    description: str = ""
-
-
-_G = GroupDefinition
-#: Our group table, applied top to bottom (larger and more specific groups first).
-GROUPS: tuple[GroupDefinition, ...] = (
-    # --- one-off small molecules (their own group; refused in cross-validation) ---
-    _G("carbon monoxide", "[C-]#[O+]"),
-    _G("hydrogen cyanide", "[CH1]#N"),
-    _G("methane", "[CH4]"),
-    _G("formaldehyde", "[CH2]=O"),
-    _G("urea", "[NX3H2]C(=O)[NX3H2]"),
-    # --- phosphorus ---
-    _G("terminal phosphate -PO3H2", "[PX4;$(P[OX2H0])](=O)([OX2H1])[OX2H1]"),
-    _G("terminal phosphate -PO3H-", "[PX4;$(P[OX2H0])](=O)([OX2H1])[OX1-]"),
-    _G("terminal phosphate -PO3(2-)", "[PX4;$(P[OX2H0])](=O)([OX1-])[OX1-]"),
-    _G("inner phosphate -PO2H-", "[PX4;$(P([OX2H0])[OX2H0])](=O)[OX2H1]"),
-    _G("inner phosphate -PO2(-)-", "[PX4;$(P([OX2H0])[OX2H0])](=O)[OX1-]"),
-    _G("acyl phosphate oxygen C(=O)-O-P", "[OX2H0;$(O(C=O)P)]"),
-    _G("phosphoanhydride oxygen P-O-P", "[OX2H0;$(O(P)P)]"),
-    _G("phosphate ester oxygen C-O-P", "[OX2H0;$(O([#6])P)]"),
-    # --- carboxyl and relatives ---
-    _G("formic carboxyl H-COOH", "[CX3H1](=O)[OX2H1]"),
-    _G("formic carboxylate H-COO-", "[CX3H1](=O)[OX1-]"),
-    _G("carboxylic acid -COOH", "[CX3H0](=O)[OX2H1]"),
-    _G("carboxylate -COO-", "[CX3H0](=O)[OX1-]"),
-    _G("thioester -C(=O)S-", "[CX3](=O)[SX2H0;$(S[#6])]"),
-    _G("ester -C(=O)O-", "[CX3;!$(C(=O)OP)](=O)[OX2H0;$(O[#6])]"),
-    _G("guanidine (neutral)", "[NX3H2]C(=[NX2H1])[NX3H1]"),
-    _G("guanidinium", "[NX3H2]C(=[NX3H2+])[NX3H1]"),
-    _G("amide -C(=O)NH2", "[CX3](=O)[NX3H2]"),
-    _G("amide -C(=O)NH-", "[CX3](=O)[NX3H1]"),
-    _G("amide -C(=O)N<", "[CX3](=O)[NX3H0]"),
-    _G("aldehyde -CHO", "[CX3H1;$(C[#6])]=O"),
-    _G("ketone >C=O", "[CX3H0;$(C([#6])[#6])]=O"),
-    _G("aromatic carbonyl c=O", "[c]=O"),
-    # --- oxygen ---
-    _G("hydroxyl on sp3 carbon -OH", "[OX2H1;$(O[CX4])]"),
-    _G("hydroxyl on aromatic carbon -OH", "[OX2H1;$(Oc)]"),
-    _G("phenolate -O-", "[OX1-;$(Oc)]"),
-    _G("ether -O-", "[OX2H0;$(O([#6])[#6])]"),
-    # --- nitrogen ---
-    _G("ammonium -NH3+", "[NX4H3+]"),
-    _G("ammonium >NH2+", "[NX4H2+]"),
-    _G("ammonium >NH+-", "[NX4H1+]"),
-    _G("amine -NH2", "[NX3H2;$(N[CX4])]"),
-    _G("amine >NH", "[NX3H1;$(N([CX4])[CX4])]"),
-    _G("amine >N-", "[NX3H0;$(N([CX4])([CX4])[CX4])]"),
-    _G("amino on aromatic ring -NH2", "[NX3H2;$(Nc)]"),
-    _G("ring N of a 1,4-dihydropyridine", "[NX3H0;R;$(N(C=C)C=C)]"),
-    _G("aromatic n (pyridine type)", "[nX2]"),
-    _G("aromatic nH (pyrrole type)", "[nX3H1+0]"),
-    _G("aromatic n substituted", "[nX3H0+0]"),
-    _G("aromatic nH+ (protonated)", "[nX3H1+]"),
-    _G("aromatic n+ substituted (pyridinium)", "[nX3H0+]"),
-    # --- sulfur, halogen ---
-    _G("thiol -SH", "[SX2H1]"),
-    _G("thiolate -S-", "[SX1-]"),
-    _G("disulfide -S-S-", "[SX2H0;$(S[SX2])]"),
-    _G("sulfide -S-", "[SX2H0;$(S([#6])[#6])]"),
-    _G("chlorine on carbon", "[Cl;$(Cl[#6])]"),
-    # --- carbon skeleton ---
-    _G("-CH3", "[CX4H3]"),
-    _G("-CH2-", "[CX4H2]"),
-    _G(">CH-", "[CX4H1]"),
-    _G(">C<", "[CX4H0]"),
-    _G("=CH2", "[CX3H2]=C"),
-    _G("=CH-", "[CX3H1]=C"),
-    _G("=C<", "[CX3H0]=C"),
-    _G("#CH", "[CX2H1]#C"),
-    _G("#C-", "[CX2H0]#C"),
-    _G("aromatic CH next to n", "[cH1;$(c~n)]"),
-    _G("aromatic C next to n", "[cH0;$(c~n)]"),
-    _G("aromatic CH", "[cH1]"),
-    _G("aromatic C fused", "[cH0;$(c(:a)(:a):a)]"),
-    _G("aromatic C substituted", "[cH0]"),
-    # --- corrections (own no atoms) ---
-    _G("correction: alpha-ammonium carboxylate", "[NX4+][CX4][CX3](=O)[OX1-]", "correction",
-       "charge interaction of a zwitterionic amino acid"),
-    _G("correction: adjacent carbonyls", "[CX3](=O)[CX3]=O", "correction",
-       "two carbonyl carbons bonded to each other (oxalate, 2-oxo acids)"),
-    _G("correction: acetal carbon", "[CX4]([OX2])[OX2]", "correction",
-       "carbon bearing two oxygens (cyclic sugars, nucleosides)"),
-    _G("correction: oxygens on adjacent sp3 carbons", "[OX2][CX4][CX4][OX2]", "correction",
-       "two singly bonded oxygens on neighbouring saturated carbons (diols, sugars, ribose and "
-       "glycerol phosphates)"),
-    _G("correction: amino group next to a carbonyl carbon", "[NX3H2,NX4+][CX4][CX3]=O",
-       "correction", "alpha-amino acids and peptides, amine or ammonium form"),
-    _G("correction: non-aromatic ring", "", "ring", "number of non-aromatic rings (SSSR)"),
-)
-
-#: Names used in the refusal message for atoms no group covers.
-_CONTEXT_HINTS: tuple[tuple[str, str], ...] = (
-    ("[SX2;$(SC=O)]", "S in a thioester"),
-    ("[CX3;$(C(=O)OP)]", "C of an acyl phosphate"),
-    ("[OX1;$(O=COP)]", "O of an acyl phosphate"),
-    ("[#16]", "S"),
-    ("[#15]", "P"),
-)
-
-
-@dataclass(frozen=True)
-class PkaRule:
-    """An ionisable site: SMARTS of its protonated and deprotonated forms (first atom = the atom
-    that carries or loses the proton), its pKa values (highest first: one per proton), and the
-    source of the values."""
-
-    name: str
-    protonated: str
-    deprotonated: str
-    pkas: tuple[float, ...]
-    source: str
-
-
-#: pKa rules (25 degC, I = 0), most specific first. A site is counted once.
-PKA_RULES: tuple[PkaRule, ...] = (
-    PkaRule("alpha-carboxyl of an amino acid", "[OX2H1;$(OC(=O)[CX4][NX4+,NX3])]",
-            "[OX1-;$(OC(=O)[CX4][NX4+,NX3])]", (2.3,),
-            "glycine pKa1 2.35 (CRC Handbook of Chemistry and Physics, from memory)"),
-    PkaRule("carboxylic acid", "[OX2H1;$(O[CX3]=O);!$(OC(=O)OP)]", "[OX1-;$(O[CX3]=O)]", (4.5,),
-            "common practice (acetic acid 4.76, CRC Handbook, from memory)"),
-    PkaRule("terminal phosphate", "[PX4;$(P[OX2H0])](=O)([OX2H1])",
-            "[PX4;$(P[OX2H0])](=O)([OX1-])", (6.5, 1.5),
-            "common practice: second pKa of phosphate monoesters about 6.5 (Alberty 2003, "
-            "ch. 3-4 tables, from memory); first pKa about 1.5"),
-    PkaRule("inner phosphate", "[PX4;$(P([OX2H0])[OX2H0])](=O)[OX2H1]",
-            "[PX4;$(P([OX2H0])[OX2H0])](=O)[OX1-]", (1.0,), "common practice"),
-    PkaRule("alpha-ammonium of an amino acid", "[NX4H3+;$(N[CX4]C(=O)[O,OX1-])]",
-            "[NX3H2;$(N[CX4]C(=O)[O,OX1-])]", (9.6,),
-            "glycine pKa2 9.78, alanine 9.87 (CRC Handbook, from memory)"),
-    PkaRule("primary alkylammonium", "[NX4H3+]", "[NX3H2;$(N[CX4])]", (10.6,),
-            "methylamine 10.66 (CRC Handbook, from memory)"),
-    PkaRule("secondary alkylammonium", "[NX4H2+]", "[NX3H1;$(N([CX4])[CX4])]", (11.0,),
-            "dimethylamine 10.73, diethylamine 11.0 (CRC Handbook, from memory)"),
-    PkaRule("tertiary alkylammonium", "[NX4H1+]", "[NX3H0;$(N([CX4])([CX4])[CX4])]", (9.8,),
-            "trimethylamine 9.80 (CRC Handbook, from memory)"),
-    PkaRule("imidazolium", "[nX3H1+;r5]", "[nX2;r5;$(n1c[nH]cc1),$(n1cc[nH]c1)]", (6.0,),
-            "histidine side chain 6.0 (CRC Handbook, from memory)"),
-    PkaRule("guanidinium", "[NX3H2+]=C(N)N", "[NX2H1]=C(N)N", (12.5,),
-            "arginine side chain 12.5 (CRC Handbook, from memory)"),
-    PkaRule("thiol next to an ammonium (cysteine type)", "[SX2H1;$(S[CX4][CX4][NX4+,NX3])]",
-            "[SX1-;$(S[CX4][CX4][NX4+,NX3])]", (8.3,),
-            "cysteine side chain 8.3 (CRC Handbook, from memory)"),
-    PkaRule("thiol", "[SX2H1]", "[SX1-]", (10.0,), "common practice (alkanethiols 10-10.6)"),
-    PkaRule("phenol", "[OX2H1;$(Oc)]", "[OX1-;$(Oc)]", (10.0,),
-            "phenol 9.99 (CRC Handbook, from memory)"),
-)
-
-
-# --------------------------------------------------------------------------------------------
 # Structures
 # --------------------------------------------------------------------------------------------
 
 
-def _rdkit():
-    try:
-        from rdkit import Chem, RDLogger
-    except ImportError as err:  # pragma: no cover - rdkit is an optional extra
-        raise InputError(
-            "group-contribution estimates need RDKit; install the 'estimate' extra "
-            "(pip install 'tfa[estimate]')"
-        ) from err
+def rdkit_chem():
+    """RDKit's ``Chem`` module (imported on first use, so that ``import tfa`` stays fast), with its
+    log messages off (errors are reported as :class:`StructureError` instead)."""
+    from rdkit import Chem, RDLogger
+
     RDLogger.DisableLog("rdApp.*")
     return Chem
 
@@ -286,7 +121,7 @@ def parse_structure(text: str, where: str = ""):
     >>> parse_structure("CC(=O)[O-]").GetNumAtoms()
     4
     """
-    Chem = _rdkit()
+    Chem = rdkit_chem()
     text = (text or "").strip()
     prefix = f"{where}: " if where else ""
     if not text:
@@ -329,8 +164,8 @@ def format_formula(counts: dict[str, int]) -> str:
 
 
 @functools.lru_cache(maxsize=None)
-def _compiled(pattern: str):
-    Chem = _rdkit()
+def compiled_pattern(pattern: str):
+    Chem = rdkit_chem()
     query = Chem.MolFromSmarts(pattern)
     if query is None:  # pragma: no cover - table error
         raise ValueError(f"bad SMARTS in group table: {pattern}")
@@ -350,7 +185,7 @@ def count_groups(mol, where: str = "") -> dict[str, int]:
     >>> count_groups(parse_structure("CC(=O)[O-]"))
     {'carboxylate -COO-': 1, '-CH3': 1}
     """
-    Chem = _rdkit()
+    Chem = rdkit_chem()
     owned: set[int] = set()
     counts: dict[str, int] = {}
     for group in GROUPS:
@@ -361,10 +196,10 @@ def count_groups(mol, where: str = "") -> dict[str, int]:
                 if not all(mol.GetAtomWithIdx(i).GetIsAromatic() for i in ring)
             )
         elif group.kind == "correction":
-            n = len(mol.GetSubstructMatches(_compiled(group.pattern), uniquify=True))
+            n = len(mol.GetSubstructMatches(compiled_pattern(group.pattern), uniquify=True))
         else:
             n = 0
-            for match in mol.GetSubstructMatches(_compiled(group.pattern), uniquify=True):
+            for match in mol.GetSubstructMatches(compiled_pattern(group.pattern), uniquify=True):
                 if owned.isdisjoint(match):
                     owned.update(match)
                     n += 1
@@ -385,7 +220,7 @@ def count_groups(mol, where: str = "") -> dict[str, int]:
 def _describe_atom(mol, atom) -> str:
     hint = atom.GetSymbol()
     for pattern, text in _CONTEXT_HINTS:
-        if atom.GetIdx() in {m[0] for m in mol.GetSubstructMatches(_compiled(pattern))}:
+        if atom.GetIdx() in {m[0] for m in mol.GetSubstructMatches(compiled_pattern(pattern))}:
             hint = text
             break
     return f"{atom.GetIdx()} ({hint})"
@@ -658,211 +493,3 @@ def fitted_model() -> GroupModel:
     log.info("group contributions fitted on %d species, %d groups", len(model.species),
              len(model.fits["G"].columns))
     return model
-
-
-# --------------------------------------------------------------------------------------------
-# Protonation states
-# --------------------------------------------------------------------------------------------
-
-
-@dataclass(frozen=True)
-class IonisableSite:
-    """A site found by a pKa rule: ``protons`` it holds now out of ``len(pkas)``."""
-
-    rule: str
-    atom: int
-    pkas: tuple[float, ...]
-    protons: int
-    source: str
-
-
-def find_sites(mol) -> list[IonisableSite]:
-    """Ionisable sites of a molecule by :data:`PKA_RULES` (first rule wins for an atom).
-
-    >>> [(s.rule, s.protons) for s in find_sites(parse_structure("[NH3+]CC(=O)[O-]"))]
-    [('alpha-carboxyl of an amino acid', 0), ('alpha-ammonium of an amino acid', 1)]
-    """
-    taken: set[int] = set()
-    sites: list[IonisableSite] = []
-    for rule in PKA_RULES:
-        for pattern, protonated in ((rule.protonated, True), (rule.deprotonated, False)):
-            for match in mol.GetSubstructMatches(_compiled(pattern), uniquify=True):
-                atom = match[0]
-                if atom in taken:
-                    continue
-                taken.add(atom)
-                if len(rule.pkas) == 1:
-                    sites.append(IonisableSite(rule.name, atom, rule.pkas, int(protonated), rule.source))
-                else:  # a terminal phosphate: count the OH on this P
-                    p = mol.GetAtomWithIdx(atom)
-                    n_oh = sum(1 for nb in p.GetNeighbors()
-                               if nb.GetSymbol() == "O" and nb.GetTotalNumHs() == 1 and nb.GetDegree() == 1)
-                    sites.append(IonisableSite(rule.name, atom, rule.pkas, n_oh, rule.source))
-    return sites
-
-
-def _log_elementary_symmetric(logs: list[float]) -> list[float]:
-    """log e_n of exp(logs) for n = 0..len(logs) (stable recursion)."""
-    e = [0.0] + [-math.inf] * len(logs)
-    for value in logs:
-        for n in range(len(e) - 1, 0, -1):
-            e[n] = np.logaddexp(e[n], e[n - 1] + value)
-    return [float(v) for v in e]
-
-
-def protonation_energies(G: float, sites: list[IonisableSite], temperature: float = T_REF) -> list[tuple[int, float]]:
-    """DfG deg of each macrostate, as (protons more than the fully dissociated form, G).
-
-    Independent sites (Alberty 2003, ch. 3): G(n) = G(0) − RT ln e_n(10^pKa).
-
-    >>> site = IonisableSite("carboxylic acid", 0, (4.76,), 0, "")
-    >>> [(n, round(g, 2)) for n, g in protonation_energies(-369.3, [site])]   # acetate -> acetic acid
-    [(0, -369.3), (1, -396.47)]
-    """
-    rt = R * temperature
-    pkas = [pk for site in sites for pk in site.pkas]
-    held = sum(sum(sorted(site.pkas, reverse=True)[: site.protons]) for site in sites)
-    g0 = G + rt * LN10 * held
-    logs = _log_elementary_symmetric([LN10 * pk for pk in pkas])
-    return [(n, g0 - rt * logs[n]) for n in range(len(pkas) + 1)]
-
-
-# --------------------------------------------------------------------------------------------
-# Estimates
-# --------------------------------------------------------------------------------------------
-
-
-@dataclass
-class GroupEstimate:
-    """A group-contribution estimate for one structure (298.15 K, 1 bar, I = 0).
-
-    Attributes
-    ----------
-    name, smiles : str
-        Label given and canonical SMILES of the structure estimated.
-    formula : str
-        Hill formula without charge; ``charge`` and ``n_h`` of the structure.
-    groups : dict
-        Group name -> count.
-    G, sigma_G : float
-        DfG deg and its standard uncertainty, kJ/mol.
-    H : float or None
-        DfH deg, kJ/mol (None if a group has no enthalpy data).
-    S, Cp : float or None
-        S deg and Cp deg, J/mol/K (None if a group has no data).
-    protonation_states : list of (formula, charge, n_h, G)
-        Every macrostate produced by the pKa rules, G in kJ/mol (the estimated one included).
-    sites : list of IonisableSite
-    """
-
-    name: str
-    smiles: str
-    formula: str
-    charge: int
-    n_h: int
-    groups: dict[str, int]
-    G: float
-    sigma_G: float
-    H: float | None = None
-    S: float | None = None
-    Cp: float | None = None
-    protonation_states: list[tuple[str, int, int, float]] = field(default_factory=list)
-    sites: list[IonisableSite] = field(default_factory=list)
-
-    def to_dict(self) -> dict:
-        return {
-            "name": self.name, "smiles": self.smiles, "formula": self.formula, "charge": self.charge,
-            "n_h": self.n_h, "groups": dict(self.groups), "G_kJ": self.G, "sigma_G_kJ": self.sigma_G,
-            "H_kJ": self.H, "S_J_K": self.S, "Cp_J_K": self.Cp,
-            "protonation_states": [
-                {"formula": f, "charge": z, "n_h": h, "G_kJ": g} for f, z, h, g in self.protonation_states
-            ],
-            "sites": [{"rule": s.rule, "pkas": list(s.pkas), "protons": s.protons, "source": s.source}
-                      for s in self.sites],
-            "provenance": provenance_text(self.sigma_G),
-        }
-
-
-def provenance_text(sigma: float) -> str:
-    """Provenance of an estimated value, e.g. 'estimated (group contribution, ± 8.1 kJ/mol)'."""
-    return f"estimated (group contribution, ± {sigma:.1f} kJ/mol)"
-
-
-def estimate_species(smiles_or_inchi: str, name: str = "", model: GroupModel | None = None) -> GroupEstimate:
-    """Estimate DfG deg (and DfH deg, S deg, Cp deg) of one aqueous species from its structure.
-
-    Parameters
-    ----------
-    smiles_or_inchi : str
-        The structure in the protonation state wanted (SMILES, or InChI starting 'InChI=').
-    name : str
-        A label for messages and results.
-    model : GroupModel, optional
-        Defaults to :func:`fitted_model`.
-
-    Raises
-    ------
-    StructureError
-        Unreadable structure, an atom no group covers, or a group with no training data.
-
-    Examples
-    --------
-    Lactate (OBIGT value of Shock 1995: DfG deg = -122.53 kcal/mol = -512.7 kJ/mol):
-
-    >>> est = estimate_species("CC(O)C(=O)[O-]", "lactate")
-    >>> est.formula, est.charge, abs(est.G - (-512.7)) < 3 * est.sigma_G
-    ('C3H5O3', -1, True)
-    """
-    model = model or fitted_model()
-    label = name or smiles_or_inchi
-    mol = parse_structure(smiles_or_inchi, label)
-    counts = count_groups(mol, label)
-    missing = model.missing_groups(counts)
-    if missing:
-        raise StructureError(
-            f"{label}: no training data for group(s) {', '.join(repr(g) for g in missing)}; the "
-            "group contribution model cannot estimate this structure; use a literature value "
-            "for this compound or its reactions instead"
-        )
-    elements, charge = molecule_formula(mol)
-    G = float(model.predict(counts, "G"))
-    sigma = model.sigma(counts)
-    sites = find_sites(mol)
-    n_h = elements.get("H", 0)
-    held = sum(site.protons for site in sites)
-    states = []
-    for n, g in protonation_energies(G, sites):
-        shift = n - held
-        counts_n = dict(elements)
-        counts_n["H"] = n_h + shift
-        states.append((format_formula(counts_n), charge + shift, n_h + shift, float(g)))
-    Chem = _rdkit()
-    return GroupEstimate(
-        name=label, smiles=Chem.MolToSmiles(mol), formula=format_formula(elements), charge=charge,
-        n_h=n_h, groups=counts, G=G, sigma_G=sigma, H=model.predict(counts, "H"),
-        S=model.predict(counts, "S"), Cp=model.predict(counts, "Cp"),
-        protonation_states=states, sites=sites,
-    )
-
-
-def estimated_species_records(estimate: GroupEstimate, reactant_id: str) -> list:
-    """Species records (one per protonation state) for the thermodynamics engine.
-
-    The estimated state carries the group-contribution H, S and Cp; the states derived by pKa
-    rules carry only G (their H, S, Cp are unknown: None). All have ``origin="estimated"``,
-    ``sigma_G`` = the estimate's uncertainty and ``source="tfa group contribution"``.
-    """
-    from .species import Species
-
-    records = []
-    for formula, charge, n_h, g in estimate.protonation_states:
-        is_base = charge == estimate.charge
-        suffix = "" if charge == 0 else (f"+{charge}" if charge > 0 else f"{charge}")
-        records.append(Species(
-            id=f"{reactant_id}{suffix}(est)", reactant=reactant_id, formula=formula, state="aq",
-            charge=charge, n_h=n_h, n_mg=0, G=g,
-            H=estimate.H if is_base else None, S=estimate.S if is_base else None,
-            Cp=estimate.Cp if is_base else None, V=None, source=SOURCE_KEY,
-            source2=None, origin="estimated", sigma_G=estimate.sigma_G,
-        ))
-    return records

@@ -19,8 +19,17 @@ appear with opposite coefficients and the reference cancels. A reaction that doe
 pair does not balance and is refused.
 
 The potential is tabulated at one pH; at another pH it moves by −(m/n)(RT ln 10/F) per pH unit
-(Clark 1960; Alberty 2003, eq. 8.2-9). No temperature or ionic-strength dependence of these
-protein or cofactor potentials is known to us: the value is held and the result is flagged.
+(Clark 1960; Alberty 2003, eq. 8.2-9). No ionic-strength dependence is applied.
+
+Temperature (the assumption, stated in every result away from 25 °C): E'° is held at its table
+value, because no temperature dependence of these protein or cofactor potentials is known to
+us for the carriers of the table. Reported temperature coefficients of biological one- and
+two-electron carriers (ferredoxins, rubredoxins, cytochromes) lie between about 0 and −2 mV/K
+(from memory), so the held value's standard uncertainty grows with the distance from the table
+temperature, σ(T) = √(σ² + (k |T − T_table|)²) with k = :data:`TEMPERATURE_SIGMA_V_PER_K`
+(1 mV/K, common practice chosen here): ±45 mV at 70 °C, about 8.7 kJ/mol for a two-electron
+couple. (The H+/H2 couple itself is species data and moves with temperature: about −90 mV
+between 25 °C at pH 7 and 70 °C at pH 7.5.)
 
 Units: E in V, F in kJ/(mol V), energies in kJ/mol.
 
@@ -35,6 +44,7 @@ References
 from __future__ import annotations
 
 import csv
+import math
 from dataclasses import dataclass
 from functools import lru_cache
 from importlib import resources
@@ -45,6 +55,9 @@ from ..errors import InputError
 
 #: Carriers' potentials are held fixed beyond this distance from their table temperature, K.
 TEMPERATURE_TOLERANCE_K = 1.0
+#: Growth of the standard uncertainty of a held potential with |T − T_table|, V/K (common
+#: practice chosen here; reported coefficients lie between about 0 and −2 mV/K, from memory).
+TEMPERATURE_SIGMA_V_PER_K = 1.0e-3
 
 _COLUMNS = ("id", "name", "synonyms", "oxidised", "oxidised_synonyms", "oxidised_formula",
             "reduced", "reduced_synonyms", "reduced_formula", "n_electrons", "n_protons",
@@ -104,15 +117,44 @@ class CarrierCouple:
         """
         return -self.n_electrons * FARADAY * self.potential(ph, temperature)
 
-    def energy_uncertainty(self) -> float:
-        """Standard uncertainty of ΔfG'°(red) − ΔfG'°(ox): nF σ(E'°), kJ/mol."""
-        return self.n_electrons * FARADAY * self.sigma
+    def potential_sigma(self, temperature: float | None = None) -> float:
+        """Standard uncertainty of E'° at ``temperature`` (K; None: the table temperature), V.
+
+        Equation: σ(T) = √(σ² + (k |T − T_table|)²), k = 1 mV/K (module docstring).
+
+        Examples
+        --------
+        Ferredoxin, σ = 30 mV at 25 °C (common practice: the spread of −400 to −450 mV among
+        ferredoxins), at 70 °C: √(30² + 45²) = 54.1 mV.
+
+        >>> c = CarrierCouple("fd", "fd", (), "Fd_ox", (), "Fd", "Fd_red", (), "Fd-2", 2, 0,
+        ...                   -0.420, 0.030, 7.0, 25.0, "TJD77", "")
+        >>> round(1000 * c.potential_sigma(343.15), 1)
+        54.1
+        """
+        if temperature is None:
+            return self.sigma
+        drift = TEMPERATURE_SIGMA_V_PER_K * abs(temperature - (self.temperature_C + 273.15))
+        return math.hypot(self.sigma, drift)
+
+    def energy_uncertainty(self, temperature: float | None = None) -> float:
+        """Standard uncertainty of ΔfG'°(red) − ΔfG'°(ox): nF σ(E'°, T), kJ/mol."""
+        return self.n_electrons * FARADAY * self.potential_sigma(temperature)
+
+    @property
+    def status(self) -> str:
+        """Status of the potential (:mod:`tfa.thermo.status`): recalled when its note says so."""
+        from .status import CITED, RECALLED
+
+        return RECALLED if "from memory" in self.note.lower() else CITED
 
     def temperature_flag(self, temperature: float) -> str | None:
-        """A flag when the potential is used away from its table temperature."""
+        """A flag when the potential is used away from its table temperature (the assumption
+        and the widened σ)."""
         if abs(temperature - (self.temperature_C + 273.15)) > TEMPERATURE_TOLERANCE_K:
-            return (f"E'° of {self.name} held at its {self.temperature_C:g} degC value "
-                    "(no temperature dependence known)")
+            return (f"E'° of {self.name} held at its {self.temperature_C:g} degC value (no "
+                    "temperature dependence known; assumed constant), sigma widened by 1 mV/K to "
+                    f"{1000 * self.potential_sigma(temperature):.0f} mV")
         return None
 
 

@@ -17,6 +17,13 @@ species (nH and charge z from the compounds table; single-species approximation)
 
     δ_u(r) = nH RT ln10 (pH_r − pH_ref) − RTα (z² − nH) [f(I_r) − f(I_ref)],   f(I) = √I/(1 + 1.6√I)
 
+Magnesium: a value measured with Mg2+ states its pMg; its known compounds then enter at that
+pMg (their Mg-binding species, e.g. MgATP2−, MgHPO4, MgP2O7(2−), by Alberty's transform), which
+amounts to carrying the value to the Mg-free reference of the unknowns: ΔrG'°(no Mg) =
+ΔrG'°(pMg_r) − Σ_k ν_k [ΔfG'°_k(pMg_r) − ΔfG'°_k(no Mg)]. The unknowns' own Mg binding is not
+known and is neglected (below 0.5 kJ/mol at pMg ≥ 3 for phosphate monoesters, log K about 2;
+Alberty 2003, from memory).
+
 The literature value is brought to 298.15 K by the Gibbs-Helmholtz equation with constant ΔrH'°
 when ΔrH'° is given, ΔrG'°(T2) = ΔrG'°(T1)·T2/T1 + ΔrH'°(1 − T2/T1), and otherwise taken as
 independent of temperature (ΔrS'° = 0, the documented approximation of this module).
@@ -74,6 +81,7 @@ from ..conditions import Conditions
 from ..constants import LN10, R, T_REF
 from ..errors import InputError, MissingDataError
 from .legendre import DEBYE_HUCKEL_B, rt_alpha
+from .literature import LiteratureValue
 
 log = logging.getLogger(__name__)
 
@@ -88,79 +96,6 @@ RANK_TOLERANCE = 1e-9
 
 #: ``known_energy(compound, conditions) -> (ΔfG'°, σ)`` in kJ/mol.
 KnownEnergy = Callable[[str, Conditions], "tuple[float, float]"]
-
-
-@dataclass(frozen=True)
-class LiteratureValue:
-    """One reaction-level literature value.
-
-    Attributes
-    ----------
-    id : str
-        Identifier of the value (e.g. ``lit_citrate_lyase``).
-    stoichiometry : dict
-        Compound id -> net coefficient (negative consumed).
-    dg0_prime : float
-        ΔrG'°, kJ/mol, at ``conditions``.
-    sigma : float
-        Standard uncertainty of ``dg0_prime``, kJ/mol (> 0).
-    conditions : Conditions
-        Temperature, pH, ionic strength (and pMg) the value refers to.
-    dh0_prime : float or None
-        ΔrH'°, kJ/mol, when the source gives it.
-    source_key : str
-        Key of the source in the sources table.
-    peer_reviewed : bool
-        Whether the source is peer reviewed.
-    note : str
-        Free text.
-    """
-
-    id: str
-    stoichiometry: dict[str, float]
-    dg0_prime: float
-    sigma: float
-    conditions: Conditions
-    dh0_prime: float | None = None
-    source_key: str = ""
-    peer_reviewed: bool = True
-    note: str = ""
-
-    def __post_init__(self) -> None:
-        if not (math.isfinite(self.dg0_prime) and math.isfinite(self.sigma) and self.sigma > 0):
-            raise InputError(
-                f"literature value {self.id}: ΔrG'° {self.dg0_prime} and σ {self.sigma} must be finite "
-                "numbers with σ > 0 kJ/mol; give the standard uncertainty of the value"
-            )
-
-    def at_reference_temperature(self) -> float:
-        """ΔrG'° carried to 298.15 K, kJ/mol.
-
-        Equation (Gibbs-Helmholtz with constant ΔrH'°, Alberty 2003, eq. 3.2-7 in integrated form):
-        ΔrG'°(T2) = ΔrG'°(T1)·T2/T1 + ΔrH'°·(1 − T2/T1); without ΔrH'° the value is taken as
-        independent of temperature (ΔrS'° = 0).
-
-        Examples
-        --------
-        A value of −10 kJ/mol at 310.15 K with ΔrH'° = +20 kJ/mol (ΔrS'° = +96.7 J/mol/K) is
-        −8.84 kJ/mol at 298.15 K: −10·298.15/310.15 + 20·(1 − 298.15/310.15).
-
-        >>> v = LiteratureValue("x", {"a": -1, "b": 1}, -10.0, 1.0,
-        ...                     Conditions.from_celsius(37.0), dh0_prime=20.0)
-        >>> round(v.at_reference_temperature(), 2)
-        -8.84
-        """
-        t1 = self.conditions.temperature
-        if self.dh0_prime is None or abs(t1 - T_REF) < 1e-9:
-            return self.dg0_prime
-        ratio = T_REF / t1
-        return self.dg0_prime * ratio + self.dh0_prime * (1.0 - ratio)
-
-    def entropy(self) -> float:
-        """ΔrS'°, kJ/mol/K: (ΔrH'° − ΔrG'°)/T when ΔrH'° is given, else 0 (the approximation)."""
-        if self.dh0_prime is None:
-            return 0.0
-        return (self.dh0_prime - self.dg0_prime) / self.conditions.temperature
 
 
 @dataclass(frozen=True)
@@ -350,7 +285,7 @@ class Reconciliation:
         """
         w = self.value_weights(stoichiometry)
         rates = np.array([
-            ENTROPY_SIGMA_WITH_ENTHALPY if v.dh0_prime is not None else ENTROPY_SIGMA_NO_ENTHALPY
+            ENTROPY_SIGMA_WITH_ENTHALPY if v.delta_h_standard is not None else ENTROPY_SIGMA_NO_ENTHALPY
             for v in self.values
         ])
         return float(abs(temperature - T_REF) * np.sum(np.abs(w) * rates)) if w.size else 0.0
@@ -384,11 +319,11 @@ class Reconciliation:
         """One row per unknown compound: ΔfG'° at the reference, σ, identified, S°, ΔfG° of its species."""
         return pd.DataFrame({
             "compound": list(self.unknowns),
-            "dfG_prime_ref_kJ": self.energies,
-            "sigma_kJ": [self.compound_sigma(u) for u in self.unknowns],
+            "formation_delta_g_standard_kJ_per_mol": self.energies,
+            "sigma_kJ_per_mol": [self.compound_sigma(u) for u in self.unknowns],
             "identified": [self.compound_identified(u) for u in self.unknowns],
-            "S_species_kJ_K": self.entropies,
-            "dfG_species_kJ": self.species_energies,
+            "species_entropy_kJ_per_mol_K": self.entropies,
+            "species_formation_delta_g_kJ_per_mol": self.species_energies,
         })
 
     def residual_frame(self) -> pd.DataFrame:
@@ -566,64 +501,33 @@ def reconcile(
                           residuals, dict(species), heat_capacities)
 
 
-def read_literature_values(path, where: str | None = None) -> list[LiteratureValue]:
-    """Read a reaction-values table (TSV or CSV, ``#`` comment lines allowed).
+def reconciled_species(rec: Reconciliation, compound: str, key: str, formula: str):
+    """The species record (origin ``reconciled``) that carries a reconciled compound through the
+    Legendre transform and the temperature integration like species data, or None when the
+    compound has no formula (H count and charge) to transform with.
 
-    Columns: ``id, equation, dg0_prime_kJ, sigma_kJ, dh0_prime_kJ, temperature_C, ph,
-    ionic_strength, pmg, source_key, peer_reviewed, note``. Equations use the grammar of
-    :mod:`tfa.equation`. Errors name the file and line.
+    Its G is the minimum-norm ΔfG° of the reference species (I = 0, 298.15 K), S° and Cp° those of
+    :func:`reconcile`; ``sigma_G`` is √C_uu for an identified compound, None inside an open
+    conserved moiety (only combinations mean something there). ``key`` becomes the species id and
+    its reactant; ``formula`` the element formula without charge.
+
+    Examples
+    --------
+    >>> rec = reconcile([LiteratureValue("v", {"x": 1.0}, -10.0, 1.0, Conditions())],
+    ...                 lambda c, k: (0.0, 0.0), {"x": UnknownSpecies(n_h=0, charge=0)})
+    >>> sp = reconciled_species(rec, "x", "reconciled:x", "C")
+    >>> sp.origin, round(sp.G, 2), sp.sigma_G
+    ('reconciled', -10.0, 1.0)
     """
-    from ..equation import parse_equation
+    from .species import Species
 
-    where = where or str(path)
-    sep = "\t" if str(path).endswith(".tsv") else ","
-    from io import StringIO
-
-    from ..util.files import read_input_text
-
-    text = read_input_text(path, "reaction-values table")
-    lines = text.splitlines()
-    comment_lines = 0
-    while comment_lines < len(lines) and lines[comment_lines].lstrip().startswith("#"):
-        comment_lines += 1
-    try:
-        frame = pd.read_csv(StringIO(text), sep=sep, skiprows=comment_lines, dtype=str,
-                            keep_default_na=False)
-    except (pd.errors.ParserError, pd.errors.EmptyDataError) as err:
-        raise InputError(f"{where}: cannot read the reaction-values table ({err})") from err
-    required = ["id", "equation", "dg0_prime_kJ", "sigma_kJ", "temperature_C", "ph", "ionic_strength"]
-    missing = [c for c in required if c not in frame.columns]
-    if missing:
-        raise InputError(f"{where}: missing column(s) {', '.join(missing)}; the header must hold "
-                         "id, equation, dg0_prime_kJ, sigma_kJ, dh0_prime_kJ, temperature_C, ph, "
-                         "ionic_strength, pmg, source_key, peer_reviewed, note")
-    out = []
-    for i, row in frame.iterrows():
-        line = f"{where} line {i + 2 + comment_lines}"
-
-        def number(column: str, optional: bool = False) -> float | None:
-            text = str(row.get(column, "")).strip()
-            if not text:
-                if optional:
-                    return None
-                raise InputError(f"{line}: column {column} is empty; give a number")
-            try:
-                float(text)
-            except ValueError:
-                raise InputError(f"{line}: column {column} holds '{text}', not a number") from None
-            from ..util.numbers import read_number
-
-            return read_number(text, f"column {column}", line)
-
-        eq = parse_equation(row["equation"], where=line)
-        conditions = Conditions.from_celsius(number("temperature_C"), ph=number("ph"),
-                                             ionic_strength=number("ionic_strength"),
-                                             pmg=number("pmg", optional=True))
-        reviewed = str(row.get("peer_reviewed", "yes")).strip().lower() not in ("no", "false", "0", "n")
-        out.append(LiteratureValue(
-            id=str(row["id"]).strip(), stoichiometry=eq.stoichiometry(),
-            dg0_prime=number("dg0_prime_kJ"), sigma=number("sigma_kJ"),
-            conditions=conditions, dh0_prime=number("dh0_prime_kJ", optional=True),
-            source_key=str(row.get("source_key", "")).strip(), peer_reviewed=reviewed,
-            note=str(row.get("note", "")).strip()))
-    return out
+    i = rec.unknowns.index(compound)
+    sp = rec.species[compound]
+    if not sp.defined:
+        return None
+    return Species(
+        id=key, reactant=key, formula=formula, state="aq", charge=int(sp.charge), n_h=int(sp.n_h),
+        n_mg=0, G=float(rec.species_energies[i]), H=None, S=float(rec.entropies[i]) * 1000.0,
+        Cp=float(rec.heat_capacities[i]) * 1000.0 if rec.heat_capacities.size else 0.0, V=None,
+        source=",".join(rec.source_keys({compound: 1.0})) or "literature", origin="reconciled",
+        sigma_G=rec.compound_sigma(compound) if rec.compound_identified(compound) else None)

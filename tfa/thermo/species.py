@@ -37,9 +37,17 @@ SPECIES_FILE = "species.csv"
 SOURCES_FILE = "sources.csv"
 COMPOUNDS_FILE = "compounds.csv"
 LITERATURE_SOURCES_FILE = "literature_sources.csv"
+#: Compounds without species data whose energies come from reaction values only.
+VALUE_COMPOUNDS_FILE = "compounds_without_species.csv"
+VALUE_COMPOUND_COLUMNS = ("id", "name", "synonyms", "formula", "charge", "smiles", "note")
 
 SPECIES_COLUMNS = ("species", "reactant", "formula", "state", "charge", "n_h", "n_mg", "G_kJ",
-                   "H_kJ", "S_J_K", "Cp_J_K", "V_cm3", "source", "source2", "obigt_name")
+                   "H_kJ", "S_J_K", "Cp_J_K", "V_cm3", "source", "source2", "obigt_name", "flag",
+                   "shift_kJ", "anchor", "note")
+#: Flags of the ``flag`` column (``; ``-separated when several apply): a species re-anchored to
+#: measured biochemical values, a Mg complex built from a binding constant
+#: (``scripts/make_species_table.py`` says why and how).
+SPECIES_FLAGS = ("re-anchored", "Mg complex (binding constant)")
 SOURCE_COLUMNS = ("key", "authors", "year", "citation", "doi", "peer_reviewed", "note")
 COMPOUND_COLUMNS = ("id", "name", "synonyms", "kind", "species", "formula", "charge")
 ORIGINS = ("data", "reconciled", "estimated", "placeholder")
@@ -78,6 +86,16 @@ class Species:
         ``data`` (bundled table), ``reconciled``, ``estimated`` or ``placeholder``.
     sigma_G : float or None
         Standard uncertainty of G, kJ/mol; ``None`` means the database default.
+    flag : str
+        Empty, or :data:`SPECIES_FLAGS` joined by ``; ``: ``re-anchored`` when the table's generator shifted the
+        source's ΔfG° to reproduce measured biochemical values, ``Mg complex (binding
+        constant)`` for a complex made from its ligand and a binding constant.
+    shift : float or None
+        The shift of ΔfG° (and ΔfH°) applied, kJ/mol.
+    anchor : str
+        Source keys of the values the correction reproduces (``;``-separated).
+    note : str
+        The correction in words: anchors, conditions, whether recalled.
     """
 
     id: str
@@ -96,6 +114,16 @@ class Species:
     source2: str | None = None
     origin: str = "data"
     sigma_G: float | None = None
+    flag: str = ""
+    shift: float | None = None
+    anchor: str = ""
+    note: str = ""
+
+    @property
+    def recalled(self) -> bool:
+        """True when the species rests on a value recalled rather than checked against its
+        printed source (a correction whose note says "from memory")."""
+        return "from memory" in self.note.lower()
 
 
 @dataclass(frozen=True)
@@ -167,6 +195,10 @@ def parse_species_row(row: dict, where: str) -> Species:
         V=_optional_float(row["V_cm3"], f"{where}, column V_cm3"),
         source=row["source"].strip(),
         source2=(row.get("source2") or "").strip() or None,
+        flag=(row.get("flag") or "").strip(),
+        shift=_optional_float(row.get("shift_kJ") or "", f"{where}, column shift_kJ"),
+        anchor=(row.get("anchor") or "").strip(),
+        note=(row.get("note") or "").strip(),
     )
 
 
@@ -228,6 +260,29 @@ def _sources_cached() -> tuple[tuple[str, Source], ...]:
     return tuple(merged.items())
 
 
+def read_sources_file(path) -> dict[str, Source]:
+    """Sources of a network's own ``sources.tsv`` (or ``.csv``): the columns of
+    ``tfa/data/sources.csv`` (``#`` comment lines allowed); errors name the file and line."""
+    from pathlib import Path
+
+    path = Path(path)
+    lines = [line for line in path.read_text(encoding="utf-8").splitlines()
+             if line.strip() and not line.lstrip().startswith("#")]
+    reader = csv.DictReader(io.StringIO("\n".join(lines)),
+                            delimiter="\t" if path.suffix.lower() == ".tsv" else ",")
+    missing = [c for c in ("key", "authors", "year", "citation") if c not in (reader.fieldnames or ())]
+    if missing:
+        raise InputError(f"{path}: missing column(s) {', '.join(missing)}; expected "
+                         f"{', '.join(SOURCE_COLUMNS)}")
+    out = {}
+    for line, row in enumerate(reader, start=2):
+        row = {c: row.get(c) or "" for c in SOURCE_COLUMNS}
+        row["peer_reviewed"] = row["peer_reviewed"] or "yes"
+        src = _parse_source(row, f"{path.name} line {line}")
+        out[src.key] = src
+    return out
+
+
 def load_sources() -> dict[str, Source]:
     """All sources: ``sources.csv`` merged with ``literature_sources.csv`` when present.
 
@@ -240,3 +295,13 @@ def load_sources() -> dict[str, Source]:
 def load_compound_rows() -> list[dict]:
     """Raw rows of ``compounds.csv`` (strings; ``synonyms`` and ``species`` ``;``-separated)."""
     return [dict(r) for r in _read_table(COMPOUNDS_FILE, COMPOUND_COLUMNS)]
+
+
+def load_value_compound_rows() -> list[dict]:
+    """Rows of ``compounds_without_species.csv`` as compound rows (kind aqueous, no species):
+    acetyl-CoA, the THF carriers, sugar phosphates and the like, whose energies come only from
+    reaction-level values (:mod:`tfa.thermo.library`)."""
+    rows = _read_table(VALUE_COMPOUNDS_FILE, VALUE_COMPOUND_COLUMNS, required=False) or []
+    return [{"id": r["id"], "name": r["name"], "synonyms": r["synonyms"], "kind": "aqueous",
+             "species": "", "formula": r["formula"], "charge": r["charge"], "note": r["note"]}
+            for r in rows]

@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import pandas as pd
+
 from ...network.coverage import CoverageReport, coverage
 from ..context import RunContext
 from ..step import Section, Step
@@ -19,23 +21,38 @@ class CoverageStep(Step):
         return coverage(ctx.model, ctx.environment, ctx.database, ctx.literature())
 
     def tables(self, result: CoverageReport, ctx: RunContext) -> dict:
-        return {"coverage": result.to_frame()}
+        return {"coverage": result.to_frame(), "to_verify": result.to_verify()}
 
     def summary_lines(self, result: CoverageReport, ctx: RunContext) -> list[str]:
         from ...report.text import number_in_words, counted
 
         data = self.summary_data(result, ctx)["coverage"]
         total, with_energy = data["reactions"], data["with_energy"]
-        return [f"data: {number_in_words(with_energy, 'none')} of {counted(total, 'reaction')} "
-                f"{'has' if with_energy == 1 else 'have'} an energy "
-                f"({number_in_words(data['estimated'], 'none')} estimated, "
-                f"{number_in_words(data['missing'], 'none')} missing)"]
+        lines = [f"data: {number_in_words(with_energy, 'none')} of {counted(total, 'reaction')} "
+                 f"{'has' if with_energy == 1 else 'have'} an energy "
+                 f"({number_in_words(data['estimated'], 'none')} estimated, "
+                 f"{number_in_words(data['missing'], 'none')} missing)"]
+        unchecked = data["unchecked"]
+        if unchecked:
+            lines.append(f"data to verify: {number_in_words(unchecked)} of {total} rest on a value "
+                         f"recalled but not checked against its source, a rule of thumb, an "
+                         f"estimate or unreviewed data ({data['to_verify']} numbers in to_verify"
+                         + (f"; {counted(data['flagged'], 'reaction')} touched by an open audit "
+                            "disagreement" if data["flagged"] else "") + ")")
+        return lines
 
     def summary_data(self, result: CoverageReport, ctx: RunContext) -> dict:
+        from ...thermo.status import needs_checking
+
         counts = result.counts
         missing = counts.get("placeholder", 0) + counts.get("none", 0)
+        statuses = result.status_counts
         return {"coverage": {"reactions": result.total, "with_energy": result.total - missing,
-                             "estimated": counts.get("estimated", 0), "missing": missing}}
+                             "estimated": counts.get("estimated", 0), "missing": missing,
+                             "statuses": statuses,
+                             "unchecked": sum(n for s, n in statuses.items() if needs_checking(s)),
+                             "flagged": sum(1 for r in result.reactions if r.audit_flags),
+                             "to_verify": len(result.to_verify())}}
 
     def sections(self, result: CoverageReport, ctx: RunContext) -> list[Section]:
         text = (f"{result.total} internal reactions; {100 * result.reviewed_or_cited_fraction:.0f}% "
@@ -43,7 +60,16 @@ class CoverageStep(Step):
                 "literature values. Sources: species (reviewed species data), literature (a "
                 "cited reaction value), reconciled (several values combined), estimated (group "
                 "contribution, wide uncertainty).")
+        statuses = pd.DataFrame({"status": list(result.status_counts),
+                                 "reactions": list(result.status_counts.values())})
+        text += ("\n\nStatus: how far the numbers behind each energy were checked. A value "
+                 "\"recalled (from memory)\" was taken from its source without checking the printed "
+                 "table; \"common practice\" is a rule of thumb; estimates carry wide "
+                 "uncertainties. The numbers to verify before publishing are listed below (and in "
+                 "to_verify.csv; tfa inspect --to-verify prints them).")
         return [Section(self.title, text,
-                        extra_tables=[("Reactions per kind of data", result.counts_frame())],
+                        extra_tables=[("Reactions per kind of data", result.counts_frame()),
+                                      ("Reactions per status of their data", statuses)],
                         tables=[("coverage", "Every reaction: ΔrG'° (kJ/mol), standard "
-                                             "uncertainty and provenance")])]
+                                             "uncertainty, status, audit flags and provenance"),
+                                ("to_verify", "The numbers to verify before publishing")])]
