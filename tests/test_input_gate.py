@@ -232,9 +232,11 @@ def test_a_byte_order_mark_is_accepted_in_every_table_and_toml(mini_folder):
     inputs = resolve_inputs(mini_folder)
     assert inputs.environment.name == "mini test setting"
     assert list(inputs.network_sources()["key"]) == ["S1"]
+    from tfa.network.energies import network_sources
     from tfa.thermo.literature import read_literature_values
 
     assert [v.id for v in read_literature_values(inputs.literature_path)] == ["v1"]
+    assert list(network_sources(inputs.model)) == ["S1"]
 
 
 def test_an_environment_that_is_a_pipe_or_device_is_refused(mini_folder):
