@@ -210,7 +210,8 @@ def test_environment_keys_and_values_are_checked(mini_folder, old, new, words):
     env = mini_folder / "environment.toml"
     env.write_text(env.read_text().replace(old, new))
     with pytest.raises(NetworkFileError) as info:
-        resolve_inputs(mini_folder)
+        inputs = resolve_inputs(mini_folder)
+        inputs.environment.check_network(inputs.model)    # as every run does before solving
     for word in words:
         assert word in str(info.value)
 

@@ -11,6 +11,8 @@ import sys
 import time
 from pathlib import Path
 
+import pytest
+
 
 def children(pid: int) -> list[int]:
     """Process ids whose parent is ``pid`` (from /proc)."""
@@ -34,6 +36,7 @@ def alive(pid: int) -> bool:
     return state != "Z"
 
 
+@pytest.mark.slow
 def test_workers_die_with_a_killed_coordinator(mini_folder, tmp_path):
     proc = subprocess.Popen([sys.executable, "-m", "tfa", "robustness", str(mini_folder), "--draws",
                              "2000", "--modes", "native", "--no-threshold", "--workers", "2",

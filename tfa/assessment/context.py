@@ -166,6 +166,8 @@ class RunContext:
         self._feasibility: dict[str, "FeasibilityResult"] = {}
         self._steps: dict[str, "Step"] = {}
         self._cache: dict[str, Any] = {}
+        # every key of the environment names something in the network (a typo is an error)
+        inputs.environment.check_network(inputs.model)
 
     # ------------------------------------------------------------------ shared answers
     @property

@@ -161,7 +161,6 @@ def _resolve(network: Any = None, environment: Any = None,
     changes = condition_overrides(conditions)
     if changes:
         env = env.with_conditions(**changes)
-    env.check_network(model)
     return Inputs(model, env, network_source, env_source, literature, folder)
 
 
