@@ -53,3 +53,37 @@ def bundled_run(tmp_path_factory) -> BundledRun:
     with Progress(stream=terminal) as bar:
         result = tfa.assess(out=out, progress=bar)
     return BundledRun(result, out, terminal, time.monotonic() - started, sorted(out.iterdir()))
+
+
+#: A setting for tests/data/mini_network (textbook reactions; invented demo values): the small
+#: network the hardening tests run whole commands on in a few seconds.
+MINI_ENVIRONMENT = """\
+[environment]
+name = "mini test setting"
+[conditions]
+temperature_C = 25.0
+pH = 7.0
+ionic_strength_M = 0.1
+[feed]
+h2 = 1.0e-3
+co2 = 1.0e-2
+pi = 1.0e-3
+[bounds]
+default = [1.0e-6, 1.0e-2]
+[demand]
+reaction = "DM_mal"
+flux = 0.01
+[outlets]
+allowed = ["ac"]
+"""
+
+
+@pytest.fixture()
+def mini_folder(tmp_path) -> Path:
+    """A copy of tests/data/mini_network with an environment.toml beside it."""
+    import shutil
+
+    folder = tmp_path / "mini"
+    shutil.copytree(Path(__file__).parent / "data" / "mini_network", folder)
+    (folder / "environment.toml").write_text(MINI_ENVIRONMENT, encoding="utf-8")
+    return folder

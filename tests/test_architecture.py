@@ -25,8 +25,8 @@ PACKAGE = ROOT / "tfa"
 #: Modules of each layer (the first path component under tfa/); a module may import from its own
 #: layer and the layers before it, never after.
 LAYERS = [
-    {"constants", "errors", "conditions", "equation", "vocabulary", "modes", "util", "__init__",
-     "data"},
+    {"constants", "errors", "conditions", "equation", "vocabulary", "modes", "util", "water",
+     "__init__", "data"},
     {"thermo"},
     {"network", "models"},
     {"verify"},

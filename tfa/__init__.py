@@ -32,6 +32,30 @@ _EXPORTS = {
 __all__ = ["__version__", *_EXPORTS]
 
 
+def _usable_cache_home() -> None:
+    """cobra creates its model cache (``$XDG_CACHE_HOME`` or ``~/.cache``) when it is first
+    imported and fails on a read-only or missing home; give it a folder of its own in the
+    temporary folder then (tfa uses no cached model)."""
+    import os
+    import tempfile
+    from pathlib import Path
+
+    base = os.environ.get("XDG_CACHE_HOME") or os.path.join(os.path.expanduser("~"), ".cache")
+    folder = Path(base) / "cobrapy"
+    try:
+        folder.mkdir(parents=True, exist_ok=True)
+        if os.access(folder, os.W_OK):
+            return
+    except OSError:
+        pass
+    fallback = Path(tempfile.gettempdir()) / f"tfa-cache-{os.getuid() if hasattr(os, 'getuid') else 0}"
+    fallback.mkdir(mode=0o700, exist_ok=True)
+    os.environ["XDG_CACHE_HOME"] = str(fallback)
+
+
+_usable_cache_home()
+
+
 def __getattr__(name: str) -> Any:
     if name in _EXPORTS:
         import importlib

@@ -7,12 +7,19 @@ values that stretch a model past its usual range emit :class:`ModelRangeWarning`
 Ranges
 ------
 - pH 0-14 (aqueous scale).
-- Ionic strength >= 0 mol/L; the extended Debye-Hueckel equation of Alberty (2003) is
-  recommended up to about 0.25-0.5 mol/L, so a warning is given above 0.5 mol/L.
+- Ionic strength 0-10 mol/L; the extended Debye-Hueckel equation of Alberty (2003) is
+  recommended up to about 0.25-0.5 mol/L, so a warning is given above 0.5 mol/L (brines reach
+  about 6 mol/L; nothing is read above 10).
 - Temperature 0-300 degC: the species data are referenced to 25 degC and carried by a constant
   heat capacity; above 150 degC the constant-Cp integration departs from the HKF equations of
   state by several kJ/mol per reaction (measured in tests/test_thermo_hkf.py), hence a warning.
-- Pressure >= 1 bar when given; ``None`` means 1 bar with no pressure correction.
+- Pressure 1-5000 bar when given (5000 bar: the range of the equations of state behind the
+  species data, SUPCRT92, Johnson, Oelkers and Helgeson 1992); ``None`` means 1 bar with no
+  pressure correction. The constant-volume pressure correction is checked against the HKF
+  equations to 500 bar (tests/test_thermo_hkf.py); above 1000 bar a warning is given.
+- Water must be liquid: the pressure (1 bar when none is given) must be at least the saturation
+  pressure of water at the temperature (:mod:`tfa.water`), else the conditions are refused with
+  the pressure needed (100-300 degC need 1.01-86 bar).
 """
 
 from __future__ import annotations
@@ -22,7 +29,9 @@ import warnings
 from dataclasses import dataclass, replace
 
 from .constants import CELSIUS_ZERO, R
-from .errors import ConditionsError
+from .errors import ConditionsError, InputError
+from .util.numbers import read_number
+from .water import saturation_pressure
 
 #: Highest temperature the bundled species data are allowed to be carried to, degC.
 MAX_CELSIUS = 300.0
@@ -30,6 +39,12 @@ MAX_CELSIUS = 300.0
 CONSTANT_CP_WARN_CELSIUS = 150.0
 #: Above this ionic strength the extended Debye-Hueckel equation is flagged as stretched, mol/L.
 DEBYE_HUCKEL_WARN_IONIC_STRENGTH = 0.5
+#: Highest ionic strength read, mol/L.
+MAX_IONIC_STRENGTH = 10.0
+#: Highest pressure read, bar (the range of the SUPCRT92 equations of state), and the pressure
+#: above which the constant-volume correction is flagged as stretched.
+MAX_PRESSURE = 5000.0
+CONSTANT_VOLUME_WARN_PRESSURE = 1000.0
 
 
 class ModelRangeWarning(UserWarning):
@@ -69,24 +84,47 @@ class Conditions:
     pmg: float | None = None
 
     def __post_init__(self) -> None:
-        t, ph, i, p = self.temperature, self.ph, self.ionic_strength, self.pressure
-        for name, value in (("temperature", t), ("pH", ph), ("ionic strength", i)):
-            if value is None or not math.isfinite(float(value)):
-                raise ConditionsError(f"{name} must be a finite number, got {value!r}")
-        celsius = t - CELSIUS_ZERO
+        def number(value, field, **bounds):
+            try:
+                return read_number(value, field, **bounds)
+            except InputError as err:
+                raise ConditionsError(str(err)) from None
+
+        kelvin = number(self.temperature, "temperature", unit="K")
+        celsius = kelvin - CELSIUS_ZERO
         if celsius < 0.0 or celsius > MAX_CELSIUS:
             raise ConditionsError(
                 f"temperature {celsius:.2f} degC is outside 0-{MAX_CELSIUS:.0f} degC, the range the "
                 "bundled species data can be carried to; give a temperature in that range"
             )
+        ph = number(self.ph, "pH")
         if not 0.0 <= ph <= 14.0:
             raise ConditionsError(f"pH {ph} is outside 0-14; give a pH between 0 and 14")
-        if i < 0.0:
-            raise ConditionsError(f"ionic strength {i} mol/L is negative; give a value >= 0")
-        if p is not None and (not math.isfinite(float(p)) or p < 1.0):
-            raise ConditionsError(f"pressure {p} bar is below 1 bar; give a pressure >= 1 bar or none")
-        if self.pmg is not None and not (0.0 <= self.pmg <= 14.0):
-            raise ConditionsError(f"pMg {self.pmg} is outside 0-14; give a pMg between 0 and 14")
+        i = number(self.ionic_strength, "ionic strength", minimum=0.0,
+                   maximum=MAX_IONIC_STRENGTH, unit="mol/L")
+        p = None if self.pressure is None else number(self.pressure, "pressure", minimum=1.0,
+                                                       maximum=MAX_PRESSURE, unit="bar")
+        if self.pmg is not None:
+            pmg = number(self.pmg, "pMg")
+            if not 0.0 <= pmg <= 14.0:
+                raise ConditionsError(f"pMg {pmg} is outside 0-14; give a pMg between 0 and 14")
+            object.__setattr__(self, "pmg", pmg)
+        for name, value in (("temperature", kelvin), ("ph", ph), ("ionic_strength", i),
+                            ("pressure", p)):
+            object.__setattr__(self, name, value)
+        needed = saturation_pressure(celsius)
+        if (1.0 if p is None else p) < needed:
+            given = "no pressure (1 bar)" if p is None else f"{p:g} bar"
+            raise ConditionsError(
+                f"water boils at {celsius:.1f} degC below {needed:.3g} bar, and {given} was "
+                f"given; give a pressure of at least {math.ceil(needed * 100) / 100:g} bar "
+                "(e.g. --pressure or pressure_bar) so that water is liquid"
+            )
+        if p is not None and p > CONSTANT_VOLUME_WARN_PRESSURE:
+            warnings.warn(
+                f"{p:g} bar: the constant-volume pressure correction is stretched above "
+                f"{CONSTANT_VOLUME_WARN_PRESSURE:g} bar (checked against the HKF equations to "
+                "500 bar)", ModelRangeWarning, stacklevel=3)
         if celsius > CONSTANT_CP_WARN_CELSIUS:
             warnings.warn(
                 f"{celsius:.0f} degC: constant-Cp integration from 25 degC is stretched above "
@@ -112,11 +150,11 @@ class Conditions:
         pmg: float | None = None,
     ) -> "Conditions":
         """Build conditions from a temperature in degrees Celsius."""
-        if celsius is None or not math.isfinite(float(celsius)):
-            raise ConditionsError(f"temperature must be a finite number of degC, got {celsius!r}")
-        return cls(float(celsius) + CELSIUS_ZERO, float(ph), float(ionic_strength),
-                   None if pressure is None else float(pressure),
-                   None if pmg is None else float(pmg))
+        try:
+            celsius = read_number(celsius, "temperature", minimum=-CELSIUS_ZERO, unit="degC")
+        except InputError as err:
+            raise ConditionsError(str(err)) from None
+        return cls(celsius + CELSIUS_ZERO, ph, ionic_strength, pressure, pmg)
 
     @property
     def celsius(self) -> float:
@@ -136,7 +174,11 @@ class Conditions:
     def with_(self, **changes) -> "Conditions":
         """A copy with some fields changed (``celsius=`` accepted for temperature)."""
         if "celsius" in changes:
-            changes["temperature"] = float(changes.pop("celsius")) + CELSIUS_ZERO
+            try:
+                celsius = read_number(changes.pop("celsius"), "temperature", unit="degC")
+            except InputError as err:
+                raise ConditionsError(str(err)) from None
+            changes["temperature"] = celsius + CELSIUS_ZERO
         return replace(self, **changes)
 
     def describe(self) -> str:
@@ -157,3 +199,54 @@ class Conditions:
             "pressure_bar": self.pressure_bar,
             "pMg": self.pmg,
         }
+
+
+#: Keys of condition overrides (Python API, command line), each with the field it sets and its
+#: unit; the spellings of an environment file are accepted too. A bare ``temperature`` is
+#: refused: it does not say degC or K.
+CONDITION_KEYS = {
+    "celsius": "celsius", "temperature_C": "celsius", "temperature_K": "temperature",
+    "ph": "ph", "pH": "ph",
+    "ionic_strength": "ionic_strength", "ionic_strength_M": "ionic_strength",
+    "pressure": "pressure", "pressure_bar": "pressure",
+    "pmg": "pmg", "pMg": "pmg",
+}
+
+
+def condition_overrides(given, where: str = "conditions") -> dict:
+    """Condition overrides checked and named as :meth:`Conditions.with_` takes them (None:
+    keep the environment's value).
+
+    >>> condition_overrides({"temperature_C": 80, "pH": 6.5, "pressure": None})
+    {'celsius': 80.0, 'ph': 6.5}
+    >>> condition_overrides({"temperature": 70})
+    Traceback (most recent call last):
+    ...
+    tfa.errors.ConditionsError: conditions: 'temperature' does not say its unit; give celsius=70 (degC) or temperature_K=70 (K)
+    """
+    import difflib
+
+    if given is None:
+        return {}
+    if not hasattr(given, "items"):
+        raise ConditionsError(f"{where}: expected a dict such as {{'celsius': 70, 'ph': 7.5}}, got "
+                              f"{type(given).__name__}")
+    out: dict = {}
+    for key, value in given.items():
+        if key == "temperature":
+            raise ConditionsError(f"{where}: 'temperature' does not say its unit; give celsius="
+                                  f"{value!r} (degC) or temperature_K={value!r} (K)")
+        if key not in CONDITION_KEYS:
+            close = difflib.get_close_matches(str(key), list(CONDITION_KEYS), n=1, cutoff=0.4)
+            hint = f"did you mean '{close[0]}'? " if close else ""
+            raise ConditionsError(f"{where}: unknown key {key!r}; {hint}use "
+                                  f"{', '.join(CONDITION_KEYS)}")
+        if value is None:
+            continue
+        unit = {"celsius": "degC", "temperature": "K", "ionic_strength": "mol/L",
+                "pressure": "bar"}.get(CONDITION_KEYS[key], "")
+        try:
+            out[CONDITION_KEYS[key]] = read_number(value, f"{where} {key}", unit=unit)
+        except InputError as err:
+            raise ConditionsError(str(err)) from None
+    return out

@@ -25,14 +25,15 @@ from __future__ import annotations
 
 import re
 from dataclasses import dataclass
-from fractions import Fraction
 
-from .errors import EquationSyntaxError
+from .errors import EquationSyntaxError, InputError
+from .util.numbers import MAX_COEFFICIENT, read_number
 
 ARROWS = ("<=>", "->", "=")
 _ARROW_RE = re.compile(r"<=>|->|<-|=>|=")
 _PLUS_RE = re.compile(r"\s+\+\s+")
 _COEF_RE = re.compile(r"^(\d+(?:\.\d*)?|\.\d+|\d+/\d+)\s+(.*)$")
+_SIGNED_COEF_RE = re.compile(r"^([-+]\s*(?:\d+(?:\.\d*)?|\.\d+|\d+/\d+))\s+(.*)$")
 
 
 @dataclass(frozen=True)
@@ -106,8 +107,19 @@ def _parse_side(text: str, offset: int, where: str, allow_empty: bool) -> tuple[
         coefficient = 1.0
         name = body
         match = _COEF_RE.match(body)
+        signed = _SIGNED_COEF_RE.match(body)
+        if signed:
+            raise EquationSyntaxError(
+                f"{_where(where)}column {column}: coefficient {signed.group(1)} must be positive; "
+                "write it without a sign and move the compound to the other side if needed"
+            )
         if match:
-            coefficient = float(Fraction(match.group(1)))
+            try:
+                coefficient = read_number(match.group(1), "coefficient",
+                                          f"{_where(where)}column {column}",
+                                          fraction=True, maximum=MAX_COEFFICIENT)
+            except InputError as err:
+                raise EquationSyntaxError(str(err)) from None
             name = match.group(2).strip()
             if coefficient <= 0:
                 raise EquationSyntaxError(

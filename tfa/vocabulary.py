@@ -171,6 +171,8 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("h2_range", "the H2 range searched, [low, high] (unit: h2_unit)", ""),
     ("robustness", "feasibility over the draws of the energies, per mode", ""),
     ("notes", "what could not be computed and why, relaxations made", ""),
+    ("warnings", "conditions past a model's usual range (model-range warnings)", ""),
+    ("undetermined", "answers a solver could not give within the time limit", ""),
     ("summary", "the answer in plain sentences", ""),
     ("timings_s", "seconds per step", "s"),
     ("steps", "the steps that ran, in order", ""),
@@ -195,6 +197,30 @@ def symbol(key: str, ascii_only: bool = False) -> str:
     """The symbol of a quantity in text, in Unicode or its ASCII fallback."""
     unicode_text, ascii_text = SYMBOLS[key]
     return ascii_text if ascii_only else unicode_text
+
+
+#: ASCII spellings of the other characters the text uses, after the symbols of SYMBOLS.
+ASCII_CHARACTERS = {"°C": "degC", "°": "deg", "×": "x", "±": "+/-", "≈": "~", "≤": "<=",
+                    "≥": ">=", "→": "->", "←": "<-", "⇌": "<=>", "−": "-", "–": "-", "—": "-",
+                    "…": "...", "μ": "u", "µ": "u", "Δ": "d", "σ": "sigma", "·": "*", "²": "2",
+                    "³": "3", "⁺": "+", "⁻": "-", "₂": "2", "’": "'", "“": '"', "”": '"'}
+
+
+def ascii_text(text: str) -> str:
+    """``text`` for a console that shows ASCII only: each symbol by its fallback of
+    :data:`SYMBOLS` (:func:`symbol` with ``ascii_only``), the other known characters by
+    :data:`ASCII_CHARACTERS`, anything else as ``?``.
+
+    >>> ascii_text("ΔrG'° = -12.3 ± 0.5 kJ/mol at 70 °C, σ × 2")
+    "dG'0 = -12.3 +/- 0.5 kJ/mol at 70 degC, sigma x 2"
+    """
+    if text.isascii():
+        return text
+    for key in sorted(SYMBOLS, key=lambda k: -len(SYMBOLS[k][0])):
+        text = text.replace(symbol(key), symbol(key, ascii_only=True))
+    for char, spelled in ASCII_CHARACTERS.items():
+        text = text.replace(char, spelled)
+    return text.encode("ascii", "replace").decode("ascii")
 
 
 @dataclass(frozen=True)

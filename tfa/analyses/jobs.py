@@ -88,6 +88,8 @@ class NetworkJob:
         if bad:
             raise InputError(f"unknown option(s) {', '.join(bad)}; use {', '.join(sorted(allowed))}")
         ProblemOptions(**options)  # validate now, not in every worker
+        if hasattr(model, "metabolites") and hasattr(environment, "check_network"):
+            environment.check_network(model)  # a key naming nothing is an error, not ignored
         payload = pickle.dumps((model, environment, prepare), protocol=pickle.HIGHEST_PROTOCOL)
         token = hashlib.sha256(payload).hexdigest()
         return cls(payload, token, {"parts": list(parts), **options},

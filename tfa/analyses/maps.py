@@ -19,6 +19,7 @@ from __future__ import annotations
 import functools
 import logging
 import math
+import warnings
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Callable, Sequence
@@ -26,10 +27,12 @@ from typing import Any, Callable, Sequence
 import numpy as np
 import pandas as pd
 
+from ..conditions import ModelRangeWarning
 from ..errors import InputError
 from ..modes import parse_modes
+from ..util.numbers import MAX_AXIS_VALUES, MAX_GRID_POINTS, read_count, read_number
 from ..util.points import RunSummary, run_and_read
-from .jobs import CONDITION_AXES, NetworkJob, outcome, points_verification
+from .jobs import CONDITION_AXES, NetworkJob, changed_environment, outcome, points_verification
 
 log = logging.getLogger(__name__)
 
@@ -64,33 +67,62 @@ def axis_values(text: str) -> tuple[str, list[float]]:
     if not sep or name not in CONDITION_AXES:
         raise InputError(f"axis '{text}': write NAME=START:STOP:COUNT[:log] or NAME=V1,V2,... with "
                          f"NAME one of {', '.join(CONDITION_AXES)}")
-    try:
-        if ":" in spec:
-            parts = spec.split(":")
-            if len(parts) not in (3, 4) or (len(parts) == 4 and parts[3].strip().lower() not in ("log", "lin")):
-                raise ValueError
-            start, stop, count = float(parts[0]), float(parts[1]), int(parts[2])
-            if count < 1:
-                raise ValueError
-            if len(parts) == 4 and parts[3].strip().lower() == "log":
-                if start <= 0 or stop <= 0:
-                    raise ArithmeticError
-                values = np.logspace(math.log10(start), math.log10(stop), count)
-                values = [float(f"{v:.12g}") for v in values]
-            else:
-                values = [float(f"{v:.12g}") for v in np.linspace(start, stop, count)]
+    where = f"axis '{text[:60]}'"
+    if ":" in spec:
+        parts = spec.split(":")
+        if len(parts) not in (3, 4) or (len(parts) == 4 and parts[3].strip().lower() not in ("log", "lin")):
+            raise InputError(f"{where}: '{spec}' is not START:STOP:COUNT[:log] nor a list of "
+                             "numbers; e.g. temperature=40:90:6 or h2=1e-6:1e-2:9:log")
+        start, stop = (read_number(v, "end", where) for v in parts[:2])
+        count = read_count(parts[2], "COUNT", where, maximum=MAX_AXIS_VALUES)
+        if len(parts) == 4 and parts[3].strip().lower() == "log":
+            if start <= 0 or stop <= 0:
+                raise InputError(f"{where}: a log-spaced axis needs positive ends")
+            values = np.logspace(math.log10(start), math.log10(stop), count)
+            values = [float(f"{v:.12g}") for v in values]
         else:
-            values = [float(v) for v in spec.split(",") if v.strip()]
-    except ArithmeticError:
-        raise InputError(f"axis '{text}': a log-spaced axis needs positive ends") from None
-    except ValueError:
-        raise InputError(f"axis '{text}': '{spec}' is not START:STOP:COUNT[:log] nor a list of "
-                         "numbers; e.g. temperature=40:90:6 or h2=1e-6:1e-2:9:log") from None
+            values = [float(f"{v:.12g}") for v in np.linspace(start, stop, count)]
+    else:
+        items = [v for v in spec.split(",") if v.strip()]
+        if len(items) > MAX_AXIS_VALUES:
+            raise InputError(f"{where}: {len(items)} values; give at most {MAX_AXIS_VALUES}")
+        values = [read_number(v, "value", where) for v in items]
     if not values:
-        raise InputError(f"axis '{text}': no values")
+        raise InputError(f"{where}: no values")
     if len(set(values)) != len(values):
-        raise InputError(f"axis '{text}': repeated values")
+        raise InputError(f"{where}: repeated values")
     return name, values
+
+
+def check_grid(model, environment, x: tuple[str, Sequence[float]], y: tuple[str, Sequence[float]],
+               modes: Sequence[str]) -> list[str]:
+    """Refuse a grid before anything runs: too many points (:data:`MAX_GRID_POINTS`), or any
+    value that makes impossible conditions (outside 0-300 degC, boiling water, a pH outside
+    0-14, an H2 supply that is no concentration ...), named with its axis. Returns the
+    model-range warnings the grid raises (conditions past a model's usual range), each once.
+    """
+    from ..conditions import ModelRangeWarning
+
+    (x_name, x_vals), (y_name, y_vals) = x, y
+    for name, vals in ((x_name, x_vals), (y_name, y_vals)):
+        if len(vals) > MAX_AXIS_VALUES:
+            raise InputError(f"map axis {name}: {len(vals)} values; give at most {MAX_AXIS_VALUES}")
+    total = len(x_vals) * len(y_vals) * len(modes)
+    if total > MAX_GRID_POINTS:
+        raise InputError(f"the map has {total:,} points ({len(x_vals)} x {len(y_vals)} x "
+                         f"{len(modes)} modes); give at most {MAX_GRID_POINTS:,}")
+    seen: list[str] = []
+    for xv in x_vals:
+        for yv in y_vals:
+            with warnings.catch_warnings(record=True) as caught:
+                warnings.simplefilter("always", ModelRangeWarning)
+                try:
+                    changed_environment(model, environment, {x_name: xv, y_name: yv})
+                except InputError as err:
+                    raise type(err)(f"map point {x_name}={xv:g}, {y_name}={yv:g}: {err}") from None
+            seen += [str(w.message) for w in caught
+                     if issubclass(w.category, ModelRangeWarning) and str(w.message) not in seen]
+    return seen
 
 
 def map_points(x: tuple[str, Sequence[float]], y: tuple[str, Sequence[float]],
@@ -120,6 +152,7 @@ class MapResult:
     records : one dict per (mode, x, y): the outcome keys and ``error`` (None when solved)
     run : RunSummary of the execution
     provenance : dict
+    warnings : model-range warnings of the grid's conditions
     """
 
     x_name: str
@@ -131,6 +164,7 @@ class MapResult:
     run: RunSummary | None = None
     provenance: dict = field(default_factory=dict)
     analysis: str = "condition map"
+    warnings: list[str] = field(default_factory=list)
 
     def to_frame(self) -> pd.DataFrame:
         """One row per grid point and mode: mode, the two axes (named as in :data:`AXIS_COLUMNS`),
@@ -165,7 +199,7 @@ class MapResult:
         return {"analysis": self.analysis, "summary": self.summary(),
                 "x": {"name": self.x_name, "values": self.x_values},
                 "y": {"name": self.y_name, "values": self.y_values}, "modes": self.modes,
-                "provenance": self.provenance,
+                "provenance": self.provenance, "warnings": list(self.warnings),
                 "verification": points_verification(self.records),
                 "table": self.to_frame().to_dict(orient="records")}
 
@@ -215,10 +249,14 @@ def condition_map(model, environment, x: tuple[str, Sequence[float]] = ("tempera
             raise InputError(f"unknown map axis {name!r}; use two of {', '.join(CONDITION_AXES)}")
     if x_name == y_name:
         raise InputError(f"the two map axes must differ (both are {x_name})")
-    x_vals, y_vals = [float(v) for v in x_vals], [float(v) for v in y_vals]
+    x_vals = [read_number(v, "value", f"map axis {x_name}") for v in x_vals]
+    y_vals = [read_number(v, "value", f"map axis {y_name}") for v in y_vals]
     if not x_vals or not y_vals:
         raise InputError("each map axis needs at least one value")
     modes = parse_modes(list(modes))
+    range_warnings = check_grid(model, environment, (x_name, x_vals), (y_name, y_vals), modes)
+    for text in range_warnings:
+        warnings.warn(text, ModelRangeWarning, stacklevel=2)
     parts = ["uphill"] + (["threshold"] if threshold else []) + (["driving_force"] if driving_force else [])
     job = NetworkJob.create(model, environment, parts=parts, prepare=prepare, **problem_options)
     points = map_points((x_name, x_vals), (y_name, y_vals), modes)
@@ -230,6 +268,7 @@ def condition_map(model, environment, x: tuple[str, Sequence[float]] = ("tempera
                                   overwrite=overwrite, header=header, progress=progress)
     records = [_record(p, lines.get(p["id"])) for p in points]
     return MapResult(x_name, x_vals, y_name, y_vals, modes, records, run=summary,
+                     warnings=range_warnings,
                      provenance={"executor": summary.executor, "seconds": summary.seconds,
                                  "points_per_second": summary.points_per_second,
                                  "results_file": str(results_path) if results_path else None,

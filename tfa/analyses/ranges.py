@@ -161,6 +161,8 @@ def _ranges_in_parts(tm: ThermoModel, options: ProblemOptions, reactions: list[s
     """
     from concurrent.futures import ProcessPoolExecutor
 
+    from ..util.points import die_with_parent
+
     ids = [r for r in (reactions if reactions is not None else tm.energies) if r in tm.energies]
     size = max(1, -(-len(ids) // workers))
     parts = [ids[k:k + size] for k in range(0, len(ids), size)]
@@ -170,7 +172,9 @@ def _ranges_in_parts(tm: ThermoModel, options: ProblemOptions, reactions: list[s
     if compounds is None or compounds:
         tasks.append((shipped, options, [], compounds))
     results = []
-    with ProcessPoolExecutor(max_workers=min(workers, len(tasks))) as pool:
+    # workers end with this process, even when it is killed (tfa.util.points.die_with_parent)
+    with ProcessPoolExecutor(max_workers=min(workers, len(tasks)),
+                             initializer=die_with_parent) as pool:
         for k, part in enumerate(pool.map(_part, tasks)):
             results.append(part)
             if progress is not None:

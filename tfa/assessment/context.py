@@ -9,14 +9,18 @@ way, whether the step runs inside the whole assessment or alone as a command.
 
 from __future__ import annotations
 
+import contextlib
 import logging
-import math
 import time
+import warnings
 from dataclasses import dataclass, field
-from typing import TYPE_CHECKING, Any, Callable
+from typing import TYPE_CHECKING, Any, Callable, Iterator
 
+from ..conditions import ModelRangeWarning
 from ..errors import ComputationError, InputError, UndeterminedError
 from ..modes import DEFAULT_MODE, STANDARD_MODES, parse_modes
+from ..util.numbers import (MAX_ALTERNATIVES, MAX_DRAWS, MAX_H2_LEVELS, MAX_SEED, MAX_WORKERS,
+                            read_activity, read_count, read_number)
 from ..vocabulary import DEFAULT_ALTERNATIVES, DEFAULT_H2_LEVELS, DEFAULT_H2_RANGE
 
 if TYPE_CHECKING:
@@ -93,29 +97,32 @@ class Settings:
     def __post_init__(self) -> None:
         self.modes = parse_modes(self.modes)
         self.mode = parse_modes([self.mode])[0]
-        if isinstance(self.alternatives, bool) or not isinstance(self.alternatives, int) \
-                or self.alternatives < 1:
-            raise InputError(f"alternatives {self.alternatives!r}: give a whole number of at "
-                             "least 1")
-        low, high = (float(v) for v in self.h2_range)
-        if not (math.isfinite(low) and math.isfinite(high) and 0 < low < high):
+        self.alternatives = read_count(self.alternatives, "alternatives", maximum=MAX_ALTERNATIVES,
+                                       text=False)
+        if not isinstance(self.h2_range, (list, tuple)) or len(self.h2_range) != 2:
+            raise InputError(f"H2 range {self.h2_range!r}: give (low, high) in mol/L (gas: bar)")
+        low, high = (read_activity(v, "H2 range") for v in self.h2_range)
+        if not low < high:
             raise InputError(f"H2 range {self.h2_range}: need 0 < low < high (mol/L; gas: bar)")
         self.h2_range = (low, high)
-        if not isinstance(self.h2_levels, int) or self.h2_levels < 1:
-            raise InputError(f"H2 levels {self.h2_levels!r}: give a whole number of at least 1")
+        self.h2_levels = read_count(self.h2_levels, "H2 levels", maximum=MAX_H2_LEVELS,
+                                    text=False)
         if self.h2_values is not None:
-            values = [float(v) for v in self.h2_values]
-            if not values or any(not (math.isfinite(v) and v > 0) for v in values):
-                raise InputError("H2 levels must be positive, finite concentrations (mol/L; gas: bar)")
+            values = [read_activity(v, "H2 level") for v in self.h2_values]
+            if not values or len(values) > MAX_H2_LEVELS:
+                raise InputError(f"H2 levels: give 1 to {MAX_H2_LEVELS} concentrations (mol/L; "
+                                 "gas: bar)")
             self.h2_values = values
-        if not (math.isfinite(self.ratio) and self.ratio > 0):
-            raise InputError(f"substrate:product ratio {self.ratio!r}: give a positive number")
-        if isinstance(self.draws, bool) or not isinstance(self.draws, int) or self.draws < 0:
-            raise InputError(f"draws {self.draws!r}: give 0 (skip) or a whole number of draws")
-        if isinstance(self.seed, bool) or not isinstance(self.seed, int) or self.seed < 0:
-            raise InputError(f"seed {self.seed!r}: give a whole number >= 0")
-        if isinstance(self.workers, bool) or not isinstance(self.workers, int) or self.workers < 1:
-            raise InputError(f"workers {self.workers!r}: give a whole number of at least 1")
+        self.ratio = read_number(self.ratio, "substrate:product ratio", above=0.0)
+        self.draws = read_count(self.draws, "draws", minimum=0, maximum=MAX_DRAWS, text=False)
+        self.seed = read_count(self.seed, "seed", minimum=0, maximum=MAX_SEED, text=False)
+        self.workers = read_count(self.workers, "workers", maximum=MAX_WORKERS, text=False)
+        if self.route is not None and not isinstance(self.route, list):
+            raise InputError(f"route {self.route!r}: give a list of (reaction id, +1 or -1)")
+        if self.ranges_reactions is not None and (
+                isinstance(self.ranges_reactions, str)
+                or not all(isinstance(r, str) for r in self.ranges_reactions)):
+            raise InputError("ranges_reactions: give a list of reaction ids")
 
     def scan_levels(self) -> list[float]:
         """The H2 levels of the scan [mol/L; gas: bar]."""
@@ -145,6 +152,10 @@ class RunContext:
         self.options = options
         self.progress = progress
         self.notes: list[str] = []
+        #: Conditions past a model's usual range (ModelRangeWarning), for the summary and report.
+        self.warnings: list[str] = list(getattr(inputs, "warnings", []) or [])
+        #: Answers a solver could not give in time ("undetermined": exit code 1).
+        self.undetermined: list[str] = []
         self.results: dict[str, Any] = {}
         self.timings: dict[str, float] = {}
         self.steps_total = 0
@@ -155,6 +166,8 @@ class RunContext:
         self._feasibility: dict[str, "FeasibilityResult"] = {}
         self._steps: dict[str, "Step"] = {}
         self._cache: dict[str, Any] = {}
+        # every key of the environment names something in the network (a typo is an error)
+        inputs.environment.check_network(inputs.model)
 
     # ------------------------------------------------------------------ shared answers
     @property
@@ -204,6 +217,7 @@ class RunContext:
             except UndeterminedError as err:
                 result = FeasibilityResult(conditions=tm.conditions, mode=mode, feasible=False,
                                            message=f"undetermined: {err}")
+                self.undetermined.append(f"feasibility ({mode})")
             self._feasibility[mode] = result
         return self._feasibility[mode]
 
@@ -233,7 +247,24 @@ class RunContext:
         except ComputationError as err:
             log.warning("%s: %s", what, err)
             self.notes.append(f"{what}: not computed ({err})")
+            if isinstance(err, UndeterminedError):
+                self.undetermined.append(what)
             return None
+
+    @contextlib.contextmanager
+    def recording_warnings(self) -> Iterator[None]:
+        """Record every model-range warning raised inside (and let it be shown as usual)."""
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("always", ModelRangeWarning)
+            yield
+        for item in caught:
+            if issubclass(item.category, ModelRangeWarning):
+                text = str(item.message)
+                if text not in self.warnings:
+                    self.warnings.append(text)
+                    warnings.warn_explicit(item.message, item.category, item.filename, item.lineno)
+            else:
+                warnings.warn_explicit(item.message, item.category, item.filename, item.lineno)
 
     def note(self, text: str) -> None:
         """Add a remark for the summary and the report."""
@@ -264,7 +295,8 @@ class RunContext:
         started = time.monotonic()
         self.begin(step.label)
         if step.id not in self.results:
-            self.results[step.id] = step.run(self)
+            with self.recording_warnings():
+                self.results[step.id] = step.run(self)
         self.timings[step.id] = round(time.monotonic() - started, 2)
         self.steps_done += 1
         return self.results[step.id]

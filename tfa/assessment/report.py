@@ -31,7 +31,9 @@ def write_report(assessment: "Assessment", tables: dict[str, pd.DataFrame],
     ctx = assessment.context
     notes = ctx.notes
     sections = [ReportSection("Summary", assessment.summary() + (
-        "\n\nNotes:\n" + "\n".join(f"- {n}" for n in notes) if notes else ""))]
+        "\n\nNotes:\n" + "\n".join(f"- {n}" for n in notes) if notes else "") + (
+        "\n\nWarnings (conditions past a model's usual range):\n"
+        + "\n".join(f"- {w}" for w in ctx.warnings) if ctx.warnings else ""))]
     sections.append(_environment(assessment))
     for step in assessment.steps:
         for spec in step.sections(assessment.result(step.id), ctx):

@@ -109,6 +109,8 @@ class Assessment:
                 checks[step.id] = check
         data["verifications"] = checks
         data["notes"] = list(self.notes)
+        data["warnings"] = list(self.context.warnings)
+        data["undetermined"] = list(self.context.undetermined)
         data["steps"] = [s.id for s in self.steps]
         return data
 
@@ -120,25 +122,29 @@ class Assessment:
             out.update(step.tables(self.result(step.id), self.context))
         return out
 
-    def write(self, out_dir: str | Path, report: bool = True) -> list[Path]:
+    def write(self, out_dir: str | Path, report: bool = True, command: str = "assess") -> list[Path]:
         """Write the tables (CSV + JSON), the figures (PNG + SVG) and, with ``report``,
-        ``summary.json`` and ``report.html`` into ``out_dir`` (created if needed), each file
-        atomically.
+        ``summary.json`` and ``report.html`` into ``out_dir``, replacing what an earlier run left
+        there as a whole (:class:`tfa.util.outdir.OutputFolder`: written aside and swapped in,
+        so an interruption leaves the earlier result as it was).
 
         Returns
         -------
         list of Path
             The files written.
         """
-        from ..errors import InputError
+        from ..util.outdir import OutputFolder
+
+        with OutputFolder(out_dir, "out", command=command) as folder:
+            written = self._write_files(folder.staging, report)
+        return [folder.target / path.name for path in written]
+
+    def _write_files(self, out: Path, report: bool) -> list[Path]:
         from ..report.figures import save_figure
         from ..report.tables import write_table
         from ..util.files import write_json
         from .report import write_report
 
-        out = Path(out_dir)
-        if out.exists() and not out.is_dir():
-            raise InputError(f"{out}: exists and is not a folder; give another output folder")
         written: list[Path] = []
         tables = self.tables()
         for name, frame in tables.items():

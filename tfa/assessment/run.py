@@ -7,6 +7,8 @@ anything is computed or written.
 
 from __future__ import annotations
 
+import contextlib
+import os
 import time
 import warnings
 from pathlib import Path
@@ -14,6 +16,7 @@ from typing import Any, Sequence
 
 from ..errors import InputError
 from ..modes import DEFAULT_MODE, STANDARD_MODES
+from ..util.outdir import check_output_folder, output_lock
 from ..vocabulary import DEFAULT_ALTERNATIVES, DEFAULT_H2_LEVELS, DEFAULT_H2_RANGE
 from .context import ASSESSMENT_DRAWS, ProgressCallback, RunContext, Settings
 from .registry import STEPS, get_step
@@ -28,7 +31,7 @@ WRITING = "writing files"
 
 def run_steps(steps: Sequence[Step], inputs: Any, settings: Settings, options: Any = None,
               progress: ProgressCallback | None = None, out: str | Path | None = None,
-              report: bool = True) -> Assessment:
+              report: bool = True, command: str = "assess") -> Assessment:
     """Run ``steps`` in order on one shared context; write the files to ``out`` when given.
 
     Parameters
@@ -44,6 +47,8 @@ def run_steps(steps: Sequence[Step], inputs: Any, settings: Settings, options: A
         Folder for every file (see :meth:`Assessment.write`).
     report : bool
         Also write ``summary.json`` and ``report.html`` into ``out``.
+    command : str
+        Recorded in the output folder's marker.
     """
     from ..problem.builder import ProblemOptions
 
@@ -52,17 +57,22 @@ def run_steps(steps: Sequence[Step], inputs: Any, settings: Settings, options: A
     elif not isinstance(options, ProblemOptions):
         raise InputError(f"options: expected a ProblemOptions, got {type(options).__name__}")
     check_route(settings.route, inputs.model)
+    if progress is not None and not callable(progress):
+        raise InputError(f"progress: expected a function progress(label, done, total), got "
+                         f"{type(progress).__name__}")
     ctx = RunContext(inputs, settings, options, progress)
     ctx.steps_total = len(steps) + (1 if out is not None else 0)
     result = Assessment(ctx, list(steps))
-    for step in steps:
-        ctx.timed(step)
-    if out is not None:
-        started = time.monotonic()
-        ctx.begin(WRITING)
-        result.write(out, report=report)
-        ctx.timings["writing_files"] = round(time.monotonic() - started, 2)
-        ctx.steps_done += 1
+    # the output folder is checked and locked before anything is computed
+    with output_lock(out, "out") if out is not None else contextlib.nullcontext():
+        for step in steps:
+            ctx.timed(step)
+        if out is not None:
+            started = time.monotonic()
+            ctx.begin(WRITING)
+            result.write(out, report=report, command=command)
+            ctx.timings["writing_files"] = round(time.monotonic() - started, 2)
+            ctx.steps_done += 1
     return result
 
 
@@ -159,14 +169,28 @@ def assess(network: Any = None, environment: Any = None, out: str | Path | None 
 
     if deprecated:
         draws, seed = _deprecated_keywords(deprecated, draws, seed)
-    if out is not None and Path(out).exists() and not Path(out).is_dir():
-        raise InputError(f"{out}: exists and is not a folder; give another output folder")
+    if out is not None:
+        if not isinstance(out, (str, os.PathLike)):
+            raise InputError(f"out: expected a folder path, got {type(out).__name__} {out!r}")
+        check_output_folder(out, "out")
     if isinstance(h2_levels, (int,)) and not isinstance(h2_levels, bool):
         level_count, level_values = h2_levels, None
+    elif isinstance(h2_levels, (list, tuple)):
+        level_count, level_values = DEFAULT_H2_LEVELS, list(h2_levels)
     else:
-        level_count, level_values = DEFAULT_H2_LEVELS, [float(v) for v in h2_levels]
+        raise InputError(f"h2_levels: give a count or a list of levels, got "
+                         f"{type(h2_levels).__name__}")
     if not isinstance(modes, str):
+        if not hasattr(modes, "__iter__"):
+            raise InputError(f"modes: give a list of mode names, got {type(modes).__name__}")
         modes = list(modes)
+    if not isinstance(h2_range, (list, tuple)) or len(h2_range) != 2:
+        raise InputError(f"h2_range: give (low, high) in mol/L (gas: bar), got {h2_range!r}")
+    if route is not None and not isinstance(route, (str, list, tuple)):
+        raise InputError(f"route: give 'R1,R2,-R3' or a list of reaction ids, got "
+                         f"{type(route).__name__} {route!r}")
+    if isinstance(skip, str):
+        skip = [s.strip() for s in skip.split(",") if s.strip()]
     settings = Settings(modes=modes, mode=mode, alternatives=alternatives,
                         h2_range=tuple(h2_range), h2_levels=level_count, h2_values=level_values,
                         route=parse_route(route), ranges_compounds=bool(ranges_compounds),

@@ -12,6 +12,7 @@ import argparse
 import importlib
 import logging
 import sys
+import warnings
 
 from ..errors import TfaError
 
@@ -36,7 +37,9 @@ COMMANDS: dict[str, str] = {
 
 def build_parser() -> argparse.ArgumentParser:
     """The top-level parser with every subcommand (no heavy import: ``tfa --help`` is fast)."""
-    parser = argparse.ArgumentParser(
+    from .options import OneLineParser
+
+    parser = OneLineParser(
         prog="tfa",
         description="Thermodynamic feasibility of ancestral, H2-fed reaction networks at the "
         "conditions of a hydrothermal setting.",
@@ -51,9 +54,20 @@ def build_parser() -> argparse.ArgumentParser:
 
 
 def main(argv: list[str] | None = None) -> int:
-    """Entry point of the ``tfa`` command; returns the exit code."""
+    """Entry point of the ``tfa`` command; returns the exit code.
+
+    Every error the user can cause ends in one line on stderr and exit code 2; an answer that
+    could not be computed (a solver stopped by the time limit: "undetermined") in exit code 1; a
+    reader of standard output that went away (``tfa ... | head -1``) ends the command quietly.
+    """
+    from .output import prepare_streams, quiet_broken_pipe
+
+    prepare_streams()
     parser = build_parser()
-    args = parser.parse_args(argv)
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as stop:  # --help, --version, or a one-line usage error (exit code 2)
+        return stop.code if isinstance(stop.code, int) else 2
     if not getattr(args, "command", None):
         parser.print_help()
         return 2
@@ -63,14 +77,40 @@ def main(argv: list[str] | None = None) -> int:
     if getattr(args, "quiet", False):
         level = logging.ERROR
     logging.basicConfig(level=level, format="%(levelname)s: %(message)s")
+    # cobra's own remarks on reading a model ("no objective coefficients") only with -v
+    logging.getLogger("cobra").setLevel(level if level == logging.INFO else logging.CRITICAL)
+    name = f"tfa {args.command}"
+    previous = warnings.showwarning
+    warnings.showwarning = _one_line_warning(name, bool(getattr(args, "quiet", False)))
     try:
-        return int(args.run(args) or 0)
+        code = int(args.run(args) or 0)
+        sys.stdout.flush()
+        return code
     except TfaError as err:
-        print(f"tfa {args.command}: error: {err}", file=sys.stderr)
+        sys.stderr.write(f"{name}: error: {_one_line(str(err))}\n")
         return err.exit_code
     except KeyboardInterrupt:
-        print(f"tfa {args.command}: interrupted; files already written are complete", file=sys.stderr)
+        sys.stderr.write(f"{name}: interrupted; no output folder was changed\n")
         return 1
+    except BrokenPipeError:
+        quiet_broken_pipe()
+        return 1
+    finally:
+        warnings.showwarning = previous
+
+
+def _one_line(text: str) -> str:
+    return " ".join(text.split())
+
+
+def _one_line_warning(name: str, quiet: bool):
+    """Warnings of the models (conditions past their usual range) as one line each."""
+
+    def show(message, category, filename, lineno, file=None, line=None) -> None:
+        if not quiet:
+            sys.stderr.write(f"{name}: warning: {_one_line(str(message))}\n")
+
+    return show
 
 
 if __name__ == "__main__":  # pragma: no cover

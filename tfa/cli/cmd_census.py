@@ -8,7 +8,8 @@ from __future__ import annotations
 
 import argparse
 
-from .options import add_modes_option, add_network_options, add_option, add_output_options
+from .options import (add_modes_option, add_network_options, add_option, add_output_options,
+                      gated)
 from .step_command import run_step_command
 
 
@@ -23,7 +24,7 @@ def register(subparsers) -> None:
     )
     add_network_options(parser)
     add_modes_option(parser, "census")
-    parser.add_argument("--ratio", type=float, default=100.0, metavar="R",
+    parser.add_argument("--ratio", type=gated(above=0.0), default=100.0, metavar="R",
                         help="substrate:product ratio of the third energy (default 100)")
     add_option(parser, "out", "census")
     add_output_options(parser)

@@ -12,11 +12,10 @@ from __future__ import annotations
 
 import argparse
 import sys
-from pathlib import Path
 
 from ..errors import InputError
-from .cmd_robustness import (add_execution_options, execution_kwargs, load_network, point_progress,
-                             problem_kwargs, same_hash_seed)
+from .cmd_robustness import (add_execution_options, execution_kwargs, interrupted, point_progress,
+                             problem_kwargs, start_points_run)
 from .options import (add_modes_option, add_network_options, add_output_options,
                       add_problem_options, add_threshold_switch, report_deprecations)
 from .output import print_json, print_table, solver_output_silenced
@@ -61,41 +60,40 @@ def run(args: argparse.Namespace) -> int:
         raise InputError(f"--x and --y are both {x[0]}; give two different conditions")
     modes = parse_modes(args.modes)
     execution = execution_kwargs(args)
-    same_hash_seed(args)
-    model, environment = load_network(args)
-    out = Path(args.out) if args.out else None
-    with progress_for(args) as bar, solver_output_silenced():
-        result = condition_map(model, environment, x, y, modes,
-                               threshold=not args.no_threshold,
-                               driving_force=not args.no_driving_force,
-                               results_path=out / "map.jsonl" if out else None,
-                               progress=point_progress(bar, "points"), **execution,
-                               **problem_kwargs(args))
-    frame = result.to_frame()
-    x_column, y_column = AXIS_COLUMNS[x[0]], AXIS_COLUMNS[y[0]]
-    figures = []
-    if out is not None:
-        write_table(frame, out / "map")
-        write_json(out / "map.json", result.to_dict())
-        drawable = frame[frame["error"].isna()]
-        if not drawable.empty:
-            figures = write_map_figures(frame, x_column, y_column, out)
+    folder, inputs = start_points_run(args, "map.jsonl")
+    model, environment = inputs.model, inputs.environment
+    with folder as opened:
+        out = opened.staging if opened is not None else None
+        with progress_for(args) as bar, solver_output_silenced():
+            result = condition_map(model, environment, x, y, modes,
+                                   threshold=not args.no_threshold,
+                                   driving_force=not args.no_driving_force,
+                                   results_path=out / "map.jsonl" if out else None,
+                                   progress=point_progress(bar, "points"),
+                                   **dict(execution, overwrite=True), **problem_kwargs(args))
+        result.warnings = list(dict.fromkeys(inputs.warnings + result.warnings))
+        if result.run.interrupted:
+            return interrupted(args, opened, "points")
+        frame = result.to_frame()
+        x_column, y_column = AXIS_COLUMNS[x[0]], AXIS_COLUMNS[y[0]]
+        figures = []
+        if out is not None:
+            write_table(frame, out / "map")
+            write_json(out / "map.json", result.to_dict())
+            drawable = frame[frame["error"].isna()]
+            if not drawable.empty:
+                figures = write_map_figures(frame, x_column, y_column, out)
     if args.json:
         print_json(result.to_dict())
-    else:
-        sys.stdout.write(f"map of {model.id} at {environment.name}: {x[0]} × {y[0]}, "
-                         f"{len(result.records)} points; {result.run.executor}, "
-                         f"{result.run.seconds:.1f} s\n\n")
-        sys.stdout.write(result.summary() + "\n\n")
-        columns = ["mode", x_column, y_column, "feasible", "uphill_set_size",
-                   "driving_force_kJ_per_mol", "h2_threshold", "error"]
-        print_table(frame[columns], "{:.4g}")
-        if out is not None:
-            sys.stdout.write(f"\nfiles in {out}" + (f" (heatmaps: {len(figures) // 2} per-mode PNG+SVG)"
-                                                     if figures else "") + "\n")
-    if result.run.interrupted:
-        sys.stderr.write("tfa map: interrupted; finished points are saved"
-                         + (f", continue with --resume --out {out}\n" if out else
-                            " only with --out (give --out DIR to be able to resume)\n"))
-        return 1
+        return 0
+    sys.stdout.write(f"map of {model.id} at {environment.name}: {x[0]} × {y[0]}, "
+                     f"{len(result.records)} points; {result.run.executor}, "
+                     f"{result.run.seconds:.1f} s\n\n")
+    sys.stdout.write(result.summary() + "\n\n")
+    columns = ["mode", x_column, y_column, "feasible", "uphill_set_size",
+               "driving_force_kJ_per_mol", "h2_threshold", "error"]
+    print_table(frame[columns], "{:.4g}")
+    if args.out is not None:
+        sys.stdout.write(f"\nfiles in {args.out}" + (f" (heatmaps: {len(figures) // 2} per-mode "
+                                                      "PNG+SVG)" if figures else "") + "\n")
     return 0

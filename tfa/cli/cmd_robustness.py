@@ -13,12 +13,12 @@ from __future__ import annotations
 import argparse
 import os
 import sys
-from pathlib import Path
 
 from ..errors import InputError
+from ..util.numbers import MAX_SIGMA_SCALE
 from ..util.points import HASH_SEED
 from .options import (add_deprecated, add_modes_option, add_network_options, add_option,
-                      add_output_options, add_problem_options, add_threshold_switch,
+                      add_output_options, add_problem_options, add_threshold_switch, gated,
                       parse_workers, report_deprecations)
 from .output import print_json, print_table, solver_output_silenced
 from .step_command import progress_for
@@ -77,11 +77,36 @@ def point_progress(bar, unit: str):
 
 
 def load_network(args: argparse.Namespace):
-    """(model, environment) as every command reads them."""
+    """The inputs as every command reads them (model, environment, warnings)."""
     from .step_command import load_inputs
 
-    inputs = load_inputs(args, require_balanced=False)
-    return inputs.model, inputs.environment
+    return load_inputs(args, require_balanced=False)
+
+
+def start_points_run(args: argparse.Namespace, journal: str):
+    """What a many-point command needs before it runs: this process under the common hash seed,
+    the :class:`~tfa.util.outdir.OutputFolder` of ``--out`` with its resumable results file
+    ``journal`` (checked now; a do-nothing context without ``--out``), and the inputs."""
+    import contextlib
+
+    from ..util.outdir import OutputFolder
+
+    same_hash_seed(args)
+    folder = (contextlib.nullcontext() if args.out is None else
+              OutputFolder(args.out, "--out", journal=journal, resume=args.resume,
+                           overwrite=args.overwrite, command=args.command))
+    return folder, load_network(args)
+
+
+def interrupted(args: argparse.Namespace, folder, unit: str) -> int:
+    """Exit code 1 and what to do after a run stopped by a signal (the output folder keeps the
+    previous result; the finished points wait beside it for ``--resume``)."""
+    if folder is not None:
+        folder.keep_aside()
+    sys.stderr.write(f"tfa {args.command}: interrupted; finished {unit} are saved"
+                     + (f", continue with --resume --out {args.out}\n" if folder is not None else
+                        " only with --out (give --out DIR to be able to resume)\n"))
+    return 1
 
 
 def problem_kwargs(args: argparse.Namespace) -> dict:
@@ -108,7 +133,8 @@ def register(subparsers) -> None:
     add_option(parser, "draws", "robustness", type=int)
     add_option(parser, "seed", "robustness", type=int)
     add_modes_option(parser, "robustness")
-    parser.add_argument("--sigma-scale", type=float, default=1.0, metavar="F",
+    parser.add_argument("--sigma-scale", type=gated(minimum=0.0, maximum=MAX_SIGMA_SCALE),
+                        default=1.0, metavar="F",
                         help="multiply every uncertainty by F (0: every draw is the deterministic "
                         "answer; default 1)")
     add_threshold_switch(parser)
@@ -132,39 +158,40 @@ def run(args: argparse.Namespace) -> int:
         raise InputError(f"--draws {args.draws}: give at least 1")
     if args.seed < 0:
         raise InputError(f"--seed {args.seed}: give a whole number >= 0")
-    same_hash_seed(args)
-    model, environment = load_network(args)
-    out = Path(args.out) if args.out else None
-    with progress_for(args) as bar, solver_output_silenced():
-        result = robustness(model, environment, n_draws=args.draws, seed=args.seed, modes=modes,
-                            sigma_scale=args.sigma_scale, threshold=not args.no_threshold,
-                            results_path=out / "robustness.jsonl" if out else None,
-                            progress=point_progress(bar, "draws"), **execution,
-                            **problem_kwargs(args))
-    if out is not None:
-        for name, frame in result.frames().items():
-            write_table(frame, out / f"robustness_{name}")
-        write_json(out / "robustness.json", result.to_dict())
-    if args.json:
-        print_json(result.to_dict())
-    else:
-        sys.stdout.write(f"robustness of {model.id} at {environment.name} ({environment.conditions.describe()})\n")
-        sys.stdout.write(f"{args.draws} draws per mode, seed {args.seed}, σ × {args.sigma_scale:g}; "
-                         f"{result.run.executor}, {result.run.seconds:.1f} s\n\n")
-        sys.stdout.write(result.summary() + "\n\n")
-        print_table(result.feasibility_frame(), "{:.3f}")
-        uphill = result.uphill_frame()
-        if not uphill.empty:
-            sys.stdout.write("\nminimal uphill set: how often each reaction is in it\n")
-            print_table(uphill, "{:.3f}")
-        if not args.no_threshold:
-            sys.stdout.write("\nH2 threshold (mol/L; gases bar) over the draws where it exists\n")
-            print_table(result.threshold_frame(), "{:.3g}")
+    folder, inputs = start_points_run(args, "robustness.jsonl")
+    model, environment = inputs.model, inputs.environment
+    with folder as opened:
+        out = opened.staging if opened is not None else None
+        with progress_for(args) as bar, solver_output_silenced():
+            result = robustness(model, environment, n_draws=args.draws, seed=args.seed,
+                                modes=modes, sigma_scale=args.sigma_scale,
+                                threshold=not args.no_threshold,
+                                results_path=out / "robustness.jsonl" if out else None,
+                                progress=point_progress(bar, "draws"),
+                                **dict(execution, overwrite=True), **problem_kwargs(args))
+        payload = dict(result.to_dict(), warnings=list(inputs.warnings))
+        if result.run.interrupted:
+            return interrupted(args, opened, "draws")
         if out is not None:
-            sys.stdout.write(f"\nfiles in {out}\n")
-    if result.run.interrupted:
-        sys.stderr.write("tfa robustness: interrupted; finished draws are saved"
-                         + (f", continue with --resume --out {out}\n" if out else
-                            " only with --out (give --out DIR to be able to resume)\n"))
-        return 1
+            for name, frame in result.frames().items():
+                write_table(frame, out / f"robustness_{name}")
+            write_json(out / "robustness.json", payload)
+    if args.json:
+        print_json(payload)
+        return 0
+    write = sys.stdout.write
+    write(f"robustness of {model.id} at {environment.name} ({environment.conditions.describe()})\n")
+    write(f"{args.draws} draws per mode, seed {args.seed}, σ × {args.sigma_scale:g}; "
+          f"{result.run.executor}, {result.run.seconds:.1f} s\n\n")
+    write(result.summary() + "\n\n")
+    print_table(result.feasibility_frame(), "{:.3f}")
+    uphill = result.uphill_frame()
+    if not uphill.empty:
+        write("\nminimal uphill set: how often each reaction is in it\n")
+        print_table(uphill, "{:.3f}")
+    if not args.no_threshold:
+        write("\nH2 threshold (mol/L; gases bar) over the draws where it exists\n")
+        print_table(result.threshold_frame(), "{:.3g}")
+    if args.out is not None:
+        write(f"\nfiles in {args.out}\n")
     return 0

@@ -8,13 +8,48 @@ Nothing here imports cobra, optlang, RDKit or matplotlib: ``tfa --help`` stays f
 from __future__ import annotations
 
 import argparse
-import math
 import sys
 from typing import Any, Callable
 
 from ..errors import InputError
 from ..modes import MODES
+from ..util import numbers
 from ..vocabulary import OPTIONS
+
+
+class OneLineParser(argparse.ArgumentParser):
+    """An argument parser whose errors are one line on stderr (exit code 2), naming the command
+    and where its help is: ``tfa map: error: argument --x: ... (see tfa map --help)``."""
+
+    def error(self, message: str):  # noqa: D401 - argparse's name
+        sys.stderr.write(f"{self.prog}: error: {message} (see {self.prog} --help)\n")
+        sys.exit(2)
+
+
+def gated(**bounds: Any) -> Callable[[str], float]:
+    """An argparse ``type`` that reads a value through :func:`tfa.util.numbers.read_number`
+    (``count=True``: a whole number through :func:`~tfa.util.numbers.read_count`)."""
+    count = bounds.pop("count", False)
+
+    def read(text: str):
+        try:
+            if count:
+                return numbers.read_count(text, "value", **bounds)
+            return numbers.read_number(text, "value", **bounds)
+        except InputError as err:
+            raise argparse.ArgumentTypeError(str(err)) from None
+
+    read.__name__ = "number"
+    return read
+
+
+#: The type of each shared option that takes a number: the caps of :mod:`tfa.util.numbers`.
+OPTION_TYPES: dict[str, Callable[[str], Any]] = {
+    "alternatives": gated(count=True, maximum=numbers.MAX_ALTERNATIVES),
+    "draws": gated(count=True, minimum=0, maximum=numbers.MAX_DRAWS),
+    "seed": gated(count=True, minimum=0, maximum=numbers.MAX_SEED),
+    "h2_levels": gated(count=True, maximum=numbers.MAX_H2_LEVELS),
+}
 
 #: Commands whose default for a shared option differs from the vocabulary's, and why.
 COMMAND_DEFAULTS: dict[str, dict[str, Any]] = {
@@ -39,6 +74,8 @@ def add_option(parser: argparse.ArgumentParser | Any, name: str, command: str = 
     kwargs: dict[str, Any] = {"dest": name, "default": default, "metavar": spec.metavar,
                               "help": text}
     kwargs.update(overrides)
+    if name in OPTION_TYPES:
+        kwargs["type"] = OPTION_TYPES[name]
     parser.add_argument(*spec.flags, **kwargs)
 
 
@@ -95,11 +132,15 @@ def add_output_options(parser: argparse.ArgumentParser, json_output: bool = True
 def add_conditions_options(parser: argparse.ArgumentParser) -> None:
     """Conditions of the setting; each overrides the environment file when given."""
     group = parser.add_argument_group("conditions (override the environment file)")
-    group.add_argument("--temperature", type=float, metavar="C", help="temperature, degC")
-    group.add_argument("--ph", type=float, metavar="X", help="pH")
-    group.add_argument("--ionic-strength", type=float, metavar="I", help="ionic strength, mol/L")
-    group.add_argument("--pressure", type=float, metavar="BAR", help="pressure, bar")
-    group.add_argument("--pmg", type=float, metavar="X", help="pMg (free Mg2+); default: no Mg2+ binding")
+    number = gated()
+    group.add_argument("--temperature", type=number, metavar="C",
+                       help="temperature, degC (0-300; water must be liquid at the pressure)")
+    group.add_argument("--ph", type=number, metavar="X", help="pH (0-14)")
+    group.add_argument("--ionic-strength", type=number, metavar="I",
+                       help="ionic strength, mol/L (0-10)")
+    group.add_argument("--pressure", type=number, metavar="BAR",
+                       help="pressure, bar (1-5000; above 100 degC at least the boiling pressure)")
+    group.add_argument("--pmg", type=number, metavar="X", help="pMg (free Mg2+); default: no Mg2+ binding")
 
 
 def add_network_options(parser: argparse.ArgumentParser) -> None:
@@ -135,14 +176,20 @@ def add_problem_options(parser: argparse.ArgumentParser) -> None:
     group = parser.add_argument_group("problem")
     group.add_argument("--solver", choices=("highs", "glpk"),
                        help="MILP solver (default: the measured best available)")
-    group.add_argument("--k-sigma", type=float, default=0.0, metavar="K",
-                       help="let each reaction energy move by K standard uncertainties (default 0)")
-    group.add_argument("--min-driving-force", type=float, metavar="KJ",
+    group.add_argument("--k-sigma", type=gated(minimum=0.0, maximum=numbers.MAX_K_SIGMA),
+                       default=0.0, metavar="K",
+                       help="let each reaction energy move by K standard uncertainties (0-"
+                       f"{numbers.MAX_K_SIGMA:g}; default 0)")
+    group.add_argument("--min-driving-force", metavar="KJ",
+                       type=gated(minimum=0.0, maximum=numbers.MAX_DRIVING_FORCE),
                        help="least driving force of a reaction carrying flux, kJ/mol (default 0.1)")
     group.add_argument("--unknown-energy", choices=("free", "block"), default="free",
                        help="reactions without an energy: carry flux freely (default) or not at all")
-    group.add_argument("--time-limit", type=float, metavar="S",
-                       help="seconds per solve (default 300); hitting it gives exit code 1")
+    group.add_argument("--time-limit", metavar="S",
+                       type=gated(above=0.0, maximum=numbers.MAX_TIME_LIMIT),
+                       help="seconds per solve (default 300, at most "
+                       f"{numbers.MAX_TIME_LIMIT:g}); an answer stopped by it is 'undetermined' "
+                       "and gives exit code 1")
 
 
 def add_modes_option(parser: argparse.ArgumentParser, command: str = "") -> None:
@@ -159,7 +206,7 @@ def add_h2_options(parser: argparse.ArgumentParser, levels: bool, command: str =
     """``--h2-range`` and (for the scan) ``--h2-levels``, with the old spellings."""
     add_option(parser, "h2_range", command)
     if levels:
-        add_option(parser, "h2_levels", command, type=int)
+        add_option(parser, "h2_levels", command)
         add_deprecated(parser, "--levels", "--h2-range LOW:HIGH --h2-levels N", "h2_range",
                        convert=_old_levels)
     else:
@@ -182,14 +229,8 @@ def _old_levels(text: str) -> dict[str, Any]:
 
 # ------------------------------------------------------------------ parsing values
 def parse_positive(text: str, option: str) -> float:
-    """A positive, finite number, or an InputError naming the option."""
-    try:
-        value = float(text)
-    except (TypeError, ValueError):
-        raise InputError(f"{option} '{text}': not a number") from None
-    if not (math.isfinite(value) and value > 0):
-        raise InputError(f"{option} '{text}': give a positive number")
-    return value
+    """An activity (mol/L; gases bar) within the caps, or an InputError naming the option."""
+    return numbers.read_activity(text, option)
 
 
 def parse_h2_range(text: str) -> tuple[float, float]:
@@ -218,12 +259,9 @@ def parse_workers(value: Any) -> int:
 
         return available_cores()
     try:
-        number = int(str(value))
-    except ValueError:
-        raise InputError(f"--workers '{value}': give a whole number of at least 1, or auto") from None
-    if number < 1:
-        raise InputError(f"--workers {number}: give at least 1 (or auto)")
-    return number
+        return numbers.read_count(value, "--workers", maximum=numbers.MAX_WORKERS)
+    except InputError as err:
+        raise InputError(f"{err} (or auto)") from None
 
 
 def parse_list(text: str | None) -> list[str] | None:

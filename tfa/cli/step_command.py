@@ -9,10 +9,8 @@ from __future__ import annotations
 
 import argparse
 import sys
-from pathlib import Path
 from typing import TYPE_CHECKING, Callable
 
-from ..errors import InputError
 from .options import (condition_overrides, parse_h2_range, parse_list, parse_workers,
                       report_deprecations)
 from .output import print_json, solver_output_silenced
@@ -79,10 +77,12 @@ def load_inputs(args: argparse.Namespace, require_balanced: bool = True):
 
 
 def check_out(args: argparse.Namespace) -> None:
-    """Refuse an ``--out`` that exists and is not a folder (before anything is computed)."""
+    """Refuse an ``--out`` that cannot hold the results (before anything is computed)."""
+    from ..util.outdir import check_output_folder
+
     out = getattr(args, "out", None)
-    if out and Path(out).exists() and not Path(out).is_dir():
-        raise InputError(f"--out {out}: exists and is not a folder; give a folder")
+    if out is not None:
+        check_output_folder(out, "--out")
 
 
 def progress_for(args: argparse.Namespace):
@@ -119,22 +119,34 @@ def run_step_command(args: argparse.Namespace, step_ids: list[str], report: bool
     out = getattr(args, "out", None)
     with progress_for(args) as bar, solver_output_silenced():
         inputs = load_inputs(args)
-        result = run_steps(steps, inputs, settings, options, progress=bar, out=out, report=report)
+        result = run_steps(steps, inputs, settings, options, progress=bar, out=out, report=report,
+                           command=args.command)
     if args.json:
         print_json(json_payload(args.command, result))
+    elif text is not None:
+        sys.stdout.write(text(result))
+    else:
+        write = sys.stdout.write
+        write(result.header() + "\n")
+        for step in result.steps:
+            body = step.text(result.result(step.id), result.context)
+            if body.strip():
+                write("\n" + body)
+        if result.notes and not args.quiet:
+            write("\nnotes:\n" + "".join(f"  {n}\n" for n in result.notes))
+    return exit_code(args, result)
+
+
+def exit_code(args: argparse.Namespace, result: "Assessment") -> int:
+    """0, or 1 (with a line on stderr) when a solver stopped at the time limit before an
+    answer ("undetermined")."""
+    undetermined = result.context.undetermined
+    if not undetermined:
         return 0
-    write = sys.stdout.write
-    if text is not None:
-        write(text(result))
-        return 0
-    write(result.header() + "\n")
-    for step in result.steps:
-        body = step.text(result.result(step.id), result.context)
-        if body.strip():
-            write("\n" + body)
-    if result.notes and not args.quiet:
-        write("\nnotes:\n" + "".join(f"  {n}\n" for n in result.notes))
-    return 0
+    sys.stderr.write(f"tfa {args.command}: undetermined within the time limit of "
+                     f"{result.context.options.time_limit:g} s per solve: "
+                     f"{', '.join(undetermined)}; raise --time-limit\n")
+    return 1
 
 
 def json_payload(command: str, result: "Assessment") -> dict:

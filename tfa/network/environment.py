@@ -17,11 +17,19 @@ File format (units: degC at the interface, mol/L for solutes, bar for gases)::
     [bounds]                      # default for every other compound, then per compound
     default = [1.0e-6, 1.0e-2]
     atp = [1.0e-4, 1.0e-2]
-    [demand]
+    [demand]                      # required: what the network must make
     reaction = "demand_precursors"
-    flux = 0.01
+    flux = 0.01                   # > 0, in the network's flux unit
     [outlets]
     allowed = ["ac", "for"]
+
+Without a demand the zero-flux state meets every question, so a file must name one; to ask
+explicitly whether the network can run at all with nothing required, write ``[demand]`` with
+``none = true`` instead (the answer is then always yes, and reports say so). Every key is
+checked: an unknown section or key is an error with the closest allowed name, and every compound
+key of ``[feed]``, ``[bounds]`` and ``[outlets]`` and the demand reaction must name something in
+the network (:meth:`Environment.check_network`). Numbers pass :func:`tfa.util.numbers.read_number`:
+activities between 1e-30 and 1000 (mol/L; gases bar), the demand flux up to 1e6.
 
 Precedence of a compound's concentration bounds: fed (fixed) > ``[bounds]`` entry of the
 environment > ``conc_min``/``conc_max`` of the compounds table > ``[bounds] default``. Water and
@@ -41,7 +49,9 @@ from typing import Any
 import cobra
 
 from ..conditions import Conditions
-from ..errors import ConditionsError, NetworkFileError
+from ..errors import ConditionsError, InputError, NetworkFileError
+from ..util.files import read_input_text
+from ..util.numbers import MAX_FLUX, read_activity, read_number
 from .checks import is_boundary_reaction
 from .roles import without_activity
 
@@ -58,7 +68,7 @@ SECTIONS: dict[str, tuple[str, ...] | None] = {
     "conditions": ("temperature_C", "pH", "ionic_strength_M", "pressure_bar", "pMg"),
     "feed": None,
     "bounds": None,
-    "demand": ("reaction", "flux"),
+    "demand": ("reaction", "flux", "none"),
     "outlets": ("allowed",),
 }
 REQUIRED_CONDITIONS = ("temperature_C", "pH", "ionic_strength_M")
@@ -91,6 +101,8 @@ class Environment:
         Compound keys that may leave the network through their exchange.
     source : str
         The file read, or empty.
+    no_demand : bool
+        True when the file asks explicitly for no demand (``[demand] none = true``).
     """
 
     name: str
@@ -103,6 +115,7 @@ class Environment:
     outlets: tuple[str, ...] = ()
     description: str = ""
     source: str = ""
+    no_demand: bool = False
 
     # ---------------------------------------------------------------- reading
 
@@ -119,14 +132,14 @@ class Environment:
             Conditions outside what the models support (named with the file).
         """
         path = Path(path)
-        if not path.is_file():
+        if not path.exists():
             raise NetworkFileError(f"{path}: no such environment file; give the path of a .toml file")
         try:
-            data = tomllib.loads(path.read_text(encoding="utf-8"))
+            data = tomllib.loads(read_input_text(path, "environment file"))
         except tomllib.TOMLDecodeError as exc:
-            raise NetworkFileError(f"{path}: not valid TOML ({exc}); fix the syntax there") from exc
-        except UnicodeDecodeError as exc:
-            raise NetworkFileError(f"{path}: not UTF-8 text; save it as UTF-8") from exc
+            raise NetworkFileError(f"{path}: not valid TOML ({exc}); fix the syntax there") from None
+        except InputError as exc:
+            raise NetworkFileError(str(exc)) from None
         return cls.from_dict(data, source=str(path))
 
     @classmethod
@@ -180,15 +193,7 @@ class Environment:
                 raise NetworkFileError(f"{where} [bounds] {key}: '{key}' is also fed (fixed) in [feed]; "
                                        "give it in one section only")
 
-        demand = data.get("demand", {})
-        demand_reaction = demand.get("reaction")
-        if demand_reaction is not None and (not isinstance(demand_reaction, str) or not demand_reaction):
-            raise NetworkFileError(f"{where} [demand] reaction: give a reaction id as text")
-        demand_flux = 0.0
-        if "flux" in demand:
-            demand_flux = _real(where, "demand", "flux", demand["flux"])
-            if demand_flux < 0:
-                raise NetworkFileError(f"{where} [demand] flux: {demand_flux} is negative; give a flux >= 0")
+        demand_reaction, demand_flux, no_demand = _demand(where, data.get("demand"))
 
         outlets = data.get("outlets", {}).get("allowed", [])
         if not isinstance(outlets, list) or not all(isinstance(x, str) and x for x in outlets):
@@ -198,7 +203,8 @@ class Environment:
             logger.info("%s: %s both fed and allowed as outlets", where, ", ".join(overlap))
         return cls(name=name.strip(), conditions=conditions, feed=feed, default_bounds=default_bounds,
                    bounds=bounds, demand_reaction=demand_reaction, demand_flux=demand_flux,
-                   outlets=tuple(outlets), description=description, source=source)
+                   outlets=tuple(outlets), description=description, source=source,
+                   no_demand=no_demand)
 
     # ---------------------------------------------------------------- copies for scans
 
@@ -277,6 +283,30 @@ class Environment:
         close = difflib.get_close_matches(key, known, n=3, cutoff=0.5)
         hint = f"did you mean {', '.join(repr(c) for c in close)}?" if close else "use a compound id of the network"
         raise NetworkFileError(f"{where}: '{key}' is not a compound of network {model.id}; {hint}")
+
+    def check_network(self, model: cobra.Model) -> None:
+        """Refuse keys that name nothing in ``model`` (the network as read, before any mode's
+        rewrites): every ``[feed]``, ``[bounds]`` and ``[outlets]`` compound and the demand
+        reaction, each with the closest names (a typo is never ignored).
+
+        Raises
+        ------
+        NetworkFileError
+        """
+        where = self.source or self.name
+        for section, keys in (("feed", self.feed), ("bounds", self.bounds),
+                              ("outlets", self.outlets)):
+            for key in keys:
+                try:
+                    self.resolve(model, key)
+                except NetworkFileError as exc:
+                    raise NetworkFileError(str(exc).replace(f"{where}: ", f"{where} [{section}]: ", 1)
+                                           ) from None
+        if self.demand_reaction is not None and self.demand_reaction not in model.reactions:
+            close = difflib.get_close_matches(self.demand_reaction, [r.id for r in model.reactions], n=3)
+            hint = f"did you mean {', '.join(repr(c) for c in close)}?" if close else "add it to the network"
+            raise NetworkFileError(f"{where} [demand] reaction: '{self.demand_reaction}' is not a "
+                                   f"reaction of network {model.id}; {hint}")
 
     def feed_metabolites(self, model: cobra.Model) -> dict[str, float]:
         """Metabolite id -> fixed activity for every fed compound."""
@@ -462,20 +492,54 @@ def _unknown(where: str, what: str, key: str, allowed: list[str]) -> str:
     return f"{where}: unknown {what}; {hint}allowed: {', '.join(allowed)}"
 
 
-def _real(where: str, section: str, key: str, value: Any) -> float:
-    if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(float(value)):
-        raise NetworkFileError(f"{where} [{section}] {key}: {value!r} is not a number; write e.g. {key} = 1.0")
-    return float(value)
+def _real(where: str, section: str, key: str, value: Any, **bounds: float) -> float:
+    if isinstance(value, str):  # a number in quotes is text in TOML
+        raise NetworkFileError(f"{where} [{section}] {key}: {value!r} is not a number; write e.g. "
+                               f"{key} = 1.0")
+    try:
+        return float(read_number(value, f"[{section}] {key}", where, **bounds))
+    except InputError as exc:
+        raise NetworkFileError(str(exc)) from None
 
 
 def _positive(where: str, section: str, key: str, value: Any) -> float:
-    number = _real(where, section, key, value)
-    if number <= 0:
+    if isinstance(value, (int, float)) and not isinstance(value, bool) and value <= 0:
         raise NetworkFileError(
             f"{where} [{section}] {key}: {value!r} is not a concentration; give a value > 0 "
             "(mol/L; gases bar), or remove the entry"
         )
-    return number
+    if isinstance(value, str):
+        _real(where, section, key, value)
+    try:
+        return read_activity(value, f"[{section}] {key}", where)
+    except InputError as exc:
+        raise NetworkFileError(str(exc)) from None
+
+
+def _demand(where: str, section: Any) -> tuple[str | None, float, bool]:
+    """(reaction, flux, no demand) of the ``[demand]`` section, which must be there."""
+    if section is None:
+        raise NetworkFileError(
+            f"{where}: no [demand] section; name what the network must make, e.g. [demand] "
+            "reaction = \"DM_precursors\" and flux = 0.01 (without a demand the zero-flux state "
+            "meets every question), or write [demand] none = true to ask whether it can run at all")
+    if "none" in section:
+        if section["none"] is not True or set(section) != {"none"}:
+            raise NetworkFileError(f"{where} [demand]: none = true stands alone (no reaction, no "
+                                   "flux); or remove it and name the demand reaction and flux")
+        return None, 0.0, True
+    reaction = section.get("reaction")
+    if not isinstance(reaction, str) or not reaction.strip():
+        raise NetworkFileError(f"{where} [demand] reaction: give a reaction id as text, e.g. "
+                               "reaction = \"DM_precursors\"")
+    if "flux" not in section:
+        raise NetworkFileError(f"{where} [demand] flux: missing; give the least flux of "
+                               f"{reaction} (> 0, in the network's flux unit), e.g. flux = 0.01")
+    flux = _real(where, "demand", "flux", section["flux"], maximum=MAX_FLUX)
+    if flux <= 0:
+        raise NetworkFileError(f"{where} [demand] flux: {flux:g} must be > 0 (a demand of 0 is met "
+                               "by the zero-flux state); or write [demand] none = true")
+    return reaction.strip(), flux, False
 
 
 def _pair(where: str, key: str, value: Any) -> tuple[float, float]:

@@ -10,14 +10,17 @@ vent field). Condition overrides (``celsius``, ``ph``, ``ionic_strength``, ``pre
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+import warnings
+from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
 import cobra
 import pandas as pd
 
+from ..conditions import ModelRangeWarning, condition_overrides
 from ..errors import InputError
+from ..util.files import check_input_file, read_input_text
 from .bundled import bundled_environment_path, bundled_folder
 from .environment import Environment
 from .io_sbml import load_network as read_any
@@ -41,6 +44,8 @@ class Inputs:
         The network's own table of reaction values, when there is one.
     network_folder : Path or None
         The folder of the network's files.
+    warnings : list of str
+        Model-range warnings raised while reading (conditions past a model's usual range).
     """
 
     model: cobra.Model
@@ -49,6 +54,7 @@ class Inputs:
     environment_source: str
     literature_path: Path | None = None
     network_folder: Path | None = None
+    warnings: list[str] = field(default_factory=list)
 
     def network_sources(self) -> pd.DataFrame | None:
         """The network's own ``sources.tsv`` (or ``.csv``) beside its reactions table, if any."""
@@ -70,6 +76,22 @@ def default_environment_path(network: str | Path | None) -> Path | None:
 def resolve_inputs(network: Any = None, environment: Any = None,
                    compounds: str | Path | None = None, require_balanced: bool = True,
                    **conditions: float | None) -> Inputs:
+    """Read the network and the environment as ``tfa`` resolves them everywhere (see
+    :func:`_resolve`); model-range warnings raised on the way are recorded in
+    :attr:`Inputs.warnings` (and shown as usual)."""
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ModelRangeWarning)
+        inputs = _resolve(network, environment, compounds, require_balanced, **conditions)
+    for item in caught:
+        if issubclass(item.category, ModelRangeWarning) and str(item.message) not in inputs.warnings:
+            inputs.warnings.append(str(item.message))
+        warnings.warn_explicit(item.message, item.category, item.filename, item.lineno)
+    return inputs
+
+
+def _resolve(network: Any = None, environment: Any = None,
+             compounds: str | Path | None = None, require_balanced: bool = True,
+             **conditions: float | None) -> Inputs:
     """Read the network and the environment as ``tfa`` resolves them everywhere.
 
     Parameters
@@ -109,13 +131,19 @@ def resolve_inputs(network: Any = None, environment: Any = None,
                              "compounds.tsv or leave --compounds out")
         model = read_any(path, compounds, require_balanced=require_balanced)
         folder = _network_folder(path)
-        literature = reaction_values_beside(folder / "reactions.tsv")
+        # the readers keep a reaction_values_path note only within the file's folder
+        note = (model.notes or {}).get("reaction_values_path")
+        literature = Path(note) if note else reaction_values_beside(folder / "reactions.tsv")
+        if literature is not None:
+            model.notes["reaction_values_path"] = str(literature)
         network_source = str(path)
         default_env = default_environment_path(path) or bundled_environment_path()
     elif isinstance(network, cobra.Model):
         model = network
+        # a model made in Python is the caller's own: its note is followed, through the gate
         path = (model.notes or {}).get("reaction_values_path")
-        literature = Path(path) if path else None
+        literature = (check_input_file(path, "reaction values named by the model's note")
+                      if path else None)
         network_source = f"cobra model {model.id}"
         default_env = bundled_environment_path()
     else:
@@ -130,7 +158,7 @@ def resolve_inputs(network: Any = None, environment: Any = None,
     else:
         raise InputError(f"environment: expected a path or an Environment, got "
                          f"{type(environment).__name__}")
-    changes = {k: v for k, v in conditions.items() if v is not None}
+    changes = condition_overrides(conditions)
     if changes:
         env = env.with_conditions(**changes)
     return Inputs(model, env, network_source, env_source, literature, folder)
@@ -157,7 +185,7 @@ def load_environment(path: str | Path | None = None, network: str | Path | None 
     ``pressure``, ``pmg``) override the file's."""
     env_path = Path(path) if path is not None else default_environment_path(network)
     environment = Environment.from_toml(env_path or bundled_environment_path())
-    changes = {k: v for k, v in conditions.items() if v is not None}
+    changes = condition_overrides(conditions)
     return environment.with_conditions(**changes) if changes else environment
 
 
@@ -172,12 +200,16 @@ def network_sources(folder: Path | None) -> pd.DataFrame | None:
     """
     if folder is None:
         return None
+    import io
+
     for name, sep in SOURCES_FILES:
         path = folder / name
-        if path.is_file():
+        if path.exists():
+            text = read_input_text(path, "table of sources")
             try:
-                frame = pd.read_csv(path, sep=sep, comment="#", dtype=str, keep_default_na=False)
-            except (pd.errors.ParserError, UnicodeDecodeError) as err:
+                frame = pd.read_csv(io.StringIO(text), sep=sep, comment="#", dtype=str,
+                                    keep_default_na=False)
+            except (pd.errors.ParserError, pd.errors.EmptyDataError) as err:
                 raise InputError(f"{path}: cannot be read as a table ({err}); fix it or remove it")
             return frame if "key" in frame.columns else None
     return None

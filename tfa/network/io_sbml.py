@@ -5,7 +5,11 @@ holding ``<`` or ``&`` (free-text notes, some SMILES) would break the XML; value
 before writing and unescaped after reading. Numeric-looking note values come back as text, as
 they went in. ``annotation['ec-code']`` is kept as a list.
 
-Every file is written to a temporary name and renamed (:mod:`tfa.util.files`).
+Every file is written to a temporary name and renamed (:mod:`tfa.util.files`). Every file read
+passes the input gate first (a regular file of sane size). A ``reaction_values_path`` note of a
+network file names a file relative to that file's folder and is refused when it leaves it
+(:func:`tfa.util.files.confined_file`); when written, the note is made relative to the new file's
+folder, or left out when the values lie elsewhere.
 """
 
 from __future__ import annotations
@@ -17,8 +21,8 @@ from pathlib import Path
 import cobra
 from cobra.io import load_json_model, read_sbml_model, save_json_model, write_sbml_model
 
-from ..errors import NetworkFileError
-from ..util.files import atomic_path
+from ..errors import InputError, NetworkFileError
+from ..util.files import atomic_path, check_input_file, confined_file
 from .io_table import read_network, write_network
 
 logger = logging.getLogger(__name__)
@@ -26,6 +30,8 @@ logger = logging.getLogger(__name__)
 SBML_SUFFIXES = (".xml", ".sbml")
 JSON_SUFFIXES = (".json",)
 TABLE_SUFFIXES = (".tsv", ".csv", ".tab", ".txt")
+#: The model note that names the network's own table of reaction values.
+VALUES_NOTE = "reaction_values_path"
 
 
 def _objects(model: cobra.Model):
@@ -41,6 +47,7 @@ def write_sbml(model: cobra.Model, path: str | Path) -> Path:
     try:
         for obj, notes in saved:
             obj.notes = {key: html.escape(str(value), quote=False) for key, value in (notes or {}).items()}
+        _portable_values_note(model, path, saved[0][1])
         with atomic_path(path) as tmp:
             write_sbml_model(model, str(tmp))
     finally:
@@ -50,44 +57,83 @@ def write_sbml(model: cobra.Model, path: str | Path) -> Path:
     return path
 
 
+def _portable_values_note(model: cobra.Model, path: Path, notes: dict | None) -> None:
+    """The values note as written into ``path``: relative to its folder, or left out."""
+    value = (notes or {}).get(VALUES_NOTE)
+    if not value:
+        return
+    model.notes = dict(model.notes)
+    try:
+        model.notes[VALUES_NOTE] = str(Path(value).resolve().relative_to(path.parent.resolve()))
+    except ValueError:
+        del model.notes[VALUES_NOTE]
+        logger.info("%s: the reaction values (%s) lie outside its folder; the note is left out",
+                    path, value)
+
+
+def _checked(path: str | Path, what: str) -> Path:
+    path = Path(path)
+    if not path.exists():
+        raise NetworkFileError(f"{path}: no such file; give the path of {what}")
+    try:
+        return check_input_file(path, what)
+    except InputError as exc:
+        raise NetworkFileError(str(exc)) from None
+
+
 def read_sbml(path: str | Path) -> cobra.Model:
     """Read SBML through cobra; note values are unescaped, ``ec-code`` made a list."""
-    path = Path(path)
-    if not path.is_file():
-        raise NetworkFileError(f"{path}: no such file; give the path of an SBML file")
+    path = _checked(path, "an SBML file")
     try:
         model = read_sbml_model(str(path))
     except Exception as exc:  # cobra raises its own CobraSBMLError and IOError variants
-        raise NetworkFileError(f"{path}: cannot read SBML ({exc}); check that it is valid SBML level 2 or 3") from exc
-    _normalise(model)
+        raise NetworkFileError(f"{path}: cannot read SBML ({_first_line(exc)}); check that it is "
+                               "valid SBML level 2 or 3") from None
+    _normalise(model, path)
     return model
+
+
+def _first_line(exc: Exception) -> str:
+    text = str(exc).strip().splitlines()
+    return (text[0][:200] if text else type(exc).__name__)
 
 
 def write_cobra_json(model: cobra.Model, path: str | Path) -> Path:
     """Write cobra's JSON format atomically."""
     path = Path(path)
-    with atomic_path(path) as tmp:
-        save_json_model(model, str(tmp), pretty=True)
+    notes = model.notes
+    try:
+        _portable_values_note(model, path, notes)
+        with atomic_path(path) as tmp:
+            save_json_model(model, str(tmp), pretty=True)
+    finally:
+        model.notes = notes
     logger.info("wrote JSON model %s", path)
     return path
 
 
 def read_cobra_json(path: str | Path) -> cobra.Model:
     """Read cobra's JSON format."""
-    path = Path(path)
-    if not path.is_file():
-        raise NetworkFileError(f"{path}: no such file; give the path of a cobra JSON model")
+    path = _checked(path, "a cobra JSON model")
     try:
         model = load_json_model(str(path))
     except Exception as exc:  # JSON and schema errors
-        raise NetworkFileError(f"{path}: cannot read the cobra JSON model ({exc}); check the file") from exc
-    _normalise(model)
+        raise NetworkFileError(f"{path}: cannot read the cobra JSON model ({_first_line(exc)}); "
+                               "check the file") from None
+    _normalise(model, path)
     return model
 
 
-def _normalise(model: cobra.Model) -> None:
+def _normalise(model: cobra.Model, path: Path) -> None:
     for obj in _objects(model):
         obj.notes = {key: html.unescape(str(value)) for key, value in (obj.notes or {}).items()}
+    note = model.notes.get(VALUES_NOTE)
+    if note:
+        try:
+            model.notes[VALUES_NOTE] = str(confined_file(note, path.parent, "reaction values",
+                                                         f"{path} note {VALUES_NOTE}"))
+        except InputError as exc:
+            raise NetworkFileError(str(exc)) from None
     for reaction in model.reactions:
         ec = (reaction.annotation or {}).get("ec-code")
         if isinstance(ec, str):

@@ -44,7 +44,8 @@ import cobra
 from ..equation import format_equation, parse_equation
 from ..errors import InputError, NetworkFileError
 from ..thermo.balance import check_balance, parse_formula
-from ..util.files import write_text
+from ..util.files import read_input_text, write_text
+from ..util.numbers import MAX_ACTIVITY, MAX_FLUX, MIN_ACTIVITY, read_number
 from .roles import parse_role
 
 logger = logging.getLogger(__name__)
@@ -63,6 +64,8 @@ REACTION_NOTE_KEYS = ("name", "ec", "pathway", "energy_source", "notes")
 COMPARTMENT = "c"
 #: Flux bound used for "unbounded" (flux units of the network).
 DEFAULT_FLUX_BOUND = 1000.0
+#: Longest line of a table, characters (a SMILES or a note rarely passes 1,000).
+MAX_CELL_CHARS = 20_000
 
 _ID_RE = re.compile(r"^[A-Za-z0-9_]+$")
 _EC_RE = re.compile(r"^\d+\.(\d+|-)\.(\d+|-)\.(n?\d+|-)$")
@@ -96,19 +99,26 @@ def read_table(path: str | Path, required: tuple[str, ...], known: tuple[str, ..
         cells than the header.
     """
     path = Path(path)
-    if not path.is_file():
+    if not path.exists():
         raise NetworkFileError(f"{path}: no such file; give the path of an existing table")
     delimiter = delimiter_for(path)
     try:
-        text = path.read_text(encoding="utf-8-sig")
-    except UnicodeDecodeError as exc:
-        raise NetworkFileError(f"{path}: not UTF-8 text ({exc}); save the table as UTF-8") from exc
+        text = read_input_text(path, "table")
+    except InputError as exc:
+        raise NetworkFileError(str(exc)) from None
     header: list[str] | None = None
     rows: list[TableRow] = []
     for number, raw in enumerate(text.splitlines(), start=1):
         if not raw.strip() or raw.lstrip().startswith("#"):
             continue
-        cells = next(csv.reader([raw], delimiter=delimiter))
+        if len(raw) > MAX_CELL_CHARS:
+            raise NetworkFileError(f"{path} line {number}: the line has {len(raw):,} characters, more "
+                                   f"than the {MAX_CELL_CHARS:,} a table line may have; shorten it")
+        try:
+            cells = next(csv.reader([raw], delimiter=delimiter))
+        except (csv.Error, StopIteration) as exc:
+            raise NetworkFileError(f"{path} line {number}: cannot be read as a table line ({exc}); "
+                                   "check the quotes") from None
         if header is None:
             header = [c.strip().lower() for c in cells]
             missing = [c for c in required if c not in header]
@@ -142,18 +152,14 @@ def _join(columns: tuple[str, ...], delimiter: str) -> str:
     return "'" + ("<TAB>" if delimiter == "\t" else ",").join(columns) + "'"
 
 
-def _number(text: str, where: str, column: str, integer: bool = False) -> float | None:
+def _number(text: str, where: str, column: str, integer: bool = False,
+            **bounds: float) -> float | None:
     if text == "":
         return None
     try:
-        value = float(text)
-    except ValueError:
-        value = math.nan
-    if not math.isfinite(value) or (integer and value != int(value)):
-        kind = "an integer" if integer else "a finite number"
-        raise NetworkFileError(f"{where}, column '{column}': '{text}' is not {kind}; write e.g. "
-                               f"{'-1' if integer else '1e-3'} or leave the cell empty")
-    return value
+        return float(read_number(text, f"column '{column}'", where, integer=integer, **bounds))
+    except InputError as exc:
+        raise NetworkFileError(f"{exc} (or leave the cell empty)") from None
 
 
 def default_compounds_path(reactions_path: Path) -> Path:
@@ -204,7 +210,8 @@ def read_compounds(path: str | Path) -> list[cobra.Metabolite]:
         except InputError as exc:
             raise NetworkFileError(str(exc)) from exc
         has_suffix = bool(re.search(r"[+-]\d*$", formula))
-        charge_value = _number(cells.get("charge", ""), where, "charge", integer=True)
+        charge_value = _number(cells.get("charge", ""), where, "charge", integer=True,
+                               minimum=-100, maximum=100)
         if charge_value is None:
             if not has_suffix:
                 raise NetworkFileError(
@@ -220,11 +227,12 @@ def read_compounds(path: str | Path) -> list[cobra.Metabolite]:
         plain_formula = re.sub(r"[+-]\d*$", "", formula) if has_suffix else formula
         conc = {}
         for column in ("conc_min", "conc_max"):
-            value = _number(cells.get(column, ""), where, column)
-            if value is not None and value <= 0:
+            value = _number(cells.get(column, ""), where, column, maximum=MAX_ACTIVITY)
+            if value is not None and value < MIN_ACTIVITY:
                 raise NetworkFileError(
                     f"{where}, column '{column}': {cells[column]} is not a concentration; give a value "
-                    "> 0 in mol/L (gases: bar) or leave it empty for the environment's default"
+                    f">= {MIN_ACTIVITY:g} in mol/L (gases: bar) or leave it empty for the "
+                    "environment's default"
                 )
             conc[column] = value
         if conc["conc_min"] is not None and conc["conc_max"] is not None and conc["conc_min"] > conc["conc_max"]:
@@ -348,8 +356,10 @@ def read_network(reactions_path: str | Path, compounds_path: str | Path | None =
                     "the coefficients, add the missing compound (H2O, H+, a carrier) or correct a "
                     "formula in the compounds table"
                 )
-        lower = _number(cells.get("lower_bound", ""), where, "lower_bound")
-        upper = _number(cells.get("upper_bound", ""), where, "upper_bound")
+        lower = _number(cells.get("lower_bound", ""), where, "lower_bound", minimum=-MAX_FLUX,
+                        maximum=MAX_FLUX)
+        upper = _number(cells.get("upper_bound", ""), where, "upper_bound", minimum=-MAX_FLUX,
+                        maximum=MAX_FLUX)
         if lower is None:
             lower = -DEFAULT_FLUX_BOUND if parsed.reversible else 0.0
         elif not parsed.reversible and lower < 0:

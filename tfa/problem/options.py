@@ -6,13 +6,13 @@ Units: kJ/mol, seconds; fluxes in the network's unit.
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass, field
 
 import numpy as np
 from optlang import interface as optlang_status
 
 from ..errors import InputError
+from ..util.numbers import MAX_DRIVING_FORCE, MAX_K_SIGMA, MAX_TIME_LIMIT, read_number
 
 #: Statuses of a search stopped by a limit (time, iterations, nodes), after which the best point
 #: found may be returned (ThermoProblem.solve with accept_best).
@@ -125,12 +125,11 @@ class ProblemOptions:
                              f"{self.confirm_infeasible!r}")
         if self.unknown_energy not in UNKNOWN_ENERGY_POLICIES:
             raise InputError(f"unknown_energy must be 'free' or 'block', got {self.unknown_energy!r}")
-        if not (math.isfinite(self.min_driving_force) and self.min_driving_force >= 0):
-            raise InputError(f"the least driving force must be >= 0 kJ/mol, got {self.min_driving_force}")
-        if not (math.isfinite(self.uncertainty_k) and self.uncertainty_k >= 0):
-            raise InputError(f"the uncertainty multiple k must be >= 0, got {self.uncertainty_k}")
-        if self.time_limit is not None and not self.time_limit > 0:
-            raise InputError(f"the time limit must be positive seconds, got {self.time_limit}")
+        read_number(self.min_driving_force, "the least driving force [kJ/mol]", minimum=0.0,
+                    maximum=MAX_DRIVING_FORCE)
+        read_number(self.uncertainty_k, "the multiple k of σ", minimum=0.0, maximum=MAX_K_SIGMA)
+        if self.time_limit is not None:
+            read_number(self.time_limit, "the time limit [s]", above=0.0, maximum=MAX_TIME_LIMIT)
 
     def to_dict(self) -> dict:
         """Plain dictionary for provenance."""

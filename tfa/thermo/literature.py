@@ -299,18 +299,20 @@ def read_literature_values(path, where: str | None = None) -> list[LiteratureVal
     are read with a warning). Equations use the grammar of :mod:`tfa.equation`. Errors name the
     file and line.
     """
+    from io import StringIO
+
+    from ..util.files import read_input_text
+
     where = where or str(path)
     sep = "\t" if str(path).endswith(".tsv") else ","
-    try:
-        with open(path, encoding="utf-8") as handle:
-            lines = handle.read().splitlines()
-    except OSError as err:
-        raise InputError(f"{where}: cannot read the reaction-values table ({err})") from err
+    text = read_input_text(path, "reaction-values table")   # a regular file; BOM accepted
+    lines = text.splitlines()
     comment_lines = 0
     while comment_lines < len(lines) and lines[comment_lines].lstrip().startswith("#"):
         comment_lines += 1
     try:
-        frame = pd.read_csv(path, sep=sep, skiprows=comment_lines, dtype=str, keep_default_na=False)
+        frame = pd.read_csv(StringIO(text), sep=sep, skiprows=comment_lines, dtype=str,
+                            keep_default_na=False)
     except (pd.errors.ParserError, pd.errors.EmptyDataError) as err:
         raise InputError(f"{where}: cannot read the reaction-values table ({err})") from err
     frame.columns = renamed_columns([str(c) for c in frame.columns], where)
@@ -333,9 +335,12 @@ def read_literature_values(path, where: str | None = None) -> list[LiteratureVal
                     return None
                 raise InputError(f"{line}: column {column} is empty; give a number")
             try:
-                return float(text)
+                float(text)
             except ValueError:
                 raise InputError(f"{line}: column {column} holds '{text}', not a number") from None
+            from ..util.numbers import read_number
+
+            return read_number(text, f"column {column}", line)
 
         eq = parse_equation(row["equation"], where=line)
         conditions = Conditions.from_celsius(number("temperature_C"), ph=number("ph"),

@@ -265,8 +265,10 @@ def read_sources_file(path) -> dict[str, Source]:
     ``tfa/data/sources.csv`` (``#`` comment lines allowed); errors name the file and line."""
     from pathlib import Path
 
+    from ..util.files import read_input_text
+
     path = Path(path)
-    lines = [line for line in path.read_text(encoding="utf-8").splitlines()
+    lines = [line for line in read_input_text(path, "table of sources").splitlines()
              if line.strip() and not line.lstrip().startswith("#")]
     reader = csv.DictReader(io.StringIO("\n".join(lines)),
                             delimiter="\t" if path.suffix.lower() == ".tsv" else ",")

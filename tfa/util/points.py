@@ -63,6 +63,8 @@ FORMAT = "tfa-points/1"
 EXECUTORS = ("serial", "pool", "dask")
 #: PYTHONHASHSEED under which the ``tfa`` commands run (not 0, which Dask replaces).
 HASH_SEED = "7"
+#: Seconds to wait for a Dask scheduler named by its address.
+SCHEDULER_TIMEOUT = 10.0
 
 _CACHE: dict[tuple[Any, int], Any] = {}
 _CACHE_LOCK = threading.Lock()
@@ -156,18 +158,27 @@ def read_results(path: str | os.PathLike) -> tuple[dict, dict[str, dict]]:
             continue
         try:
             obj = json.loads(raw)
-        except json.JSONDecodeError:
-            log.warning("%s line %d is not JSON; it is skipped", path, number)
+        except (json.JSONDecodeError, UnicodeDecodeError, RecursionError):
+            log.warning("%s line %d is not JSON; it is skipped (its point is computed again)",
+                        path, number)
             continue
-        if "format" in obj and "header" in obj:
+        if isinstance(obj, dict) and "format" in obj and isinstance(obj.get("header"), dict):
             header = obj["header"]
-        elif "id" in obj:
+        elif _well_formed(obj):
             records[str(obj["id"])] = obj
         else:
-            log.warning("%s line %d has no id; it is skipped", path, number)
+            log.warning("%s line %d is not a finished point; it is skipped (its point is "
+                        "computed again)", path, number)
     if end < len(data):
         log.info("%s: last line is incomplete (interrupted write); it is ignored", path)
     return header, records
+
+
+def _well_formed(obj: Any) -> bool:
+    """A finished point's line: an id, its point, and a result (a dict) or an error (text)."""
+    return (isinstance(obj, dict) and isinstance(obj.get("id"), str) and obj["id"] != ""
+            and isinstance(obj.get("point"), dict)
+            and (isinstance(obj.get("result"), dict) or isinstance(obj.get("error"), str)))
 
 
 def _cut_torn_tail(path: Path) -> None:
@@ -211,9 +222,45 @@ def call_point(function: Callable[[dict], Any], point: dict) -> dict:
         return {"error": f"{type(err).__name__}: {err}{at}"}
 
 
-def _ignore_sigint() -> None:
-    """Pool worker initializer: the coordinating process alone decides when to stop."""
+#: Seconds between two checks of a worker's watchdog that its coordinator is alive.
+WATCHDOG_INTERVAL = 1.0
+_PR_SET_PDEATHSIG = 1
+
+
+def die_with_parent() -> None:
+    """Make this worker process end when the process that started it dies, even by SIGKILL:
+    the kernel's parent-death signal on Linux (``prctl(PR_SET_PDEATHSIG, SIGKILL)``) and, on
+    every system, a watchdog thread that ends the process once its parent is gone (the parent
+    id changes when a process is orphaned). A worker never outlives its coordinator by more
+    than :data:`WATCHDOG_INTERVAL` seconds, nor holds its output pipes open."""
+    parent = os.getppid()
+    try:
+        import ctypes
+
+        libc = ctypes.CDLL(None, use_errno=True)
+        libc.prctl(_PR_SET_PDEATHSIG, int(signal.SIGKILL), 0, 0, 0)
+    except (OSError, AttributeError):  # pragma: no cover - not Linux
+        pass
+    if os.getppid() != parent:  # the parent died before the signal was armed
+        os._exit(1)
+
+    def watch() -> None:
+        while True:
+            time.sleep(WATCHDOG_INTERVAL)
+            if os.getppid() != parent:
+                os._exit(1)
+
+    threading.Thread(target=watch, name="tfa-parent-watchdog", daemon=True).start()
+
+
+def worker_start() -> None:
+    """Initializer of every worker process: it dies with its coordinator, and only the
+    coordinator decides when to stop on Ctrl-C."""
+    die_with_parent()
     signal.signal(signal.SIGINT, signal.SIG_IGN)
+
+
+_ignore_sigint = worker_start  # the name earlier code and tests use
 
 
 class _Serial:
@@ -239,7 +286,7 @@ class _Pool:
         context = multiprocessing.get_context("fork" if os.name == "posix" else "spawn")
         self._cf = cf
         self.executor = cf.ProcessPoolExecutor(max_workers=workers, mp_context=context,
-                                               initializer=_ignore_sigint)
+                                               initializer=worker_start)
 
     def submit(self, function, point):
         return self.executor.submit(call_point, function, point)
@@ -275,10 +322,12 @@ class _Dask:
             self.name = f"dask local cluster ({workers} workers{'' if processes else ', threads'})"
         else:
             try:
-                self.client = Client(scheduler, timeout=30)
-            except OSError as err:
-                raise InputError(f"cannot reach the Dask scheduler at {scheduler!r} ({err}); check the "
-                                 "address (tcp://HOST:PORT) or use --scheduler local") from err
+                self.client = Client(scheduler, timeout=SCHEDULER_TIMEOUT)
+            except Exception as err:  # noqa: BLE001 - Dask raises OSError, TimeoutError, ValueError ...
+                reason = " ".join(str(err).split())[:160] or type(err).__name__
+                raise InputError(f"cannot reach the Dask scheduler at {scheduler!r} ({reason}); "
+                                 "check the address (tcp://HOST:PORT) or use --scheduler local"
+                                 ) from None
             self.workers = max(1, sum(self.client.nthreads().values()))
             self.name = f"dask at {scheduler} ({self.workers} threads)"
 
@@ -418,8 +467,8 @@ def run_points(
         dup = sorted({i for i in ids if ids.count(i) > 1})[:5]
         raise InputError(f"point ids must be unique; repeated: {', '.join(dup)}")
     header = dict(header or {})
-    normal_header = json.loads(_line(header))
 
+    normal_header = json.loads(_line(header))
     done_ids: set[str] = set()
     if path.exists() and path.stat().st_size > 0:
         if resume:
@@ -435,9 +484,6 @@ def run_points(
         elif not overwrite:
             raise InputError(f"{path} already holds results; continue it with --resume, or remove it "
                              "(or pass --overwrite) to start again")
-    if not done_ids:
-        if not (resume and path.exists() and path.stat().st_size > 0):
-            write_text(path, _line({"format": FORMAT, "header": header}) + "\n")
     todo = [dict(p) for p, i in zip(points, ids) if i not in done_ids]
     total = len(ids)
     summary = RunSummary(path, total, len(done_ids), 0)
@@ -445,11 +491,23 @@ def run_points(
         summary.seconds = time.perf_counter() - started
         summary.executor = "none needed"
         return summary
-
+    # the executor (a scheduler's address) is checked before anything is written
     runner = _make_runner(executor, workers, scheduler, dask_processes)
+    try:
+        if not done_ids and not (resume and path.exists() and path.stat().st_size > 0):
+            write_text(path, _line({"format": FORMAT, "header": header}) + "\n")
+        return _run(todo, function, path, runner, summary, progress, max_in_flight, started)
+    finally:
+        runner.close()
+
+
+def _run(todo: list[dict], function, path: Path, runner, summary: RunSummary, progress,
+         max_in_flight, started: float) -> RunSummary:
+    """Compute the points ``todo`` on ``runner``, appending each line as it completes."""
+    total = summary.total
     summary.executor = runner.name
     appender = _Appender(path)
-    finished = len(done_ids)
+    finished = summary.already_done
 
     def record(point: dict, outcome: dict) -> None:
         nonlocal finished
@@ -486,7 +544,6 @@ def run_points(
             summary.interrupted = stop.requested and summary.computed < len(todo)
     finally:
         appender.close()
-        runner.close()
     summary.seconds = time.perf_counter() - started
     return summary
 
