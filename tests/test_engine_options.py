@@ -60,12 +60,25 @@ def test_unknown_energy_policy_changes_no_verdict(prepared, policy):
         assert size_of(tm, options) == README_SIZES[mode], mode
 
 
+@pytest.fixture(scope="module")
+def prepared_glpk():
+    """The same networks prepared afresh for GLPK: a problem that another solver's interface held
+    first (its rows and columns cloned into GLPK's) can leave GLPK's branch and bound searching
+    for minutes where the fresh one answers in seconds (the order sensitivity noted in
+    docs/internals.md)."""
+    model, env = load_bundled_network(), bundled_environment()
+    return {(mode, demand): prepare(model, dataclasses.replace(env, demand_flux=demand), mode)
+            for demand in DEMANDS for mode in MODES}
+
+
 @pytest.mark.parametrize("solver", available_solvers())
 @pytest.mark.parametrize("demand", DEMANDS)
-def test_verdicts_do_not_depend_on_the_demand_scale(prepared, solver, demand):
+def test_verdicts_do_not_depend_on_the_demand_scale(prepared, prepared_glpk, solver, demand):
     # yes/no with both solvers (GLPK proves the bare-chemistry minimum slowly: its size is
     # checked with HiGHS below); the "no" answers are re-asked of the other solver
     options = ProblemOptions(solver=solver, time_limit=120)
+    if solver == "glpk":
+        prepared = prepared_glpk
     for mode in MODES:
         result = feasibility(prepared[mode, demand], options, diagnose=False)
         assert result.feasible == (README_SIZES[mode] == 0), (mode, demand)

@@ -27,7 +27,7 @@ metabolites and the terms within each reaction is restored as well, so the model
 context equals the model before it. A rewrite works inside another's context too (they compose:
 H2 in place of carriers and bare chemistry at once).
 
-The changes of one rewrite are applied as one batch (:class:`_Batch`): new stoichiometries and
+The changes of one rewrite are applied as one batch (:class:`RewriteBatch`): new stoichiometries and
 removed reactions and compounds are set on the cobra objects, then the solver's problem is built
 once from the rewritten network (one row per compound, set in one call), and on leaving the
 context the solver's problem from before is put back as it was. Changing reaction by reaction
@@ -49,273 +49,20 @@ from __future__ import annotations
 
 import contextlib
 import logging
-from collections import defaultdict
-from dataclasses import dataclass, field
-from functools import partial
 from typing import Iterator
 
 import cobra
-import pandas as pd
-from cobra.util.context import get_context
-from cobra.util.solver import linear_reaction_coefficients
-from optlang.symbolics import Zero
 
 from ..errors import InputError
+from ..modes import get_mode
 from ..thermo.balance import check_balance
 from .checks import is_boundary_reaction as is_boundary
+from .rewrite_batch import RewriteBatch, RewriteSummary, exact_context, note_rewrite
 from .roles import NUCLEOTIDE_ROLES, carrier_pairs, formula_and_charge, single_with_role
-from ..modes import get_mode
 
 logger = logging.getLogger(__name__)
 
 _TOL = 1e-9
-
-
-@dataclass
-class RewriteSummary:
-    """What a rewrite did.
-
-    Attributes
-    ----------
-    mode : str
-        The mode (an id of :data:`tfa.modes.MODES`) or the rewrite that made this summary.
-    rewritten : dict
-        Reaction id -> what was done to it (the text also stored in its ``notes['rewritten']``).
-    removed : list
-        Ids of reactions removed from the model (inside the context).
-    blocked : list
-        Ids of reactions whose bounds were set to (0, 0).
-    removed_metabolites : list
-        Ids of compounds removed from the model.
-    """
-
-    mode: str
-    rewritten: dict[str, str] = field(default_factory=dict)
-    removed: list[str] = field(default_factory=list)
-    blocked: list[str] = field(default_factory=list)
-    removed_metabolites: list[str] = field(default_factory=list)
-
-    def to_frame(self) -> pd.DataFrame:
-        """One row per touched reaction: ``reaction``, ``action`` (rewritten/removed/blocked), ``detail``."""
-        rows = []
-        for rid, text in self.rewritten.items():
-            action = "removed" if rid in self.removed else "blocked" if rid in self.blocked else "rewritten"
-            rows.append({"reaction": rid, "action": action, "detail": text})
-        return pd.DataFrame(rows, columns=["reaction", "action", "detail"])
-
-
-# --------------------------------------------------------------------------------------------
-# exact undo
-
-
-def _restore_order(model: cobra.Model, reaction_ids: list[str], metabolite_ids: list[str],
-                   term_order: dict[str, list[str]]) -> None:
-    """Put reactions, metabolites and each reaction's terms back in their saved order."""
-    rpos = {rid: i for i, rid in enumerate(reaction_ids)}
-    model.reactions.sort(key=lambda r: rpos.get(r.id, len(rpos)))
-    mpos = {mid: i for i, mid in enumerate(metabolite_ids)}
-    model.metabolites.sort(key=lambda m: mpos.get(m.id, len(mpos)))
-    for rid, order in term_order.items():
-        if rid not in model.reactions:
-            continue
-        reaction = model.reactions.get_by_id(rid)
-        current = reaction._metabolites  # noqa: SLF001 - reorder only, same keys and values
-        if [m.id for m in current] != order and {m.id for m in current} == set(order):
-            by_id = {m.id: m for m in current}
-            reaction._metabolites = {by_id[mid]: current[by_id[mid]] for mid in order}  # noqa: SLF001
-
-
-@contextlib.contextmanager
-def _exact_context(model: cobra.Model) -> Iterator:
-    """``with model:`` plus restoring of every order, registered first so it runs last."""
-    with model:
-        context = get_context(model)
-        context(partial(_restore_order, model, [r.id for r in model.reactions],
-                        [m.id for m in model.metabolites],
-                        {r.id: [m.id for m in r._metabolites] for r in model.reactions}))  # noqa: SLF001
-        yield context
-
-
-def _note(context, reaction: cobra.Reaction, text: str, summary: RewriteSummary) -> None:
-    """Record ``text`` in ``notes['rewritten']`` (undone with the context) and in the summary."""
-    old = reaction.notes
-    new = dict(old)
-    new["rewritten"] = f"{old['rewritten']}; {text}" if old.get("rewritten") else text
-    context(partial(setattr, reaction, "notes", old))
-    reaction.notes = new
-    summary.rewritten[reaction.id] = text
-
-
-def _replace_contents(items, members: list) -> None:
-    """Set the members of a cobra DictList in one pass (its index rebuilt once)."""
-    list.clear(items)
-    list.extend(items, members)
-    items._generate_index()
-
-
-def _write_terms(terms: dict) -> None:
-    """Give each reaction its terms (reaction -> {metabolite: coefficient}) on the cobra objects,
-    keeping every metabolite's set of reactions in step (no solver change)."""
-    for reaction, new in terms.items():
-        for met in reaction._metabolites:  # noqa: SLF001
-            if met not in new:
-                met._reaction.discard(reaction)  # noqa: SLF001
-        for met in new:
-            met._reaction.add(reaction)  # noqa: SLF001
-        reaction._metabolites = dict(new)  # noqa: SLF001
-
-
-class _Batch:
-    """The changes of one rewrite, applied at once by :meth:`apply` (see the module text).
-
-    ``terms``: reaction -> its new terms; ``removed``: reactions to take out; ``gone``: compounds
-    to take out (after their reactions and terms are gone). Bounds are set through cobra as
-    usual before :meth:`apply` (one variable each, no row rewritten).
-    """
-
-    def __init__(self, model: cobra.Model, context) -> None:
-        self.model = model
-        self.context = context
-        self.terms: dict[cobra.Reaction, dict[cobra.Metabolite, float]] = {}
-        self.removed: list[cobra.Reaction] = []
-        self.gone: list[cobra.Metabolite] = []
-
-    def set_terms(self, reaction: cobra.Reaction, new: dict[cobra.Metabolite, float]) -> None:
-        self.terms[reaction] = {m: c for m, c in new.items() if abs(c) > _TOL}
-
-    def apply(self) -> None:
-        model, context = self.model, self.context
-        if not (self.terms or self.removed or self.gone):
-            return
-        old_solver = model.solver
-        plain = (len(old_solver.variables) == 2 * len(model.reactions)
-                 and len(old_solver.constraints) == len(model.metabolites))
-        objective = {r.id: c for r, c in linear_reaction_coefficients(model).items()}
-        direction = old_solver.objective.direction
-        # the cobra objects
-        before = {r: dict(r._metabolites) for r in self.terms}  # noqa: SLF001
-        _write_terms(self.terms)
-        context(partial(_write_terms, before))
-        removed = set(self.removed)
-        if removed:
-            reactions = list(model.reactions)
-            for r in self.removed:
-                r._model = None  # noqa: SLF001
-                for met in r._metabolites:  # noqa: SLF001
-                    met._reaction.discard(r)  # noqa: SLF001
-            _replace_contents(model.reactions, [r for r in reactions if r not in removed])
-            context(partial(self._put_back_reactions, reactions, list(self.removed)))
-        gone = set(self.gone)
-        if gone:
-            metabolites = list(model.metabolites)
-            for met in self.gone:
-                met._model = None  # noqa: SLF001
-            _replace_contents(model.metabolites, [m for m in metabolites if m not in gone])
-            context(partial(self._put_back_metabolites, metabolites, list(self.gone)))
-        if not plain:
-            # the solver carries more than the network (another problem's rows and columns):
-            # change it in place, one call per row, and take out the removed columns and rows
-            self._change_in_place(old_solver, before, removed, gone)
-            return
-        model._solver = _solver_of(model, old_solver, objective, direction)  # noqa: SLF001
-        context(partial(setattr, model, "_solver", old_solver))
-
-    def _put_back_reactions(self, reactions: list, removed: list) -> None:
-        for r in removed:
-            r._model = self.model  # noqa: SLF001
-            for met in r._metabolites:  # noqa: SLF001
-                met._reaction.add(r)  # noqa: SLF001
-        _replace_contents(self.model.reactions, reactions)
-
-    def _put_back_metabolites(self, metabolites: list, gone: list) -> None:
-        for met in gone:
-            met._model = self.model  # noqa: SLF001
-        _replace_contents(self.model.metabolites, metabolites)
-
-    def _change_in_place(self, solver, before: dict, removed: set, gone: set) -> None:
-        rows = _row_changes(self.terms, before)
-        undo = _row_changes(before, self.terms)
-        _set_row_coefficients(solver, rows)
-        self.context(partial(_set_row_coefficients, solver, undo))
-        columns = [solver.variables[name] for r in removed for name in (r.id, r.reverse_id)]
-        constraints = [solver.constraints[m.id] for m in gone if m.id in solver.constraints]
-        if columns or constraints:
-            bounds = [(v.name, v.lb, v.ub) for v in columns]
-            terms = {r: dict(r._metabolites) for r in removed}  # noqa: SLF001
-            solver.remove(constraints + columns)
-            self.context(partial(_restore_rows_and_columns, solver, constraints, columns, bounds,
-                                 terms))
-
-
-def _row_changes(target: dict, current: dict) -> dict:
-    """Per compound row: {column name: coefficient} turning ``current`` terms into ``target``."""
-    rows: dict[str, dict[str, float]] = defaultdict(dict)
-    for reaction, new in target.items():
-        old = current.get(reaction, {})
-        for met in set(old) | set(new):
-            c = new.get(met, 0.0)
-            if met in new and met in old and old[met] == c:
-                continue
-            rows[met.id][reaction.id] = c
-            rows[met.id][reaction.reverse_id] = -c
-    return rows
-
-
-def _set_row_coefficients(solver, rows: dict) -> None:
-    """One call per row."""
-    solver.update()
-    for row, coefficients in rows.items():
-        if row in solver.constraints:
-            solver.constraints[row].set_linear_coefficients(
-                {solver.variables[name]: c for name, c in coefficients.items()
-                 if name in solver.variables})
-
-
-def _restore_rows_and_columns(solver, constraints: list, columns: list, bounds: list,
-                              terms: dict) -> None:
-    solver.add(columns)
-    solver.add(constraints, sloppy=True)
-    for name, lb, ub in bounds:
-        solver.variables[name].set_bounds(lb, ub)
-    _set_row_coefficients(solver, _row_changes(terms, {}))
-
-
-def _solver_of(model: cobra.Model, template, objective: dict[str, float], direction: str):
-    """A new solver problem of the network as it now is, with ``template``'s interface and
-    configuration: a column pair per reaction (cobra's forward and reverse variables, same
-    names), a row per compound (steady state), each row set in one call; the objective from
-    ``objective`` (reaction id -> coefficient)."""
-    interface = template.interface
-    solver = interface.Model()
-    solver.configuration = interface.Configuration.clone(template.configuration, problem=solver)
-    columns = {}
-    for r in model.reactions:
-        lb, ub = r.lower_bound, r.upper_bound
-        columns[r.id] = interface.Variable(r.id, lb=max(lb, 0.0), ub=max(ub, 0.0))
-        columns[r.reverse_id] = interface.Variable(r.reverse_id, lb=max(-ub, 0.0), ub=max(-lb, 0.0))
-    solver.add(list(columns.values()))
-    rows = [interface.Constraint(Zero, name=m.id, lb=0, ub=0) for m in model.metabolites]
-    solver.add(rows, sloppy=True)
-    solver.update()
-    terms: dict[str, dict] = defaultdict(dict)
-    for r in model.reactions:
-        forward, reverse = columns[r.id], columns[r.reverse_id]
-        for met, c in r._metabolites.items():  # noqa: SLF001
-            terms[met.id][forward] = c
-            terms[met.id][reverse] = -c
-    for row in rows:
-        if terms.get(row.name):
-            row.set_linear_coefficients(terms[row.name])
-    solver.objective = interface.Objective(Zero, direction=direction, sloppy=True)
-    coefficients = {}
-    for r in model.reactions:
-        if objective.get(r.id):
-            coefficients[columns[r.id]] = objective[r.id]
-            coefficients[columns[r.reverse_id]] = -objective[r.id]
-    if coefficients:
-        solver.objective.set_linear_coefficients(coefficients)
-    solver.update()
-    return solver
 
 
 def _is_empty(stoichiometry: dict[cobra.Metabolite, float], inert: set[str]) -> bool:
@@ -333,7 +80,7 @@ def _fmt(value: float) -> str:
 
 
 def _finish(model: cobra.Model, summary: RewriteSummary, remove: list[cobra.Reaction],
-            gone: set[cobra.Metabolite], label: str, context, batch: _Batch) -> None:
+            gone: set[cobra.Metabolite], label: str, context, batch: RewriteBatch) -> None:
     """Drop the given compounds from boundary reactions, remove reactions and compounds: the
     whole batch applied at once."""
     remove_ids = {r.id for r in remove}
@@ -346,10 +93,10 @@ def _finish(model: cobra.Model, summary: RewriteSummary, remove: list[cobra.Reac
         if len(present) == len(reaction.metabolites):
             remove.append(reaction)
             remove_ids.add(reaction.id)
-            _note(context, reaction, f"{label}: boundary reaction of {', '.join(m.id for m in present)} removed", summary)
+            note_rewrite(context, reaction, f"{label}: boundary reaction of {', '.join(m.id for m in present)} removed", summary)
         else:
             batch.set_terms(reaction, {m: c for m, c in reaction.metabolites.items() if m not in gone})
-            _note(context, reaction, f"{label}: {', '.join(m.id for m in present)} dropped", summary)
+            note_rewrite(context, reaction, f"{label}: {', '.join(m.id for m in present)} dropped", summary)
     for reaction in model.reactions:   # any other term of a removed compound goes with it
         if reaction.id in remove_ids:
             continue
@@ -403,8 +150,8 @@ def h2_only(model: cobra.Model) -> Iterator[RewriteSummary]:
     'h + nadh + pyr --> lac + nad'
     """
     summary = RewriteSummary("h2_only")
-    with _exact_context(model) as context:
-        batch = _Batch(model, context)
+    with exact_context(model) as context:
+        batch = RewriteBatch(model, context)
         pairs = carrier_pairs(model)
         carriers = {p.reduced for p in pairs.values()} | {p.oxidised for p in pairs.values()}
         h2 = single_with_role(model, "h2", ("h2",))
@@ -434,7 +181,7 @@ def h2_only(model: cobra.Model) -> Iterator[RewriteSummary]:
                              f"{pair.electrons} e-)")
             if unbalanced_pair is not None:
                 remove.append(reaction)
-                _note(context, reaction, f"h2_only: removed, it makes or uses up carrier "
+                note_rewrite(context, reaction, f"h2_only: removed, it makes or uses up carrier "
                       f"{unbalanced_pair.pair} ({unbalanced_pair.reduced.id}/{unbalanced_pair.oxidised.id})",
                       summary)
                 continue
@@ -454,11 +201,11 @@ def h2_only(model: cobra.Model) -> Iterator[RewriteSummary]:
             new = {m: round(c, 12) for m, c in new.items() if abs(c) > _TOL}
             if _is_empty(new, inert):
                 remove.append(reaction)
-                _note(context, reaction, "h2_only: removed, only regenerates carriers ("
+                note_rewrite(context, reaction, "h2_only: removed, only regenerates carriers ("
                       + ", ".join(parts) + " becomes nothing)", summary)
                 continue
             batch.set_terms(reaction, new)
-            _note(context, reaction, "h2_only: " + ", ".join(parts) + f" replaced by {_fmt(h2_change)} H2"
+            note_rewrite(context, reaction, "h2_only: " + ", ".join(parts) + f" replaced by {_fmt(h2_change)} H2"
                   + (f", H+ {_fmt(proton_change)}" if abs(proton_change) > _TOL else ""), summary)
         _finish(model, summary, remove, carriers, "h2_only", context, batch)
         logger.info("h2_only: %d reactions rewritten, %d removed", len(summary.rewritten) - len(summary.removed),
@@ -484,8 +231,8 @@ def no_atp_strict(model: cobra.Model) -> Iterator[RewriteSummary]:
     dropped from it, and noted) rather than being blocked.
     """
     summary = RewriteSummary("no_atp_strict")
-    with _exact_context(model) as context:
-        batch = _Batch(model, context)
+    with exact_context(model) as context:
+        batch = RewriteBatch(model, context)
         nucleotides = set(nucleotide_metabolites(model).values())
         for reaction in model.reactions:
             present = sorted(m.id for m in reaction.metabolites if m in nucleotides)
@@ -495,11 +242,11 @@ def no_atp_strict(model: cobra.Model) -> Iterator[RewriteSummary]:
                 # a demand of several compounds: ask for the others only
                 batch.set_terms(reaction, {m: c for m, c in reaction.metabolites.items()
                                            if m not in nucleotides})
-                _note(context, reaction, f"no_atp_strict: {', '.join(present)} dropped", summary)
+                note_rewrite(context, reaction, f"no_atp_strict: {', '.join(present)} dropped", summary)
                 continue
             reaction.bounds = (0.0, 0.0)
             summary.blocked.append(reaction.id)
-            _note(context, reaction, f"no_atp_strict: blocked, needs {', '.join(present)}", summary)
+            note_rewrite(context, reaction, f"no_atp_strict: blocked, needs {', '.join(present)}", summary)
         batch.apply()
         logger.info("no_atp_strict: %d reactions blocked", len(summary.blocked))
         yield summary
@@ -571,8 +318,8 @@ def no_atp_bare_chemistry(model: cobra.Model) -> Iterator[RewriteSummary]:
     ac + h + pi --> actp + h2o
     """
     summary = RewriteSummary("no_atp_bare")
-    with _exact_context(model) as context:
-        batch = _Batch(model, context)
+    with exact_context(model) as context:
+        batch = RewriteBatch(model, context)
         nucleotides = nucleotide_metabolites(model)
         role_of = {met: role for role, met in nucleotides.items()}
         water = single_with_role(model, "water", ("h2o", "h2o_c"))
@@ -590,7 +337,7 @@ def no_atp_bare_chemistry(model: cobra.Model) -> Iterator[RewriteSummary]:
                                              a.get("pyrophosphate", 0.0))
             except InputError:
                 remove.append(reaction)
-                _note(context, reaction, "no_atp_bare: removed, it makes or uses up adenine nucleotides",
+                note_rewrite(context, reaction, "no_atp_bare: removed, it makes or uses up adenine nucleotides",
                       summary)
                 continue
             for role, met in (("water", water), ("phosphate", phosphate)):
@@ -619,11 +366,11 @@ def no_atp_bare_chemistry(model: cobra.Model) -> Iterator[RewriteSummary]:
                     new = {m: c for m, c in new.items() if abs(c) > _TOL}
             if _is_empty(new, inert):
                 remove.append(reaction)
-                _note(context, reaction, f"no_atp_bare: removed, a nucleotide interconversion ({used} "
+                note_rewrite(context, reaction, f"no_atp_bare: removed, a nucleotide interconversion ({used} "
                       "leaves nothing)", summary)
                 continue
             batch.set_terms(reaction, new)
-            _note(context, reaction, f"no_atp_bare: {used}", summary)
+            note_rewrite(context, reaction, f"no_atp_bare: {used}", summary)
         _finish(model, summary, remove, set(nucleotides.values()), "no_atp_bare", context, batch)
         logger.info("no_atp_bare: %d reactions rewritten, %d removed",
                     len(summary.rewritten) - len(summary.removed), len(summary.removed))
@@ -635,7 +382,7 @@ def native(model: cobra.Model) -> Iterator[RewriteSummary]:
     """Carriers and adenine nucleotides stay internal: block their exchanges (one-compound boundary
     reactions), so the network must regenerate them; a demand that includes them is kept."""
     summary = RewriteSummary("native")
-    with _exact_context(model) as context:
+    with exact_context(model) as context:
         internal = set(nucleotide_metabolites(model).values())
         for pair in carrier_pairs(model).values():
             internal |= {pair.reduced, pair.oxidised}
@@ -644,7 +391,7 @@ def native(model: cobra.Model) -> Iterator[RewriteSummary]:
             if present and is_boundary(reaction) and len(reaction.metabolites) == 1:
                 reaction.bounds = (0.0, 0.0)
                 summary.blocked.append(reaction.id)
-                _note(context, reaction, f"native: blocked, {', '.join(present)} must be regenerated inside",
+                note_rewrite(context, reaction, f"native: blocked, {', '.join(present)} must be regenerated inside",
                       summary)
         yield summary
 
