@@ -164,6 +164,10 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("h2_range", "the H2 range searched, [low, high] (unit: h2_unit)", ""),
     ("robustness", "feasibility over the draws of the energies, per mode", ""),
     ("notes", "what could not be computed and why, relaxations made", ""),
+    ("not_applicable", "per mode that cannot be asked of the network, why (a role it lacks)", ""),
+    ("constrained", "per mode, reactions with an energy (with_energy) of the internal reactions "
+                    "(reactions); the rest run without a thermodynamic constraint", ""),
+    ("warnings", "the warnings of the run, each once", ""),
     ("summary", "the answer in plain sentences", ""),
     ("timings_s", "seconds per step", "s"),
     ("steps", "the steps that ran, in order", ""),
@@ -232,4 +236,13 @@ OPTIONS: dict[str, Option] = {
                   "no files)", None, "DIR"),
     "seed": Option(("--seed",), "seed of the draws of the energies (default %(default)s)", 0, "S"),
     "draws": Option(("--draws",), "draws of the energies per mode (default %(default)s)", 100, "N"),
+    "h2": Option(("--h2",), "the network's H2 compound (metabolite id), when no compound has the "
+                 "role h2 (default: the compound with that role, declared or inferred)", None, "ID"),
+    "demand": Option(("--demand",), "the demand reaction (reaction id), when the environment names "
+                     "none (default: the environment's [demand]; for SBML and cobra JSON without "
+                     "an environment, the model's objective)", None, "ID"),
+    "identifiers": Option(("--identifiers",), "your table of identifiers (compound, thermo_key): "
+                          "which compound of the thermodynamic data each metabolite is, over the "
+                          "matches made from annotations (default: identifiers.tsv beside the "
+                          "network)", None, "FILE"),
 }

@@ -57,20 +57,29 @@ def main(argv: list[str] | None = None) -> int:
     if not getattr(args, "command", None):
         parser.print_help()
         return 2
-    level = logging.WARNING
-    if getattr(args, "verbose", False):
-        level = logging.INFO
-    if getattr(args, "quiet", False):
-        level = logging.ERROR
-    logging.basicConfig(level=level, format="%(levelname)s: %(message)s")
+    from .warnings_table import BelowWarnings, collected_warnings
+
+    quiet, verbose = bool(getattr(args, "quiet", False)), bool(getattr(args, "verbose", False))
+    level = logging.ERROR if quiet else logging.INFO if verbose else logging.WARNING
+    root = logging.getLogger()
+    saved_level = root.level
+    root.setLevel(level)
+    printer = logging.StreamHandler()   # info (verbose) and errors; warnings go to one table
+    printer.setFormatter(logging.Formatter("%(levelname)s: %(message)s"))
+    printer.addFilter(BelowWarnings())
+    root.addHandler(printer)
     try:
-        return int(args.run(args) or 0)
+        with collected_warnings(quiet, verbose):
+            return int(args.run(args) or 0)
     except TfaError as err:
         print(f"tfa {args.command}: error: {err}", file=sys.stderr)
         return err.exit_code
     except KeyboardInterrupt:
         print(f"tfa {args.command}: interrupted; files already written are complete", file=sys.stderr)
         return 1
+    finally:
+        root.removeHandler(printer)
+        root.setLevel(saved_level)
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -36,6 +36,25 @@ def is_boundary_reaction(reaction: cobra.Reaction) -> bool:
     return bool(coefficients) and (all(c < 0 for c in coefficients) or all(c > 0 for c in coefficients))
 
 
+def balance_problem(reaction: cobra.Reaction) -> str:
+    """What is off in the balance of a reaction ("" when it balances, is a boundary reaction,
+    or a compound has no formula to check it with).
+
+    >>> r = cobra.Reaction("R"); r.add_metabolites({cobra.Metabolite("a", formula="CO2", charge=0): -1,
+    ...                                              cobra.Metabolite("b", formula="CHO2", charge=-1): 1})
+    >>> print(balance_problem(r))   # CO2 -> formate is short of H2 (formate dehydrogenase)
+    charge is off by -2 beyond what H+ exchange explains (charge residual -1, H residual +1): the products carry 2 more electrons than the reactants; add 1 H2 to the reactants (or a carrier's reduced form there)
+    """
+    if is_boundary_reaction(reaction):
+        return ""
+    try:
+        formulas = {m.id: formula_and_charge(m) for m in reaction.metabolites}
+    except InputError:
+        return ""
+    report = check_balance({m.id: c for m, c in reaction.metabolites.items()}, formulas)
+    return "" if report.ok else report.message
+
+
 def balance_report(model: cobra.Model, include_boundary: bool = False) -> pd.DataFrame:
     """One row per reaction: is it balanced, how many H+ are implicit, what is off.
 

@@ -91,6 +91,10 @@ class Environment:
         Compound keys that may leave the network through their exchange.
     source : str
         The file read, or empty.
+    network_exchanges : bool
+        Keep the flux bounds the network file gives its boundary reactions (every exchange open
+        within them; the neutral default of :mod:`tfa.network.default_environment`) instead of
+        opening only fed compounds, water, H+ and outlets.
     """
 
     name: str
@@ -103,6 +107,7 @@ class Environment:
     outlets: tuple[str, ...] = ()
     description: str = ""
     source: str = ""
+    network_exchanges: bool = False
 
     # ---------------------------------------------------------------- reading
 
@@ -364,6 +369,9 @@ class Environment:
         result: dict[str, tuple[float, float]] = {}
         for reaction in model.reactions:
             if not is_boundary_reaction(reaction) or reaction.id == self.demand_reaction:
+                continue
+            if self.network_exchanges:
+                result[reaction.id] = reaction.bounds
                 continue
             if len(reaction.metabolites) == 1:
                 met, coefficient = next(iter(reaction.metabolites.items()))

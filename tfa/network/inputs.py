@@ -19,7 +19,9 @@ import pandas as pd
 
 from ..errors import InputError
 from .bundled import bundled_environment_path, bundled_folder
+from .default_environment import neutral_environment, with_demand
 from .environment import Environment
+from .io_sbml import TABLE_SUFFIXES
 from .io_sbml import load_network as read_any
 from .io_table import reaction_values_beside
 
@@ -41,6 +43,9 @@ class Inputs:
         The network's own table of reaction values, when there is one.
     network_folder : Path or None
         The folder of the network's files.
+    completion : NetworkCompletion or None
+        The identifier mapping, roles and warnings filled in on reading
+        (:func:`tfa.network.completion.complete_network`).
     """
 
     model: cobra.Model
@@ -49,6 +54,7 @@ class Inputs:
     environment_source: str
     literature_path: Path | None = None
     network_folder: Path | None = None
+    completion: Any = None
 
     def network_sources(self) -> pd.DataFrame | None:
         """The network's own ``sources.tsv`` (or ``.csv``) beside its reactions table, if any."""
@@ -69,6 +75,8 @@ def default_environment_path(network: str | Path | None) -> Path | None:
 
 def resolve_inputs(network: Any = None, environment: Any = None,
                    compounds: str | Path | None = None, require_balanced: bool = True,
+                   h2: str | None = None, demand: str | None = None,
+                   identifiers: str | Path | None = None,
                    **conditions: float | None) -> Inputs:
     """Read the network and the environment as ``tfa`` resolves them everywhere.
 
@@ -77,11 +85,18 @@ def resolve_inputs(network: Any = None, environment: Any = None,
     network : None, path or cobra.Model
         None: the bundled network; a path: reactions table, folder, SBML or cobra JSON.
     environment : None, path or Environment
-        None: ``environment.toml`` beside the network, else the bundled one.
+        None: ``environment.toml`` beside the network; for a network without one, the neutral
+        default built from it (:mod:`tfa.network.default_environment`); for the bundled
+        network, its own.
     compounds : path, optional
         Compounds table, when not ``compounds.tsv`` beside the reactions table.
     require_balanced : bool
         Refuse unbalanced reactions (the checker reads them anyway to report them).
+    h2, demand : str, optional
+        The H2 compound and the demand reaction (``--h2``, ``--demand``), when no role or
+        environment names them.
+    identifiers : path, optional
+        The user's table of identifiers (default ``identifiers.tsv`` beside the network).
     conditions : float
         ``celsius`` [degC], ``ph``, ``ionic_strength`` [mol/L], ``pressure`` [bar], ``pmg``:
         overrides of the environment's conditions (None: keep).
@@ -111,16 +126,20 @@ def resolve_inputs(network: Any = None, environment: Any = None,
         folder = _network_folder(path)
         literature = reaction_values_beside(folder / "reactions.tsv")
         network_source = str(path)
-        default_env = default_environment_path(path) or bundled_environment_path()
+        default_env = default_environment_path(path)
     elif isinstance(network, cobra.Model):
         model = network
         path = (model.notes or {}).get("reaction_values_path")
         literature = Path(path) if path else None
         network_source = f"cobra model {model.id}"
-        default_env = bundled_environment_path()
+        default_env = None
     else:
         raise InputError(f"network: expected a path or a cobra.Model, got {type(network).__name__}")
-    if environment is None or isinstance(environment, (str, Path)):
+    completion = _complete(model, network, identifiers, h2)
+    if environment is None and default_env is None:
+        env = neutral_environment(model, demand)
+        env_source = "built from the network"
+    elif environment is None or isinstance(environment, (str, Path)):
         env_path = Path(environment) if environment is not None else default_env
         env = Environment.from_toml(env_path)
         env_source = str(env_path)
@@ -130,10 +149,28 @@ def resolve_inputs(network: Any = None, environment: Any = None,
     else:
         raise InputError(f"environment: expected a path or an Environment, got "
                          f"{type(environment).__name__}")
+    if demand is not None and env.demand_reaction != demand:
+        env = with_demand(env, model, demand)
     changes = {k: v for k, v in conditions.items() if v is not None}
     if changes:
         env = env.with_conditions(**changes)
-    return Inputs(model, env, network_source, env_source, literature, folder)
+    return Inputs(model, env, network_source, env_source, literature, folder, completion)
+
+
+def _complete(model: cobra.Model, network: Any, identifiers: str | Path | None, h2: str | None):
+    """:func:`tfa.network.completion.complete_network` as the inputs call it."""
+    from ..thermo.database import ThermoDatabase
+    from .completion import complete_network
+    from .identifiers import identifier_table_beside
+
+    path = Path(network) if isinstance(network, (str, Path)) else None
+    from_table = network is None or (path is not None and (
+        path.is_dir() or path.suffix.lower() in TABLE_SUFFIXES))
+    table = identifiers if identifiers is not None else identifier_table_beside(path)
+    if identifiers is not None and not Path(identifiers).is_file():
+        raise InputError(f"{identifiers}: no such identifiers table; give the path of a table "
+                         "with columns compound and thermo_key")
+    return complete_network(model, ThermoDatabase.load(), from_table, table, h2)
 
 
 def load_network(path: str | Path | None = None, compounds: str | Path | None = None,

@@ -234,7 +234,7 @@ class ThermoProblem:
                 vals.append(float(coef))
         self.stoich = (np.array(rows, int), np.array(cols, int), np.array(vals, float))
 
-        boundary = {r.id for r in model.boundary}
+        boundary = {r.id for r in model.boundary} | ({tm.demand_id} if tm.demand_id else set())
         self.energy_ids = []
         self.unknown_energy_ids = []
         for r in self.reactions:

@@ -64,8 +64,24 @@ def quantity(value: float, unit: str) -> str:
     return f"{value:.2e} {unit}"
 
 
+def constrained_words(with_energy: int, total: int) -> str:
+    """How much of a verdict thermodynamics constrains ("" when every reaction has an energy).
+
+    >>> constrained_words(63, 74)
+    'thermodynamically constrained: 63 of 74 reactions; the rest unconstrained'
+    >>> constrained_words(10, 74)
+    'mostly flux balance: thermodynamically constrained: 10 of 74 reactions; the rest unconstrained'
+    """
+    if with_energy >= total:
+        return ""
+    text = (f"thermodynamically constrained: {with_energy} of {counted(total, 'reaction')}; the "
+            "rest unconstrained")
+    return ("mostly flux balance: " + text) if 2 * with_energy < total else text
+
+
 def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]] | None = None,
-              demand_impossible: bool = False, undetermined: str = "") -> str:
+              demand_impossible: bool = False, undetermined: str = "", not_applicable: str = "",
+              constrained: str = "") -> str:
     """The answer of one mode in a sentence.
 
     Parameters
@@ -78,6 +94,10 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
         Minimal uphill sets found (alternatives of the same size).
     demand_impossible : bool
         The demand cannot be met even ignoring thermodynamics.
+    not_applicable : str
+        Why the question cannot be asked of this network (then no verdict is given).
+    constrained : str
+        :func:`constrained_words`, appended in brackets.
 
     Examples
     --------
@@ -85,7 +105,14 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
     'runs without ATP: no; three steps must be driven uphill: fdh, mtr, acs (or, as an alternative set of the same size: fdh, mtr, pfor)'
     >>> mode_line("runs without ATP", False, demand_impossible=True)
     'runs without ATP: no (the demand cannot be met even ignoring thermodynamics)'
+    >>> mode_line("runs without ATP", None, not_applicable="no ATP in this network")
+    'runs without ATP: not applicable (no ATP in this network)'
     """
+    if not_applicable:
+        return f"{question}: not applicable ({not_applicable})"
+    if constrained:
+        return mode_line(question, feasible, sets, demand_impossible, undetermined) + \
+            f" ({constrained})"
     if feasible is None:
         return f"{question}: undetermined (the solver gave no proven answer)" + (
             f"; {undetermined}" if undetermined else "")
