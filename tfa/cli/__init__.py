@@ -29,6 +29,7 @@ COMMANDS: dict[str, str] = {
     "driving-force": "cmd_driving_force",
     "census": "cmd_census",
     "estimate": "cmd_estimate",
+    "new-network": "cmd_new_network",
     "robustness": "cmd_robustness",
     "map": "cmd_map",
 }
