@@ -136,6 +136,17 @@ def network_sources(model: cobra.Model) -> dict:
     return {}
 
 
+def unknown_thermo_key(model: cobra.Model, metabolite_id: str, key: str,
+                       matches: Sequence[str] = ()) -> str:
+    """The error of a ``thermo_key`` the data do not know, naming where the compound is defined."""
+    from .locations import located
+
+    return located(model, "compound", metabolite_id, (
+        f"compound '{metabolite_id}': thermo_key '{key}' is not in the thermodynamic database"
+        + (f"; did you mean {', '.join(matches)}?" if matches else "")
+        + " Fix the key or leave it empty to use literature values or an estimate"))
+
+
 def _metabolite_species(met: cobra.Metabolite) -> UnknownSpecies:
     try:
         counts, charge = parse_formula(met.formula or "", where=f"compound '{met.id}'")
@@ -207,10 +218,7 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
         try:
             compound = db.compound(key)
         except UnknownCompoundError as err:
-            raise NetworkFileError(
-                f"compound '{met.id}': thermo_key '{key}' is not in the thermodynamic database"
-                + (f"; did you mean {', '.join(err.matches)}?" if err.matches else "")
-                + " Fix the key or leave it empty to use literature values or an estimate") from err
+            raise NetworkFileError(unknown_thermo_key(model, met.id, key, err.matches)) from err
         if compound.has_data:
             keyed[met.id] = compound.id
         else:

@@ -60,6 +60,7 @@ def read_sbml(path: str | Path) -> cobra.Model:
     except Exception as exc:  # cobra raises its own CobraSBMLError and IOError variants
         raise NetworkFileError(f"{path}: cannot read SBML ({exc}); check that it is valid SBML level 2 or 3") from exc
     _normalise(model)
+    model.notes["model_path"] = str(path)   # where errors found later point to
     return model
 
 
@@ -82,6 +83,7 @@ def read_cobra_json(path: str | Path) -> cobra.Model:
     except Exception as exc:  # JSON and schema errors
         raise NetworkFileError(f"{path}: cannot read the cobra JSON model ({exc}); check the file") from exc
     _normalise(model)
+    model.notes["model_path"] = str(path)
     return model
 
 

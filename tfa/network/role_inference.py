@@ -19,6 +19,7 @@ most compounds) takes the role; two candidates in that compartment leave the rol
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass, field
 
 import cobra
@@ -218,3 +219,41 @@ def not_applicable_reason(missing: list[str]) -> str:
     if "h2" in missing:
         text += "; name the H2 compound with --h2 ID"
     return text
+
+
+def check_roles(model: cobra.Model) -> None:
+    """The roles as the modes will use them: readable, one compound per simple role, carrier
+    pairs complete and consistent (:func:`tfa.network.roles.carrier_pairs`).
+
+    Raises
+    ------
+    InputError
+        Naming the file and line of the compound at fault (when the model keeps its files).
+    """
+    from .locations import located
+    from .roles import parse_role
+
+    holders: dict[str, list[str]] = {}
+    pairs: dict[str, list[str]] = {}
+    for met in model.metabolites:
+        try:
+            role = parse_role((met.notes or {}).get("role"), where=f"compound '{met.id}'")
+        except InputError as err:
+            raise InputError(located(model, "compound", met.id, str(err))) from err
+        if isinstance(role, CarrierRole):
+            pairs.setdefault(role.pair, []).append(met.id)
+        elif role is not None:
+            holders.setdefault(role, []).append(met.id)
+    for role, ids in holders.items():
+        if len(ids) > 1:
+            raise InputError(located(model, "compound", ids[1], (
+                f"compounds {', '.join(ids)} all have role '{role}'; give the role to one compound "
+                "only")))
+    try:
+        carrier_pairs(model)
+    except InputError as err:
+        text = str(err)
+        ids = next((ids for pair, ids in pairs.items() if f"'{pair}'" in text), [])
+        named = sorted((m.start(), i) for i in ids for m in [re.search(rf"\b{re.escape(i)}\b", text)] if m)
+        culprit = named[0][1] if named else (ids[0] if ids else None)
+        raise InputError(located(model, "compound", culprit, text) if culprit else text) from err
