@@ -245,3 +245,31 @@ def test_inspect_finds_every_input_error_feasible_finds_with_the_same_message(tm
                 assert re.search(rf"\bline {word[9:-1]}\b", message), (k, message)
                 continue
             assert word in message, (k, word, message)
+
+
+# ------------------------------------------------------------------ estimates everywhere
+@pytest.mark.parametrize("name, where", [("prpp", "compound 'prpp' of network ancestral_core"),
+                                         ("orotate", "compound 'orot' of network ancestral_core"),
+                                         ("CC(=O)C(=O)[O-]", "structure given")])
+def test_estimate_takes_any_compound_of_the_bundled_network_and_a_smiles(name, where, capsys):
+    assert main(["estimate", name, "--json"]) == 0
+    payload = json.loads(capsys.readouterr().out)
+    assert payload["resolved_from"] == where
+    # the same structure estimated directly: the command adds nothing of its own
+    from tfa.thermo.estimates import estimate_species
+
+    assert payload["G_kJ"] == pytest.approx(estimate_species(payload["smiles"]).G, abs=1e-9)
+
+
+def test_estimate_of_a_compound_of_ones_own_network(textbook_sbml, capsys):
+    # atp_c has no structure in the SBML; its annotation names ATP, whose species have one
+    assert main(["estimate", "atp_c", "--network", str(textbook_sbml)]) == 0
+    out = capsys.readouterr().out
+    assert out.startswith("atp_c  (compound 'atp_c' of network e_coli_core, thermo key ATP")
+    for section in ("groups:", "ionisable sites (pKa rules):"):
+        body = out.split(section + "\n")[1].splitlines()
+        listed = [line.split(None, 1)[1] for line in
+                  body[:next(k for k, line in enumerate(body) if not line.startswith("  "))]]
+        assert listed and len(listed) == len(set(listed)), section   # each once, with its count
+    assert main(["estimate", "pyruvat"]) == 2
+    assert "did you mean pyruvate" in capsys.readouterr().err

@@ -236,6 +236,10 @@ OPTIONS: dict[str, Option] = {
                   "no files)", None, "DIR"),
     "seed": Option(("--seed",), "seed of the draws of the energies (default %(default)s)", 0, "S"),
     "draws": Option(("--draws",), "draws of the energies per mode (default %(default)s)", 100, "N"),
+    "network_data": Option(("--network",), "a network (reactions table or folder, SBML or cobra "
+                           "JSON) whose own data and compound names are used instead of the "
+                           "library's (species data, its reaction_values.tsv, estimates)", None,
+                           "PATH"),
     "h2": Option(("--h2",), "the network's H2 compound (metabolite id), when no compound has the "
                  "role h2 (default: the compound with that role, declared or inferred)", None, "ID"),
     "demand": Option(("--demand",), "the demand reaction (reaction id), when the environment names "

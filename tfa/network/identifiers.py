@@ -265,3 +265,19 @@ def map_identifiers(model: cobra.Model, database, overrides: str | Path | None =
         met.notes = notes
         mapping.matches.append(match)
     return mapping
+
+
+def find_metabolite(model: cobra.Model, name: str) -> cobra.Metabolite | None:
+    """The metabolite called ``name``: its id, else (any case) its id, name, a synonym or its
+    ``thermo_key``; None when none or several are."""
+    if name in model.metabolites:
+        return model.metabolites.get_by_id(name)
+    wanted = " ".join(str(name).split()).lower()
+    found = []
+    for met in model.metabolites:
+        notes = met.notes or {}
+        names = {met.id, met.name or "", str(notes.get("thermo_key") or "")}
+        names |= {x for x in str(notes.get("synonyms") or "").split(";")}
+        if wanted in {" ".join(n.split()).lower() for n in names if n.strip()}:
+            found.append(met)
+    return found[0] if len(found) == 1 else None
