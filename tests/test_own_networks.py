@@ -117,6 +117,20 @@ def test_textbook_sbml_gets_energies_through_its_annotations(textbook_sbml, caps
     assert payload["not_applicable"]["h2_only"].startswith("no H2 in this network")
 
 
+def test_textbook_cobra_json_is_matched_as_its_sbml(textbook_sbml, tmp_path, capsys):
+    import cobra
+
+    path = tmp_path / "e_coli_core.json"
+    cobra.io.save_json_model(cobra.io.load_model("textbook"), str(path))
+    energies = {}
+    for model in (textbook_sbml, path):
+        assert main(["inspect", str(model), "--json"]) == 0
+        payload = json.loads(capsys.readouterr().out)
+        energies[model.suffix] = {r["reaction"]: r["delta_g_standard_kJ_per_mol"]
+                                  for r in payload["reactions"]}
+    assert energies[".json"] == pytest.approx(energies[".xml"], nan_ok=True)
+
+
 def test_textbook_sbml_without_environment_says_so_and_what_does_not_apply(textbook_sbml, capsys):
     assert main(["feasible", str(textbook_sbml)]) == 0
     captured = capsys.readouterr()

@@ -167,7 +167,6 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("not_applicable", "per mode that cannot be asked of the network, why (a role it lacks)", ""),
     ("constrained", "per mode, reactions with an energy (with_energy) of the internal reactions "
                     "(reactions); the rest run without a thermodynamic constraint", ""),
-    ("warnings", "the warnings of the run, each once", ""),
     ("summary", "the answer in plain sentences", ""),
     ("timings_s", "seconds per step", "s"),
     ("steps", "the steps that ran, in order", ""),

@@ -65,7 +65,9 @@ class FeasibilityStep(Step):
                                 for m in result if not reasons[m]}}
 
     def sections(self, result: dict[str, FeasibilityResult], ctx: RunContext) -> list[Section]:
-        modes = "; ".join(f"{m}: {MODES[m].description}" for m in result)
+        modes = "; ".join(f"{m}: {MODES[m].description}" + (
+            f" Not applicable to this network: {ctx.not_applicable(m)}." if ctx.not_applicable(m)
+            else "") for m in result)
         return [Section(self.title, modes, tables=[("feasibility", "Feasibility per mode")]),
                 Section("Minimal uphill sets",
                         "The fewest reactions that must run against their gradient (coupled to an "
