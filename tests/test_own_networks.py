@@ -287,3 +287,35 @@ def test_estimate_of_a_compound_of_ones_own_network(textbook_sbml, capsys):
         assert listed and len(listed) == len(set(listed)), section   # each once, with its count
     assert main(["estimate", "pyruvat"]) == 2
     assert "did you mean pyruvate" in capsys.readouterr().err
+
+
+# ------------------------------------------------------------------ --demand and --h2
+def test_demand_and_h2_named_on_the_command_line(tmp_path, capsys):
+    from tfa.network.bundled import write_starter_network
+
+    write_starter_network(tmp_path)
+    env = tmp_path / "environment.toml"
+    env.write_text(env.read_text().replace('[demand]\nreaction = "DM_succ"\n', "[demand]\n"))
+    assert main(["feasible", str(tmp_path), "-q"]) == 0       # no demand: nothing to ask
+    out = capsys.readouterr().out
+    assert "runs as given: not applicable (no demand reaction; name one with --demand ID" in out
+    assert main(["feasible", str(tmp_path), "-q", "--demand", "DM_succ"]) == 0
+    assert _lines_of(capsys.readouterr().out, "runs as given") == "runs as given: yes"
+    assert main(["feasible", str(tmp_path), "--demand", "DM_suc"]) == 2
+    assert "--demand DM_suc: not a reaction of network" in capsys.readouterr().err
+    assert main(["feasible", str(tmp_path), "--h2", "h22"]) == 2
+    assert "did you mean 'h2'" in capsys.readouterr().err
+    assert main(["feasible", str(tmp_path), "--h2", "co2"]) == 2   # h2 is declared H2 already
+    assert "compound h2 is declared H2" in capsys.readouterr().err
+    # an H2 compound that neither a role nor a thermo key names: only --h2 makes it H2
+    compounds = tmp_path / "compounds.csv"
+    compounds.write_text(compounds.read_text().replace("h2,hydrogen (dissolved),H2,0,H2,h2,",
+                                                       "h2,hydrogen (dissolved),H2,0,,,"))
+    assert main(["feasible", str(tmp_path), "-q", "--demand", "DM_succ"]) == 0
+    assert "runs with H2 in place of the carriers: not applicable (no H2 in this network" in \
+        capsys.readouterr().out
+    assert main(["feasible", str(tmp_path), "-q", "--demand", "DM_succ", "--h2", "h2"]) == 0
+    out = capsys.readouterr().out
+    assert _lines_of(out, "runs with H2 in place of the carriers").startswith(
+        "runs with H2 in place of the carriers: ")
+    assert "not applicable" not in _lines_of(out, "runs with H2 in place of the carriers")

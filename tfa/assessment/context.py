@@ -203,8 +203,8 @@ class RunContext:
             from ..network.role_inference import missing_needs, not_applicable_reason
 
             if not self.environment.demand_reaction:
-                return ("no demand reaction (name one with --demand ID or in the environment's "
-                        "[demand])")
+                return ("no demand reaction; name one with --demand ID or in the environment's "
+                        "[demand]")
             return not_applicable_reason(missing_needs(self.model, get_mode(mode).needs))
 
         return self.cached(f"not_applicable:{mode}", reason)
