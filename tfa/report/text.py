@@ -74,8 +74,8 @@ def constrained_words(with_energy: int, total: int) -> str:
     """
     if with_energy >= total:
         return ""
-    text = (f"thermodynamically constrained: {with_energy} of {counted(total, 'reaction')}; the "
-            "rest unconstrained")
+    text = (f"thermodynamically constrained: {with_energy} of {total} reaction"
+            f"{'' if total == 1 else 's'}; the rest unconstrained")
     return ("mostly flux balance: " + text) if 2 * with_energy < total else text
 
 
