@@ -27,10 +27,6 @@ class InputCheck:
     errors: list[str] = field(default_factory=list)
     not_applicable: dict[str, str] = field(default_factory=dict)
 
-    @property
-    def ok(self) -> bool:
-        return not self.errors
-
 
 def check_inputs(inputs, options=None, modes: list[str] | None = None) -> InputCheck:
     """Run the analyses' checks on ``inputs`` for every mode (default: every registered mode),

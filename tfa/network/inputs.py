@@ -4,8 +4,10 @@
 uses: a network given as a reactions table, a folder holding one, SBML or cobra JSON (or a
 ``cobra.Model``), and an environment file (TOML) or :class:`~tfa.network.environment.Environment`;
 with neither, the bundled network at its own environment (demo data: the invented Kestrel Ridge
-vent field). Condition overrides (``celsius``, ``ph``, ``ionic_strength``, ``pressure``,
-``pmg``) replace the environment's.
+vent field); a network given without an environment (and none beside it) gets the neutral
+default built from it (:mod:`tfa.network.default_environment`). Condition overrides
+(``celsius``, ``ph``, ``ionic_strength``, ``pressure``, ``pmg``) replace the environment's. The
+network is completed once on reading (:func:`tfa.network.completion.complete_network`).
 """
 
 from __future__ import annotations
