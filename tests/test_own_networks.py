@@ -159,6 +159,9 @@ def test_model_range_warning_is_one_line_and_quiet_silences_it(capsys):
     assert "300 degC: constant-Cp integration" in err and ".py" not in err and "warn(" not in err
     assert main(["dg", "H2 + CO2tot <=> formate + H2O", "--temperature", "300", "-q"]) == 0
     assert capsys.readouterr().err == ""
+    assert main(["dg", "H2 + CO2tot <=> formate + H2O", "--temperature", "300", "-v"]) == 0
+    err = capsys.readouterr().err      # --verbose: every warning in full, still one line each
+    assert "warnings:\n  300 degC: constant-Cp integration from 25 degC is stretched above 150 degC" in err
 
 
 # ------------------------------------------------------------------ one checker

@@ -68,13 +68,17 @@ def _one_line(message, category, filename, lineno, file=None, line=None) -> None
 def collected_warnings(quiet: bool = False, verbose: bool = False,
                        stream: TextIO | None = None) -> Iterator[WarningCollector]:
     """Collect the warnings of the enclosed run and print them at its end (see the module)."""
+    from ..conditions import ModelRangeWarning
+
     collector = WarningCollector()
     root = logging.getLogger()
     root.addHandler(collector)
     saved = warnings.showwarning
-    warnings.showwarning = _one_line
     try:
-        yield collector
+        with warnings.catch_warnings():   # every command shows its own model-range warnings
+            warnings.filterwarnings("default", category=ModelRangeWarning)
+            warnings.showwarning = _one_line
+            yield collector
     finally:
         warnings.showwarning = saved
         root.removeHandler(collector)
