@@ -241,9 +241,9 @@ OPTIONS: dict[str, Option] = {
                            "PATH"),
     "h2": Option(("--h2",), "the network's H2 compound (metabolite id), when no compound has the "
                  "role h2 (default: the compound with that role, declared or inferred)", None, "ID"),
-    "demand": Option(("--demand",), "the demand reaction (reaction id), when the environment names "
-                     "none (default: the environment's [demand]; for SBML and cobra JSON without "
-                     "an environment, the model's objective)", None, "ID"),
+    "demand": Option(("--demand",), "the demand reaction (reaction id), over the environment's "
+                     "(default: the environment's [demand]; without an environment, the model's "
+                     "objective)", None, "ID"),
     "identifiers": Option(("--identifiers",), "your table of identifiers (compound, thermo_key): "
                           "which compound of the thermodynamic data each metabolite is, over the "
                           "matches made from annotations (default: identifiers.tsv beside the "
