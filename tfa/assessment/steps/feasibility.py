@@ -103,6 +103,8 @@ def unconstrained(ctx: RunContext) -> str:
     once (they run without a thermodynamic constraint in every mode); "" when there are none."""
     from ...report.text import names
 
+    if ctx.not_applicable("native"):   # nothing was asked of the network as given
+        return ""
     tm = ctx.thermo_model("native")
     ids = [r.id for r in tm.internal_reactions() if r.id != tm.demand_id and r.id not in tm.energies]
     if not ids:
