@@ -59,12 +59,6 @@ class RoleReport:
     entries: list[RoleEntry] = field(default_factory=list)
     open: dict[str, str] = field(default_factory=dict)
 
-    def found(self) -> set[str]:
-        return {e.role for e in self.entries}
-
-    def missing(self) -> list[str]:
-        return [r for r in LISTED_ROLES if r not in self.found()]
-
     def rows(self, needed_by: dict[str, list[str]] | None = None) -> list[dict[str, str]]:
         """One row per listed role: ``role``, ``compounds``, ``how`` (or why it is missing) and
         the modes that need it (``needed_by``: role -> mode ids)."""
@@ -92,17 +86,30 @@ def inner_compartment(model: cobra.Model) -> str:
     return "c"
 
 
-def _candidates(model: cobra.Model, keys: dict[str, object]) -> dict[object, list[cobra.Metabolite]]:
-    """What each key names -> the metabolites without a declared role whose thermo key is it."""
+def _candidates(model: cobra.Model, keys: dict[str, object],
+                database) -> dict[object, list[cobra.Metabolite]]:
+    """What each key names -> the metabolites without a declared role whose thermo key (any of
+    the compound's names) is it."""
     inner = inner_compartment(model)
     found: dict[object, list[cobra.Metabolite]] = {}
     for met in model.metabolites:
         if metabolite_role(met) is not None:
             continue
-        key = str((met.notes or {}).get("thermo_key") or "").strip()
+        key = canonical_key(met, database)
         if key in keys and (met.compartment or "") == inner:
             found.setdefault(keys[key], []).append(met)
     return found
+
+
+def canonical_key(met: cobra.Metabolite, database) -> str:
+    """The compound id of the data that the metabolite's ``thermo_key`` names ("" when none)."""
+    key = str((met.notes or {}).get("thermo_key") or "").strip()
+    if not key:
+        return ""
+    try:
+        return database.compound(key).id
+    except InputError:
+        return key
 
 
 def carrier_keys(database) -> dict[str, tuple[str, str, int]]:
@@ -122,15 +129,15 @@ def infer_roles(model: cobra.Model, database) -> RoleReport:
     report = RoleReport()
     declared = {metabolite_role(m) for m in model.metabolites}
     declared_pairs = {r.pair for r in declared if isinstance(r, CarrierRole)}
-    for role, mets in _candidates(model, KEY_ROLES).items():
+    for role, mets in _candidates(model, KEY_ROLES, database).items():
         if role in declared:
             continue
         if len(mets) > 1:
             report.open[role] = f"not inferred: {', '.join(m.id for m in mets)} all qualify"
             continue
-        _write(mets[0], role, f"thermo key {mets[0].notes['thermo_key']}")
+        _write(mets[0], role, f"thermo key {canonical_key(mets[0], database)}")
     pairs: dict[str, dict[str, list[cobra.Metabolite]]] = {}
-    for (state, pair, electrons), mets in _candidates(model, carrier_keys(database)).items():
+    for (state, pair, electrons), mets in _candidates(model, carrier_keys(database), database).items():
         if pair not in declared_pairs:
             pairs.setdefault(pair, {})[f"{state}:{pair}:{electrons}"] = mets
     for pair, forms in pairs.items():
@@ -138,7 +145,7 @@ def infer_roles(model: cobra.Model, database) -> RoleReport:
             continue
         written = [(mets[0], text) for text, mets in forms.items()]
         for met, text in written:
-            _write(met, text, f"thermo key {met.notes['thermo_key']}")
+            _write(met, text, f"thermo key {canonical_key(met, database)}")
         try:
             carrier_pairs(model)
         except InputError as err:
@@ -156,8 +163,7 @@ def infer_roles(model: cobra.Model, database) -> RoleReport:
         elif role in SIMPLE_ROLES:
             report.entries.append(RoleEntry(role, (met.id,),
                                             f"inferred from {inferred}" if inferred else "declared"))
-    co2 = [m.id for m in model.metabolites
-           if str((m.notes or {}).get("thermo_key") or "") in CO2_KEYS]
+    co2 = [m.id for m in model.metabolites if canonical_key(m, database) in CO2_KEYS]
     if co2:
         report.entries.append(RoleEntry("co2", tuple(co2), "from thermo key"))
     return report
