@@ -7,7 +7,7 @@ Development-time script. Two open sources, both on the package registries:
    and ``tfa/data/compounds_without_species.csv`` give each compound its InChIKeys (computed here
    with RDKit); the names and synonyms of ``tfa/data/compounds.csv``.
 2. The genome-scale models that cobra ships as package data (``cobra/data/salmonella.xml.gz``
-   and ``iJO1366.xml.gz``, BiGG Models namespace; King et al. 2016, Nucleic Acids Res. 44:D515;
+   and ``iJO1366.xml.gz``, BiGG Models namespace; King et al. 2016, Nucleic Acids Res. 44:D515, from memory;
    cobra's licence is LGPL-2.0-or-later OR GPL-2.0-or-later, per its package metadata). Their
    metabolite annotations carry the other databases' identifiers; salmonella's also carry
    InChIKeys.
@@ -230,7 +230,7 @@ def main() -> None:
         "# Sources: our own compound tables (this project, MIT licence; InChIKeys computed with RDKit from "
         "species_structures.csv and compounds_without_species.csv; names and synonyms) and the "
         "metabolite annotations of the models cobra ships as package data (salmonella, "
-        "iJO1366; BiGG Models namespace, King et al. 2016, Nucleic Acids Res. 44:D515), cobra "
+        "iJO1366; BiGG Models namespace, King et al. 2016, Nucleic Acids Res. 44:D515, from memory), cobra "
         "licence LGPL-2.0-or-later OR GPL-2.0-or-later.",
         "# evidence: structure (InChIKey connectivity and stereo equal), structure, stereo not "
         "compared (connectivity only; at most one stereocentre and no stereo double bond, or every word of the name in ours), name (name "
