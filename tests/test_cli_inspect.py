@@ -95,12 +95,21 @@ def test_condition_options_override_the_environment(folder, capsys):
     assert ack["delta_g_standard_kJ_per_mol"] == pytest.approx(-43.1 - atp, abs=1e-6)
 
 
-def test_unbalanced_reaction_is_reported_not_fatal(folder, capsys):
+def test_unbalanced_reaction_is_reported_marked_and_an_error(folder, capsys):
+    # the analyses refuse an unbalanced reaction, so the checker does too (exit 2, the same
+    # message), after reporting the whole network with the reaction marked and without energy
     text = (folder / "reactions.tsv").read_text().replace("xac <=> ac + h", "xac + h2o <=> ac + h")  # O off by one
     (folder / "reactions.tsv").write_text(text)
-    assert main(["inspect", str(folder / "reactions.tsv"), "--no-estimates"]) == 0
-    out = capsys.readouterr().out
-    assert "1 of 4 internal reactions do not balance" in out and "XR:" in out
+    assert main(["inspect", str(folder / "reactions.tsv"), "--no-estimates"]) == 2
+    captured = capsys.readouterr()
+    assert "1 of 4 internal reactions do not balance" in captured.out and "XR:" in captured.out
+    row = next(line for line in captured.out.splitlines() if line.strip().startswith("XR "))
+    assert " NO " in row and "—" in row
+    assert "reactions.tsv line 5: reaction 'XR'" in captured.err
+    # the hint names the residual and the fix in the right direction: one water too many
+    assert "O is off by -1" in captured.err and "remove it there" in captured.err
+    assert main(["feasible", str(folder / "reactions.tsv")]) == 2
+    assert captured.err.split("error: ")[1] == capsys.readouterr().err.split("error: ")[1]
 
 
 def test_bad_input_exits_2_with_file_and_line(folder, capsys):

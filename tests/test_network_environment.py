@@ -82,7 +82,7 @@ def test_bad_files_name_file_and_key(tmp_path, old, new, expected):
 
 def test_impossible_conditions_are_conditions_errors(tmp_path):
     path = write(tmp_path, EXAMPLE.replace("temperature_C = 70.0", "temperature_C = 420.0"))
-    with pytest.raises(ConditionsError, match=r"environment.toml \[conditions\].*420"):
+    with pytest.raises(ConditionsError, match=r"environment.toml line \d+ \[conditions\].*420"):
         Environment.from_toml(path)
 
 

@@ -173,6 +173,9 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("notes", "what could not be computed and why, relaxations made", ""),
     ("warnings", "conditions past a model's usual range (model-range warnings)", ""),
     ("undetermined", "answers a solver could not give within the time limit", ""),
+    ("not_applicable", "per mode that cannot be asked of the network, why (a role it lacks)", ""),
+    ("constrained", "per mode, reactions with an energy (with_energy) of the internal reactions "
+                    "(reactions); the rest run without a thermodynamic constraint", ""),
     ("summary", "the answer in plain sentences", ""),
     ("timings_s", "seconds per step", "s"),
     ("steps", "the steps that ran, in order", ""),
@@ -266,4 +269,17 @@ OPTIONS: dict[str, Option] = {
                   "no files)", None, "DIR"),
     "seed": Option(("--seed",), "seed of the draws of the energies (default %(default)s)", 0, "S"),
     "draws": Option(("--draws",), "draws of the energies per mode (default %(default)s)", 100, "N"),
+    "network_data": Option(("--network",), "a network (reactions table or folder, SBML or cobra "
+                           "JSON) whose own data and compound names are used instead of the "
+                           "library's (species data, its reaction_values.tsv, estimates)", None,
+                           "PATH"),
+    "h2": Option(("--h2",), "the network's H2 compound (metabolite id), when no compound has the "
+                 "role h2 (default: the compound with that role, declared or inferred)", None, "ID"),
+    "demand": Option(("--demand",), "the demand reaction (reaction id), over the environment's "
+                     "(default: the environment's [demand]; without an environment, the model's "
+                     "objective)", None, "ID"),
+    "identifiers": Option(("--identifiers",), "your table of identifiers (compound, thermo_key): "
+                          "which compound of the thermodynamic data each metabolite is, over the "
+                          "matches made from annotations (default: identifiers.tsv beside the "
+                          "network)", None, "FILE"),
 }

@@ -35,6 +35,8 @@ log = logging.getLogger(__name__)
 
 #: progress(label, steps done, steps in all): what a display is told.
 ProgressCallback = Callable[[str, int, int], None]
+#: How an answer that does not apply begins (a mode needing a role the network lacks).
+NOT_APPLICABLE = "not applicable"
 #: Draws per mode of the robustness step of an assessment (a small run; about 1.5 s per draw on
 #: the bundled network; ``tfa robustness`` runs large ones).
 ASSESSMENT_DRAWS = 4
@@ -201,16 +203,67 @@ class RunContext:
         return self._thermo_models[mode]
 
     def literature(self):
-        """The network's own reaction values (a path) or none (``[]``): one rule for every step."""
-        return self.inputs.literature_path or []
+        """The network's own reaction values (a path), or None: the library's values over its
+        compounds (:mod:`tfa.network.library_values`). One rule for every step."""
+        return self.inputs.literature_path or None
+
+    # ------------------------------------------------------------------ what applies
+    def not_applicable(self, mode: str) -> str:
+        """Why ``mode`` cannot be asked of this network ("" when it can): a role it needs
+        that the network lacks (:attr:`tfa.modes.Mode.needs`), or no demand at all."""
+        def reason() -> str:
+            from ..modes import get_mode
+            from ..network.role_inference import missing_needs, not_applicable_reason
+
+            if not self.environment.demand_reaction:
+                return ("no demand reaction; name one with --demand ID or in the environment's "
+                        "[demand]")
+            return not_applicable_reason(missing_needs(self.model, get_mode(mode).needs))
+
+        return self.cached(f"not_applicable:{mode}", reason)
+
+    def applicable(self, modes: list[str]) -> list[str]:
+        """The modes of ``modes`` that this network can be asked."""
+        return [m for m in modes if not self.not_applicable(m)]
+
+    def skipped_as_not_applicable(self, what: str, mode: str | None = None) -> bool:
+        """True (and a note) when the single-mode analysis ``what`` does not apply in ``mode``
+        (default the analysis mode)."""
+        mode = mode or self.settings.mode
+        reason = self.not_applicable(mode)
+        if reason:
+            self.note(f"{what} ({mode} mode): not applicable: {reason}")
+        return bool(reason)
+
+    def h2_id(self) -> str | None:
+        """The network's H2 compound: the one with the role h2 (declared, inferred or named
+        with --h2), or None."""
+        from ..network.roles import single_with_role
+
+        met = single_with_role(self.model, "h2")
+        return met.id if met is not None else None
+
+    def constrained(self, mode: str) -> tuple[int, int]:
+        """(reactions with an energy, reactions in all) of the network in ``mode``: the internal
+        reactions, the demand not counted."""
+        tm = self.thermo_model(mode)
+        internal = [r.id for r in tm.internal_reactions() if r.id != tm.demand_id]
+        return sum(1 for rid in internal if rid in tm.energies), len(internal)
 
     def feasibility(self, mode: str) -> "FeasibilityResult":
         """Feasibility of ``mode`` with up to ``alternatives`` minimal uphill sets as the
         diagnosis (computed once per run); a solver that stops without an answer gives a result
-        whose message says "undetermined"."""
+        whose message says "undetermined"; a mode that does not apply, one that says "not
+        applicable" and why (nothing is solved)."""
         if mode not in self._feasibility:
             from ..analyses.feasibility import FeasibilityResult, feasibility
 
+            reason = self.not_applicable(mode)
+            if reason:
+                self._feasibility[mode] = FeasibilityResult(
+                    conditions=self.environment.conditions, mode=mode, feasible=False,
+                    message=f"{NOT_APPLICABLE}: {reason}")
+                return self._feasibility[mode]
             tm = self.thermo_model(mode)
             try:
                 result = feasibility(tm, self.options, alternatives=self.settings.alternatives)

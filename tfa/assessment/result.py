@@ -77,9 +77,13 @@ class Assessment:
 
     # ---------------------------------------------------------------- words
     def header(self) -> str:
-        """The first line: which network at which setting."""
+        """The first line: which network at which setting (and, for the neutral default
+        environment of a network given without one, a second line saying so)."""
+        from ..network.default_environment import NEUTRAL_NAME
+
         env = self.environment
-        return f"network {self.network.id} at {env.name} ({env.conditions.describe()})"
+        line = f"network {self.network.id} at {env.name} ({env.conditions.describe()})"
+        return f"{line}\n{env.description}" if env.name == NEUTRAL_NAME else line
 
     def summary_lines(self) -> list[str]:
         """The answer in short sentences, one per line, in step order."""

@@ -12,7 +12,6 @@ import argparse
 import importlib
 import logging
 import sys
-import warnings
 
 from ..errors import TfaError
 
@@ -30,6 +29,7 @@ COMMANDS: dict[str, str] = {
     "driving-force": "cmd_driving_force",
     "census": "cmd_census",
     "estimate": "cmd_estimate",
+    "new-network": "cmd_new_network",
     "robustness": "cmd_robustness",
     "map": "cmd_map",
 }
@@ -71,19 +71,23 @@ def main(argv: list[str] | None = None) -> int:
     if not getattr(args, "command", None):
         parser.print_help()
         return 2
-    level = logging.WARNING
-    if getattr(args, "verbose", False):
-        level = logging.INFO
-    if getattr(args, "quiet", False):
-        level = logging.ERROR
-    logging.basicConfig(level=level, format="%(levelname)s: %(message)s")
+    from .warnings_table import BelowWarnings, collected_warnings
+
+    quiet, verbose = bool(getattr(args, "quiet", False)), bool(getattr(args, "verbose", False))
+    level = logging.ERROR if quiet else logging.INFO if verbose else logging.WARNING
+    root = logging.getLogger()
+    saved_level = root.level
+    root.setLevel(level)
+    printer = logging.StreamHandler()   # info (verbose) and errors; warnings go to one table
+    printer.setFormatter(logging.Formatter("%(levelname)s: %(message)s"))
+    printer.addFilter(BelowWarnings())
+    root.addHandler(printer)
     # cobra's own remarks on reading a model ("no objective coefficients") only with -v
     logging.getLogger("cobra").setLevel(level if level == logging.INFO else logging.CRITICAL)
     name = f"tfa {args.command}"
-    previous = warnings.showwarning
-    warnings.showwarning = _one_line_warning(name, bool(getattr(args, "quiet", False)))
     try:
-        code = int(args.run(args) or 0)
+        with collected_warnings(quiet, verbose):
+            code = int(args.run(args) or 0)
         sys.stdout.flush()
         return code
     except TfaError as err:
@@ -96,21 +100,12 @@ def main(argv: list[str] | None = None) -> int:
         quiet_broken_pipe()
         return 1
     finally:
-        warnings.showwarning = previous
+        root.removeHandler(printer)
+        root.setLevel(saved_level)
 
 
 def _one_line(text: str) -> str:
     return " ".join(text.split())
-
-
-def _one_line_warning(name: str, quiet: bool):
-    """Warnings of the models (conditions past their usual range) as one line each."""
-
-    def show(message, category, filename, lineno, file=None, line=None) -> None:
-        if not quiet:
-            sys.stderr.write(f"{name}: warning: {_one_line(str(message))}\n")
-
-    return show
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -18,7 +18,7 @@ from typing import TYPE_CHECKING
 
 from ..conditions import Conditions
 from ..errors import InputError
-from .options import add_conditions_options, add_output_options, add_unreviewed_option
+from .options import add_conditions_options, add_option, add_output_options, add_unreviewed_option
 from .output import print_json
 
 if TYPE_CHECKING:
@@ -50,10 +50,7 @@ def register(subparsers) -> None:
                         help="activity of a compound for ΔrG' (mol/L; gases: bar); repeatable. "
                         "Compounds not given are at 1 (standard state)")
     add_unreviewed_option(parser)
-    parser.add_argument("--network", metavar="PATH",
-                        help="use a network's own data instead of the library (its reactions "
-                        "table or folder: species data, its reaction_values.tsv, estimates); "
-                        "compounds are then named as in its compounds table")
+    add_option(parser, "network_data")
     add_output_options(parser)
     parser.set_defaults(run=run)
 
@@ -122,11 +119,11 @@ def run(args: argparse.Namespace) -> int:
     from ..thermo.database import ThermoDatabase
 
     db = ThermoDatabase.load(include_unreviewed=args.include_unreviewed)
-    if args.network:
+    if args.network_data:
         from ..network.energies import network_reaction_energy
         from .step_command import load_inputs
 
-        inputs = load_inputs(argparse.Namespace(network=args.network), require_balanced=False)
+        inputs = load_inputs(argparse.Namespace(network=args.network_data), require_balanced=False)
         result = network_reaction_energy(inputs.model, conditions, args.equation, activities, db)
     else:
         from ..thermo.library import ReactionLibrary
@@ -137,7 +134,7 @@ def run(args: argparse.Namespace) -> int:
         payload = result.to_dict()
         payload["defaults"] = defaulted
         payload["include_unreviewed"] = bool(args.include_unreviewed)
-        payload["network"] = args.network
+        payload["network"] = args.network_data
         print_json(payload)
     else:
         sys.stdout.write(_text(result, defaulted))

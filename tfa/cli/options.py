@@ -144,16 +144,18 @@ def add_conditions_options(parser: argparse.ArgumentParser) -> None:
 
 
 def add_network_options(parser: argparse.ArgumentParser) -> None:
-    """NETWORK, ``--environment``, ``--compounds``, the condition overrides and
-    ``--include-unreviewed``."""
+    """NETWORK, ``--environment``, ``--compounds``, ``--identifiers``, ``--h2``, ``--demand``, the
+    condition overrides and ``--include-unreviewed``."""
     parser.add_argument("network", metavar="NETWORK", nargs="?",
                         help="reactions table (.tsv/.csv), a folder with one, or SBML/JSON; "
                         "default: the bundled network")
     parser.add_argument("--environment", metavar="FILE",
                         help="environment file (TOML); default: environment.toml beside the network, "
-                        "else the bundled one")
+                        "else a neutral default built from the network (the bundled network: its own)")
     parser.add_argument("--compounds", metavar="FILE",
                         help="compounds table, when it is not compounds.tsv beside the reactions table")
+    for name in ("identifiers", "h2", "demand"):
+        add_option(parser, name)
     add_unreviewed_option(parser)
     add_conditions_options(parser)
 

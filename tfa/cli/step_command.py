@@ -73,6 +73,8 @@ def load_inputs(args: argparse.Namespace, require_balanced: bool = True):
 
     return resolve_inputs(getattr(args, "network", None), getattr(args, "environment", None),
                           getattr(args, "compounds", None), require_balanced=require_balanced,
+                          h2=getattr(args, "h2", None), demand=getattr(args, "demand", None),
+                          identifiers=getattr(args, "identifiers", None),
                           **condition_overrides(args))
 
 

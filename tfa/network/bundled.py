@@ -45,3 +45,32 @@ def load_bundled_network(name: str = BUNDLED_NAME) -> cobra.Model:
     from .io_table import read_network
 
     return read_network(bundled_reactions_path(name), bundled_compounds_path(name), model_id=name)
+
+
+#: The starter network ``tfa new-network`` writes (the example of docs/formats.md).
+STARTER_NAME = "starter"
+#: Its files, in the order they are written.
+STARTER_FILES = ("compounds.csv", "reactions.csv", "environment.toml")
+
+
+def write_starter_network(folder: str | Path) -> list[Path]:
+    """Write the starter network (its compounds and reactions tables and its environment, demo
+    data of an invented setting) into ``folder``, created if needed; returns the files written.
+
+    Raises
+    ------
+    NetworkFileError
+        When ``folder`` is a file, or already holds one of the files (nothing is overwritten).
+    """
+    from ..util.files import write_text
+
+    folder = Path(folder)
+    if folder.exists() and not folder.is_dir():
+        raise NetworkFileError(f"{folder}: exists and is not a folder; give a new or empty folder")
+    taken = [name for name in STARTER_FILES if (folder / name).exists()]
+    if taken:
+        raise NetworkFileError(f"{folder}: already holds {', '.join(taken)}; give a new folder "
+                               "(nothing was overwritten)")
+    source = bundled_folder(STARTER_NAME)
+    return [write_text(folder / name, (source / name).read_text(encoding="utf-8"))
+            for name in STARTER_FILES]

@@ -74,6 +74,23 @@ def reaction_kind(reaction: cobra.Reaction, demand_id: str | None = None) -> str
 def classify_reactions(model: cobra.Model, demand_id: str | None = None) -> dict[str, str]:
     """Reaction id -> kind (:func:`reaction_kind`) for every reaction of ``model``, in model order."""
     return {r.id: reaction_kind(r, demand_id) for r in model.reactions}
+def balance_problem(reaction: cobra.Reaction) -> str:
+    """What is off in the balance of a reaction ("" when it balances, is a boundary reaction,
+    or a compound has no formula to check it with).
+
+    >>> r = cobra.Reaction("R"); r.add_metabolites({cobra.Metabolite("a", formula="CO2", charge=0): -1,
+    ...                                              cobra.Metabolite("b", formula="CHO2", charge=-1): 1})
+    >>> print(balance_problem(r))   # CO2 -> formate is short of H2 (formate dehydrogenase)
+    charge is off by -2 beyond what H+ exchange explains (charge residual -1, H residual +1): the products carry 2 more electrons than the reactants; add 1 H2 to the reactants (or a carrier's reduced form there)
+    """
+    if is_boundary_reaction(reaction):
+        return ""
+    try:
+        formulas = {m.id: formula_and_charge(m) for m in reaction.metabolites}
+    except InputError:
+        return ""
+    report = check_balance({m.id: c for m, c in reaction.metabolites.items()}, formulas)
+    return "" if report.ok else report.message
 
 
 def balance_report(model: cobra.Model, include_boundary: bool = False) -> pd.DataFrame:

@@ -179,14 +179,15 @@ class CoverageReport:
 
 def coverage_from_energies(model: cobra.Model, energies: Mapping[str, ReactionEnergy],
                            conditions: Conditions, environment_name: str = "",
-                           table: CompoundEnergyTable | None = None) -> CoverageReport:
-    """Coverage from reaction energies already computed (every internal reaction is listed;
-    one missing from ``energies`` counts as "none")."""
+                           table: CompoundEnergyTable | None = None,
+                           demand: str | None = None) -> CoverageReport:
+    """Coverage from reaction energies already computed (every internal reaction but the
+    demand is listed; one missing from ``energies`` counts as "none")."""
     from .checks import is_boundary_reaction
 
     rows = []
     for reaction in model.reactions:
-        if is_boundary_reaction(reaction):
+        if is_boundary_reaction(reaction) or reaction.id == demand:
             continue
         e = energies.get(reaction.id)
         equation = reaction.build_reaction_string()
@@ -209,7 +210,8 @@ def coverage_from_energies(model: cobra.Model, energies: Mapping[str, ReactionEn
 
 def coverage(model: cobra.Model, environment, db=None, literature=None,
              estimate: bool = True) -> CoverageReport:
-    """Coverage of ``model`` at the environment's conditions (the network as given, no rewrite).
+    """Coverage of ``model`` at the environment's conditions (the network as given, no rewrite;
+    the environment's demand reaction is no reaction to give an energy).
 
     Parameters
     ----------
@@ -221,9 +223,10 @@ def coverage(model: cobra.Model, environment, db=None, literature=None,
         Use group-contribution estimates for compounds still without data.
     """
     table = compound_energies(model, environment, db, literature, estimate=estimate)
-    energies = reaction_energies(model, table)
+    demand = getattr(environment, "demand_reaction", None)
+    energies = reaction_energies(model, table, demand)
     name = "" if isinstance(environment, Conditions) else str(getattr(environment, "name", "") or "")
-    report = coverage_from_energies(model, energies, table.conditions, name, table)
+    report = coverage_from_energies(model, energies, table.conditions, name, table, demand)
     report.sources = network_sources(model)
     return report
 

@@ -42,7 +42,8 @@ unknown compounds (the database flags "no V" for them).
 
 Literature values are read from ``reaction_values.tsv`` beside the network's reactions table
 (passed by the caller, or found through ``model.notes['reaction_values_path']``, or the bundled
-table when the model is the bundled network).
+table when the model is the bundled network); a network without its own takes the library's
+values over its compounds (:mod:`tfa.network.library_values`).
 
 Units: kJ/mol, K, mol/L (gases: bar). Concentration bounds become natural logarithms.
 
@@ -109,10 +110,14 @@ def _reaction_values_path(model: cobra.Model) -> Path | None:
     return Path(path) if path else None
 
 
-def _default_literature(model: cobra.Model) -> list[LiteratureValue]:
+def _default_literature(model: cobra.Model, db: ThermoDatabase) -> list[LiteratureValue]:
+    """The network's own reaction values; without them, the library's values over its
+    compounds (:mod:`tfa.network.library_values`)."""
     path = _reaction_values_path(model)
     if not path:
-        return []
+        from .library_values import library_values_for
+
+        return library_values_for(model, db)
     return read_literature_values(path)
 
 
@@ -129,6 +134,17 @@ def network_sources(model: cobra.Model) -> dict:
         if candidate.is_file():
             return read_sources_file(candidate)
     return {}
+
+
+def unknown_thermo_key(model: cobra.Model, metabolite_id: str, key: str,
+                       matches: Sequence[str] = ()) -> str:
+    """The error of a ``thermo_key`` the data do not know, naming where the compound is defined."""
+    from .locations import located
+
+    return located(model, "compound", metabolite_id, (
+        f"compound '{metabolite_id}': thermo_key '{key}' is not in the thermodynamic database"
+        + (f"; did you mean {', '.join(matches)}?" if matches else "")
+        + " Fix the key or leave it empty to use literature values or an estimate"))
 
 
 def _metabolite_species(met: cobra.Metabolite) -> UnknownSpecies:
@@ -173,7 +189,8 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
     db : ThermoDatabase, optional
         Default: the bundled database (reviewed sources only).
     literature : values, path or None
-        Literature reaction values over network ids (default: see the module docstring).
+        Literature reaction values over network ids (default: see the module docstring; a
+        network without its own values gets the library's, :mod:`tfa.network.library_values`).
     estimate : bool
         Use the group-contribution estimator for compounds still unknown (when RDKit is there).
 
@@ -184,7 +201,7 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
     db = db or ThermoDatabase.load()
     conditions = environment if isinstance(environment, Conditions) else environment.conditions
     if literature is None:
-        values = _default_literature(model)
+        values = _default_literature(model, db)
     elif isinstance(literature, (str, Path)):
         values = read_literature_values(literature)
     else:
@@ -201,10 +218,7 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
         try:
             compound = db.compound(key)
         except UnknownCompoundError as err:
-            raise NetworkFileError(
-                f"compound '{met.id}': thermo_key '{key}' is not in the thermodynamic database"
-                + (f"; did you mean {', '.join(err.matches)}?" if err.matches else "")
-                + " Fix the key or leave it empty to use literature values or an estimate") from err
+            raise NetworkFileError(unknown_thermo_key(model, met.id, key, err.matches)) from err
         if compound.has_data:
             keyed[met.id] = compound.id
         else:
@@ -332,13 +346,21 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
 
 
 # ------------------------------------------------------------------------ reaction energies
-def reaction_energies(model: cobra.Model, table: CompoundEnergyTable) -> dict[str, ReactionEnergy]:
-    """:class:`ReactionEnergy` of every internal reaction (both sides non-empty), NaN where undetermined."""
-    from .checks import is_boundary_reaction
+def reaction_energies(model: cobra.Model, table: CompoundEnergyTable,
+                      demand: str | None = None) -> dict[str, ReactionEnergy]:
+    """:class:`ReactionEnergy` of every internal reaction (both sides non-empty) but the demand,
+    NaN where undetermined; a reaction that does not balance over its compounds' formulas gets
+    none (its energy would mean nothing), and says so."""
+    from .checks import balance_problem, is_boundary_reaction
 
     out: dict[str, ReactionEnergy] = {}
     for reaction in model.reactions:
-        if is_boundary_reaction(reaction):  # exchanges and demands (one empty side) carry no energy
+        if is_boundary_reaction(reaction) or reaction.id == demand:
+            continue  # exchanges and demands carry no energy
+        problem = balance_problem(reaction)
+        if problem:
+            out[reaction.id] = ReactionEnergy(reaction.id, math.nan, math.nan, "none",
+                                              f"no energy: the reaction does not balance ({problem})")
             continue
         source = str((reaction.notes or {}).get("energy_source") or "auto").strip()
         if source != "auto" and table.reconciliation is not None and \
@@ -483,14 +505,14 @@ def _kind_of(db: ThermoDatabase):
 def _thermo_model(model: cobra.Model, environment: Environment, mode: str, db: ThermoDatabase,
                   literature) -> ThermoModel:
     table = compound_energies(model, environment, db, literature)
-    energies = reaction_energies(model, table)
+    energies = reaction_energies(model, table, environment.demand_reaction)
     applied = apply_environment(model, environment, without_activity(model, _kind_of(db)))
     if applied.demand_id in energies:   # a two-sided demand (a lumped biomass reaction) is no chemistry
         energies = {rid: e for rid, e in energies.items() if rid != applied.demand_id}
     kept = {rid: e for rid, e in energies.items() if math.isfinite(e.standard)}
-    for rid, e in energies.items():
+    for rid, e in energies.items():  # counted and named once by the coverage, not per mode
         if rid not in kept:
-            logger.warning("reaction %s has no energy (%s): %s", rid, e.source, e.provenance)
+            logger.info("reaction %s has no energy (%s): %s", rid, e.source, e.provenance)
     tm = ThermoModel(model=model, conditions=table.conditions, energies=kept,
                      log_bounds=applied.log_bounds, no_activity=set(applied.no_activity), mode=mode,
                      environment_name=environment.name, demand_id=applied.demand_id,
@@ -515,7 +537,7 @@ def prepared(model: cobra.Model, environment: Environment, mode: str = "native",
 
     db = db or ThermoDatabase.load()
     if literature is None:
-        literature = _default_literature(model)
+        literature = _default_literature(model, db)
     with model:
         with apply_mode(model, mode):
             yield _thermo_model(model, environment, mode, db, literature)

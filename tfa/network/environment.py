@@ -53,6 +53,7 @@ from ..errors import ConditionsError, InputError, NetworkFileError
 from ..util.files import read_input_text
 from ..util.numbers import MAX_FLUX, read_activity, read_number
 from .checks import is_boundary_reaction
+from .locations import located, toml_line, with_toml_line
 from .roles import without_activity
 
 if sys.version_info >= (3, 11):
@@ -103,6 +104,10 @@ class Environment:
         The file read, or empty.
     no_demand : bool
         True when the file asks explicitly for no demand (``[demand] none = true``).
+    network_exchanges : bool
+        Keep the flux bounds the network file gives its boundary reactions (every exchange open
+        within them; the neutral default of :mod:`tfa.network.default_environment`) instead of
+        opening only fed compounds, water, H+ and outlets.
     """
 
     name: str
@@ -116,6 +121,7 @@ class Environment:
     description: str = ""
     source: str = ""
     no_demand: bool = False
+    network_exchanges: bool = False
 
     # ---------------------------------------------------------------- reading
 
@@ -140,7 +146,10 @@ class Environment:
             raise NetworkFileError(f"{path}: not valid TOML ({exc}); fix the syntax there") from None
         except InputError as exc:
             raise NetworkFileError(str(exc)) from None
-        return cls.from_dict(data, source=str(path))
+        try:
+            return cls.from_dict(data, source=str(path))
+        except (NetworkFileError, ConditionsError) as exc:   # name the line of the key too
+            raise type(exc)(with_toml_line(str(exc), path)) from exc
 
     @classmethod
     def from_dict(cls, data: dict[str, Any], source: str = "") -> "Environment":
@@ -312,12 +321,24 @@ class Environment:
         """Metabolite id -> fixed activity for every fed compound."""
         fed: dict[str, float] = {}
         for key, value in self.feed.items():
-            met = self.resolve(model, key)
+            try:
+                met = self.resolve(model, key)
+            except NetworkFileError as exc:
+                raise NetworkFileError(self._at("feed", key, str(exc))) from exc
             if met.id in fed:
-                raise NetworkFileError(f"{self.source or self.name} [feed]: '{key}' and another key both name "
-                                       f"compound {met.id}; keep one")
+                raise NetworkFileError(self._at("feed", key, f"{self.source or self.name}: '{key}' and "
+                                                f"another key both name compound {met.id}; keep one"))
             fed[met.id] = value
         return fed
+
+    def _at(self, section: str, key: str | None, message: str) -> str:
+        """``message`` (which begins with the file) with the line of ``key`` in ``[section]``."""
+        prefix = f"{self.source}: "
+        line = toml_line(self.source, section, key) if self.source else None
+        if line is None or not message.startswith(prefix):
+            return message
+        return (f"{self.source} line {line} [{section}]" + (f" {key}" if key else "")
+                + f": {message[len(prefix):]}")
 
     def metabolite_bounds(self, model: cobra.Model,
                           no_activity: set[str] | None = None) -> dict[str, tuple[float, float]]:
@@ -359,10 +380,10 @@ class Environment:
             if notes.get("conc_max"):
                 upper = float(notes["conc_max"])
             if lower > upper:
-                raise NetworkFileError(
+                raise NetworkFileError(located(model, "compound", met.id,
                     f"compound {met.id}: its bounds [{lower:g}, {upper:g}] (compounds table and environment "
                     f"{self.name} default) are empty; widen conc_min/conc_max or the [bounds] default"
-                )
+                ))
             result[met.id] = (lower, upper)
         return result
 
@@ -395,6 +416,9 @@ class Environment:
         for reaction in model.reactions:
             if not is_boundary_reaction(reaction) or reaction.id == self.demand_reaction:
                 continue
+            if self.network_exchanges:
+                result[reaction.id] = reaction.bounds
+                continue
             if len(reaction.metabolites) == 1:
                 met, coefficient = next(iter(reaction.metabolites.items()))
                 exchanges.setdefault(met.id, reaction)
@@ -409,16 +433,17 @@ class Environment:
             logger.warning("%s: outlet %s ignored, network %s has no exchange for it", where, met_id, model.id)
         for met_id in sorted(fed):
             if met_id not in exchanges:
-                raise NetworkFileError(
+                key = next((k for k in self.feed if self.resolve(model, k).id == met_id), None)
+                raise NetworkFileError(self._at("feed", key, (
                     f"{where}: compound {met_id} is fed but network {model.id} has no exchange for it; add "
-                    f"a reaction 'EX_{met_id}' with equation '{met_id} <=> '"
-                )
+                    f"a reaction 'EX_{met_id}' with equation '{met_id} <=> '")))
         if self.demand_reaction is not None:
             if self.demand_reaction not in model.reactions:
                 close = difflib.get_close_matches(self.demand_reaction, [r.id for r in model.reactions], n=3)
                 hint = f"did you mean {', '.join(repr(c) for c in close)}?" if close else "add it to the network"
-                raise NetworkFileError(f"{where} [demand] reaction: '{self.demand_reaction}' is not a reaction "
-                                       f"of network {model.id}; {hint}")
+                raise NetworkFileError(with_toml_line(
+                    f"{where} [demand] reaction: '{self.demand_reaction}' is not a reaction "
+                    f"of network {model.id}; {hint}", where))
             demand = model.reactions.get_by_id(self.demand_reaction)
             result[demand.id] = (self.demand_flux, max(demand.upper_bound, self.demand_flux))
         return result

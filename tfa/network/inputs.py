@@ -4,8 +4,10 @@
 uses: a network given as a reactions table, a folder holding one, SBML or cobra JSON (or a
 ``cobra.Model``), and an environment file (TOML) or :class:`~tfa.network.environment.Environment`;
 with neither, the bundled network at its own environment (demo data: the invented Kestrel Ridge
-vent field). Condition overrides (``celsius``, ``ph``, ``ionic_strength``, ``pressure``,
-``pmg``) replace the environment's.
+vent field); a network given without an environment (and none beside it) gets the neutral
+default built from it (:mod:`tfa.network.default_environment`). Condition overrides
+(``celsius``, ``ph``, ``ionic_strength``, ``pressure``, ``pmg``) replace the environment's. The
+network is completed once on reading (:func:`tfa.network.completion.complete_network`).
 """
 
 from __future__ import annotations
@@ -22,7 +24,9 @@ from ..conditions import ModelRangeWarning, condition_overrides
 from ..errors import InputError
 from ..util.files import check_input_file, read_input_text
 from .bundled import bundled_environment_path, bundled_folder
+from .default_environment import neutral_environment, with_demand
 from .environment import Environment
+from .io_sbml import TABLE_SUFFIXES
 from .io_sbml import load_network as read_any
 from .io_table import reaction_values_beside
 
@@ -46,6 +50,9 @@ class Inputs:
         The folder of the network's files.
     warnings : list of str
         Model-range warnings raised while reading (conditions past a model's usual range).
+    completion : NetworkCompletion or None
+        The identifier mapping, roles and warnings filled in on reading
+        (:func:`tfa.network.completion.complete_network`).
     """
 
     model: cobra.Model
@@ -55,6 +62,7 @@ class Inputs:
     literature_path: Path | None = None
     network_folder: Path | None = None
     warnings: list[str] = field(default_factory=list)
+    completion: Any = None
 
     def network_sources(self) -> pd.DataFrame | None:
         """The network's own ``sources.tsv`` (or ``.csv``) beside its reactions table, if any."""
@@ -75,13 +83,16 @@ def default_environment_path(network: str | Path | None) -> Path | None:
 
 def resolve_inputs(network: Any = None, environment: Any = None,
                    compounds: str | Path | None = None, require_balanced: bool = True,
+                   h2: str | None = None, demand: str | None = None,
+                   identifiers: str | Path | None = None,
                    **conditions: float | None) -> Inputs:
     """Read the network and the environment as ``tfa`` resolves them everywhere (see
     :func:`_resolve`); model-range warnings raised on the way are recorded in
     :attr:`Inputs.warnings` (and shown as usual)."""
     with warnings.catch_warnings(record=True) as caught:
         warnings.simplefilter("always", ModelRangeWarning)
-        inputs = _resolve(network, environment, compounds, require_balanced, **conditions)
+        inputs = _resolve(network, environment, compounds, require_balanced, h2, demand,
+                          identifiers, **conditions)
     for item in caught:
         if issubclass(item.category, ModelRangeWarning) and str(item.message) not in inputs.warnings:
             inputs.warnings.append(str(item.message))
@@ -91,6 +102,8 @@ def resolve_inputs(network: Any = None, environment: Any = None,
 
 def _resolve(network: Any = None, environment: Any = None,
              compounds: str | Path | None = None, require_balanced: bool = True,
+             h2: str | None = None, demand: str | None = None,
+             identifiers: str | Path | None = None,
              **conditions: float | None) -> Inputs:
     """Read the network and the environment as ``tfa`` resolves them everywhere.
 
@@ -99,11 +112,18 @@ def _resolve(network: Any = None, environment: Any = None,
     network : None, path or cobra.Model
         None: the bundled network; a path: reactions table, folder, SBML or cobra JSON.
     environment : None, path or Environment
-        None: ``environment.toml`` beside the network, else the bundled one.
+        None: ``environment.toml`` beside the network; for a network without one, the neutral
+        default built from it (:mod:`tfa.network.default_environment`); for the bundled
+        network, its own.
     compounds : path, optional
         Compounds table, when not ``compounds.tsv`` beside the reactions table.
     require_balanced : bool
         Refuse unbalanced reactions (the checker reads them anyway to report them).
+    h2, demand : str, optional
+        The H2 compound and the demand reaction (``--h2``, ``--demand``), when no role or
+        environment names them.
+    identifiers : path, optional
+        The user's table of identifiers (default ``identifiers.tsv`` beside the network).
     conditions : float
         ``celsius`` [degC], ``ph``, ``ionic_strength`` [mol/L], ``pressure`` [bar], ``pmg``:
         overrides of the environment's conditions (None: keep).
@@ -137,7 +157,7 @@ def _resolve(network: Any = None, environment: Any = None,
         if literature is not None:
             model.notes["reaction_values_path"] = str(literature)
         network_source = str(path)
-        default_env = default_environment_path(path) or bundled_environment_path()
+        default_env = default_environment_path(path)
     elif isinstance(network, cobra.Model):
         model = network
         # a model made in Python is the caller's own: its note is followed, through the gate
@@ -145,10 +165,14 @@ def _resolve(network: Any = None, environment: Any = None,
         literature = (check_input_file(path, "reaction values named by the model's note")
                       if path else None)
         network_source = f"cobra model {model.id}"
-        default_env = bundled_environment_path()
+        default_env = None
     else:
         raise InputError(f"network: expected a path or a cobra.Model, got {type(network).__name__}")
-    if environment is None or isinstance(environment, (str, Path)):
+    completion = _complete(model, network, identifiers, h2)
+    if environment is None and default_env is None:
+        env = neutral_environment(model, demand)
+        env_source = "built from the network"
+    elif environment is None or isinstance(environment, (str, Path)):
         env_path = Path(environment) if environment is not None else default_env
         env = Environment.from_toml(env_path)
         env_source = str(env_path)
@@ -158,10 +182,29 @@ def _resolve(network: Any = None, environment: Any = None,
     else:
         raise InputError(f"environment: expected a path or an Environment, got "
                          f"{type(environment).__name__}")
+    if demand is not None and env.demand_reaction != demand:
+        env = with_demand(env, model, demand)
     changes = condition_overrides(conditions)
     if changes:
         env = env.with_conditions(**changes)
-    return Inputs(model, env, network_source, env_source, literature, folder)
+    return Inputs(model, env, network_source, env_source, literature, folder,
+                  completion=completion)
+
+
+def _complete(model: cobra.Model, network: Any, identifiers: str | Path | None, h2: str | None):
+    """:func:`tfa.network.completion.complete_network` as the inputs call it."""
+    from ..thermo.database import ThermoDatabase
+    from .completion import complete_network
+    from .identifiers import identifier_table_beside
+
+    path = Path(network) if isinstance(network, (str, Path)) else None
+    from_table = network is None or (path is not None and (
+        path.is_dir() or path.suffix.lower() in TABLE_SUFFIXES))
+    table = identifiers if identifiers is not None else identifier_table_beside(path)
+    if identifiers is not None and not Path(identifiers).is_file():
+        raise InputError(f"{identifiers}: no such identifiers table; give the path of a table "
+                         "with columns compound and thermo_key")
+    return complete_network(model, ThermoDatabase.load(), from_table, table, h2)
 
 
 def load_network(path: str | Path | None = None, compounds: str | Path | None = None,

@@ -90,6 +90,7 @@ def read_sbml(path: str | Path) -> cobra.Model:
         raise NetworkFileError(f"{path}: cannot read SBML ({_first_line(exc)}); check that it is "
                                "valid SBML level 2 or 3") from None
     _normalise(model, path)
+    model.notes["model_path"] = str(path)   # where errors found later point to
     return model
 
 
@@ -121,6 +122,7 @@ def read_cobra_json(path: str | Path) -> cobra.Model:
         raise NetworkFileError(f"{path}: cannot read the cobra JSON model ({_first_line(exc)}); "
                                "check the file") from None
     _normalise(model, path)
+    model.notes["model_path"] = str(path)
     return model
 
 

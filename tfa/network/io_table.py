@@ -398,6 +398,8 @@ def read_network(reactions_path: str | Path, compounds_path: str | Path | None =
     model.compartments = {COMPARTMENT: "cell"}
     model.add_metabolites(metabolites)
     model.add_reactions(reactions)
+    model.notes["reactions_path"] = str(reactions_path)   # where errors found later point to
+    model.notes["compounds_path"] = str(compounds_path)
     literature = reaction_values_beside(reactions_path)
     if literature is not None:
         model.notes["reaction_values_path"] = str(literature)

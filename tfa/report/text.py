@@ -73,8 +73,24 @@ def checked(status: str) -> str:
     return f" [{status}]" if status else ""
 
 
+def constrained_words(with_energy: int, total: int) -> str:
+    """How much of a verdict thermodynamics constrains ("" when every reaction has an energy).
+
+    >>> constrained_words(63, 74)
+    'thermodynamically constrained: 63 of 74 reactions; the rest unconstrained'
+    >>> constrained_words(10, 74)
+    'mostly flux balance: thermodynamically constrained: 10 of 74 reactions; the rest unconstrained'
+    """
+    if with_energy >= total:
+        return ""
+    text = (f"thermodynamically constrained: {with_energy} of {total} reaction"
+            f"{'' if total == 1 else 's'}; the rest unconstrained")
+    return ("mostly flux balance: " + text) if 2 * with_energy < total else text
+
+
 def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]] | None = None,
-              demand_impossible: bool = False, undetermined: str = "", status: str = "") -> str:
+              demand_impossible: bool = False, undetermined: str = "", not_applicable: str = "",
+              constrained: str = "", status: str = "") -> str:
     """The answer of one mode in a sentence.
 
     Parameters
@@ -87,6 +103,10 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
         Minimal uphill sets found (alternatives of the same size).
     demand_impossible : bool
         The demand cannot be met even ignoring thermodynamics.
+    not_applicable : str
+        Why the question cannot be asked of this network (then no verdict is given).
+    constrained : str
+        :func:`constrained_words`, appended in brackets.
     status : str
         How the answer was checked (certified, proven, ...), shown after it.
 
@@ -96,7 +116,14 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
     'runs without ATP: no; three steps must be driven uphill: fdh, mtr, acs (or, as an alternative set of the same size: fdh, mtr, pfor)'
     >>> mode_line("runs without ATP", False, demand_impossible=True)
     'runs without ATP: no (the demand cannot be met even ignoring thermodynamics)'
+    >>> mode_line("runs without ATP", None, not_applicable="no ATP in this network")
+    'runs without ATP: not applicable (no ATP in this network)'
     """
+    if not_applicable:
+        return f"{question}: not applicable ({not_applicable})"
+    if constrained:
+        return mode_line(question, feasible, sets, demand_impossible, undetermined,
+                         status=status) + f" ({constrained})"
     if feasible is None:
         return f"{question}: undetermined (the solver gave no proven answer)" + (
             f"; {undetermined}" if undetermined else "")

@@ -122,7 +122,8 @@ class BalanceReport:
         return not self.element_residuals and abs(self.hydrogen_residual - self.charge_residual) <= TOLERANCE
 
     def problems(self) -> list[str]:
-        """Plain-words description of every residual that breaks the balance."""
+        """Plain-words description of every residual that breaks the balance, the last one the
+        simplest fix (:meth:`hint`)."""
         out = [
             f"{element} is off by {value:+g} (products minus reactants)"
             for element, value in sorted(self.element_residuals.items())
@@ -131,10 +132,46 @@ class BalanceReport:
         if abs(mismatch) > TOLERANCE:
             out.append(
                 f"charge is off by {mismatch:+g} beyond what H+ exchange explains (charge residual "
-                f"{self.charge_residual:+g}, H residual {self.hydrogen_residual:+g}); electrons are "
-                "missing: add the reduced or oxidised carrier, or H2"
+                f"{self.charge_residual:+g}, H residual {self.hydrogen_residual:+g})"
             )
+        hint = self.hint()
+        if hint:
+            out[-1] += f": {hint}"
         return out
+
+    def hint(self) -> str:
+        """The simplest fix of what is off, in the direction that fixes it: water for an O
+        residual that water explains, H2 (two electrons each) for electrons, else the compounds
+        to check ("" when balanced).
+
+        >>> BalanceReport({"O": 1.0}, 2.0, 0.0).hint()
+        'the products have 1 H2O more than the reactants; remove it there or add 1 H2O to the reactants'
+        >>> BalanceReport({}, -2.0, 0.0).hint()   # 2 H2 + CO2 -> formate + H+
+        'the reactants carry 2 more electrons than the products: 1 H2 too many there; remove it or add 1 H2 to the products'
+        """
+        elements = dict(self.element_residuals)
+        parts = []
+        hydrogen = self.hydrogen_residual
+        water = elements.pop("O", 0.0) if set(elements) == {"O"} else 0.0
+        if water:
+            n = f"{abs(water):g}"
+            more, less = ("products", "reactants") if water > 0 else ("reactants", "products")
+            parts.append(f"the {more} have {n} H2O more than the {less}; remove it there or add "
+                         f"{n} H2O to the {less}")
+            hydrogen -= 2 * water
+        if elements:
+            return ("check the coefficients and the formulas of the compounds holding "
+                    + ", ".join(sorted(elements)))
+        electrons = hydrogen - self.charge_residual
+        if abs(electrons) > TOLERANCE:
+            n, h2 = f"{abs(electrons):g}", f"{abs(electrons) / 2:g}"
+            if electrons > 0:
+                parts.append(f"the products carry {n} more electrons than the reactants; add {h2} "
+                             "H2 to the reactants (or a carrier's reduced form there)")
+            else:
+                parts.append(f"the reactants carry {n} more electrons than the products: {h2} H2 "
+                             f"too many there; remove it or add {h2} H2 to the products")
+        return "; ".join(parts)
 
     @property
     def message(self) -> str:

@@ -223,3 +223,37 @@ def estimated_species_records(estimate: GroupEstimate, reactant_id: str) -> list
             source2=None, origin="estimated", sigma_G=estimate.sigma_G,
         ))
     return records
+
+
+def compound_structure(database, name: str) -> tuple[str, str] | None:
+    """(SMILES, where it was found) of a compound of the thermodynamic data: the structure of
+    its species nearest the compound's reference charge (``species_structures.csv``), else the
+    ``smiles`` of ``compounds_without_species.csv``; None when it has none.
+
+    Raises
+    ------
+    UnknownCompoundError
+        When the data have no compound of that name (with close matches).
+
+    >>> from tfa.thermo.database import ThermoDatabase
+    >>> compound_structure(ThermoDatabase.load(), "pyruvate")
+    ('CC(=O)C(=O)[O-]', "species 'pyruvate' of species_structures.csv")
+    """
+    import csv
+    from importlib import resources
+
+    from .group_contribution import load_structures
+    from .species import VALUE_COMPOUNDS_FILE
+
+    compound = database.compound(name)
+    structures = load_structures()
+    species = sorted(compound.species, key=lambda sp: abs(sp.charge - compound.charge))
+    for ident in [sp.id for sp in species] + list(compound.dropped_species):
+        if ident in structures:
+            return structures[ident][0], f"species '{ident}' of species_structures.csv"
+    with resources.files("tfa.data").joinpath(VALUE_COMPOUNDS_FILE).open(
+            newline="", encoding="utf-8") as handle:
+        for row in csv.DictReader(line for line in handle if not line.startswith("#")):
+            if row.get("id") == compound.id and (row.get("smiles") or "").strip():
+                return row["smiles"].strip(), f"compound '{compound.id}' of {VALUE_COMPOUNDS_FILE}"
+    return None

@@ -20,8 +20,9 @@ class CensusStep(Step):
 
     def run(self, ctx: RunContext) -> dict[str, CensusResult]:
         out = {}
-        for k, mode in enumerate(ctx.settings.modes):
-            ctx.tick(k, len(ctx.settings.modes), "modes")
+        modes = ctx.applicable(ctx.settings.modes)
+        for k, mode in enumerate(modes):
+            ctx.tick(k, len(modes), "modes")
             out[mode] = census(ctx.thermo_model(mode), ctx.settings.ratio)
         return out
 

@@ -24,14 +24,16 @@ class CoverageStep(Step):
         return {"coverage": result.to_frame(), "to_verify": result.to_verify()}
 
     def summary_lines(self, result: CoverageReport, ctx: RunContext) -> list[str]:
-        from ...report.text import number_in_words, counted
+        from ...report.text import counted, names, number_in_words
 
         data = self.summary_data(result, ctx)["coverage"]
         total, with_energy = data["reactions"], data["with_energy"]
+        missing = [r.reaction_id for r in result.reactions if r.source in ("placeholder", "none")]
         lines = [f"data: {number_in_words(with_energy, 'none')} of {counted(total, 'reaction')} "
                  f"{'has' if with_energy == 1 else 'have'} an energy "
                  f"({number_in_words(data['estimated'], 'none')} estimated, "
-                 f"{number_in_words(data['missing'], 'none')} missing)"]
+                 f"{number_in_words(data['missing'], 'none')} missing"
+                 + (f": {names(missing)}" if missing else "") + ")"]
         unchecked = data["unchecked"]
         if unchecked:
             lines.append(f"data to verify: {number_in_words(unchecked)} of {total} rest on a value "

@@ -27,6 +27,8 @@ class DrivingForceStep(Step):
     question = "by how much can every step that carries flux run downhill at once?"
 
     def run(self, ctx: RunContext) -> DrivingForceAnswer:
+        if ctx.skipped_as_not_applicable("driving force"):
+            return DrivingForceAnswer(None)
         tm = ctx.thermo_model(ctx.settings.mode)
         network = ctx.attempt("driving force", lambda: network_driving_force(tm, ctx.options))
         route = None

@@ -28,31 +28,47 @@ class FeasibilityStep(Step):
         return out
 
     def tables(self, result: dict[str, FeasibilityResult], ctx: RunContext) -> dict:
-        return {"feasibility": pd.DataFrame([r.row() for r in result.values()],
-                                            columns=FEASIBILITY_COLUMNS),
+        rows = []
+        for mode, r in result.items():
+            row = r.row()
+            if ctx.not_applicable(mode):  # no verdict: the question cannot be asked
+                row.update(feasible=None, uphill_set_size=None, demand_impossible=None)
+            rows.append(row)
+        return {"feasibility": pd.DataFrame(rows, columns=FEASIBILITY_COLUMNS),
                 "uphill_sets": pd.DataFrame([row for r in result.values() for row in r.uphill_rows()],
                                             columns=UPHILL_SET_COLUMNS)}
 
     def summary_lines(self, result: dict[str, FeasibilityResult], ctx: RunContext) -> list[str]:
-        from ...report.text import mode_line
+        from ...report.text import constrained_words, mode_line
 
         lines = []
         for mode, r in result.items():
+            reason = ctx.not_applicable(mode)
+            if reason:
+                lines.append(mode_line(question_for(mode, ctx), None, not_applicable=reason))
+                continue
             undetermined = r.message.startswith("undetermined")
             sets = r.diagnosis.sets if r.diagnosis is not None else []
-            lines.append(mode_line(MODES[mode].question, None if undetermined else r.feasible,
-                                   sets, r.demand_impossible,
+            constrained = "" if r.demand_impossible else constrained_words(*ctx.constrained(mode))
+            lines.append(mode_line(question_for(mode, ctx), None if undetermined else r.feasible,
+                                   sets, r.demand_impossible, constrained=constrained,
                                    status=r.verification.get("status", "")))
         return lines
 
     def summary_data(self, result: dict[str, FeasibilityResult], ctx: RunContext) -> dict:
-        return {"feasible": {m: r.feasible for m, r in result.items()},
+        reasons = {m: ctx.not_applicable(m) for m in result}
+        return {"feasible": {m: (None if reasons[m] else r.feasible) for m, r in result.items()},
                 "uphill": {m: (r.diagnosis.sets if r.diagnosis is not None else [])
                            for m, r in result.items()},
-                "demand_impossible": [m for m, r in result.items() if r.demand_impossible]}
+                "demand_impossible": [m for m, r in result.items() if r.demand_impossible],
+                "not_applicable": {m: why for m, why in reasons.items() if why},
+                "constrained": {m: dict(zip(("with_energy", "reactions"), ctx.constrained(m)))
+                                for m in result if not reasons[m]}}
 
     def sections(self, result: dict[str, FeasibilityResult], ctx: RunContext) -> list[Section]:
-        modes = "; ".join(f"{m}: {MODES[m].description}" for m in result)
+        modes = "; ".join(f"{m}: {MODES[m].description}" + (
+            f" Not applicable to this network: {ctx.not_applicable(m)}." if ctx.not_applicable(m)
+            else "") for m in result)
         return [Section(self.title, modes, tables=[("feasibility", "Feasibility per mode")]),
                 Section("Minimal uphill sets",
                         "The fewest reactions that must run against their gradient (coupled to an "
@@ -63,9 +79,38 @@ class FeasibilityStep(Step):
     def text(self, result: dict[str, FeasibilityResult], ctx: RunContext) -> str:
         from ...report.text import table_text
 
-        lines = [f"{mode}: {r.message}" for mode, r in result.items()]
+        lines = self.summary_lines(result, ctx)
+        missing = unconstrained(ctx)
+        if missing:
+            lines.append(missing)
         tables = self.tables(result, ctx)
         parts = ["\n".join(lines), table_text(tables["feasibility"].drop(columns=["message"]))]
         if len(tables["uphill_sets"]):
             parts.append(table_text(tables["uphill_sets"], "{:.2f}"))
         return "\n\n".join(parts) + "\n"
+
+
+def question_for(mode: str, ctx: RunContext) -> str:
+    """The mode's question, or "runs as given" for the native mode of a network without ATP,
+    whose question speaks of regenerating it."""
+    if mode == "native" and "atp" not in {str((m.notes or {}).get("role") or "")
+                                          for m in ctx.model.metabolites}:
+        return "runs as given"
+    return MODES[mode].question
+
+
+def unconstrained(ctx: RunContext) -> str:
+    """The internal reactions of the network as given that have no energy, counted and named
+    once (they run without a thermodynamic constraint in every mode); "" when there are none."""
+    from ...report.text import names
+
+    if ctx.not_applicable("native"):   # nothing was asked of the network as given
+        return ""
+    tm = ctx.thermo_model("native")
+    ids = [r.id for r in tm.internal_reactions() if r.id != tm.demand_id and r.id not in tm.energies]
+    if not ids:
+        return ""
+    total = ctx.constrained("native")[1]
+    policy = "blocked" if ctx.options.unknown_energy == "block" else "unconstrained"
+    return (f"without an energy ({policy} in every mode): {len(ids)} of {total} reactions: "
+            f"{names(ids)}")

@@ -8,6 +8,18 @@ from ..context import RunContext
 from ..step import FigureSpec, Section, Step
 
 
+def without_h2(ctx: RunContext, what: str) -> str | None:
+    """The H2 compound the analysis varies, or None (and a note: not applicable) when the
+    network has none or the analysis mode does not apply."""
+    if ctx.skipped_as_not_applicable(what):
+        return None
+    h2 = ctx.h2_id()
+    if h2 is None:
+        ctx.note(f"{what}: not applicable: no H2 in this network; name the H2 compound with "
+                 "--h2 ID")
+    return h2
+
+
 class H2ScanStep(Step):
     """Feasibility, max-min driving force and uphill-set size at each H2 level."""
 
@@ -17,10 +29,13 @@ class H2ScanStep(Step):
     question = "how do feasibility, driving force and the uphill set change with the H2 supply?"
 
     def run(self, ctx: RunContext) -> H2ScanResult | None:
+        h2 = without_h2(ctx, "H2 scan")
+        if h2 is None:
+            return None
         tm = ctx.thermo_model(ctx.settings.mode)
         return ctx.attempt("H2 scan", lambda: h2_scan(
-            tm, ctx.settings.scan_levels(), ctx.options, with_uphill=ctx.settings.scan_uphill,
-            progress=ctx.ticker("levels")))
+            tm, ctx.settings.scan_levels(), ctx.options, h2_id=h2,
+            with_uphill=ctx.settings.scan_uphill, progress=ctx.ticker("levels")))
 
     def tables(self, result: H2ScanResult | None, ctx: RunContext) -> dict:
         return {} if result is None else {"h2_scan": result.to_frame()}
@@ -67,9 +82,12 @@ class H2ThresholdStep(Step):
     question = "what is the least H2 supply at which the network runs?"
 
     def run(self, ctx: RunContext) -> H2ThresholdResult | None:
+        h2 = without_h2(ctx, "H2 threshold")
+        if h2 is None:
+            return None
         tm = ctx.thermo_model(ctx.settings.mode)
         return ctx.attempt("H2 threshold", lambda: h2_threshold(
-            tm, ctx.options, h2_range=ctx.settings.h2_range))
+            tm, ctx.options, h2_id=h2, h2_range=ctx.settings.h2_range))
 
     def tables(self, result: H2ThresholdResult | None, ctx: RunContext) -> dict:
         return {} if result is None else {"h2_threshold": result.to_frame()}

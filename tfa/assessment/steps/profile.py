@@ -47,6 +47,8 @@ class EnergyProfileStep(Step):
     question = "how does ΔrG' fall along the carbon-fixation route?"
 
     def run(self, ctx: RunContext) -> ProfileResult:
+        if ctx.skipped_as_not_applicable("energy profile"):
+            return ProfileResult()
         tm = ctx.thermo_model(ctx.settings.mode)
         reference, words = reference_solution(ctx)
         concentrations: dict[str, float] = {}

@@ -21,6 +21,8 @@ class RangesStep(Step):
 
     def run(self, ctx: RunContext) -> RangesResult | None:
         mode = ctx.settings.mode
+        if ctx.skipped_as_not_applicable("ranges"):
+            return None
         tm = ctx.thermo_model(mode)
         wanted = ctx.settings.ranges_reactions
         unknown = [r for r in wanted or [] if r not in tm.energies]

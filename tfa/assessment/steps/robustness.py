@@ -21,7 +21,8 @@ class RobustnessStep(Step):
         settings = ctx.settings
         if settings.draws == 0:
             return None
-        modes = [m for m in settings.modes if not ctx.feasibility(m).demand_impossible]
+        modes = [m for m in ctx.applicable(settings.modes)
+                 if not ctx.feasibility(m).demand_impossible]
         if not modes:
             ctx.note("robustness: skipped, no mode can meet the demand at all")
             return None
