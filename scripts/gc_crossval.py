@@ -27,7 +27,7 @@ def main() -> int:
         held = heldout_split(model, 0.2, seed)
         print(f"held-out 20 % (seed {seed}): n = {held.n}, MAE = {held.mae:.2f}, RMSE = {held.rmse:.2f}, "
               f"median |e| = {held.median_abs:.2f} kJ/mol, refused {len(held.refused)}")
-    print(f"largest leave-one-out residuals (estimate - reference, kJ/mol):")
+    print("largest leave-one-out residuals (estimate - reference, kJ/mol):")
     for sid, r in sorted(cv.residuals.items(), key=lambda kv: -abs(kv[1]))[: args.worst]:
         print(f"  {sid:<28} {r:+8.1f}")
     for prop in ("H", "S", "Cp"):

@@ -12,7 +12,6 @@ Usage: /tmp/venv/bin/python scripts/make_species_structures.py
 from __future__ import annotations
 
 import csv
-import re
 import sys
 from pathlib import Path
 
@@ -171,8 +170,8 @@ def _structures() -> dict[str, tuple[str, str]]:
     bz = "Cc1ccccc1"
     add("benzylamine", "NCc1ccccc1")
     add("benzylaminium", "[NH3+]Cc1ccccc1")
-    add("dibenzylamine", f"c1ccccc1CNCc1ccccc1")
-    add("dibenzylaminium", f"c1ccccc1C[NH2+]Cc1ccccc1")
+    add("dibenzylamine", "c1ccccc1CNCc1ccccc1")
+    add("dibenzylaminium", "c1ccccc1C[NH2+]Cc1ccccc1")
     add("tribenzylamine", f"N({bz})({bz}){bz}".replace("N(Cc", "N(Cc"))
     add("tribenzylaminium", f"[NH+]({bz})({bz}){bz}")
     add("methyldiethanolamine", "CN(CCO)CCO")
@@ -465,7 +464,6 @@ def main() -> int:
         if row["name"] in structures:
             z = parse_formula(row["formula"])[1]
             name = row["name"]
-            m = re.search(r"([+-])(\d*)$", name)
             why = _check(name, structures[name][0], row["formula"], z)
             if why:
                 problems.append(f"OBIGT {name}: {why}")

@@ -9,7 +9,6 @@ import json
 import os
 import subprocess
 import sys
-from pathlib import Path
 
 import pytest
 
@@ -95,7 +94,10 @@ def test_model_range_warnings_reach_summary_and_report(mini_folder, tmp_path, ca
     assert any("constant-Cp" in w for w in summary["warnings"])
     report = (out / "report.html").read_text()
     assert "Debye-Hueckel" in report and "constant-Cp" in report
-    assert "tfa assess: warning:" in err and "Traceback" not in err
+    # one table at the end, one row per distinct warning (two different sentences, two rows)
+    table = err[err.index("warnings (2;"):]
+    assert "Debye-Hueckel" in table and "constant-Cp" in table and "more like it" not in table
+    assert "Traceback" not in err
 
 
 @pytest.mark.parametrize("command", [["robustness", "--draws", "1"],

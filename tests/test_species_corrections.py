@@ -15,7 +15,6 @@ from pathlib import Path
 
 import pytest
 
-from tfa.conditions import Conditions
 from tfa.thermo.reaction_classes import CLASSES, check_estimate, class_range, classify
 from tfa.thermo.species import load_species
 

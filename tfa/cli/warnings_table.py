@@ -61,7 +61,8 @@ class WarningCollector(logging.Handler):
 
 def _one_line(message, category, filename, lineno, file=None, line=None) -> None:
     """``warnings.showwarning`` in one line, through logging: no file name, no source line."""
-    logging.getLogger(PYTHON_WARNINGS).warning("%s", message)
+    # the text is its own template: distinct Python warnings are distinct kinds in the table
+    logging.getLogger(PYTHON_WARNINGS).warning(str(message))
 
 
 @contextlib.contextmanager

@@ -54,11 +54,9 @@ class InfeasibleProblem(ComputationError):
 
 def highs_available() -> bool:
     """True when ``highspy`` can be imported."""
-    try:
-        from . import highs_interface  # noqa: F401
-    except ImportError:
-        return False
-    return True
+    import importlib.util
+
+    return importlib.util.find_spec("highspy") is not None
 
 
 def available_solvers() -> list[str]:
