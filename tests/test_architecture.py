@@ -243,6 +243,15 @@ def test_no_module_over_600_lines():
     assert long == {}
 
 
+def test_every_package_ships_in_the_wheel():
+    """A package missing from pyproject's list installs from a checkout but not from a wheel."""
+    import tomllib
+
+    listed = set(tomllib.loads((ROOT / "pyproject.toml").read_text())["tool"]["setuptools"]["packages"])
+    found = {".".join(p.parent.relative_to(ROOT).parts) for p in PACKAGE.rglob("__init__.py")}
+    assert found - listed == set()
+
+
 def test_the_repository_points_nowhere_outside_itself():
     # as a new maintainer would search: case-insensitive, so the design notes are named
     # "docs/design" in prose
