@@ -295,25 +295,30 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
     network_audit = [e for e in reconciliation_audit(rec) if e.flagged] if rec is not None else []
     basis = {v.id: v.basis for v in usable}
     table: dict[str, CompoundEnergy] = {}
+    places = compartment_places(model, environment, conditions)
     for met in model.metabolites:
         m = met.id
         smiles = _note(met, "smiles")
+        compartment, at, offset = places.get(m, ("", conditions, 0.0))
         if m in keyed:
-            fe = db.formation_energy(keyed[m], conditions)
-            table[m] = CompoundEnergy(m, "species", fe.value, fe.uncertainty, fe.provenance, keyed[m],
+            fe = db.formation_energy(keyed[m], at)
+            table[m] = CompoundEnergy(m, "species", fe.value + offset, fe.uncertainty,
+                                      fe.provenance + _offset_words(compartment, offset), keyed[m],
                                       None, tuple(fe.sources), tuple(fe.flags), True, smiles,
-                                      fe.status, library_audit.flags_for([keyed[m]]))
+                                      fe.status, library_audit.flags_for([keyed[m]]),
+                                      compartment=compartment, at=at, offset=offset)
             continue
         est_key = estimated_key.get(m)
         if rec is not None and m in rec.unknowns:
             identified = rec.compound_identified(m)
-            t_sigma = rec.temperature_sigma({m: 1.0}, conditions.temperature) if identified else math.nan
+            t_sigma = rec.temperature_sigma({m: 1.0}, at.temperature) if identified else math.nan
             sigma = math.hypot(rec.compound_sigma(m), t_sigma) if identified else math.nan
             if m in reconciled_key:
-                fe = ext.formation_energy(reconciled_key[m], conditions)
-                value, flags = fe.value, tuple(fe.flags)
+                fe = ext.formation_energy(reconciled_key[m], at)
+                value, flags = fe.value + offset, tuple(fe.flags)
             else:  # no formula: ΔfG'° independent of pH and I, constant ΔrS'° = 0 approximation
-                value = rec.species_gibbs(m, conditions.temperature) + legendre_offset(rec.species[m], conditions)
+                value = (rec.species_gibbs(m, at.temperature) + legendre_offset(rec.species[m], at)
+                         + offset)
                 flags = (f"{m}: no formula, Legendre transform not applied",)
             ids = rec.value_ids({m: 1.0}) if identified else [v.id for v in rec.values if m in v.stoichiometry]
             status = combined_value_status(basis.get(i, "checked") for i in ids)
@@ -324,14 +329,15 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
                                       est_key, tuple(rec.source_keys({m: 1.0})), flags, identified, smiles,
                                       status, tuple(e.flag_text() for e in network_audit
                                                     if m in e.compounds),
-                                      group_counts.get(m, {}))
+                                      group_counts.get(m, {}), compartment, at, offset)
             continue
         if est_key:
-            fe = ext.formation_energy(est_key, conditions)
-            table[m] = CompoundEnergy(m, "estimated", fe.value, fe.uncertainty,
-                                      f"{m}: group-contribution estimate from SMILES", est_key, est_key,
+            fe = ext.formation_energy(est_key, at)
+            table[m] = CompoundEnergy(m, "estimated", fe.value + offset, fe.uncertainty,
+                                      f"{m}: group-contribution estimate from SMILES"
+                                      + _offset_words(compartment, offset), est_key, est_key,
                                       tuple(fe.sources), tuple(fe.flags), True, smiles, ESTIMATED, (),
-                                      group_counts.get(m, {}))
+                                      group_counts.get(m, {}), compartment, at, offset)
             continue
         if smiles:
             why = estimate_errors.get(m) or "estimates were switched off"
@@ -343,6 +349,42 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
                                       "no species data, no literature value, no SMILES to estimate from",
                                       None, None, (), (), False, smiles)
     return CompoundEnergyTable(conditions, table, ext, rec, tuple(usable), skipped)
+
+
+def compartment_places(model: cobra.Model, environment, conditions: Conditions
+                       ) -> dict[str, tuple[str, Conditions, float]]:
+    """Metabolite id -> (compartment, its conditions, electrochemical offset in kJ/mol) for
+    every compound outside the cell whose compartment the environment describes
+    (:mod:`tfa.thermo.membrane`, equation (1)); compounds of the cell, and of compartments the
+    environment does not describe (warned about by
+    :func:`tfa.network.compartments.compartment_warnings`), are at the cell's conditions."""
+    from ..thermo.membrane import electrochemical_offset
+    from .compartments import cell_compartment
+
+    described = getattr(environment, "compartments", None) or {}
+    if not described:
+        return {}
+    cell = cell_compartment(model)
+    out: dict[str, tuple[str, Conditions, float]] = {}
+    for met in model.metabolites:
+        place = met.compartment or cell
+        if place == cell or place not in described:
+            continue
+        compartment = described[place]
+        species = _metabolite_species(met)
+        n_h = species.n_h if species.n_h is not None else 0.0
+        charge = species.charge if species.charge is not None else float(met.charge or 0)
+        offset = electrochemical_offset(n_h, charge, conditions.ph, compartment.ph,
+                                        compartment.membrane_potential_V, conditions.temperature)
+        out[met.id] = (place, compartment.conditions(conditions), offset)
+    return out
+
+
+def _offset_words(compartment: str, offset: float) -> str:
+    if not compartment:
+        return ""
+    return (f"; in compartment {compartment}: at its pH, ionic strength and pMg, plus "
+            f"{offset:+.2f} kJ/mol for its H+ and electric potential relative to the cell")
 
 
 # ------------------------------------------------------------------------ reaction energies
@@ -540,6 +582,11 @@ def prepared(model: cobra.Model, environment: Environment, mode: str = "native",
         literature = _default_literature(model, db)
     with model:
         with apply_mode(model, mode):
+            ions = getattr(environment, "ion_stoichiometry", None)
+            if ions:
+                from .compartments import set_ion_stoichiometry
+
+                set_ion_stoichiometry(model, ions, environment.source or environment.name)
             yield _thermo_model(model, environment, mode, db, literature)
 
 
