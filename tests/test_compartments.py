@@ -1,0 +1,189 @@
+"""Compartments and the proton-motive force (issue 19, item 2), on small hand-built networks
+with hand-derived answers.
+
+Sign convention under test: Δψ = ψ(cell) − ψ(compartment) (the environment's
+``membrane_potential_mV``), ΔpH = pH(cell) − pH(compartment); one H+ entering the cell has
+ΔG = −RT ln10 ΔpH + F Δψ (Mitchell 1961, Nature 191:144, doi:10.1038/191144a0). Constants:
+CODATA 2018 (R = 8.314462618 J/mol/K, F = 96485.33212 C/mol).
+"""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+
+R = 8.314462618e-3       # kJ/mol/K, CODATA 2018
+F = 96.48533212          # kJ/mol/V, CODATA 2018
+T70 = 343.15
+
+COMPOUNDS = """id\tname\tformula\tcharge\tthermo_key\trole\tcompartment
+h2o\twater\tH2O\t0\tH2O\twater\t
+h\tproton\tH\t1\tH+\tproton\t
+h_e\touter proton\tH\t1\tH+\t\te
+adp\tADP\tC10H12N5O10P2\t-3\tADP\tadp\t
+atp\tATP\tC10H12N5O13P3\t-4\tATP\tatp\t
+pi\tphosphate\tHO4P\t-2\tphosphate\tphosphate\t
+pi_e\touter phosphate\tHO4P\t-2\tphosphate\t\te
+"""
+
+REACTIONS = """id\tequation
+EX_h2o\th2o <=>
+EX_h\th <=>
+EX_h_e\th_e <=>
+EX_adp\tadp <=>
+EX_pi\tpi <=>
+EX_pi_e\tpi_e <=>
+HT\th_e <=> h
+PIT\tpi_e <=> pi
+ATPS\tadp + pi + 4 h_e <=> atp + h2o + 3 h
+DM_atp\tatp ->
+"""
+
+
+@pytest.fixture()
+def network(tmp_path):
+    from tfa.network.io_table import read_network
+
+    (tmp_path / "compounds.tsv").write_text(COMPOUNDS)
+    (tmp_path / "reactions.tsv").write_text(REACTIONS)
+    return read_network(tmp_path / "reactions.tsv")
+
+
+def _environment(ph_out=5.5, psi_mV=-150.0, n=None, atp=1e-3, adp=1e-3, pi=1e-2, ph=7.5):
+    from tfa.conditions import Compartment, Conditions
+    from tfa.network.environment import Environment
+
+    return Environment("hand", Conditions.from_celsius(70, ph=ph, ionic_strength=0.0),
+                       feed={"adp": adp, "pi": pi, "pi_e": pi},
+                       bounds={"atp": (atp, atp)}, demand_reaction="DM_atp", demand_flux=0.01,
+                       compartments={"e": Compartment("e", ph=ph_out, membrane_potential_mV=psi_mV)},
+                       ion_stoichiometry={} if n is None else {"ATPS": n})
+
+
+def test_one_proton_from_ph_5_5_at_minus_150_mV_into_ph_7_5_at_70_degC(network):
+    """Mitchell's relation by hand: −RT ln10 (7.5 − 5.5) + F (−0.150 V)
+    = −2 × 6.56951 − 14.47280 = −27.6118 kJ/mol (R, F: CODATA 2018)."""
+    from tfa.network.energies import prepare
+    from tfa.thermo.membrane import proton_inflow_energy
+
+    by_hand = -R * T70 * math.log(10) * 2.0 + F * (-0.150)
+    assert by_hand == pytest.approx(-27.6118, abs=1e-3)
+    assert proton_inflow_energy(2.0, -0.150, T70) == pytest.approx(by_hand, abs=1e-9)
+    tm = prepare(network, _environment(), "native")
+    assert tm.energies["HT"].standard == pytest.approx(by_hand, abs=1e-6)
+    # the proton has no activity variable in either compartment: this is its whole energy
+    assert {"h", "h_e"} <= tm.no_activity
+    # each part alone: ΔpH only, Δψ only
+    assert prepare(network, _environment(psi_mV=0.0), "native").energies["HT"].standard == \
+        pytest.approx(-2 * R * T70 * math.log(10), abs=1e-6)
+    assert prepare(network, _environment(ph_out=7.5), "native").energies["HT"].standard == \
+        pytest.approx(F * -0.150, abs=1e-6)
+
+
+def test_a_charged_ion_moves_by_nernst(network):
+    """HPO4(2-) (z = −2) into a cell at Δψ = −150 mV with no pH difference: uphill by
+    z F Δψ = (−2)(96.485)(−0.150) = +28.95 kJ/mol at equal activities (Nernst; by hand)."""
+    from tfa.network.energies import prepare
+
+    tm = prepare(network, _environment(ph_out=7.5, psi_mV=-150.0), "native")
+    assert tm.energies["PIT"].standard == pytest.approx(-2 * F * -0.150, abs=1e-6)
+    assert tm.energies["PIT"].uncertainty == pytest.approx(0.0, abs=1e-9)   # the σ cancels
+    # with no membrane potential and equal pH, transport carries no energy
+    flat = prepare(network, _environment(ph_out=7.5, psi_mV=0.0), "native")
+    assert flat.energies["PIT"].standard == pytest.approx(0.0, abs=1e-9)
+
+
+def _phosphorylation_potential(network, env) -> float:
+    """ΔG of ADP + Pi -> ATP + H2O at the environment's concentrations, kJ/mol, from the species
+    data alone (the database's reaction energy, no compartment involved) and RT ln Q."""
+    from tfa.thermo import ThermoDatabase
+
+    c = env.conditions
+    g0 = ThermoDatabase.load().reaction_energy("ADP + phosphate <=> ATP + H2O", c).standard
+    atp = env.bounds["atp"][0]
+    return g0 + c.RT * math.log(atp / (env.feed["adp"] * env.feed["pi"]))
+
+
+@pytest.mark.parametrize("ph_out,psi_mV", [(5.5, -150.0), (6.5, -60.0)])
+def test_atp_synthase_runs_exactly_when_n_protons_pay_the_phosphorylation_potential(network, ph_out,
+                                                                                   psi_mV):
+    """n H+/ATP: ATP synthesis (with the demand pulling ATP out) is feasible exactly when
+    n × (RT ln10 ΔpH − F Δψ) exceeds the phosphorylation potential ΔG_p (Mitchell 1961), here
+    with the least driving force δ of the problem: feasible iff n·|ΔG_H| − ΔG_p > δ."""
+    from tfa.analyses import feasibility
+    from tfa.network.energies import prepare
+    from tfa.problem import ProblemOptions
+
+    options = ProblemOptions(time_limit=60)
+    env = _environment(ph_out=ph_out, psi_mV=psi_mV)
+    dg_p = _phosphorylation_potential(network, env)
+    gain = -(-R * T70 * math.log(10) * (7.5 - ph_out) + F * psi_mV / 1000.0)   # per H+, > 0
+    assert 40.0 < dg_p < 70.0
+    n_star = (dg_p + options.min_driving_force) / gain
+    for n, expected in ((n_star * 0.97, False), (n_star * 1.03, True)):
+        tm = prepare(network, _environment(ph_out=ph_out, psi_mV=psi_mV, n=n), "native")
+        atps = {m.id: c for m, c in tm.model.reactions.ATPS.metabolites.items()}
+        assert atps["h_e"] == pytest.approx(-n) and atps["h"] == pytest.approx(n - 1)
+        # the reaction energy itself: ΔG_p − n × gain, by hand
+        g = tm.energies["ATPS"].standard + tm.RT * (math.log(env.bounds["atp"][0])
+                                                    - math.log(env.feed["adp"] * env.feed["pi"]))
+        assert g == pytest.approx(dg_p - n * gain, abs=1e-6)
+        result = feasibility(tm, options)
+        assert result.feasible is expected, (n, n_star, result.message)
+        if expected:
+            assert all(c.passed for c in result.certificates)
+
+
+def test_the_ion_stoichiometry_parameter_keeps_the_balance(network):
+    from tfa.network.compartments import set_ion_stoichiometry
+    from tfa.network.checks import balance_problem
+
+    with network:
+        set_ion_stoichiometry(network, {"ATPS": 3})
+        atps = network.reactions.ATPS
+        assert {m.id: c for m, c in atps.metabolites.items()}["h_e"] == -3
+        assert not balance_problem(atps)
+    assert {m.id: c for m, c in network.reactions.ATPS.metabolites.items()}["h_e"] == -4   # undone
+
+
+def test_environment_compartments_are_checked(tmp_path):
+    from tfa.errors import ConditionsError, NetworkFileError
+    from tfa.network.environment import Environment
+
+    base = ("[conditions]\ntemperature_C = 25.0\npH = 7.0\nionic_strength_M = 0.1\n"
+            "[demand]\nreaction = \"DM_atp\"\nflux = 0.01\n")
+    path = tmp_path / "env.toml"
+    path.write_text(base + "[compartments.e]\npH = 6.0\nmembrane_potential_mV = -120\n")
+    env = Environment.from_toml(path)
+    assert env.compartments["e"].ph == 6.0 and env.compartments["e"].membrane_potential_V == -0.12
+    assert env.without_gradient().compartments["e"].ph == 7.0
+    assert env.with_gradient_scaled(0.5).compartments["e"].ph == pytest.approx(6.5)
+    path.write_text(base + "[compartments.e]\nmembrane_potential_mV = -120\n")
+    with pytest.raises(NetworkFileError, match="'pH' is missing"):
+        Environment.from_toml(path)
+    path.write_text(base + "[compartments.e]\npH = 6.0\npotential = -120\n")
+    with pytest.raises(NetworkFileError, match="unknown key 'potential'"):
+        Environment.from_toml(path)
+    path.write_text(base + "[compartments.e]\npH = 16.0\n")
+    with pytest.raises(ConditionsError, match="outside 0-14"):
+        Environment.from_toml(path)
+
+
+def test_a_compartment_without_a_stated_ph_is_warned_about(network):
+    from tfa.conditions import Conditions
+    from tfa.network.compartments import compartment_warnings
+    from tfa.network.environment import Environment
+
+    env = Environment("hand", Conditions(), demand_reaction="DM_atp", demand_flux=0.01)
+    (text,) = compartment_warnings(network, env)
+    assert "compartment(s) e have no stated pH" in text and "[compartments.ID]" in text
+    assert compartment_warnings(network, _environment()) == []
+
+
+def test_compartment_column_round_trips(network, tmp_path):
+    from tfa.network.io_table import read_network, write_network
+
+    reactions, _ = write_network(network, tmp_path / "copy")
+    again = read_network(reactions)
+    assert again.metabolites.h_e.compartment == "e" and again.metabolites.h.compartment == "c"
