@@ -187,3 +187,31 @@ def test_compartment_column_round_trips(network, tmp_path):
     reactions, _ = write_network(network, tmp_path / "copy")
     again = read_network(reactions)
     assert again.metabolites.h_e.compartment == "e" and again.metabolites.h.compartment == "c"
+
+
+def test_least_gradient_of_an_atp_synthase_is_the_hand_derived_one(network):
+    """With n = 4 H+/ATP and Δψ held in proportion, the least fraction s of the gradient at which
+    ATP is made satisfies 4 s |ΔG_H| = ΔG_p + δ (Mitchell 1961; by hand), found by the verified
+    bisection within its tolerance: a certified point above, no point below."""
+    from tfa.analyses import feasibility
+    from tfa.analyses.gradient import SCALE_TOLERANCE, least_gradient
+    from tfa.network.energies import prepare
+    from tfa.problem import ProblemOptions
+
+    options = ProblemOptions(time_limit=60)
+    env = _environment(ph_out=5.5, psi_mV=-150.0, n=4)
+    dg_p = _phosphorylation_potential(network, env)
+    gain = -(-R * T70 * math.log(10) * 2.0 + F * -0.150)
+    s_star = (dg_p + options.min_driving_force) / (4 * gain)
+    assert 0.0 < s_star < 1.0
+    rows, check, words = least_gradient(
+        env, lambda e: prepare(network, e, "native"),
+        lambda tm, diagnose: feasibility(tm, options, diagnose=diagnose))
+    (row,) = rows
+    assert row["feasible"] and s_star <= row["gradient_scale"] <= s_star + SCALE_TOLERANCE
+    assert row["delta_ph"] == pytest.approx(2.0 * row["gradient_scale"])
+    assert row["membrane_potential_mV"] == pytest.approx(-150.0 * row["gradient_scale"])
+    assert check["status"] in ("proven", "solver proof") and "certified point" in check["check"]
+    # without the gradient nothing runs; with three times it, it does
+    no = feasibility(prepare(network, env.without_gradient(), "native"), options, diagnose=False)
+    assert not no.feasible
