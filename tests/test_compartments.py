@@ -215,3 +215,46 @@ def test_least_gradient_of_an_atp_synthase_is_the_hand_derived_one(network):
     # without the gradient nothing runs; with three times it, it does
     no = feasibility(prepare(network, env.without_gradient(), "native"), options, diagnose=False)
     assert not no.feasible
+
+
+# ------------------------------------------------------------------ cobra's textbook model
+@pytest.fixture(scope="module")
+def textbook_sbml(tmp_path_factory):
+    """cobra's textbook model (E. coli core, compartments c and e) written to SBML, as in
+    tests/test_own_networks.py."""
+    import cobra
+
+    path = tmp_path_factory.mktemp("textbook") / "e_coli_core.xml"
+    cobra.io.write_sbml_model(cobra.io.load_model("textbook"), str(path))
+    return path
+
+
+def test_textbook_transport_energies_follow_the_stated_compartment_ph(textbook_sbml, caplog):
+    """ATPS4r (adp_c + 4 h_e + pi_c <=> atp_c + h2o_c + 3 h_c) has ΔrG'° lower by
+    4 RT ln10 per unit of ΔpH and by 4 F |Δψ| for a cell negative inside (Mitchell 1961; by
+    hand at 25 degC: 4 × 5.7080 = 22.832 kJ/mol per pH unit, 4 × 14.473 = 57.891 kJ/mol at
+    −150 mV); the phosphate symport PIt2r changes too; without a stated pH the user is told."""
+    import logging
+
+    from tfa.network.energies import prepare
+    from tfa.network.inputs import resolve_inputs
+
+    with caplog.at_level(logging.WARNING):
+        inputs = resolve_inputs(textbook_sbml)
+    told = [w for w in inputs.warnings if "compartment(s) e have no stated pH" in w]
+    assert told and any("compartment(s) e have no stated pH" in r.getMessage() for r in caplog.records)
+    model, env = inputs.model, inputs.environment
+    assert model.metabolites.h_e.compartment == "e" and env.conditions.ph == 7.0
+    rt_ln10 = R * env.conditions.temperature * math.log(10)
+    energy = {}
+    for ph_e, psi in ((7.0, 0.0), (6.0, 0.0), (7.0, -150.0)):
+        tm = prepare(model, env.with_compartment("e", ph=ph_e, membrane_potential_mV=psi), "native")
+        energy[ph_e, psi] = {r: tm.energies[r].standard for r in ("ATPS4r", "PIt2r")}
+    flat = prepare(model, env, "native")   # no compartment stated: the cell's pH, 0 mV
+    assert flat.energies["ATPS4r"].standard == pytest.approx(energy[7.0, 0.0]["ATPS4r"], abs=1e-9)
+    assert energy[6.0, 0.0]["ATPS4r"] - energy[7.0, 0.0]["ATPS4r"] == pytest.approx(-4 * rt_ln10, abs=1e-6)
+    assert -4 * rt_ln10 == pytest.approx(-22.832, abs=1e-3)
+    assert energy[7.0, -150.0]["ATPS4r"] - energy[7.0, 0.0]["ATPS4r"] == pytest.approx(4 * F * -0.150, abs=1e-6)
+    assert abs(energy[6.0, 0.0]["PIt2r"] - energy[7.0, 0.0]["PIt2r"]) > 1.0
+    # HPO4(2-) with one H+ in: net charge -1 crosses, so Δψ = −150 mV costs F × 0.150 (by hand)
+    assert energy[7.0, -150.0]["PIt2r"] - energy[7.0, 0.0]["PIt2r"] == pytest.approx(F * 0.150, abs=1e-6)
