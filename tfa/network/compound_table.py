@@ -74,6 +74,8 @@ class CompoundEnergyTable:
     reconciliation: Reconciliation | None = None
     literature: tuple[LiteratureValue, ...] = ()
     skipped_values: dict[str, str] = field(default_factory=dict)
+    #: Compartment id -> :class:`tfa.conditions.Compartment` of the environment (issue 19).
+    compartments: dict = field(default_factory=dict)
 
     # ----------------------------------------------------------------------------------------
     def reaction_energy(self, reaction_id: str, stoichiometry: Mapping[str, float],

@@ -348,7 +348,8 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
             table[m] = CompoundEnergy(m, "none", math.nan, math.nan,
                                       "no species data, no literature value, no SMILES to estimate from",
                                       None, None, (), (), False, smiles)
-    return CompoundEnergyTable(conditions, table, ext, rec, tuple(usable), skipped)
+    return CompoundEnergyTable(conditions, table, ext, rec, tuple(usable), skipped,
+                               dict(getattr(environment, "compartments", None) or {}))
 
 
 def compartment_places(model: cobra.Model, environment, conditions: Conditions
@@ -411,8 +412,33 @@ def reaction_energies(model: cobra.Model, table: CompoundEnergyTable,
                 f"reaction '{reaction.id}': energy_source '{source}' is not an id of the literature "
                 "values (reaction_values.tsv); write 'auto' or a value id")
         stoich = {m.id: c for m, c in reaction.metabolites.items()}
-        out[reaction.id] = checked_estimate(table.reaction_energy(reaction.id, stoich, source), table)
+        energy = checked_estimate(table.reaction_energy(reaction.id, stoich, source), table)
+        state = standard_state_words(table, stoich)
+        if state:
+            energy = dataclasses.replace(energy, standard_state=state,
+                                         provenance=f"{energy.provenance}; reference: {state}")
+        out[reaction.id] = energy
     return out
+
+
+def standard_state_words(table: CompoundEnergyTable, stoichiometry: Mapping[str, float]) -> str:
+    """The reference of ΔrG'° of a reaction across a membrane, in words ("" within the cell):
+    every compound at 1 mol/L (gases 1 bar) in its own compartment, at that compartment's pH,
+    ionic strength and electric potential, H+ of each compartment at its pH (issue 19)."""
+    places = {table.compounds[m].compartment for m in stoichiometry if m in table.compounds}
+    if not places - {""}:
+        return ""
+    c = table.conditions
+    parts = [f"cell pH {c.ph:g}"]
+    for m in sorted({m for m in stoichiometry if m in table.compounds and table.compounds[m].compartment}):
+        ce = table.compounds[m]
+        comp = table.compartments.get(ce.compartment)
+        text = (f"{ce.compartment} pH {comp.ph:g}, Δψ = ψ cell − ψ {ce.compartment} = "
+                f"{comp.membrane_potential_mV:g} mV" if comp is not None else ce.compartment)
+        if text not in parts:
+            parts.append(text)
+    return ("each compound at 1 mol/L in its compartment at that compartment's pH and electric "
+            "potential (" + "; ".join(parts) + "; the electric and H+ terms relative to the cell)")
 
 
 def network_reaction_energy(model: cobra.Model, conditions: Conditions, equation: str,
