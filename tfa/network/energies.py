@@ -444,12 +444,15 @@ def standard_state_words(table: CompoundEnergyTable, stoichiometry: Mapping[str,
 def network_reaction_energy(model: cobra.Model, conditions: Conditions, equation: str,
                             activities: Mapping[str, float] | None = None,
                             db: ThermoDatabase | None = None, literature=None,
-                            estimate: bool = True):
+                            estimate: bool = True, compartments: Mapping | None = None):
     """ΔrG'° and ΔrG' of any reaction over a network's compounds, from the network's own data.
 
     The compounds are named by metabolite id, name, synonym or thermo key; their energies are
     those the network uses (:func:`compound_energies`: species data, its own reaction values
     reconciled, estimates), so this answers "what does this network take for this reaction".
+    ``compartments`` (compartment id -> :class:`tfa.conditions.Compartment`, the environment's)
+    put compounds outside the cell at their compartment's pH and potential; the flags state the
+    reference of a reaction across the membrane, or that a compartment has no stated pH.
 
     Returns
     -------
@@ -504,8 +507,12 @@ def network_reaction_energy(model: cobra.Model, conditions: Conditions, equation
                     int(met.charge or 0)) for m, met in mets.items()}
     balance = check_balance(net, formulas)
     require_balanced(balance, text, where=f"network {model.id}")
-    table = compound_energies(model, conditions, db, literature, estimate=estimate)
+    import types
+
+    setting = types.SimpleNamespace(conditions=conditions, compartments=dict(compartments or {}))
+    table = compound_energies(model, setting, db, literature, estimate=estimate)
     energy = checked_estimate(table.reaction_energy("equation", net), table)
+    state = standard_state_words(table, net)
     if not math.isfinite(energy.standard):
         raise MissingDataError(f"network {model.id} does not fix the energy of {text}: "
                                f"{energy.provenance}")
@@ -529,6 +536,17 @@ def network_reaction_energy(model: cobra.Model, conditions: Conditions, equation
     defaulted = [m for m in used if m not in given]
     if defaulted:
         flags.append("activity 1 (standard state) used for " + ", ".join(defaulted))
+    if state:
+        flags.append(f"reference of the standard energy: {state}")
+    from .compartments import cell_compartment
+
+    cell = cell_compartment(model)
+    unstated = sorted({mets[m].compartment for m in net if mets[m].compartment
+                       and mets[m].compartment != cell} - set(setting.compartments))
+    if unstated:
+        flags.append(f"compartment(s) {', '.join(unstated)} have no stated pH: taken at the "
+                     f"cell's pH {conditions.ph:g} with membrane potential 0 (give the network's "
+                     "environment with [compartments.ID])")
     sources: list[str] = []
     for m in net:
         extend_unique(sources, table.compounds[m].sources)
