@@ -258,3 +258,62 @@ def test_textbook_transport_energies_follow_the_stated_compartment_ph(textbook_s
     assert abs(energy[6.0, 0.0]["PIt2r"] - energy[7.0, 0.0]["PIt2r"]) > 1.0
     # HPO4(2-) with one H+ in: net charge -1 crosses, so Δψ = −150 mV costs F × 0.150 (by hand)
     assert energy[7.0, -150.0]["PIt2r"] - energy[7.0, 0.0]["PIt2r"] == pytest.approx(F * 0.150, abs=1e-6)
+
+
+FD_COMPOUNDS = """id\tname\tformula\tcharge\tthermo_key\trole\tcompartment
+h2o\twater\tH2O\t0\tH2O\twater\t
+h\tproton\tH\t1\tH+\tproton\t
+h_e\touter proton\tH\t1\tH+\t\te
+h2\thydrogen\tH2\t0\tH2\th2\t
+fdox\tferredoxin (oxidised)\tFd\t0\tFd_ox\tox:Fd:2\t
+fdred\tferredoxin (reduced)\tFd\t-2\tFd_red\tred:Fd:2\t
+"""
+FD_REACTIONS = """id\tequation
+EX_h2o\th2o <=>
+EX_h\th <=>
+EX_h_e\th_e <=>
+EX_h2\th2 <=>
+HYD\th2 + fdox <=> fdred + 2 h
+ECH\th2 + fdox + 2 h_e <=> fdred + 4 h
+EX_fdox\tfdox <=>
+DM_fd\tfdred ->
+"""
+
+
+def test_ferredoxin_by_h2_with_and_without_the_gradient(tmp_path):
+    """H2 reduces ferredoxin directly up to red/ox = exp((−ΔrG'° − δ + RT ln a_H2)/RT); with
+    two H+ entering at ΔpH 2 and Δψ 0 it gets 2 × 2 RT ln10 more, i.e. a ratio 10^4 times higher
+    and a potential (RT/2F) ln 10^4 = 136.2 mV lower at 70 °C (by hand: 2.8531 / (2 × 96.485)
+    × 9.2103 V). To reach red/ox 1e4 (10 mM / 1 µM), each entering H+ must bring
+    (ΔrG'(direct at that ratio) + δ)/2."""
+    from tfa.analyses.gradient import carrier_by_h2
+    from tfa.conditions import Compartment, Conditions
+    from tfa.network.energies import prepare
+    from tfa.network.environment import Environment
+    from tfa.network.io_table import read_network
+    from tfa.problem import ProblemOptions
+
+    (tmp_path / "compounds.tsv").write_text(FD_COMPOUNDS)
+    (tmp_path / "reactions.tsv").write_text(FD_REACTIONS)
+    model = read_network(tmp_path / "reactions.tsv")
+    env = Environment("fd", Conditions.from_celsius(70, ph=7.5), feed={"h2": 1e-3, "fdox": 1e-6},
+                      demand_reaction="DM_fd", demand_flux=0.01,
+                      compartments={"e": Compartment("e", ph=5.5)})
+    options = ProblemOptions()
+    tm = prepare(model, env, "native")
+    rows = {r["reaction"]: r for r in carrier_by_h2(tm, "h2", options)}
+    rt, delta = tm.RT, options.min_driving_force
+    g_direct = tm.energies["HYD"].standard
+    assert rows["HYD"]["reduced_to_oxidised_max"] == pytest.approx(
+        math.exp((-g_direct - delta + rt * math.log(1e-3)) / rt), rel=1e-9)
+    assert rows["ECH"]["ions_in"] == 2 and rows["HYD"]["ions_in"] == 0
+    assert rows["ECH"]["reduced_to_oxidised_max"] / rows["HYD"]["reduced_to_oxidised_max"] == \
+        pytest.approx(1e4, rel=1e-9)
+    assert rows["HYD"]["carrier_potential_mV"] - rows["ECH"]["carrier_potential_mV"] == \
+        pytest.approx(136.2, abs=0.05)
+    at_bound = g_direct + rt * (math.log(1e-2 / 1e-6) - math.log(1e-3))
+    assert rows["ECH"]["needed_per_ion_kJ_per_mol"] == pytest.approx(max(0.0, (at_bound + delta) / 2))
+    # without the gradient the coupled enzyme does no better than the direct one
+    flat = {r["reaction"]: r for r in carrier_by_h2(prepare(model, env.without_gradient(), "native"),
+                                                    "h2", options)}
+    assert flat["ECH"]["reduced_to_oxidised_max"] == pytest.approx(flat["HYD"]["reduced_to_oxidised_max"])

@@ -49,14 +49,6 @@ from ..thermo.membrane import proton_inflow_energy, proton_motive_force_mV
 from .results import AnalysisResult, verification, weakest
 
 
-@dataclass
-class _Known:
-    """An answer already known (feasible at no gradient: a verdict of this run)."""
-
-    feasible: bool
-    verification: dict = field(default_factory=lambda: {"status": "certified",
-                                                         "check": "the verdict without the gradient"})
-
 #: The largest gradient scale searched (three times the environment's).
 MAX_SCALE = 3.0
 #: Bisection stops when the bracket of the scale is narrower than this.
@@ -291,11 +283,22 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
     result = GradientResult(conditions=environment.conditions)
     result.has_gradient = has_gradient(environment)
     flat = environment.without_gradient()
+    budget = 2 + math.ceil(math.log2(max(MAX_SCALE / SCALE_TOLERANCE, 2)))
+    total = len(modes) + 1 + budget * len(modes)
+    done = [0]
+
+    def tick(count: int = 1) -> None:
+        done[0] += count
+        if progress is not None:
+            progress(min(done[0], total), total)
+
+    flat_answers: dict = {}
     for m in modes:
         for label, answer in (("with", with_gradient[m]), ("without", None)):
             if answer is None:
+                tick()
                 try:
-                    answer = ask(prepare_at(flat, m), True)
+                    answer = flat_answers[m] = ask(prepare_at(flat, m), True)
                 except UndeterminedError as err:
                     result.verdicts.append({"mode": m, "gradient": label, "feasible": None,
                                             "uphill_set_size": None,
@@ -305,6 +308,7 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
                                     "uphill_set_size": answer.uphill_set_size,
                                     "message": answer.message})
     if threshold is not None:
+        tick()
         answers = {"with": with_threshold, "without": threshold(prepare_at(flat, mode))}
         for row in result.verdicts:
             found = answers.get(row["gradient"]) if row["mode"] == mode else None
@@ -316,11 +320,9 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
         answers = {r["gradient"]: r for r in result.verdicts if r["mode"] == m}
         if answers.get("without", {}).get("feasible") is None and m != mode:
             continue
-        flat_answer = _Known(answers["without"]["feasible"]) if "without" in answers else None
         rows, check, words = least_gradient(environment, lambda env, m=m: prepare_at(env, m), ask,
-                                            at_zero=flat_answer if flat_answer and flat_answer.feasible
-                                            else None, at_one=with_gradient[m],
-                                            progress=progress)
+                                            at_zero=flat_answers.get(m), at_one=with_gradient[m],
+                                            progress=lambda d, t: tick())
         for row in rows:
             row["mode"] = m
         result.least.extend(rows)
