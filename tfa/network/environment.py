@@ -524,7 +524,15 @@ class Environment:
     def describe(self) -> str:
         """One line for reports."""
         feed = ", ".join(f"{k} {v:g}" for k, v in self.feed.items())
-        return f"{self.name}: {self.conditions.describe()}; feed {feed or 'none'}"
+        return (f"{self.name}: {self.conditions.describe()}{self.describe_compartments('; ')}; "
+                f"feed {feed or 'none'}")
+
+    def describe_compartments(self, prefix: str = "") -> str:
+        """The compartments besides the cell in words ("" when none), e.g.
+        ``out: pH 5.50, Δψ = 0 mV (ψ cell − ψ out)``."""
+        if not self.compartments:
+            return ""
+        return prefix + "; ".join(c.describe() for _, c in sorted(self.compartments.items()))
 
 
 @dataclass(frozen=True)
