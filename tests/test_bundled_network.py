@@ -498,3 +498,31 @@ def test_the_energies_exclude_atp_from_nothing():
                          diagnose=False)
     assert not result.feasible
     assert result.verification["status"] in ("proven", "solver proof")
+
+
+@pytest.mark.slow
+def test_the_assessment_says_what_the_gradient_does_for_ferredoxin_and_for_each_mode(capsys):
+    """Issue 19 acceptance, at the demo setting: whether ferredoxin can be reduced by H2 with
+    the gradient's help and how much gradient that needs; the verdicts with and without the
+    gradient and the least gradient at which H2-only runs. Checked against hand arithmetic:
+    2 H+ at ΔpH 2 raise the reachable red/ox ratio by 10^(2×2) = 1e4 (Mitchell 1961); H2-only
+    runs only when 4 H+ pay for ATP synthesis (≥ 46.6 kJ/mol within the bounds: ΔpH ≥ 46.6 /
+    (4 × 6.5695) = 1.77 at 70 °C; this README's figure)."""
+    import json
+
+    from tfa.cli import main
+
+    assert main(["gradient", "--modes", "native,h2_only", "--json"]) == 0
+    payload = json.loads(capsys.readouterr().out)
+    tables = payload["tables"]
+    verdicts = {(r["mode"], r["gradient"]): r for r in tables["gradient_verdicts"]}
+    assert verdicts["h2_only", "with"]["feasible"] and not verdicts["h2_only", "without"]["feasible"]
+    assert verdicts["native", "with"]["h2_threshold"] < verdicts["native", "without"]["h2_threshold"]
+    least = {r["mode"]: r for r in tables["least_gradient"]}
+    assert least["h2_only"]["feasible"] and 1.77 <= least["h2_only"]["delta_ph"] <= 2.0
+    assert least["h2_only"]["status"] in ("proven", "solver proof")
+    fd = {(r["reaction"], r["gradient"]): r for r in tables["carrier_by_h2"]}
+    direct, coupled = fd["HYD_FD", "with"], fd["ECH", "with"]
+    assert coupled["reduced_to_oxidised_max"] / direct["reduced_to_oxidised_max"] == \
+        pytest.approx(1e4, rel=1e-6)
+    assert 0 < coupled["needed_per_ion_kJ_per_mol"] < 13.1   # less than the demo's 13.1 per H+
