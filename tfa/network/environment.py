@@ -125,6 +125,13 @@ class Environment:
         Keep the flux bounds the network file gives its boundary reactions (every exchange open
         within them; the neutral default of :mod:`tfa.network.default_environment`) instead of
         opening only fed compounds, water, H+ and outlets.
+    compartments : dict
+        Compartment id -> :class:`~tfa.conditions.Compartment` (pH, ionic strength, pMg,
+        membrane potential Δψ = ψ(cell) − ψ(compartment), mV) of every compartment besides the
+        cell; the cell is described by ``conditions``.
+    ion_stoichiometry : dict
+        Reaction id -> ions it moves across the membrane per turnover
+        (:func:`tfa.network.compartments.set_ion_stoichiometry`).
     """
 
     name: str
