@@ -78,6 +78,7 @@ class GradientResult(AnalysisResult):
     least: list[dict] = field(default_factory=list)
     carrier: list[dict] = field(default_factory=list)
     carrier_words: str = ""
+    least_words: list[str] = field(default_factory=list)
     message: str = ""
 
     def to_frame(self) -> pd.DataFrame:
@@ -320,6 +321,10 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
         answers = {r["gradient"]: r for r in result.verdicts if r["mode"] == m}
         if answers.get("without", {}).get("feasible") is None and m != mode:
             continue
+        if getattr(with_gradient[m], "demand_impossible", False):
+            sentences.append(f"{m}: the demand cannot be met even ignoring thermodynamics, with "
+                             "any gradient")
+            continue
         rows, check, words = least_gradient(environment, lambda env, m=m: prepare_at(env, m), ask,
                                             at_zero=flat_answers.get(m), at_one=with_gradient[m],
                                             progress=lambda d, t: tick())
@@ -328,7 +333,9 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
         result.least.extend(rows)
         checks.append(check)
         sentences.append(f"{m}: {words}")
-    result.verification = weakest(checks, [s.split(":")[0] for s in sentences])
+    result.verification = weakest(checks, [s.split(":")[0] for s in sentences
+                                           if "ignoring thermodynamics" not in s])
+    result.least_words = sentences
     words = "least gradient: " + "; ".join(sentences)
     tm = prepare_at(environment, mode)
     flat_tm = prepare_at(flat, mode)

@@ -68,7 +68,10 @@ class GradientStep(Step):
                 lines.append(f"without the gradient ({row['mode']}): {verdict}"
                              + (f"; H2 threshold {row['h2_threshold']:.3g} {row['h2_unit']}"
                                 if row.get("h2_threshold") is not None else ""))
-        lines.append(result.message)
+        lines += [f"least gradient ({text.split(': ', 1)[0]}): {text.split(': ', 1)[1]}"
+                  for text in result.least_words]
+        if result.carrier_words:
+            lines.append(result.carrier_words)
         return lines
 
     def summary_data(self, result: GradientResult | None, ctx: RunContext) -> dict:
