@@ -260,6 +260,22 @@ def test_textbook_transport_energies_follow_the_stated_compartment_ph(textbook_s
     assert energy[7.0, -150.0]["PIt2r"] - energy[7.0, 0.0]["PIt2r"] == pytest.approx(F * 0.150, abs=1e-6)
 
 
+def test_textbook_cobra_json_compartments_map_the_same_way(textbook_sbml, tmp_path):
+    import cobra
+
+    from tfa.network.energies import prepare
+    from tfa.network.inputs import resolve_inputs
+
+    path = tmp_path / "e_coli_core.json"
+    cobra.io.save_json_model(cobra.io.load_model("textbook"), str(path))
+    values = []
+    for source in (textbook_sbml, path):
+        inputs = resolve_inputs(source)
+        env = inputs.environment.with_compartment("e", ph=6.0, membrane_potential_mV=-150.0)
+        values.append(prepare(inputs.model, env, "native").energies["ATPS4r"].standard)
+    assert values[1] == pytest.approx(values[0], abs=1e-9)
+
+
 FD_COMPOUNDS = """id\tname\tformula\tcharge\tthermo_key\trole\tcompartment
 h2o\twater\tH2O\t0\tH2O\twater\t
 h\tproton\tH\t1\tH+\tproton\t
@@ -317,3 +333,25 @@ def test_ferredoxin_by_h2_with_and_without_the_gradient(tmp_path):
     flat = {r["reaction"]: r for r in carrier_by_h2(prepare(model, env.without_gradient(), "native"),
                                                     "h2", options)}
     assert flat["ECH"]["reduced_to_oxidised_max"] == pytest.approx(flat["HYD"]["reduced_to_oxidised_max"])
+
+
+def test_census_keeps_fed_compounds_at_feed_and_protons_at_their_compartment_ph(network):
+    """Census (issue 19 item 7): ΔrG' 'at 1 mM' keeps the fed compounds (ADP 1 mM, Pi 10 mM) at
+    their feed values; H+ of either compartment has no activity term (it stands at its
+    compartment's pH, inside ΔrG'°); a reaction across the membrane states its reference."""
+    from tfa.analyses.census import census
+    from tfa.network.energies import prepare
+
+    env = _environment(adp=1e-3, pi=1e-2)
+    tm = prepare(network, env, "native")
+    table = census(tm).table.set_index("reaction")
+    rt = tm.RT
+    atps = table.loc["ATPS"]
+    # ADP + Pi (fed) -> ATP (1 mM) + H2O: RT [ln 1e-3 − ln 1e-3 − ln 1e-2] by hand
+    assert atps["delta_g_1mM_kJ_per_mol"] == pytest.approx(
+        atps["delta_g_standard_kJ_per_mol"] + rt * (math.log(1e-3) - math.log(1e-3) - math.log(1e-2)))
+    ht = table.loc["HT"]
+    assert ht["delta_g_1mM_kJ_per_mol"] == pytest.approx(ht["delta_g_standard_kJ_per_mol"])
+    assert ht["delta_g_standard_kJ_per_mol"] == pytest.approx(-27.6118, abs=1e-3)
+    assert "e pH 5.5, Δψ = ψ cell − ψ e = -150 mV" in ht["standard_state"]
+    assert "cell pH 7.5" in ht["standard_state"]
