@@ -13,6 +13,7 @@ from .steps.census import CensusStep
 from .steps.coverage import CoverageStep
 from .steps.driving_force import DrivingForceStep
 from .steps.feasibility import FeasibilityStep
+from .steps.gradient import GradientStep
 from .steps.hydrogen import H2ScanStep, H2ThresholdStep
 from .steps.profile import EnergyProfileStep
 from .steps.ranges import RangesStep
@@ -68,3 +69,4 @@ def step_ids() -> list[str]:
 for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
               DrivingForceStep(), EnergyProfileStep(), RangesStep(), RobustnessStep()):
     register_step(_step)
+register_step(GradientStep(), before="driving_force")   # issue 19a

@@ -64,7 +64,12 @@ def _environment(assessment: "Assessment") -> ReportSection:
                            for m, (lo, hi) in sorted(tm.log_bounds.items())],
                           columns=["compound", "lower", "upper"])
     text = (f"{env.description}\n\nNetwork: {ctx.inputs.network_source}. Environment file: "
-            f"{ctx.inputs.environment_source}.").strip()
+            f"{ctx.inputs.environment_source}."
+            + (f"\n\nCompartments besides the cell: {env.describe_compartments()}."
+               if env.compartments else "")
+            + ("\n\nIons moved across the membrane per turnover: "
+               + ", ".join(f"{rid} {n:g}" for rid, n in sorted(env.ion_stoichiometry.items())) + "."
+               if env.ion_stoichiometry else "")).strip()
     return environment_section(env.conditions, env.feed, bounds, name=env.name, text=text)
 
 

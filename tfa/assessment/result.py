@@ -82,7 +82,8 @@ class Assessment:
         from ..network.default_environment import NEUTRAL_NAME
 
         env = self.environment
-        line = f"network {self.network.id} at {env.name} ({env.conditions.describe()})"
+        line = (f"network {self.network.id} at {env.name} ({env.conditions.describe()}"
+                f"{env.describe_compartments('; ')})")
         return f"{line}\n{env.description}" if env.name == NEUTRAL_NAME else line
 
     def summary_lines(self) -> list[str]:

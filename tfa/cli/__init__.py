@@ -28,6 +28,7 @@ COMMANDS: dict[str, str] = {
     "ranges": "cmd_ranges",
     "driving-force": "cmd_driving_force",
     "census": "cmd_census",
+    "gradient": "cmd_gradient",
     "estimate": "cmd_estimate",
     "new-network": "cmd_new_network",
     "robustness": "cmd_robustness",

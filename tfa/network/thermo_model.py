@@ -56,6 +56,10 @@ class ReactionEnergy:
     compound_terms: dict[str, float] = field(default_factory=dict)
     status: str = ""
     audit_flags: tuple[str, ...] = ()
+    #: What ``standard`` refers to when the reaction crosses a membrane: each compound at its
+    #: compartment's pH and electric potential (stated; "" for a reaction within the cell, whose
+    #: reference is the usual one: 1 mol/L, gases 1 bar, at the environment's pH).
+    standard_state: str = ""
 
     def __post_init__(self) -> None:
         if self.source not in ENERGY_SOURCES:
