@@ -53,6 +53,7 @@ from ..errors import ConditionsError, InputError, NetworkFileError
 from ..util.files import read_input_text
 from ..util.numbers import MAX_FLUX, read_activity, read_number
 from .checks import is_boundary_reaction
+from .cofactors import CofactorStates
 from .locations import located, toml_line, with_toml_line
 from .roles import without_activity
 
@@ -71,6 +72,8 @@ SECTIONS: dict[str, tuple[str, ...] | None] = {
     "bounds": None,
     "demand": ("reaction", "flux", "none"),
     "outlets": ("allowed",),
+    "cofactors": None,   # checked by tfa.network.cofactors (issue 19)
+    "fluid": None,       # checked by tfa.network.fluid (issue 19)
 }
 REQUIRED_CONDITIONS = ("temperature_C", "pH", "ionic_strength_M")
 #: Default concentration bounds, mol/L, when a file gives none (common practice in
@@ -108,6 +111,10 @@ class Environment:
         Keep the flux bounds the network file gives its boundary reactions (every exchange open
         within them; the neutral default of :mod:`tfa.network.default_environment`) instead of
         opening only fed compounds, water, H+ and outlets.
+    cofactors : CofactorStates or None
+        The carrier states of the ``[cofactors]`` section (:mod:`tfa.network.cofactors`): per-form
+        bounds, pool totals, ratio bounds, a phosphorylation-potential floor. None: none (the
+        loose behaviour, :meth:`with_loose_cofactors`).
     """
 
     name: str
@@ -122,6 +129,7 @@ class Environment:
     source: str = ""
     no_demand: bool = False
     network_exchanges: bool = False
+    cofactors: CofactorStates | None = None
 
     # ---------------------------------------------------------------- reading
 
@@ -203,6 +211,13 @@ class Environment:
                                        "give it in one section only")
 
         demand_reaction, demand_flux, no_demand = _demand(where, data.get("demand"))
+        cofactors = None
+        if "cofactors" in data:
+            cofactors = CofactorStates.from_dict(data["cofactors"], where, _pair, _positive, _real)
+            for key in cofactors.bounds:
+                if key in feed:
+                    raise NetworkFileError(f"{where} [cofactors.bounds] {key}: '{key}' is also fed "
+                                           "(fixed) in [feed]; give it in one section only")
 
         outlets = data.get("outlets", {}).get("allowed", [])
         if not isinstance(outlets, list) or not all(isinstance(x, str) and x for x in outlets):
@@ -213,7 +228,7 @@ class Environment:
         return cls(name=name.strip(), conditions=conditions, feed=feed, default_bounds=default_bounds,
                    bounds=bounds, demand_reaction=demand_reaction, demand_flux=demand_flux,
                    outlets=tuple(outlets), description=description, source=source,
-                   no_demand=no_demand)
+                   no_demand=no_demand, cofactors=cofactors)
 
     # ---------------------------------------------------------------- copies for scans
 
@@ -247,6 +262,11 @@ class Environment:
         for key, value in {**(changes or {}), **more}.items():
             feed[key] = _positive("with_feed", "feed", key, value)
         return replace(self, feed=feed)
+
+    def with_loose_cofactors(self) -> "Environment":
+        """A copy without the ``[cofactors]`` section: every carrier form only within ``[bounds]``
+        (no pool total, ratio or phosphorylation floor), the behaviour before issue 19."""
+        return replace(self, cofactors=None)
 
     def without_feed(self, *keys: str) -> "Environment":
         """A copy in which the given compounds are not fed (e.g. ``without_feed("H2")``)."""
@@ -303,13 +323,16 @@ class Environment:
         NetworkFileError
         """
         where = self.source or self.name
-        for section, keys in (("feed", self.feed), ("bounds", self.bounds),
-                              ("outlets", self.outlets)):
-            for key in keys:
+        cofactor_keys = self.cofactors.keys() if self.cofactors is not None else []
+        for section, keys in (("feed", [(None, k) for k in self.feed]),
+                              ("bounds", [(None, k) for k in self.bounds]),
+                              ("outlets", [(None, k) for k in self.outlets]),
+                              ("cofactors", cofactor_keys)):
+            for table, key in keys:
                 try:
                     self.resolve(model, key)
                 except NetworkFileError as exc:
-                    raise NetworkFileError(str(exc).replace(f"{where}: ", f"{where} [{section}]: ", 1)
+                    raise NetworkFileError(str(exc).replace(f"{where}: ", f"{where} [{table or section}]: ", 1)
                                            ) from None
         if self.demand_reaction is not None and self.demand_reaction not in model.reactions:
             close = difflib.get_close_matches(self.demand_reaction, [r.id for r in model.reactions], n=3)
@@ -353,7 +376,10 @@ class Environment:
         if no_activity is None:
             no_activity = without_activity(model)
         own: dict[str, tuple[float, float]] = {}
-        for key, pair in self.bounds.items():
+        given = dict(self.bounds)
+        if self.cofactors is not None:
+            given.update(self.cofactors.bounds)
+        for key, pair in given.items():
             try:
                 own[self.resolve(model, key).id] = pair
             except NetworkFileError:
