@@ -65,7 +65,15 @@ def _environment(assessment: "Assessment") -> ReportSection:
                           columns=["compound", "lower", "upper"])
     text = (f"{env.description}\n\nNetwork: {ctx.inputs.network_source}. Environment file: "
             f"{ctx.inputs.environment_source}.").strip()
-    return environment_section(env.conditions, env.feed, bounds, name=env.name, text=text)
+    feed = dict(env.feed)
+    for met_id, (key, value) in env.fluid_feed(ctx.model).items():   # issue 19: speciated totals
+        feed[f"{met_id} ({key}, speciated from [fluid])"] = value
+    states = [r.text for r in tm.log_rows] + [p.text for p in tm.pools]
+    if states:
+        text += "\n\nCarrier states ([cofactors]): " + "; ".join(states) + "."
+    elif env.cofactors is None:
+        text += "\n\nCarrier states: none (every carrier form only within its bounds)."
+    return environment_section(env.conditions, feed, bounds, name=env.name, text=text)
 
 
 def _sources(assessment: "Assessment") -> tuple[pd.DataFrame, list[str]]:

@@ -54,6 +54,7 @@ from ..util.files import read_input_text
 from ..util.numbers import MAX_FLUX, read_activity, read_number
 from .checks import is_boundary_reaction
 from .cofactors import CofactorStates
+from .fluid import fluid_activities, ionic_strength_warning, read_fluid
 from .locations import located, toml_line, with_toml_line
 from .roles import without_activity
 
@@ -115,6 +116,10 @@ class Environment:
         The carrier states of the ``[cofactors]`` section (:mod:`tfa.network.cofactors`): per-form
         bounds, pool totals, ratio bounds, a phosphorylation-potential floor. None: none (the
         loose behaviour, :meth:`with_loose_cofactors`).
+    fluid : dict
+        Totals of the ``[fluid]`` section (:mod:`tfa.network.fluid`): total name
+        (``dissolved_inorganic_carbon``, ``total_sulfide``, ``total_ammonia``) -> mol/L, speciated
+        at the conditions into the fixed activities of the compounds they name.
     """
 
     name: str
@@ -130,6 +135,7 @@ class Environment:
     no_demand: bool = False
     network_exchanges: bool = False
     cofactors: CofactorStates | None = None
+    fluid: dict[str, float] = field(default_factory=dict)
 
     # ---------------------------------------------------------------- reading
 
@@ -211,6 +217,12 @@ class Environment:
                                        "give it in one section only")
 
         demand_reaction, demand_flux, no_demand = _demand(where, data.get("demand"))
+        fluid = read_fluid(data.get("fluid", {}), where, _positive)
+        message = ionic_strength_warning(fluid, conditions)
+        if message:
+            from .fluid import FluidWarning
+            import warnings
+            warnings.warn(f"{where} [conditions]: {message}", FluidWarning, stacklevel=2)
         cofactors = None
         if "cofactors" in data:
             cofactors = CofactorStates.from_dict(data["cofactors"], where, _pair, _positive, _real)
@@ -228,7 +240,7 @@ class Environment:
         return cls(name=name.strip(), conditions=conditions, feed=feed, default_bounds=default_bounds,
                    bounds=bounds, demand_reaction=demand_reaction, demand_flux=demand_flux,
                    outlets=tuple(outlets), description=description, source=source,
-                   no_demand=no_demand, cofactors=cofactors)
+                   no_demand=no_demand, cofactors=cofactors, fluid=fluid)
 
     # ---------------------------------------------------------------- copies for scans
 
@@ -334,15 +346,34 @@ class Environment:
                 except NetworkFileError as exc:
                     raise NetworkFileError(str(exc).replace(f"{where}: ", f"{where} [{table or section}]: ", 1)
                                            ) from None
+        self.feed_metabolites(model)   # a [fluid] total that names nothing, or a compound fed twice
         if self.demand_reaction is not None and self.demand_reaction not in model.reactions:
             close = difflib.get_close_matches(self.demand_reaction, [r.id for r in model.reactions], n=3)
             hint = f"did you mean {', '.join(repr(c) for c in close)}?" if close else "add it to the network"
             raise NetworkFileError(f"{where} [demand] reaction: '{self.demand_reaction}' is not a "
                                    f"reaction of network {model.id}; {hint}")
 
+    def fluid_feed(self, model: cobra.Model) -> dict[str, tuple[str, float]]:
+        """Metabolite id -> (thermo key, activity mol/L) of the compounds the ``[fluid]`` totals
+        fix, speciated at this environment's conditions (:mod:`tfa.network.fluid`)."""
+        if not self.fluid:
+            return {}
+
+        def resolve(key: str) -> str | None:
+            exact = [m for m in model.metabolites if (m.notes or {}).get("thermo_key") == key]
+            return exact[0].id if len(exact) == 1 else None
+
+        try:
+            return fluid_activities(self.fluid, self.conditions, resolve)
+        except NetworkFileError as exc:
+            raise NetworkFileError(f"{self.source or self.name} {exc}") from None
+
     def feed_metabolites(self, model: cobra.Model) -> dict[str, float]:
-        """Metabolite id -> fixed activity for every fed compound."""
+        """Metabolite id -> fixed activity for every fed compound (``[feed]`` and the compounds
+        the ``[fluid]`` totals fix)."""
         fed: dict[str, float] = {}
+        for met_id, (key, value) in self.fluid_feed(model).items():
+            fed[met_id] = value
         for key, value in self.feed.items():
             try:
                 met = self.resolve(model, key)
@@ -350,7 +381,8 @@ class Environment:
                 raise NetworkFileError(self._at("feed", key, str(exc))) from exc
             if met.id in fed:
                 raise NetworkFileError(self._at("feed", key, f"{self.source or self.name}: '{key}' and "
-                                                f"another key both name compound {met.id}; keep one"))
+                                                f"another key (or a [fluid] total) both name compound "
+                                                f"{met.id}; keep one"))
             fed[met.id] = value
         return fed
 
@@ -485,7 +517,10 @@ class Environment:
     def describe(self) -> str:
         """One line for reports."""
         feed = ", ".join(f"{k} {v:g}" for k, v in self.feed.items())
-        return f"{self.name}: {self.conditions.describe()}; feed {feed or 'none'}"
+        names = {"dissolved_inorganic_carbon": "DIC", "total_sulfide": "total sulfide",
+                 "total_ammonia": "total ammonia"}
+        fluid = "".join(f"; {names[k]} {v:g} mol/L" for k, v in self.fluid.items())
+        return f"{self.name}: {self.conditions.describe()}; feed {feed or 'none'}{fluid}"
 
 
 @dataclass(frozen=True)
@@ -532,6 +567,7 @@ def apply_environment(model: cobra.Model, environment: Environment,
     concentration = environment.metabolite_bounds(model, no_activity)
     bounds = {m: (math.log(lo), math.log(hi)) for m, (lo, hi) in concentration.items()}
     feed_ids = {str(key): environment.resolve(model, key).id for key in environment.feed}
+    feed_ids.update({key: met_id for met_id, (key, _) in environment.fluid_feed(model).items()})
     environment.apply_exchange_bounds(model, no_activity)
     return AppliedEnvironment(bounds, feed_ids, environment.demand_reaction, frozenset(no_activity))
 
