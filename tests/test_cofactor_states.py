@@ -1,4 +1,4 @@
-"""Carrier states (issue 19 item 1): ratio bounds, pool totals and the phosphorylation-potential
+"""Carrier states: ratio bounds, pool totals and the phosphorylation-potential
 floor, on networks small enough to solve by hand.
 
 Reference for every derivation: Delta_r G' = Delta_r G'deg + RT sum_i nu_i ln c_i (Alberty 2003,

@@ -1,4 +1,4 @@
-"""Totals of a fluid speciated at the setting (issue 19 item 4): carbonic acid constants against
+"""Totals of a fluid speciated at the setting: carbonic acid constants against
 Plummer & Busenberg (1982) and against pychnosz (OBIGT with the HKF equations, a test reference
 only), the fixed CO2(aq) of the bundled environment, and the ionic-strength check."""
 

@@ -66,7 +66,7 @@ def _environment(assessment: "Assessment") -> ReportSection:
     text = (f"{env.description}\n\nNetwork: {ctx.inputs.network_source}. Environment file: "
             f"{ctx.inputs.environment_source}.").strip()
     feed = dict(env.feed)
-    for met_id, (key, value) in env.fluid_feed(ctx.model).items():   # issue 19: speciated totals
+    for met_id, (key, value) in env.fluid_feed(ctx.model).items():   # the speciated [fluid] totals
         feed[f"{met_id} ({key}, speciated from [fluid])"] = value
     states = [r.text for r in tm.log_rows] + [p.text for p in tm.pools]
     if states:

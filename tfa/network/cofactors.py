@@ -1,4 +1,4 @@
-"""Carrier states: the ``[cofactors]`` section of an environment (issue 19, item 1).
+"""Carrier states: the ``[cofactors]`` section of an environment.
 
 A researcher constrains the carrier pools of a cell the way they are measured: per-form bounds,
 the total of a pool (NAD+ + NADH, NADP+ + NADPH, ferredoxin, adenylates, CoA), bounds on the

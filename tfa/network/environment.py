@@ -51,9 +51,10 @@ import cobra
 from ..conditions import Conditions
 from ..errors import ConditionsError, InputError, NetworkFileError
 from ..util.files import read_input_text
-from ..util.numbers import MAX_FLUX, read_activity, read_number
+
 from .checks import is_boundary_reaction
 from .cofactors import CofactorStates
+from .environment_fields import _demand, _pair, _positive, _real, _unknown
 from .fluid import fluid_activities, ionic_strength_warning, read_fluid
 from .locations import located, toml_line, with_toml_line
 from .roles import without_activity
@@ -73,8 +74,8 @@ SECTIONS: dict[str, tuple[str, ...] | None] = {
     "bounds": None,
     "demand": ("reaction", "flux", "none"),
     "outlets": ("allowed",),
-    "cofactors": None,   # checked by tfa.network.cofactors (issue 19)
-    "fluid": None,       # checked by tfa.network.fluid (issue 19)
+    "cofactors": None,   # checked by tfa.network.cofactors
+    "fluid": None,       # checked by tfa.network.fluid
 }
 REQUIRED_CONDITIONS = ("temperature_C", "pH", "ionic_strength_M")
 #: Default concentration bounds, mol/L, when a file gives none (common practice in
@@ -277,7 +278,7 @@ class Environment:
 
     def with_loose_cofactors(self) -> "Environment":
         """A copy without the ``[cofactors]`` section: every carrier form only within ``[bounds]``
-        (no pool total, ratio or phosphorylation floor), the behaviour before issue 19."""
+        (no pool total, ratio or phosphorylation floor), the earlier behaviour."""
         return replace(self, cofactors=None)
 
     def without_feed(self, *keys: str) -> "Environment":
@@ -570,74 +571,6 @@ def apply_environment(model: cobra.Model, environment: Environment,
     feed_ids.update({key: met_id for met_id, (key, _) in environment.fluid_feed(model).items()})
     environment.apply_exchange_bounds(model, no_activity)
     return AppliedEnvironment(bounds, feed_ids, environment.demand_reaction, frozenset(no_activity))
-
-
-def _unknown(where: str, what: str, key: str, allowed: list[str]) -> str:
-    same_case = [a for a in allowed if a.lower() == key.lower()]
-    close = same_case or difflib.get_close_matches(key, allowed, n=1)
-    hint = f"did you mean '{close[0]}'? " if close else ""
-    return f"{where}: unknown {what}; {hint}allowed: {', '.join(allowed)}"
-
-
-def _real(where: str, section: str, key: str, value: Any, **bounds: float) -> float:
-    if isinstance(value, str):  # a number in quotes is text in TOML
-        raise NetworkFileError(f"{where} [{section}] {key}: {value!r} is not a number; write e.g. "
-                               f"{key} = 1.0")
-    try:
-        return float(read_number(value, f"[{section}] {key}", where, **bounds))
-    except InputError as exc:
-        raise NetworkFileError(str(exc)) from None
-
-
-def _positive(where: str, section: str, key: str, value: Any) -> float:
-    if isinstance(value, (int, float)) and not isinstance(value, bool) and value <= 0:
-        raise NetworkFileError(
-            f"{where} [{section}] {key}: {value!r} is not a concentration; give a value > 0 "
-            "(mol/L; gases bar), or remove the entry"
-        )
-    if isinstance(value, str):
-        _real(where, section, key, value)
-    try:
-        return read_activity(value, f"[{section}] {key}", where)
-    except InputError as exc:
-        raise NetworkFileError(str(exc)) from None
-
-
-def _demand(where: str, section: Any) -> tuple[str | None, float, bool]:
-    """(reaction, flux, no demand) of the ``[demand]`` section, which must be there."""
-    if section is None:
-        raise NetworkFileError(
-            f"{where}: no [demand] section; name what the network must make, e.g. [demand] "
-            "reaction = \"DM_precursors\" and flux = 0.01 (without a demand the zero-flux state "
-            "meets every question), or write [demand] none = true to ask whether it can run at all")
-    if "none" in section:
-        if section["none"] is not True or set(section) != {"none"}:
-            raise NetworkFileError(f"{where} [demand]: none = true stands alone (no reaction, no "
-                                   "flux); or remove it and name the demand reaction and flux")
-        return None, 0.0, True
-    reaction = section.get("reaction")
-    if not isinstance(reaction, str) or not reaction.strip():
-        raise NetworkFileError(f"{where} [demand] reaction: give a reaction id as text, e.g. "
-                               "reaction = \"DM_precursors\"")
-    if "flux" not in section:
-        raise NetworkFileError(f"{where} [demand] flux: missing; give the least flux of "
-                               f"{reaction} (> 0, in the network's flux unit), e.g. flux = 0.01")
-    flux = _real(where, "demand", "flux", section["flux"], maximum=MAX_FLUX)
-    if flux <= 0:
-        raise NetworkFileError(f"{where} [demand] flux: {flux:g} must be > 0 (a demand of 0 is met "
-                               "by the zero-flux state); or write [demand] none = true")
-    return reaction.strip(), flux, False
-
-
-def _pair(where: str, key: str, value: Any) -> tuple[float, float]:
-    if not isinstance(value, list) or len(value) != 2:
-        raise NetworkFileError(f"{where} [bounds] {key}: give two numbers [lower, upper] in mol/L, e.g. "
-                               f"{key} = [1.0e-6, 1.0e-2]")
-    lower = _positive(where, "bounds", key, value[0])
-    upper = _positive(where, "bounds", key, value[1])
-    if lower > upper:
-        raise NetworkFileError(f"{where} [bounds] {key}: lower {lower:g} is above upper {upper:g}; swap them")
-    return lower, upper
 
 
 def bundled_environment() -> Environment:

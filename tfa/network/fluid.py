@@ -1,5 +1,5 @@
 """The ``[fluid]`` section of an environment: totals a geochemist measures (dissolved inorganic
-carbon, total sulfide, total ammonia, mol/L) in place of one species each (issue 19, item 4).
+carbon, total sulfide, total ammonia, mol/L) in place of one species each.
 
 ``tfa`` speciates each total at the environment's conditions (:mod:`tfa.thermo.speciation`) and
 fixes the network's compounds consistently: a compound with thermo key ``CO2`` (dissolved CO2
