@@ -56,6 +56,7 @@ from .checks import is_boundary_reaction
 from .cofactors import CofactorStates
 from .environment_fields import _demand, _pair, _positive, _real, _unknown
 from .fluid import fluid_activities, ionic_strength_warning, read_fluid
+from .mixing_line import MixingLine, read_mixing
 from .locations import located, toml_line, with_toml_line
 from .roles import without_activity
 
@@ -76,6 +77,7 @@ SECTIONS: dict[str, tuple[str, ...] | None] = {
     "outlets": ("allowed",),
     "cofactors": None,   # checked by tfa.network.cofactors
     "fluid": None,       # checked by tfa.network.fluid
+    "mixing": None,      # checked by tfa.network.mixing_line
 }
 REQUIRED_CONDITIONS = ("temperature_C", "pH", "ionic_strength_M")
 #: Default concentration bounds, mol/L, when a file gives none (common practice in
@@ -121,6 +123,8 @@ class Environment:
         Totals of the ``[fluid]`` section (:mod:`tfa.network.fluid`): total name
         (``dissolved_inorganic_carbon``, ``total_sulfide``, ``total_ammonia``) -> mol/L, speciated
         at the conditions into the fixed activities of the compounds they name.
+    mixing : MixingLine or None
+        The two fluids of ``[mixing]`` (:mod:`tfa.network.mixing_line`), for a mixing-line map.
     """
 
     name: str
@@ -137,6 +141,7 @@ class Environment:
     network_exchanges: bool = False
     cofactors: CofactorStates | None = None
     fluid: dict[str, float] = field(default_factory=dict)
+    mixing: MixingLine | None = None
 
     # ---------------------------------------------------------------- reading
 
@@ -224,6 +229,7 @@ class Environment:
             from .fluid import FluidWarning
             import warnings
             warnings.warn(f"{where} [conditions]: {message}", FluidWarning, stacklevel=2)
+        mixing = read_mixing(data["mixing"], where, _real, _positive) if "mixing" in data else None
         cofactors = None
         if "cofactors" in data:
             cofactors = CofactorStates.from_dict(data["cofactors"], where, _pair, _positive, _real)
@@ -241,7 +247,8 @@ class Environment:
         return cls(name=name.strip(), conditions=conditions, feed=feed, default_bounds=default_bounds,
                    bounds=bounds, demand_reaction=demand_reaction, demand_flux=demand_flux,
                    outlets=tuple(outlets), description=description, source=source,
-                   no_demand=no_demand, cofactors=cofactors, fluid=fluid)
+                   no_demand=no_demand, cofactors=cofactors, fluid=fluid,
+                   mixing=mixing)
 
     # ---------------------------------------------------------------- copies for scans
 
