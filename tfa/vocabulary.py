@@ -278,6 +278,13 @@ OPTIONS: dict[str, Option] = {
     "demand": Option(("--demand",), "the demand reaction (reaction id), over the environment's "
                      "(default: the environment's [demand]; without an environment, the model's "
                      "objective)", None, "ID"),
+    # issue-19b block: pH changes and the gradient
+    "fixed_outer_ph": Option(("--fixed-outer-ph",), "keep the outer fluid's pH when the pH changes "
+                             "(a pH axis, a mixing line), so the gradient ΔpH changes with it "
+                             "(default: the outer pH moves with the pH, ΔpH kept)", False, None),
+    "loose_cofactors": Option(("--loose-cofactors",), "ignore the environment's [cofactors] carrier "
+                              "states (pool totals, ratios, phosphorylation floor): every carrier "
+                              "form free within [bounds], the earlier behaviour", False, None),
     "identifiers": Option(("--identifiers",), "your table of identifiers (compound, thermo_key): "
                           "which compound of the thermodynamic data each metabolite is, over the "
                           "matches made from annotations (default: identifiers.tsv beside the "
