@@ -153,6 +153,11 @@ COLUMNS: dict[str, Term] = _terms(
     ("h2_threshold_q75", "75 % quantile of the H2 threshold over the draws", ""),
     ("h2_threshold_q95", "95 % quantile of the H2 threshold over the draws", ""),
     # conditions (map axes and summaries)
+    # issue-19b block: the setting's fluids
+    ("vent_fraction", "share of vent fluid in a mixture with seawater (0: seawater, 1: vent fluid)", ""),
+    ("dissolved_inorganic_carbon_mol_per_L", "dissolved inorganic carbon, CO2(aq) + HCO3- + CO3--",
+     "mol/L"),
+    ("h2_margin_decades", "log10 of the mixture's H2 over the H2 threshold (> 0: H2 to spare)", ""),
     ("temperature_C", "temperature", "degC"),
     ("temperature_K", "temperature", "K"),
     ("pH", "pH", ""),

@@ -139,6 +139,7 @@ class Certificate:
     uphill_reactions: list[str]
     flux_tolerance: float = 0.0
     energy_tolerance: float = 0.0
+    carrier_checks: int = 0
 
     def summary(self) -> str:
         """One line for reports."""
@@ -161,6 +162,7 @@ class Certificate:
             "flux_tolerance": self.flux_tolerance,
             "energy_tolerance_kJ": self.energy_tolerance,
             "n_flux_carrying": self.n_flux_carrying,
+            "carrier_checks": self.carrier_checks,
             "uphill_reactions": list(self.uphill_reactions),
         }
 
@@ -290,4 +292,5 @@ def check_solution(data: CertificateInput) -> Certificate:
                                + "; ".join(failures))
     n_carrying = int(np.sum(np.abs(v_energy) > carrying)) if len(g) else 0
     return Certificate(True, residual, flux_violation, conc_violation, slack_violation,
-                       law_violation, carrying, n_carrying, g, sorted(uphill), flux_tol, energy_tol)
+                       law_violation, carrying, n_carrying, g, sorted(uphill), flux_tol, energy_tol,
+                       len(data.log_rows) + len(data.pools))
