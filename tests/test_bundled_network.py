@@ -325,7 +325,9 @@ def test_environment_is_the_invented_demo_setting(compounds):
     assert "invented" in env["environment"]["description"].lower()
     c = env["conditions"]
     assert 0 < c["temperature_C"] < 150 and 5 < c["pH"] < 11 and 0 <= c["ionic_strength_M"] < 1
-    assert set(env["feed"]) == {"h2", "co2", "h2s", "pi", "nh4"}
+    assert set(env["feed"]) == {"h2", "pi"}
+    # carbon, sulfide and ammonia as the totals a geochemist measures, speciated by tfa
+    assert set(env["fluid"]) == {"dissolved_inorganic_carbon_M", "total_sulfide_M", "total_ammonia_M"}
     # the outer fluid is a compartment more acidic than the cell (the ocean side of an alkaline
     # vent), within the range the demo assumes (pH 5.5-6.5)
     ph_out = env["compartments"]["out"]["pH"]

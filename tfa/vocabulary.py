@@ -153,6 +153,11 @@ COLUMNS: dict[str, Term] = _terms(
     ("h2_threshold_q75", "75 % quantile of the H2 threshold over the draws", ""),
     ("h2_threshold_q95", "95 % quantile of the H2 threshold over the draws", ""),
     # conditions (map axes and summaries)
+    # issue-19b block: the setting's fluids
+    ("vent_fraction", "share of vent fluid in a mixture with seawater (0: seawater, 1: vent fluid)", ""),
+    ("dissolved_inorganic_carbon_mol_per_L", "dissolved inorganic carbon, CO2(aq) + HCO3- + CO3--",
+     "mol/L"),
+    ("h2_margin_decades", "log10 of the mixture's H2 over the H2 threshold (> 0: H2 to spare)", ""),
     ("temperature_C", "temperature", "degC"),
     ("temperature_K", "temperature", "K"),
     ("pH", "pH", ""),
@@ -301,6 +306,13 @@ OPTIONS: dict[str, Option] = {
     "demand": Option(("--demand",), "the demand reaction (reaction id), over the environment's "
                      "(default: the environment's [demand]; without an environment, the model's "
                      "objective)", None, "ID"),
+    # issue-19b block: pH changes and the gradient
+    "fixed_outer_ph": Option(("--fixed-outer-ph",), "keep the outer fluid's pH when the pH changes "
+                             "(a pH axis, a mixing line), so the gradient ΔpH changes with it "
+                             "(default: the outer pH moves with the pH, ΔpH kept)", False, None),
+    "loose_cofactors": Option(("--loose-cofactors",), "ignore the environment's [cofactors] carrier "
+                              "states (pool totals, ratios, phosphorylation floor): every carrier "
+                              "form free within [bounds], the earlier behaviour", False, None),
     "identifiers": Option(("--identifiers",), "your table of identifiers (compound, thermo_key): "
                           "which compound of the thermodynamic data each metabolite is, over the "
                           "matches made from annotations (default: identifiers.tsv beside the "

@@ -41,6 +41,7 @@ CONDITION_AXES = {
     "ionic_strength": "mol/L",
     "pressure": "bar",
     "h2": "mol/L (gas feed: bar)",
+    "mixing": "share of vent fluid on the environment's [mixing] line, 0-1",
 }
 #: What an outcome can hold.
 OUTCOME_PARTS = ("uphill", "threshold", "driving_force")
@@ -83,11 +84,12 @@ class NetworkJob:
         unknown = [p for p in parts if p not in OUTCOME_PARTS]
         if unknown:
             raise InputError(f"unknown outcome part(s) {', '.join(unknown)}; use {', '.join(OUTCOME_PARTS)}")
-        allowed = {"min_driving_force", "solver", "time_limit", "unknown_energy", "uncertainty_k"}
+        allowed = {"min_driving_force", "solver", "time_limit", "unknown_energy", "uncertainty_k",
+                   "fixed_outer_ph"}
         bad = sorted(set(options) - allowed)
         if bad:
             raise InputError(f"unknown option(s) {', '.join(bad)}; use {', '.join(sorted(allowed))}")
-        ProblemOptions(**options)  # validate now, not in every worker
+        ProblemOptions(**{k: v for k, v in options.items() if k != "fixed_outer_ph"})  # validate now
         if hasattr(model, "metabolites") and hasattr(environment, "check_network"):
             environment.check_network(model)  # a key naming nothing is an error, not ignored
         payload = pickle.dumps((model, environment, prepare), protocol=pickle.HIGHEST_PROTOCOL)
@@ -104,7 +106,7 @@ class NetworkJob:
         return worker_cache(("network-job", self.token), lambda: pickle.loads(self.payload))
 
     def problem_options(self) -> ProblemOptions:
-        opts = {k: v for k, v in self.options.items() if k != "parts"}
+        opts = {k: v for k, v in self.options.items() if k not in ("parts", "fixed_outer_ph")}
         return ProblemOptions(**opts)
 
     def thermo_model(self, mode: str, changes: Mapping[str, float] | None = None) -> ThermoModel:
@@ -117,7 +119,8 @@ class NetworkJob:
             from ..network.energies import prepare
 
             model, environment, custom = self.objects()
-            env = changed_environment(model, environment, changes or {})
+            env = changed_environment(model, environment, changes or {},
+                                      hold_gradient=not self.options.get("fixed_outer_ph", False))
             tm = (custom or prepare)(model, env, mode)
             cache[key] = (tm, pickle.dumps(tm.model, protocol=pickle.HIGHEST_PROTOCOL))
             while len(cache) > PREPARED_CACHE_SIZE:
@@ -181,19 +184,30 @@ def h2_feed_key(model, environment) -> str:
                      "[feed] section")
 
 
-def changed_environment(model, environment, changes: Mapping[str, float]):
+def changed_environment(model, environment, changes: Mapping[str, float], hold_gradient: bool = True):
     """A copy of ``environment`` with conditions or H2 supply changed.
 
     ``changes`` keys: ``temperature`` (degC), ``ph``, ``ionic_strength`` (mol/L), ``pressure``
-    (bar), ``h2`` (the fed H2 activity: mol/L, or bar when H2 is fed as a gas).
+    (bar), ``h2`` (the fed H2 activity: mol/L, or bar when H2 is fed as a gas), ``mixing`` (the
+    share of vent fluid on the environment's mixing line, applied first:
+    :func:`tfa.network.mixing_line.mixed_environment`). A pH change moves the gradient's outer
+    protons with it (ΔpH kept) unless ``hold_gradient`` is False.
     """
+    from ..network.mixing_line import environment_with_ph, mixed_environment
+
     unknown = sorted(set(changes) - set(CONDITION_AXES))
     if unknown:
         raise InputError(f"cannot change {', '.join(unknown)}; use {', '.join(CONDITION_AXES)}")
     env = environment
+    if "mixing" in changes:
+        env, _ = mixed_environment(env, model, float(changes["mixing"]), hold_gradient)
+    skip = {"h2", "mixing"}
+    if "ph" in changes and hasattr(model, "metabolites") and hasattr(env, "resolve"):
+        env = environment_with_ph(env, model, float(changes["ph"]), hold_gradient)
+        skip.add("ph")
     conditions = {}
     for name, value in changes.items():
-        if name == "h2":
+        if name in skip:
             continue
         conditions["celsius" if name == "temperature" else name] = float(value)
     if conditions:

@@ -141,6 +141,14 @@ def add_conditions_options(parser: argparse.ArgumentParser) -> None:
     group.add_argument("--pressure", type=number, metavar="BAR",
                        help="pressure, bar (1-5000; above 100 degC at least the boiling pressure)")
     group.add_argument("--pmg", type=number, metavar="X", help="pMg (free Mg2+); default: no Mg2+ binding")
+    add_switch(group, "loose_cofactors")
+
+
+def add_switch(parser: argparse.ArgumentParser | Any, name: str) -> None:
+    """Add the shared on/off option ``name`` of :data:`tfa.vocabulary.OPTIONS` (store_true)."""
+    spec = OPTIONS[name]
+    parser.add_argument(*spec.flags, dest=name, action="store_true", default=bool(spec.default),
+                        help=spec.help)
 
 
 def add_network_options(parser: argparse.ArgumentParser) -> None:

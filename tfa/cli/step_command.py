@@ -71,11 +71,15 @@ def load_inputs(args: argparse.Namespace, require_balanced: bool = True):
     (:func:`tfa.network.inputs.resolve_inputs`)."""
     from ..network.inputs import resolve_inputs
 
-    return resolve_inputs(getattr(args, "network", None), getattr(args, "environment", None),
-                          getattr(args, "compounds", None), require_balanced=require_balanced,
-                          h2=getattr(args, "h2", None), demand=getattr(args, "demand", None),
-                          identifiers=getattr(args, "identifiers", None),
-                          **condition_overrides(args))
+    inputs = resolve_inputs(getattr(args, "network", None), getattr(args, "environment", None),
+                            getattr(args, "compounds", None), require_balanced=require_balanced,
+                            h2=getattr(args, "h2", None), demand=getattr(args, "demand", None),
+                            identifiers=getattr(args, "identifiers", None),
+                            **condition_overrides(args))
+    if getattr(args, "loose_cofactors", False):
+        import dataclasses
+        inputs = dataclasses.replace(inputs, environment=inputs.environment.with_loose_cofactors())
+    return inputs
 
 
 def check_out(args: argparse.Namespace) -> None:

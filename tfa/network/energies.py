@@ -603,9 +603,39 @@ def _thermo_model(model: cobra.Model, environment: Environment, mode: str, db: T
                      log_bounds=applied.log_bounds, no_activity=set(applied.no_activity), mode=mode,
                      environment_name=environment.name, demand_id=applied.demand_id,
                      feed_ids=applied.feed_ids)
+    tm.log_rows, tm.pools = _cofactor_constraints(model, environment, table)
     tm.compound_table = table
     tm.all_energies = energies
     return tm
+
+
+def _cofactor_constraints(model: cobra.Model, environment: Environment, table) -> tuple[list, list]:
+    """The environment's carrier states on this network's metabolite ids (none when it has no
+    ``[cofactors]``; a form the mode removed is left out)."""
+    from .cofactors import PHOSPHORYLATION, resolved_constraints
+
+    states = environment.cofactors
+    if states is None:
+        return [], []
+
+    def resolve(key: str) -> str | None:
+        try:
+            met = environment.resolve(model, key)
+        except InputError:
+            return None
+        return met.id if met.reactions else None
+
+    def phosphorylation():
+        ids = {key: resolve(key) for key in PHOSPHORYLATION}
+        if any(v is None for v in ids.values()) or any(v not in table.compounds for v in ids.values()):
+            return None
+        energy = table.reaction_energy("phosphorylation potential",
+                                       {ids[k]: n for k, n in PHOSPHORYLATION.items()})
+        if not math.isfinite(energy.standard):
+            return None
+        return energy.standard, table.conditions.RT, (ids["ATP"], ids["ADP"], ids["phosphate"])
+
+    return resolved_constraints(states, resolve, phosphorylation)
 
 
 @contextlib.contextmanager

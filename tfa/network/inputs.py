@@ -188,6 +188,9 @@ def _resolve(network: Any = None, environment: Any = None,
     if demand is not None and env.demand_reaction != demand:
         env = with_demand(env, model, demand)
     changes = condition_overrides(conditions)
+    if "ph" in changes:   # the gradient's outer protons move with the pH (dpH kept)
+        from .mixing_line import environment_with_ph
+        env = environment_with_ph(env, model, changes.pop("ph"))
     if changes:
         env = env.with_conditions(**changes)
     inputs = Inputs(model, env, network_source, env_source, literature, folder,

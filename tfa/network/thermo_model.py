@@ -99,6 +99,11 @@ class ThermoModel:
     all_energies : dict[str, ReactionEnergy]
         Every internal reaction's energy record, including those without a value (source
         "placeholder" or "none", standard NaN), for reports.
+    log_rows : list of LogLinearBound
+        Linear bounds on sums of ln c (carrier ratios, the phosphorylation-potential floor) of the
+        environment's ``[cofactors]`` (:mod:`tfa.network.cofactors`).
+    pools : list of PoolTotal
+        Carrier pool totals (sum of the forms' concentrations below a total, mol/L).
     """
 
     model: cobra.Model
@@ -112,6 +117,8 @@ class ThermoModel:
     feed_ids: dict[str, str] = field(default_factory=dict)
     compound_table: object | None = None
     all_energies: dict[str, ReactionEnergy] = field(default_factory=dict)
+    log_rows: list = field(default_factory=list)
+    pools: list = field(default_factory=list)
 
     @property
     def RT(self) -> float:  # noqa: N802

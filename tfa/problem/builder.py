@@ -32,6 +32,7 @@ from ..errors import InputError, MissingDataError
 from ..network.thermo_model import ThermoModel
 from ..verify.certificate import CertificateInput
 from .bigm import direction_big_m, energy_intervals
+from .concentration_rows import concentration_rows
 from .bulk import remove_rows_and_columns, set_rows
 from .flux_ranges import flux_caps, steady_state_flux_ranges
 from .scaling import flux_scale, scaled_bounds
@@ -212,9 +213,10 @@ class ThermoProblem(PointSearch):
             g_abs = float(np.max(np.maximum(-self.g_lower, self.g_upper))) if n_e else 1.0
             self.driving_force_upper = max(g_abs, opts.min_driving_force)
             self.b_var = var("tfa_B", lb=-self.driving_force_upper - 1.0, ub=self.driving_force_upper)
+        share_vars, carrier_rows, self.concentration_checks = concentration_rows(self, var)
         new_vars = (self.x_vars + self.g_vars + [v for v in self.eps_vars if v is not None]
                     + self.f_vars + self.b_vars + self.u_vars
-                    + ([self.b_var] if self.b_var is not None else []))
+                    + ([self.b_var] if self.b_var is not None else []) + share_vars)
         solver.add(new_vars)
         self._variables = new_vars
         if self.solver_name == "highs":
@@ -234,7 +236,7 @@ class ThermoProblem(PointSearch):
                 log.debug("solver %s has no %s tolerance", self.solver_name, name)
 
         con = iface.Constraint
-        rows: list[tuple] = []   # (name, lb, ub, coefficients)
+        rows: list[tuple] = list(carrier_rows)   # (name, lb, ub, coefficients)
         t_rows, t_cols, t_vals = self.thermo
         per_reaction: list[dict] = [dict() for _ in range(n_e)]
         for k, i, s in zip(t_rows, t_cols, t_vals):
@@ -416,7 +418,8 @@ class ThermoProblem(PointSearch):
             uncertainty_k=self.options.uncertainty_k, thermo_rows=self.thermo[0],
             thermo_cols=self.thermo[1], thermo_values=self.thermo[2], rt=self.thermo_model.RT,
             min_driving_force=delta, allowed_uphill=list(allowed_uphill or []),
-            flux_scale=self.flux_scale, energy_scale=self.energy_scale)
+            flux_scale=self.flux_scale, energy_scale=self.energy_scale,
+            log_rows=self.concentration_checks.rows, pools=self.concentration_checks.pools)
 
     # ------------------------------------------------------------------ cleanup
     def remove(self) -> None:

@@ -86,6 +86,11 @@ class CertificateInput:
         The flux scale s (units of the fluxes): flux tolerances are relative to it.
     energy_scale : float
         The energy scale E, kJ/mol: energy tolerances are relative to it.
+    log_rows : list of (columns, coefficients, lower or None, upper or None, text)
+        Linear rows on ln c beyond the bounds (carrier ratios, the phosphorylation floor):
+        lower <= sum a_i x_i <= upper, checked to 1e-6.
+    pools : list of (columns, total, allowed relative excess, text)
+        Pool totals: sum_i exp(x_i) <= total (1 + excess), checked on the concentrations.
     """
 
     reaction_ids: list[str]
@@ -114,6 +119,8 @@ class CertificateInput:
     check_mass_balance: bool = True
     flux_scale: float = 1.0
     energy_scale: float = 1.0
+    log_rows: list = field(default_factory=list)
+    pools: list = field(default_factory=list)
 
 
 @dataclass
@@ -132,6 +139,7 @@ class Certificate:
     uphill_reactions: list[str]
     flux_tolerance: float = 0.0
     energy_tolerance: float = 0.0
+    carrier_checks: int = 0
 
     def summary(self) -> str:
         """One line for reports."""
@@ -154,6 +162,7 @@ class Certificate:
             "flux_tolerance": self.flux_tolerance,
             "energy_tolerance_kJ": self.energy_tolerance,
             "n_flux_carrying": self.n_flux_carrying,
+            "carrier_checks": self.carrier_checks,
             "uphill_reactions": list(self.uphill_reactions),
         }
 
@@ -236,6 +245,16 @@ def check_solution(data: CertificateInput) -> Certificate:
         failures.append(f"concentration bounds: {data.metabolite_ids[i]} has ln c = {x[i]:.6g} outside "
                         f"[{data.log_lower[i]:.6g}, {data.log_upper[i]:.6g}]")
 
+    # 3b. carrier states: linear rows on ln c and pool totals (on the concentrations themselves)
+    for cols, coefs, lo, hi, text in data.log_rows:
+        value = float(np.dot(np.asarray(coefs, float), x[np.asarray(cols, int)]))
+        if (lo is not None and value < lo - LOG_TOLERANCE) or (hi is not None and value > hi + LOG_TOLERANCE):
+            failures.append(f"carrier state: {text} fails (value {value:.6g})")
+    for cols, total, excess, text in data.pools:
+        value = float(np.sum(np.exp(x[np.asarray(cols, int)])))
+        if value > total * (1.0 + excess):
+            failures.append(f"carrier pool: {text} fails (the forms add up to {value:.6g} mol/L)")
+
     # 4. uncertainty slack
     slack = np.asarray(data.slack, float)
     allowed = data.uncertainty_k * np.asarray(data.sigma, float)
@@ -273,4 +292,5 @@ def check_solution(data: CertificateInput) -> Certificate:
                                + "; ".join(failures))
     n_carrying = int(np.sum(np.abs(v_energy) > carrying)) if len(g) else 0
     return Certificate(True, residual, flux_violation, conc_violation, slack_violation,
-                       law_violation, carrying, n_carrying, g, sorted(uphill), flux_tol, energy_tol)
+                       law_violation, carrying, n_carrying, g, sorted(uphill), flux_tol, energy_tol,
+                       len(data.log_rows) + len(data.pools))
