@@ -418,7 +418,10 @@ def test_what_the_gradient_pays_for_at_the_demo_setting():
     assert fluxes["ATPS_GRAD"] > 1e-6 and fluxes["DHODH_FUM"] > 1e-6
     without = feasibility(energies.prepare(model, env.without_gradient(), "h2_only"), options)
     assert not without.feasible and not without.demand_impossible
-    assert without.diagnosis.size == 1 and ["ATPS_GRAD"] in without.diagnosis.sets
+    # one step must then be driven; with the physiological carrier states of the environment
+    # more than one single step will do (ATP synthesis itself, or running the aldehyde:ferredoxin
+    # oxidoreductase backwards), so only the size is pinned here
+    assert without.diagnosis.size == 1
 
 
 # ----------------------------------------------------------------------------- flux balance
@@ -519,7 +522,11 @@ def test_the_assessment_says_what_the_gradient_does_for_ferredoxin_and_for_each_
     tables = payload["tables"]
     verdicts = {(r["mode"], r["gradient"]): r for r in tables["gradient_verdicts"]}
     assert verdicts["h2_only", "with"]["feasible"] and not verdicts["h2_only", "without"]["feasible"]
-    assert verdicts["native", "with"]["h2_threshold"] < verdicts["native", "without"]["h2_threshold"]
+    native_with, native_without = verdicts["native", "with"], verdicts["native", "without"]
+    # without the gradient the native network needs more H2, or (with the physiological carrier
+    # states) runs at no H2 level at all
+    assert (native_without["h2_threshold"] is None and not native_without["feasible"]) or \
+        native_with["h2_threshold"] < native_without["h2_threshold"]
     least = {r["mode"]: r for r in tables["least_gradient"]}
     assert least["h2_only"]["feasible"] and 1.77 <= least["h2_only"]["delta_ph"] <= 2.0
     assert least["h2_only"]["status"] in ("proven", "solver proof")
