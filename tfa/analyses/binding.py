@@ -102,6 +102,16 @@ def _ln_words(s: float, answer: str) -> str:
     return f"halving it multiplies {answer} by {0.5 ** s:.3g} (it scales as the bound^{s:.3g})"
 
 
+def _one_sided(dual: float, left: float, right: float) -> str:
+    """Words for a kink: the optimum moves differently when the datum moves the other way."""
+    if not (math.isfinite(left) and math.isfinite(right)) or abs(dual) <= ZERO_DUAL:
+        return ""
+    if abs(left - right) <= 1e-3 * max(abs(left), abs(right), 1e-9):
+        return ""
+    return (f" (one-sided: the derivative is {left:+.3g} below and {right:+.3g} above the bound, "
+            "another constraint takes over)")
+
+
 def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
                        range_compound: str | None = None, unit: str = "mol/L") -> list[dict]:
     """Rows for every datum whose dual is not zero, or that lies at a bound, with words."""
@@ -132,6 +142,7 @@ def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
             else:
                 words = (f"{what} sets {name}: a tenfold rise of it changes it by "
                          f"{dual * math.log(10):+.3g} kJ/mol ({dual / lp.rt:+.3g} RT per unit ln c)")
+            words += _one_sided(dual, left, right)
             value = math.exp(lp.lower[i] if side != "upper" else lp.upper[i])
             rows.append({"kind": kind, "compound": mid, "reaction": "", "bound": side,
                          "activity": value, "sensitivity": float(dual),
