@@ -76,12 +76,37 @@ class BindingResult(AnalysisResult):
         rows = self.table[(self.table["mode"] == mode) & (self.table["answer"] == answer)]
         return None if rows.empty else rows.sort_values("rank").iloc[0].to_dict()
 
+    def top_words(self, mode: str, answer: str) -> str:
+        """The first-ranked constraint of one answer in words, with the constraints that move the
+        answer exactly as much (a carrier pair's two bounds, for example); for a yes/no answer,
+        the demand and a count of what the point found reaches."""
+        rows = self.table[(self.table["mode"] == mode) & (self.table["answer"] == answer)]
+        if rows.empty:
+            return ""
+        rows = rows.sort_values("rank")
+        if answer == "feasible":
+            kinds = rows["kind"].value_counts()
+            return (f"{rows.iloc[0]['message']}; at the point found (one of many), "
+                    f"{int(kinds.get('concentration bound', 0))} concentration bound(s) reached, "
+                    f"{int(kinds.get('fed concentration', 0))} fed concentration(s), "
+                    f"{int(kinds.get('least driving force', 0))} step(s) at exactly the least "
+                    "driving force")
+        top = rows.iloc[0]
+        s = top["sensitivity"]
+        if not (isinstance(s, float) and math.isfinite(s)) or abs(s) <= ZERO_DUAL:
+            return str(top["message"])
+        same = rows[(rows["kind"] == top["kind"]) & (rows["rank"] > top["rank"])
+                    & ((rows["sensitivity"].abs() - abs(s)).abs() <= 1e-6 * max(1.0, abs(s)))]
+        extra = [f"{m.split(' sets ')[0]} as much ({m.split(': ', 1)[-1]})"
+                 for m in same["message"].head(2)]
+        return "; ".join([str(top["message"])] + extra)
+
     def summary(self) -> str:
         lines = []
         for (mode, answer), _ in self.table.groupby(["mode", "answer"], sort=False):
-            top = self.top(mode, answer)
-            if top is not None:
-                lines.append(f"{mode}: {top['message']}")
+            words = self.top_words(mode, answer)
+            if words:
+                lines.append(f"{mode}, {ANSWERS[answer]}: {words}")
         return "\n".join(lines) or "no binding constraints (no answer with a solution)"
 
 
@@ -135,7 +160,10 @@ def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
             what = ("the bottom of the H2 range searched" if kind == "range searched"
                     and side == "lower" else "the top of the H2 range searched"
                     if kind == "range searched" else _bound_words(lp, side, mid, unit))
-            if abs(dual) <= ZERO_DUAL:
+            if kind == "range searched" and abs(dual) > ZERO_DUAL:
+                words = (f"{what} sets {name}: the network is feasible up to it, and the "
+                         "window may go on beyond it")
+            elif abs(dual) <= ZERO_DUAL:
                 words = f"{what} is active, but moving it does not move {name}"
             elif is_h2:
                 words = f"{what} sets {name}: {_ln_words(dual, name)}"
@@ -177,8 +205,15 @@ def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
     return _ranked(rows)
 
 
+#: Order of the kinds for a yes/no answer: what the question imposes first.
+POINT_KIND_ORDER = ("demand", "fed concentration", "least driving force", "concentration bound")
+
+
 def _ranked(rows: list[dict]) -> list[dict]:
     def key(row: dict) -> tuple:
+        if row["answer"] == "feasible":
+            return (POINT_KIND_ORDER.index(row["kind"]), row["compound"], row["reaction"],
+                    row["bound"])
         moves = abs(row["sensitivity"]) > ZERO_DUAL if math.isfinite(row["sensitivity"]) else False
         return (not moves, KIND_ORDER.index(row["kind"]), -abs(np.nan_to_num(row["sensitivity"])),
                 row["compound"], row["reaction"], row["bound"])
