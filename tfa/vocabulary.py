@@ -180,6 +180,8 @@ COLUMNS: dict[str, Term] = _terms(
     ("found_by", "how the value was found: an MILP optimum, or bisection to a stated precision",
      ""),
     ("binding_constraint", "the constraint that sets the value, in words", ""),
+    ("at_range_floor_draws", "draws whose H2 threshold lies at the bottom of the range searched",
+     ""),
     # conditions (map axes and summaries)
     ("temperature_C", "temperature", "degC"),
     ("temperature_K", "temperature", "K"),

@@ -16,8 +16,9 @@ import sys
 from ..errors import InputError
 from .cmd_robustness import (add_execution_options, execution_kwargs, interrupted, point_progress,
                              problem_kwargs, start_points_run)
-from .options import (add_modes_option, add_network_options, add_output_options,
-                      add_problem_options, add_threshold_switch, report_deprecations)
+from .options import (add_modes_option, add_network_options, add_option, add_output_options,
+                      add_problem_options, add_threshold_switch, parse_h2_range,
+                      report_deprecations)
 from .output import print_json, print_table, solver_output_silenced
 from .step_command import progress_for
 
@@ -39,6 +40,7 @@ def register(subparsers) -> None:
     parser.add_argument("--y", required=True, metavar="AXIS", help="the second axis, as --x")
     add_modes_option(parser, "map")
     add_threshold_switch(parser)
+    add_option(parser, "h2_range", "map")
     parser.add_argument("--no-driving-force", action="store_true", help="skip the max-min driving force")
     add_problem_options(parser)
     add_execution_options(parser, "map")
@@ -68,6 +70,7 @@ def run(args: argparse.Namespace) -> int:
             result = condition_map(model, environment, x, y, modes,
                                    threshold=not args.no_threshold,
                                    driving_force=not args.no_driving_force,
+                                   h2_range=parse_h2_range(args.h2_range),
                                    results_path=out / "map.jsonl" if out else None,
                                    progress=point_progress(bar, "points"),
                                    **dict(execution, overwrite=True), **problem_kwargs(args))
@@ -91,7 +94,7 @@ def run(args: argparse.Namespace) -> int:
                      f"{result.run.seconds:.1f} s\n\n")
     sys.stdout.write(result.summary() + "\n\n")
     columns = ["mode", x_column, y_column, "feasible", "uphill_set_size",
-               "driving_force_kJ_per_mol", "h2_threshold", "error"]
+               "driving_force_kJ_per_mol", "h2_threshold", "h2_at_range_floor", "error"]
     print_table(frame[columns], "{:.4g}")
     if args.out is not None:
         sys.stdout.write(f"\nfiles in {args.out}" + (f" (heatmaps: {len(figures) // 2} per-mode "
