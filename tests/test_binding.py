@@ -199,11 +199,11 @@ def test_assess_writes_binding_constraints_and_the_report_shows_them(tmp_path):
         assert (out / f"binding_constraints.{suffix}").is_file()
         assert (out / f"h2_window.{suffix}").is_file()
     report = (out / "report.html").read_text(encoding="utf-8")
-    assert "What binds" in report and "binding_constraints" in report
+    assert "What binds" in report and "Binding constraints" in report
     table = result.binding_constraints.table
     assert set(table["answer"]) >= {"feasible", "h2_threshold", "driving_force"}
     # the H2 answer names its binding constraint, in the summary as well
     top = result.binding_constraints.top("native", "h2_threshold")
     assert top["kind"] == "concentration bound" and abs(top["sensitivity"]) == pytest.approx(1.0)
-    assert any(line.startswith("what binds the H2 threshold (native)") for line in result.summary)
+    assert any(line.startswith("what binds the H2 threshold (native)") for line in result.summary_lines())
     assert table.loc[table["sensitivity"].abs() > 1e-7, "dual_confirmed"].all()
