@@ -24,7 +24,7 @@ from engine_networks import build_thermo_model  # noqa: E402
 
 from tfa.analyses import h2_threshold, network_driving_force  # noqa: E402
 from tfa.analyses.binding import optimum_constraints  # noqa: E402
-from tfa.analyses.hydrogen import h2_equivalents  # noqa: E402
+from tfa.analyses.h2_levels import h2_equivalents  # noqa: E402
 from tfa.conditions import Conditions  # noqa: E402
 from tfa.problem import ProblemOptions, available_solvers  # noqa: E402
 
