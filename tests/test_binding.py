@@ -138,13 +138,58 @@ def test_h2_window_has_both_ends_each_with_its_binding_constraint():
     assert all(frame["binding_constraint"].str.contains("sets"))
 
 
-def test_h2_window_inside_the_range_is_found_by_bisection_when_a_gap_splits_it():
+def test_h2_window_cut_by_the_range_ends_at_the_range():
     # the same network with the H2 range cut to [1e-10, 1e-3]: one window whose upper end is the
-    # top of the range; no gap, so no bisection (the grid levels between the ends are feasible)
+    # top of the range (WINDOW_HIGH = 7.1e-3 lies beyond it)
     result = h2_threshold(window_network(), ProblemOptions(solver=SOLVER), h2_range=(1e-10, 1e-3),
                           window=True)
     assert result.windows == [(pytest.approx(WINDOW_LOW, rel=1e-6), pytest.approx(1e-3))]
     assert result.ends[1]["at_range_end"]
+    assert "the top of the range searched" in result.window_words()
+
+
+def two_window_network(solver: str = SOLVER):
+    """Two routes from X (fed 1 mM) to Q (drained by a demand of 1), each taking H2 up and giving
+    it back: route 1 by XH2 (R1 -30, R2 +45 kJ/mol), route 2 by YH2 (R3 0, R4 +10 kJ/mol);
+    XH2, YH2, Q in [1 uM, 10 mM]."""
+    return build_thermo_model({"R1": ("H2 + X <=> XH2", -30.0, 0.0),
+                               "R2": ("XH2 <=> Q + H2", 45.0, 0.0),
+                               "R3": ("H2 + X <=> YH2", 0.0, 0.0),
+                               "R4": ("YH2 <=> Q + H2", 10.0, 0.0)},
+                              {"H2": (1e-3, 1e-3), "X": (1e-3, 1e-3), "XH2": (1e-6, 1e-2),
+                               "YH2": (1e-6, 1e-2), "Q": (1e-6, 1e-2)},
+                              exchanges={"H2": (-10, 10), "X": (-10, 10)}, demand=("Q", 1.0),
+                              feed_ids={"H2": "H2"}, solver=solver)
+
+
+def test_two_routes_give_two_h2_windows_with_the_gap_found_by_bisection():
+    # Route 1 as window_network: [1e-3 exp(-29.9/RT), 1e4 exp(-45.1/RT)] = [5.78e-9, 1.25e-4];
+    # route 2: H2 >= YH2/X exp(0.1/RT), least with YH2 = 1 uM: 1.0412e-3 (R4 then needs
+    # YH2 >= H2 Q exp(10.1/RT) = 6.1e-8, met), and H2 <= 1e4 exp(-10.1/RT) = 170, beyond the
+    # range: [1.0412e-3, 1e-2] (hand-derived). The scan level 1e-3 lies in the gap.
+    high_1 = 1e4 * math.exp(-45.1 / RT)
+    low_2 = 1e-3 * math.exp(DELTA / RT)
+    assert high_1 == pytest.approx(1.25e-4, rel=1e-2) and low_2 == pytest.approx(1.0412e-3, rel=1e-4)
+    result = h2_threshold(two_window_network(), ProblemOptions(solver=SOLVER), window=True,
+                          precision=1e-3)
+    assert len(result.windows) == 2
+    (a1, b1), (a2, b2) = result.windows
+    assert a1 == pytest.approx(WINDOW_LOW, rel=1e-6)
+    # ends inside the range found by bisection: on the feasible side, within the precision
+    assert high_1 * (1 - 1.01e-3) <= b1 <= high_1 * (1 + 1e-9)
+    assert low_2 * (1 - 1e-9) <= a2 <= low_2 * (1 + 1.01e-3)
+    assert b2 == pytest.approx(1e-2)
+    found = [e["found_by"] for e in result.ends]
+    assert found[0] == "least H2, MILP" and found[3] == "largest H2, MILP"
+    assert all("bisection" in f for f in found[1:3])
+    # the binding constraints at the ends inside: route 1 stops at XH2's upper and Q's lower
+    # bound; route 2 starts at YH2's lower bound
+    high = by_datum([r for r in result.binding if r["answer"] == "h2_window_high"
+                     and r["h2_window"] == 1])
+    assert high[("concentration bound", "Q", "lower")]["sensitivity"] == pytest.approx(-1.0, abs=1e-7)
+    low = by_datum([r for r in result.binding if r["answer"] == "h2_window_low"])
+    assert low[("concentration bound", "YH2", "lower")]["sensitivity"] == pytest.approx(1.0, abs=1e-7)
+    assert "; and feasible for H2 between" in result.window_words()
 
 
 def test_henry_constant_of_h2_at_25_c_and_the_level_in_other_units():
