@@ -53,9 +53,10 @@ ANSWERS = {"feasible": "the feasible steady state",
            "driving_force": "the max-min driving force"}
 #: A compound lies at a bound when within this of it, in ln units.
 AT_BOUND = 1e-6
-#: Order of the kinds in the table (the first kinds are named first).
-KIND_ORDER = ("range searched", "concentration bound", "fed concentration", "reaction energy",
-              "least driving force", "demand")
+#: Priority of the kinds in the table (lower is named first; bounds and feeds compete on the
+#: size of their dual value, both per unit ln c).
+KIND_ORDER = {"range searched": 0, "concentration bound": 1, "fed concentration": 1,
+              "reaction energy": 2, "least driving force": 3, "demand": 4}
 
 
 @dataclass(kw_only=True)
@@ -95,7 +96,8 @@ class BindingResult(AnalysisResult):
         s = top["sensitivity"]
         if not (isinstance(s, float) and math.isfinite(s)) or abs(s) <= ZERO_DUAL:
             return str(top["message"])
-        same = rows[(rows["kind"] == top["kind"]) & (rows["rank"] > top["rank"])
+        same = rows[(rows["kind"].map(KIND_ORDER) == KIND_ORDER[top["kind"]])
+                    & (rows["rank"] > top["rank"])
                     & ((rows["sensitivity"].abs() - abs(s)).abs() <= 1e-6 * max(1.0, abs(s)))]
         extra = [f"{m.split(' sets ')[0]} as much ({m.split(': ', 1)[-1]})"
                  for m in same["message"].head(2)]
@@ -215,7 +217,7 @@ def _ranked(rows: list[dict]) -> list[dict]:
             return (POINT_KIND_ORDER.index(row["kind"]), row["compound"], row["reaction"],
                     row["bound"])
         moves = abs(row["sensitivity"]) > ZERO_DUAL if math.isfinite(row["sensitivity"]) else False
-        return (not moves, KIND_ORDER.index(row["kind"]), -abs(np.nan_to_num(row["sensitivity"])),
+        return (not moves, KIND_ORDER[row["kind"]], -abs(np.nan_to_num(row["sensitivity"])),
                 row["compound"], row["reaction"], row["bound"])
 
     rows.sort(key=key)

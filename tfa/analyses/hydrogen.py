@@ -315,7 +315,7 @@ class H2ThresholdResult(AnalysisResult):
     def at_range_floor(self) -> bool:
         """True when the network is feasible already at the bottom of the range searched (the
         true threshold, if any, lies lower)."""
-        return self.feasible and self.threshold <= self.search_range[0] * (1 + 1e-6)
+        return bool(self.feasible and self.threshold <= self.search_range[0] * (1 + 1e-6))
 
     def window_words(self) -> str:
         """The feasible H2 levels in one sentence, with the constraint binding at each end."""

@@ -192,7 +192,11 @@ class MapResult:
             rec = [r for r in self.records if r["mode"] == mode]
             solved = [r for r in rec if r.get("error") is None]
             k = sum(1 for r in solved if r.get("feasible"))
+            floor = sum(1 for r in solved if r.get("h2_at_range_floor"))
             lines.append(f"{mode}: feasible at {k} of {len(solved)} points"
+                         + (f"; H2 threshold at the bottom of the range searched at {floor} "
+                            "point(s) (feasible already there: the true threshold, if any, is "
+                            "lower)" if floor else "")
                          + (f"; {len(rec) - len(solved)} point(s) failed or not computed"
                             if len(rec) > len(solved) else ""))
         return "\n".join(lines)

@@ -208,6 +208,13 @@ class RobustnessResult:
                              + (f"; {row.failed_draws} draw(s) failed" if row.failed_draws else ""))
             else:
                 lines.append(f"{row.mode}: no draw solved")
+        if any("h2_threshold" in r for r in self.records):
+            for row in self.threshold_frame().itertuples():
+                if row.h2_at_range_floor or row.at_range_floor_draws:
+                    lines.append(f"{row.mode}: H2 threshold at the bottom of the range searched "
+                                 f"in {row.at_range_floor_draws} of {row.draws} draws"
+                                 + (" and with the mean energies" if row.h2_at_range_floor else "")
+                                 + " (feasible already there: the true threshold, if any, is lower)")
         return "\n".join(lines)
 
     def to_dict(self) -> dict:

@@ -15,6 +15,21 @@ from ..context import RunContext
 from ..step import Section, Step
 
 
+def _h2_words(result: BindingResult, mode: str, h2: str | None) -> str:
+    """"; the H2 supply does not move it" when the fed H2 has no effect on the driving force."""
+    table = result.table
+    rows = table[(table["mode"] == mode) & (table["answer"] == "driving_force")
+                 & (table["compound"] == h2) & (table["kind"] == "fed concentration")]
+    if h2 is None or rows.empty:
+        return ""
+    row = rows.iloc[0]
+    moves = [abs(row[c]) for c in ("sensitivity", "sensitivity_left", "sensitivity_right")]
+    if max(moves) > 1e-7:
+        return ""
+    return ("; the H2 supply does not move it (its dual value and both one-sided derivatives "
+            "are 0)")
+
+
 class BindingStep(Step):
     """The constraints that decide each answer, with their dual values."""
 
@@ -64,6 +79,8 @@ class BindingStep(Step):
         lines = []
         for (mode, answer), _ in result.table.groupby(["mode", "answer"], sort=False):
             words = result.top_words(mode, answer)
+            if words and answer == "driving_force":
+                words += _h2_words(result, mode, ctx.h2_id())
             if words:
                 lines.append(f"what binds {ANSWERS[answer]} ({mode}): {words}")
         return lines
