@@ -93,6 +93,12 @@ def test_h2_threshold_names_the_carrier_bounds_with_their_exponents():
     assert [e["at_range_end"] for e in result.ends] == [False, True]
     assert "feasible for H2 between" in result.window_words()
     assert "the top of the range searched" in result.window_words()
+    # read as a carrier pair (XH2 reduced, X oxidised), the two bounds are one ratio:
+    # [XH2]_lo / [X]_hi = 1e-5 / 1e-2 = 1e-3, and the threshold is proportional to it
+    result.carrier_pairs = {"XH2": "X"}
+    assert ("the least XH2/X ratio the bounds allow (0.001: XH2 at its lower bound, X at its "
+            "upper) sets the H2 threshold: halving the ratio halves the H2 threshold"
+            in result.window_words())
 
 
 def window_network(solver: str = SOLVER):

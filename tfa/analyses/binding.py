@@ -77,10 +77,15 @@ class BindingResult(AnalysisResult):
         rows = self.table[(self.table["mode"] == mode) & (self.table["answer"] == answer)]
         return None if rows.empty else rows.sort_values("rank").iloc[0].to_dict()
 
-    def top_words(self, mode: str, answer: str) -> str:
+    def top_words(self, mode: str, answer: str, pairs: dict[str, str] | None = None) -> str:
         """The first-ranked constraint of one answer in words, with the constraints that move the
-        answer exactly as much (a carrier pair's two bounds, for example); for a yes/no answer,
-        the demand and a count of what the point found reaches."""
+        answer exactly as much; for a yes/no answer, the demand and a count of what the point
+        found reaches.
+
+        ``pairs`` (reduced form -> oxidised form of each carrier pair): when the two bounds that
+        move the answer equally and oppositely are the two forms of one carrier, they are named
+        as the carrier ratio they set (e.g. the least NADH/NAD+ ratio the bounds allow).
+        """
         rows = self.table[(self.table["mode"] == mode) & (self.table["answer"] == answer)]
         if rows.empty:
             return ""
@@ -99,6 +104,9 @@ class BindingResult(AnalysisResult):
         same = rows[(rows["kind"].map(KIND_ORDER) == KIND_ORDER[top["kind"]])
                     & (rows["rank"] > top["rank"])
                     & ((rows["sensitivity"].abs() - abs(s)).abs() <= 1e-6 * max(1.0, abs(s)))]
+        ratio = _ratio_words(top, same, pairs or {}, ANSWERS[answer])
+        if ratio:
+            return ratio
         extra = [f"{m.split(' sets ')[0]} as much ({m.split(': ', 1)[-1]})"
                  for m in same["message"].head(2)]
         return "; ".join([str(top["message"])] + extra)
@@ -110,6 +118,31 @@ class BindingResult(AnalysisResult):
             if words:
                 lines.append(f"{mode}, {ANSWERS[answer]}: {words}")
         return "\n".join(lines) or "no binding constraints (no answer with a solution)"
+
+
+def _ratio_words(top, same: pd.DataFrame, pairs: dict[str, str], name: str) -> str:
+    """A carrier pair's two bounds read as the ratio they set, or "" (see BindingResult.top_words)."""
+    oxidised_of = dict(pairs)
+    for _, other in same.iterrows():
+        a, b = top, other
+        if oxidised_of.get(b["compound"]) == a["compound"]:
+            a, b = b, a
+        if oxidised_of.get(a["compound"]) != b["compound"] or a["bound"] == b["bound"]:
+            continue
+        if abs(a["sensitivity"] + b["sensitivity"]) > 1e-6 * max(1.0, abs(a["sensitivity"])):
+            continue
+        ratio = a["activity"] / b["activity"]
+        extreme = "least" if a["bound"] == "lower" else "largest"
+        s = float(a["sensitivity"])
+        head = (f"the {extreme} {a['compound']}/{b['compound']} ratio the bounds allow "
+                f"({ratio:.3g}: {a['compound']} at its {a['bound']} bound, {b['compound']} at its "
+                f"{b['bound']})")
+        if str(a["sensitivity_unit"]).startswith("d ln[H2]"):
+            words = _ln_words(s, name).replace(" it ", " the ratio ", 1)
+            return f"{head} sets {name}: {words}"
+        return (f"{head} sets {name}: a tenfold rise of the ratio changes it by "
+                f"{s * math.log(10):+.3g} kJ/mol")
+    return ""
 
 
 def _bound_words(lp: PatternLP, side: str, mid: str, unit: str = "mol/L") -> str:

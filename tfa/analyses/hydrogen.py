@@ -265,6 +265,7 @@ class H2ThresholdResult(AnalysisResult):
     windows: list = field(default_factory=list)
     ends: list = field(default_factory=list)
     binding: list = field(default_factory=list)
+    carrier_pairs: dict = field(default_factory=dict)
     precision: float = WINDOW_PRECISION
     analysis: str = "H2 threshold"
 
@@ -295,11 +296,15 @@ class H2ThresholdResult(AnalysisResult):
 
     def binding_words(self, end: dict) -> str:
         """The top binding constraint at one end, in words ("" when none was found)."""
+        from .binding import BindingResult, binding_frame
+
         answer = self.answer_of(end)
-        for row in sorted(self.binding, key=lambda r: r["rank"]):
-            if row["answer"] == answer and row.get("h2_window", 1) == end["h2_window"]:
-                return row["message"]
-        return ""
+        rows = [r for r in self.binding
+                if r["answer"] == answer and r.get("h2_window", 1) == end["h2_window"]]
+        if not rows:
+            return ""
+        ranked = BindingResult(conditions=self.conditions, table=binding_frame(rows))
+        return ranked.top_words(rows[0]["mode"], answer, self.carrier_pairs)
 
     @staticmethod
     def answer_of(end: dict) -> str:
@@ -501,7 +506,14 @@ def _window_binding(tm: ThermoModel, opts: ProblemOptions, result: H2ThresholdRe
     from ..errors import ComputationError
     from .binding import optimum_constraints
 
+    from ..network.roles import carrier_pairs
+
     h2 = result.h2_id
+    try:
+        result.carrier_pairs = {p.reduced.id: p.oxidised.id
+                                for p in carrier_pairs(tm.model).values()}
+    except InputError:
+        result.carrier_pairs = {}
     for end in result.ends:
         answer = result.answer_of(end)
         try:

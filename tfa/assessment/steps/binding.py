@@ -15,6 +15,18 @@ from ..context import RunContext
 from ..step import Section, Step
 
 
+def _carrier_pairs(ctx: RunContext, mode: str) -> dict[str, str]:
+    """Reduced form -> oxidised form of each carrier pair of the network in ``mode``."""
+    from ...errors import InputError
+    from ...network.roles import carrier_pairs
+
+    try:
+        pairs = carrier_pairs(ctx.thermo_model(mode).model)
+    except InputError:
+        return {}
+    return {p.reduced.id: p.oxidised.id for p in pairs.values()}
+
+
 def _h2_words(result: BindingResult, mode: str, h2: str | None) -> str:
     """"; the H2 supply does not move it" when the fed H2 has no effect on the driving force."""
     table = result.table
@@ -78,7 +90,7 @@ class BindingStep(Step):
             return []
         lines = []
         for (mode, answer), _ in result.table.groupby(["mode", "answer"], sort=False):
-            words = result.top_words(mode, answer)
+            words = result.top_words(mode, answer, _carrier_pairs(ctx, mode))
             if words and answer == "driving_force":
                 words += _h2_words(result, mode, ctx.h2_id())
             if words:
