@@ -333,4 +333,5 @@ def binding_verification(table: pd.DataFrame, mismatches: list[str]) -> dict:
         words += f"; not confirmed: {', '.join(bad['message'].str.slice(0, 60))}"
     if mismatches:
         words += "; the pattern LP's optimum differs from the answer's: " + "; ".join(mismatches)
-    return verification("certified" if not len(bad) and not mismatches else "best found", words)
+    # an LP optimum's dual, confirmed by a second route (the re-solves): "proven"
+    return verification("proven" if not len(bad) and not mismatches else "solver proof", words)

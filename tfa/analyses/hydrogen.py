@@ -410,7 +410,12 @@ def h2_threshold(tm: ThermoModel, options: ProblemOptions | None = None, h2_id: 
                 status, certificate_words(cert) + f" at the threshold; optimality: {solver}'s "
                 f"bound on ln[H2] {details.get('bound')}", **details)
             if window:
+                before = len(result.certificates)
                 _find_windows(problem, result, h2, sol, precision)
+                result.verification["check"] += (
+                    f"; window: {len(result.certificates) - before} more point(s) (the largest "
+                    "H2 and the levels checked between) passed the independent check, gaps by "
+                    f"bisection to {precision:g} relative")
     if sol is None:
         outcome, words = confirm_infeasible(tm, opts, "H2 threshold")
         result.message = (f"infeasible at every H2 level from {lo:.3g} to {hi:.3g}: no H2 supply "
