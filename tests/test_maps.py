@@ -199,3 +199,9 @@ def test_map_reports_a_threshold_at_the_bottom_of_the_range_searched():
     assert list(frame["h2_threshold"]) == pytest.approx([0.1] * len(frame))
     assert frame["h2_at_range_floor"].all()
     assert f"bottom of the range searched at {len(frame)} point(s)" in result.summary()
+    from tfa.report.maps import map_figure
+
+    fig = map_figure(frame, "temperature_C", "h2_activity", "native")
+    texts = [t.get_text() for ax in fig.axes for t in ax.texts]
+    assert texts.count("≤-1.0") == len(frame)   # log10(0.1), marked as the range's floor
+    assert any("bottom of the range searched" in ax.get_title() for ax in fig.axes)
