@@ -45,14 +45,17 @@ class H2ScanStep(Step):
             return {}
         threshold = ctx.results.get("h2_threshold")
         at = threshold.threshold if threshold is not None and threshold.feasible else None
+        windows = list(threshold.windows) if threshold is not None else []
         caption = (f"Feasibility, size of the minimal uphill set and max-min driving force "
-                   f"against the H2 supply ({result.unit})")
+                   f"against the H2 supply ({result.unit})"
+                   + ("; shaded: the H2 window(s) in which the network is feasible" if windows
+                      else ""))
 
         def make():
             from ...report.figures import h2_scan_figure
 
             return h2_scan_figure(result.table, unit=result.unit, threshold=at,
-                                  title=f"H2 supply, {ctx.settings.mode} mode")
+                                  title=f"H2 supply, {ctx.settings.mode} mode", windows=windows)
 
         return {"h2_scan": FigureSpec(make, caption)}
 
