@@ -152,6 +152,36 @@ COLUMNS: dict[str, Term] = _terms(
     ("h2_threshold_q50", "median of the H2 threshold over the draws", ""),
     ("h2_threshold_q75", "75 % quantile of the H2 threshold over the draws", ""),
     ("h2_threshold_q95", "95 % quantile of the H2 threshold over the draws", ""),
+    # issue 14b: what binds, and the H2 answer as a window
+    ("answer", "the answer a binding constraint belongs to: feasible, h2_threshold, "
+               "h2_window_low, h2_window_high, driving_force", ""),
+    ("rank", "order of a row within its answer (1 = the constraint named first)", ""),
+    ("bound", "which bound of a compound: lower, upper, or fixed (a fed compound)", ""),
+    ("sensitivity", "dual value of the linear program with the flux pattern fixed: change of the "
+                    "answer per unit change of the constraint (unit in sensitivity_unit)", ""),
+    ("sensitivity_unit", "unit of sensitivity: d ln[H2] per unit ln c, kJ/mol per unit ln c, "
+                         "per kJ/mol ...", ""),
+    ("sensitivity_left", "the same derivative by re-solving with the datum moved down by 1e-3",
+     ""),
+    ("sensitivity_right", "the same derivative by re-solving with the datum moved up by 1e-3",
+     ""),
+    ("dual_confirmed", "whether the dual value lies between the left and right derivatives", ""),
+    ("h2_at_range_floor", "the network is feasible already at the bottom of the H2 range "
+                          "searched (the true threshold, if any, lies lower)", ""),
+    ("h2_partial_pressure_bar", "H2 partial pressure in equilibrium with the level (Henry's law "
+                                "at the setting's temperature and pressure)", "bar"),
+    ("h2_partial_pressure_Pa", "the same partial pressure in pascal", "Pa"),
+    ("h2_mmol_per_kg", "dissolved H2 of the level, in mmol per kg of water", "mmol/kg"),
+    ("h2_window", "number of a window of H2 levels at which the network is feasible (1 = lowest)",
+     ""),
+    ("window_end", "which end of an H2 window: low or high", ""),
+    ("at_range_end", "the end lies at the end of the H2 range searched (the window may go on)",
+     ""),
+    ("found_by", "how the value was found: an MILP optimum, or bisection to a stated precision",
+     ""),
+    ("binding_constraint", "the constraint that sets the value, in words", ""),
+    ("at_range_floor_draws", "draws whose H2 threshold lies at the bottom of the range searched",
+     ""),
     # conditions (map axes and summaries)
     # issue-19b block: the setting's fluids
     ("vent_fraction", "share of vent fluid in a mixture with seawater (0: seawater, 1: vent fluid)", ""),
@@ -185,6 +215,8 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("timings_s", "seconds per step", "s"),
     ("steps", "the steps that ran, in order", ""),
     ("verifications", "per step (and mode): how each answer was checked, status and check", ""),
+    ("h2_windows", "the feasible H2 window(s), [[low, high], ...] (unit: h2_unit)", ""),
+    ("binding", "per mode and answer, the constraint named first (binding_constraints)", ""),
     ("route_driving_force_kJ_per_mol", "max-min driving force of the named route", "kJ/mol"),
     ("route_bottlenecks", "reactions at the named route's max-min driving force", ""),
     ("command", "the command that printed the JSON", ""),

@@ -31,8 +31,13 @@ from ..modes import get_mode
 from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions
 from ..util.points import worker_cache
+from ..vocabulary import DEFAULT_H2_RANGE
 
 log = logging.getLogger(__name__)
+
+#: Options of a job that are not problem options: the outer fluid's pH held on a pH change, and
+#: the H2 range of the threshold search.
+JOB_ONLY_OPTIONS = ("fixed_outer_ph", "h2_range")
 
 #: Condition axes a point may change, with their units at the interface.
 CONDITION_AXES = {
@@ -85,11 +90,13 @@ class NetworkJob:
         if unknown:
             raise InputError(f"unknown outcome part(s) {', '.join(unknown)}; use {', '.join(OUTCOME_PARTS)}")
         allowed = {"min_driving_force", "solver", "time_limit", "unknown_energy", "uncertainty_k",
-                   "fixed_outer_ph"}
+                   "fixed_outer_ph", "h2_range"}
         bad = sorted(set(options) - allowed)
         if bad:
             raise InputError(f"unknown option(s) {', '.join(bad)}; use {', '.join(sorted(allowed))}")
-        ProblemOptions(**{k: v for k, v in options.items() if k != "fixed_outer_ph"})  # validate now
+        if "h2_range" in options:
+            options["h2_range"] = [float(v) for v in options["h2_range"]]
+        ProblemOptions(**{k: v for k, v in options.items() if k not in JOB_ONLY_OPTIONS})  # validate now
         if hasattr(model, "metabolites") and hasattr(environment, "check_network"):
             environment.check_network(model)  # a key naming nothing is an error, not ignored
         payload = pickle.dumps((model, environment, prepare), protocol=pickle.HIGHEST_PROTOCOL)
@@ -106,8 +113,13 @@ class NetworkJob:
         return worker_cache(("network-job", self.token), lambda: pickle.loads(self.payload))
 
     def problem_options(self) -> ProblemOptions:
-        opts = {k: v for k, v in self.options.items() if k not in ("parts", "fixed_outer_ph")}
+        opts = {k: v for k, v in self.options.items() if k not in ("parts",) + JOB_ONLY_OPTIONS}
         return ProblemOptions(**opts)
+
+    def h2_range(self) -> tuple[float, float]:
+        """The H2 range the threshold is searched over (the one default of
+        :data:`tfa.vocabulary.DEFAULT_H2_RANGE` unless the run names another)."""
+        return tuple(self.options.get("h2_range", DEFAULT_H2_RANGE))
 
     def thermo_model(self, mode: str, changes: Mapping[str, float] | None = None) -> ThermoModel:
         """The prepared model of ``mode`` at the environment with ``changes`` (see
@@ -224,13 +236,16 @@ def _number(value) -> float | None:
     return value if math.isfinite(value) else None
 
 
-def outcome(tm: ThermoModel, options: ProblemOptions, parts=("uphill", "threshold")) -> dict:
+def outcome(tm: ThermoModel, options: ProblemOptions, parts=("uphill", "threshold"),
+            h2_range: tuple[float, float] = DEFAULT_H2_RANGE) -> dict:
     """Answers of the analyses for one prepared model, as a JSON-able dict.
 
     Keys (:mod:`tfa.vocabulary`): ``feasible`` (bool), ``demand_impossible`` (bool),
     ``uphill_set_size`` and ``uphill_set`` (a minimal uphill set, sorted; size 0 when feasible),
     ``h2_threshold`` (least H2 at which the network is feasible, mol/L or bar; None when not asked
-    or never feasible) and ``driving_force_kJ_per_mol`` (max-min driving force of the network;
+    or never feasible; the same MILP as ``tfa h2-threshold`` over ``h2_range``),
+    ``h2_at_range_floor`` (feasible already at the bottom of the range searched) and
+    ``driving_force_kJ_per_mol`` (max-min driving force of the network;
     None when not asked).
     """
     from .feasibility import feasibility
@@ -249,17 +264,20 @@ def outcome(tm: ThermoModel, options: ProblemOptions, parts=("uphill", "threshol
         else:
             out["uphill_set_size"], out["uphill_set"] = None, None
     if "threshold" in parts:
-        out["h2_threshold"] = _h2_threshold(tm, options)
+        out["h2_threshold"], out["h2_at_range_floor"] = _h2_threshold(tm, options, h2_range)
     if "driving_force" in parts:
         out["driving_force_kJ_per_mol"] = _driving_force(tm, options)
     return out
 
 
-def _h2_threshold(tm: ThermoModel, options: ProblemOptions) -> float | None:
-    """Least H2 (NaN -> None when no H2 level in the default range makes the network feasible)."""
+def _h2_threshold(tm: ThermoModel, options: ProblemOptions,
+                  h2_range: tuple[float, float]) -> tuple[float | None, bool | None]:
+    """Least H2 (NaN -> None when no H2 level in the range makes the network feasible) and
+    whether it lies at the bottom of the range searched."""
     from .hydrogen import h2_threshold
 
-    return _number(h2_threshold(tm, options).threshold)
+    result = h2_threshold(tm, options, h2_range=tuple(h2_range))
+    return _number(result.threshold), (result.at_range_floor if result.feasible else None)
 
 
 def _driving_force(tm: ThermoModel, options: ProblemOptions) -> float | None:

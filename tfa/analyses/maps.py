@@ -36,12 +36,14 @@ from ..errors import InputError
 from ..modes import parse_modes
 from ..util.numbers import MAX_AXIS_VALUES, MAX_GRID_POINTS, read_count, read_number
 from ..util.points import RunSummary, run_and_read
+from ..vocabulary import DEFAULT_H2_RANGE
 from .jobs import CONDITION_AXES, NetworkJob, changed_environment, outcome, points_verification
 
 log = logging.getLogger(__name__)
 
 #: Columns of a map table besides the axes.
-MAP_COLUMNS = ("feasible", "uphill_set_size", "driving_force_kJ_per_mol", "h2_threshold")
+MAP_COLUMNS = ("feasible", "uphill_set_size", "driving_force_kJ_per_mol", "h2_threshold",
+               "h2_at_range_floor")
 #: Column name of each axis in the tables (:mod:`tfa.vocabulary`).
 AXIS_COLUMNS = {"temperature": "temperature_C", "ph": "pH", "ionic_strength": "ionic_strength_mol_per_L",
                 "pressure": "pressure_bar", "h2": "h2_activity", "mixing": "vent_fraction"}
@@ -56,7 +58,8 @@ def map_point(job: NetworkJob, point: dict) -> dict:
     if point.get("y_name"):
         changes[point["y_name"]] = point["y"]
     tm = job.thermo_model(point["mode"], changes)
-    result = outcome(tm, job.problem_options(), job.options.get("parts", ("uphill", "threshold", "driving_force")))
+    result = outcome(tm, job.problem_options(),
+                     job.options.get("parts", ("uphill", "threshold", "driving_force")), job.h2_range())
     if "mixing" in changes:
         result.update(_mixture(job, changes, result.get("h2_threshold")))
     return result
@@ -228,7 +231,11 @@ class MapResult:
             rec = [r for r in self.records if r["mode"] == mode]
             solved = [r for r in rec if r.get("error") is None]
             k = sum(1 for r in solved if r.get("feasible"))
+            floor = sum(1 for r in solved if r.get("h2_at_range_floor"))
             lines.append(f"{mode}: feasible at {k} of {len(solved)} points"
+                         + (f"; H2 threshold at the bottom of the range searched at {floor} "
+                            "point(s) (feasible already there: the true threshold, if any, is "
+                            "lower)" if floor else "")
                          + (f"; {len(rec) - len(solved)} point(s) failed or not computed"
                             if len(rec) > len(solved) else ""))
         return "\n".join(lines)
@@ -247,7 +254,7 @@ class MapResult:
 def _record(point: dict, line: dict | None) -> dict:
     base = {"mode": point["mode"], "x": point["x"], "y": point.get("y"), "feasible": None,
             "uphill_set_size": None, "uphill_set": None, "driving_force_kJ_per_mol": None,
-            "h2_threshold": None,
+            "h2_threshold": None, "h2_at_range_floor": None,
             "error": None}
     if line is None:
         base["error"] = "not computed (run interrupted)"
@@ -264,6 +271,7 @@ def condition_map(model, environment, x: tuple[str, Sequence[float]] = ("tempera
                   workers: int | None = None, scheduler: str | None = None,
                   results_path: str | Path | None = None, resume: bool = False,
                   overwrite: bool = False, threshold: bool = True, driving_force: bool = True,
+                  h2_range: tuple[float, float] = DEFAULT_H2_RANGE,
                   prepare: Callable | None = None, progress: Callable | None = None,
                   **problem_options: Any) -> MapResult:
     """Feasibility, uphill-set size, driving force and H2 threshold over a grid of two conditions.
@@ -277,6 +285,8 @@ def condition_map(model, environment, x: tuple[str, Sequence[float]] = ("tempera
     executor, workers, scheduler : see :func:`tfa.util.points.run_points`
     results_path : JSON-lines file (default: temporary); give one to ``resume``
     threshold, driving_force : compute these two at every point (each is one more MILP)
+    h2_range : (low, high) the threshold is searched over [mol/L; gas: bar] (the one default of
+        :data:`tfa.vocabulary.DEFAULT_H2_RANGE`, as ``tfa h2-threshold``)
     prepare : replaces :func:`tfa.network.energies.prepare` (module-level function)
     problem_options : ``min_driving_force``, ``solver``, ``time_limit``, ``unknown_energy``, and
         ``fixed_outer_ph`` (True: a pH change leaves the outer fluid's pH, so ΔpH changes)
@@ -304,7 +314,8 @@ def condition_map(model, environment, x: tuple[str, Sequence[float]] = ("tempera
     for text in range_warnings:
         warnings.warn(text, ModelRangeWarning, stacklevel=2)
     parts = ["uphill"] + (["threshold"] if threshold else []) + (["driving_force"] if driving_force else [])
-    job = NetworkJob.create(model, environment, parts=parts, prepare=prepare, **problem_options)
+    job = NetworkJob.create(model, environment, parts=parts, prepare=prepare,
+                            h2_range=tuple(h2_range), **problem_options)
     points = map_points((x_name, x_vals), y, modes)
     header = {"analysis": "map", "x": [x_name, x_vals], "y": list(y) if y else None, "modes": modes,
               **job.describe()}

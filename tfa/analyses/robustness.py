@@ -39,6 +39,7 @@ from ..errors import InputError
 from ..modes import STANDARD_MODES, parse_modes
 from ..util.points import RunSummary, run_and_read
 from .jobs import NetworkJob, outcome, points_verification
+from ..vocabulary import DEFAULT_H2_RANGE
 from .uncertainty import energy_covariance, with_energies
 
 log = logging.getLogger(__name__)
@@ -58,7 +59,8 @@ def robustness_point(job: NetworkJob, point: dict) -> dict:
         scale = float(point.get("sigma_scale", 1.0))
         values = cov.mean + scale * (draw - cov.mean)
         tm = with_energies(tm, dict(zip(cov.reaction_ids, values.tolist())))
-    return outcome(tm, job.problem_options(), job.options.get("parts", ("uphill", "threshold")))
+    return outcome(tm, job.problem_options(), job.options.get("parts", ("uphill", "threshold")),
+                   job.h2_range())
 
 
 def robustness_points(n_draws: int, seed: int, modes: Sequence[str], sigma_scale: float = 1.0) -> list[dict]:
@@ -166,8 +168,10 @@ class RobustnessResult:
             for q in THRESHOLD_QUANTILES:
                 row[f"h2_threshold_q{int(round(q * 100)):02d}"] = (float(np.quantile(values, q))
                                                                   if len(values) else math.nan)
+            row["at_range_floor_draws"] = sum(1 for r in solved if r.get("h2_at_range_floor"))
             mean = self._mean(mode)
             row["h2_threshold"] = (mean or {}).get("h2_threshold")
+            row["h2_at_range_floor"] = (mean or {}).get("h2_at_range_floor")
             rows.append(row)
         return pd.DataFrame(rows)
 
@@ -204,6 +208,13 @@ class RobustnessResult:
                              + (f"; {row.failed_draws} draw(s) failed" if row.failed_draws else ""))
             else:
                 lines.append(f"{row.mode}: no draw solved")
+        if any("h2_threshold" in r for r in self.records):
+            for row in self.threshold_frame().itertuples():
+                if row.h2_at_range_floor or row.at_range_floor_draws:
+                    lines.append(f"{row.mode}: H2 threshold at the bottom of the range searched "
+                                 f"in {row.at_range_floor_draws} of {row.draws} draws"
+                                 + (" and with the mean energies" if row.h2_at_range_floor else "")
+                                 + " (feasible already there: the true threshold, if any, is lower)")
         return "\n".join(lines)
 
     def to_dict(self) -> dict:
@@ -218,7 +229,7 @@ class RobustnessResult:
 
 def _record(point: dict, line: dict | None) -> dict:
     base = {"mode": point["mode"], "draw": point["index"], "feasible": None, "uphill_set_size": None,
-            "uphill_set": None, "h2_threshold": None, "error": None}
+            "uphill_set": None, "h2_threshold": None, "h2_at_range_floor": None, "error": None}
     if line is None:
         base["error"] = "not computed (run interrupted)"
     elif "error" in line:
@@ -232,7 +243,8 @@ def robustness(model, environment, n_draws: int = 100, seed: int = 0,
                modes: Sequence[str] = STANDARD_MODES,
                *, executor: str = "pool", workers: int | None = None, scheduler: str | None = None,
                results_path: str | Path | None = None, resume: bool = False, overwrite: bool = False,
-               sigma_scale: float = 1.0, threshold: bool = True, prepare: Callable | None = None,
+               sigma_scale: float = 1.0, threshold: bool = True,
+               h2_range: tuple[float, float] = DEFAULT_H2_RANGE, prepare: Callable | None = None,
                progress: Callable | None = None, **problem_options: Any) -> RobustnessResult:
     """Feasibility, minimal uphill set and H2 threshold under N seeded draws of ΔrG'°.
 
@@ -248,6 +260,8 @@ def robustness(model, environment, n_draws: int = 100, seed: int = 0,
         give one to be able to ``resume``
     sigma_scale : multiplies every σ (0: every draw is the deterministic answer)
     threshold : also compute the H2 threshold of every draw
+    h2_range : (low, high) the threshold is searched over [mol/L; gas: bar] (the one default of
+        :data:`tfa.vocabulary.DEFAULT_H2_RANGE`, as ``tfa h2-threshold``)
     prepare : replaces :func:`tfa.network.energies.prepare` (module-level function)
     problem_options : ``min_driving_force``, ``solver``, ``time_limit``, ``unknown_energy``
 
@@ -263,7 +277,8 @@ def robustness(model, environment, n_draws: int = 100, seed: int = 0,
         raise InputError(f"the seed must be a whole number >= 0, got {seed!r}")
     modes = parse_modes(list(modes))
     parts = ("uphill", "threshold") if threshold else ("uphill",)
-    job = NetworkJob.create(model, environment, parts=parts, prepare=prepare, **problem_options)
+    job = NetworkJob.create(model, environment, parts=parts, prepare=prepare,
+                            h2_range=tuple(h2_range), **problem_options)
     points = robustness_points(n_draws, seed, modes, sigma_scale)
     header = {"analysis": "robustness", "seed": int(seed), "n_draws": int(n_draws), "modes": modes,
               "sigma_scale": float(sigma_scale), **job.describe()}

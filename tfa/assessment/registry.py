@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from ..errors import InputError
 from .step import Step
+from .steps.binding import BindingStep
 from .steps.census import CensusStep
 from .steps.coverage import CoverageStep
 from .steps.driving_force import DrivingForceStep
@@ -69,4 +70,5 @@ def step_ids() -> list[str]:
 for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
               DrivingForceStep(), EnergyProfileStep(), RangesStep(), RobustnessStep()):
     register_step(_step)
-register_step(GradientStep(), before="driving_force")   # issue 19a
+register_step(GradientStep(), before="driving_force")
+register_step(BindingStep(), before="energy_profile")   # after the answers it reads

@@ -19,8 +19,9 @@ import sys
 from ..errors import InputError
 from .cmd_robustness import (add_execution_options, execution_kwargs, interrupted, point_progress,
                              problem_kwargs, start_points_run)
-from .options import (add_modes_option, add_network_options, add_output_options, add_switch,
-                      add_problem_options, add_threshold_switch, report_deprecations)
+from .options import (add_modes_option, add_network_options, add_option, add_output_options,
+                      add_problem_options, add_switch, add_threshold_switch, parse_h2_range,
+                      report_deprecations)
 from .output import print_json, print_table, solver_output_silenced
 from .step_command import progress_for
 
@@ -45,6 +46,7 @@ def register(subparsers) -> None:
     add_switch(parser, "fixed_outer_ph")
     add_modes_option(parser, "map")
     add_threshold_switch(parser)
+    add_option(parser, "h2_range", "map")
     parser.add_argument("--no-driving-force", action="store_true", help="skip the max-min driving force")
     add_problem_options(parser)
     add_execution_options(parser, "map")
@@ -74,6 +76,7 @@ def run(args: argparse.Namespace) -> int:
             result = condition_map(model, environment, x, y, modes,
                                    threshold=not args.no_threshold,
                                    driving_force=not args.no_driving_force,
+                                   h2_range=parse_h2_range(args.h2_range),
                                    results_path=out / "map.jsonl" if out else None,
                                    progress=point_progress(bar, "points"),
                                    fixed_outer_ph=bool(args.fixed_outer_ph),
@@ -102,8 +105,8 @@ def run(args: argparse.Namespace) -> int:
     sys.stdout.write(result.summary() + "\n\n")
     columns = ["mode", x_column] + ([y_column] if y_column else []) + [
         c for c in ("temperature_C", "pH", "h2_activity") if y_column is None and c in frame.columns] + [
-        "feasible", "uphill_set_size", "driving_force_kJ_per_mol", "h2_threshold"] + [
-        c for c in ("h2_margin_decades",) if c in frame.columns] + ["error"]
+        "feasible", "uphill_set_size", "driving_force_kJ_per_mol", "h2_threshold",
+        "h2_at_range_floor"] + [c for c in ("h2_margin_decades",) if c in frame.columns] + ["error"]
     print_table(frame[columns], "{:.4g}")
     if args.out is not None:
         sys.stdout.write(f"\nfiles in {args.out}" + (f" (heatmaps: {len(figures) // 2} per-mode "

@@ -19,7 +19,7 @@ from ..util.numbers import MAX_SIGMA_SCALE
 from ..util.points import HASH_SEED
 from .options import (add_deprecated, add_modes_option, add_network_options, add_option,
                       add_output_options, add_problem_options, add_threshold_switch, gated,
-                      parse_workers, report_deprecations)
+                      parse_h2_range, parse_workers, report_deprecations)
 from .output import print_json, print_table, solver_output_silenced
 from .step_command import progress_for
 
@@ -138,6 +138,7 @@ def register(subparsers) -> None:
                         help="multiply every uncertainty by F (0: every draw is the deterministic "
                         "answer; default 1)")
     add_threshold_switch(parser)
+    add_option(parser, "h2_range", "robustness")
     add_problem_options(parser)
     add_execution_options(parser, "robustness")
     add_output_options(parser)
@@ -166,6 +167,7 @@ def run(args: argparse.Namespace) -> int:
             result = robustness(model, environment, n_draws=args.draws, seed=args.seed,
                                 modes=modes, sigma_scale=args.sigma_scale,
                                 threshold=not args.no_threshold,
+                                h2_range=parse_h2_range(args.h2_range),
                                 results_path=out / "robustness.jsonl" if out else None,
                                 progress=point_progress(bar, "draws"),
                                 **dict(execution, overwrite=True), **problem_kwargs(args))
@@ -190,7 +192,8 @@ def run(args: argparse.Namespace) -> int:
         write("\nminimal uphill set: how often each reaction is in it\n")
         print_table(uphill, "{:.3f}")
     if not args.no_threshold:
-        write("\nH2 threshold (mol/L; gases bar) over the draws where it exists\n")
+        write(f"\nH2 threshold (mol/L; gases bar) over the draws where it exists; range searched "
+              f"{args.h2_range} (h2_at_range_floor: feasible already at its bottom)\n")
         print_table(result.threshold_frame(), "{:.3g}")
     if args.out is not None:
         write(f"\nfiles in {args.out}\n")

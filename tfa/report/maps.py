@@ -87,6 +87,9 @@ def map_figure(frame: pd.DataFrame, x_column: str, y_column: str, mode: str,
     xs = sorted(rows[x_column].unique())
     ys = sorted(rows[y_column].unique())
     annotate = len(xs) * len(ys) <= ANNOTATE_MAX_CELLS
+    floor = (_grid(rows.assign(h2_at_range_floor=rows["h2_at_range_floor"].astype(float)),
+                   "h2_at_range_floor", x_column, y_column, xs, ys) > 0.5
+             if "h2_at_range_floor" in rows.columns else np.zeros((len(ys), len(xs)), bool))
     with plt.rc_context(STYLE):
         fig, axes = plt.subplots(2, 2, figsize=(FIGURE_WIDTH_IN, FIGURE_WIDTH_IN * 0.78),
                                  layout="constrained")
@@ -120,8 +123,12 @@ def map_figure(frame: pd.DataFrame, x_column: str, y_column: str, mode: str,
                         continue
                     text = {"binary": "yes" if v > 0.5 else "no", "integer": f"{v:.0f}",
                             "float": f"{v:.1f}", "log": f"{v:.1f}"}[kind]
+                    if kind == "log" and floor[iy, ix]:
+                        text = "≤" + text   # feasible already at the bottom of the range
                     colour = "white" if (kind == "binary" or v < middle) else "black"
                     ax.text(ix, iy, text, ha="center", va="center", fontsize=8, color=colour)
+            if kind == "log" and floor.any():
+                label += "\n(≤: at the bottom of the range searched)"
             ax.set_title(label)
             ax.set_xticks(range(len(xs)), _ticks(xs), rotation=45 if len(xs) > 6 else 0)
             ax.set_yticks(range(len(ys)), _ticks(ys))
