@@ -5,9 +5,11 @@ products (in the direction it runs). Only *transferable* carbon counts (:func:`t
 compounds with a role (ATP, NAD(P)H, ferredoxin ...) lend no carbon, and a carrier moiety
 (tetrahydrofolate, coenzyme A: at least :data:`CARRIER_MIN_CARBON` carbons, loaded with carbon
 by some reaction into a compound that contains it whole) lends none of its own, so 10-formyl-THF carries one carbon and
-acetyl-CoA two. Without an atom mapping, each product draws its carbon from the substrates in
-proportion to their carbon (proportional sharing; common practice when no atom mapping is
-given): the edge s -> p of reaction j carries
+acetyl-CoA two. No atom mapping is needed: a substrate and a product that carry the same amount
+of carbon are paired first (most alike formulas first, so a transamination hands the keto acid's
+skeleton to the amino acid); the rest of the carbon is shared in proportion (each product draws
+from the remaining substrates in proportion to their carbon; common practice without an atom
+mapping): the edge s -> p of reaction j then carries
 
     f(s, p, j) = |v_j| * |nu_s| t_s * |nu_p| t_p / sum_q |nu_q| t_q      [mol C per unit demand]
 
@@ -20,8 +22,8 @@ T. L. Magnanti, J. B. Orlin, Network Flows, Prentice Hall 1993, section 3.5): re
 the path of largest bottleneck (widest path; ties broken by compound and reaction id, so the
 result is the same on every run), record its bottleneck as the path's carbon flow and subtract
 it. Every round empties one edge, so it ends within the number of edges; what is left is carbon
-going round cycles (or the imbalance of a reaction whose carbon the carrier rule does not
-balance) and is reported as such.
+going round cycles, taken out cycle by cycle the same way and reported as cycles (the imbalance of
+a reaction whose carbon the carrier rule does not balance is reported as unassigned).
 
 Each path is named by the pathway tags (``pathway`` note) of its reactions; the carbon-fixation
 route of a path is its first reaction (the one that takes carbon from the feed) with its tag.
@@ -52,7 +54,7 @@ FLOW_TOLERANCE = 1e-9
 #: Names of the two ends of every path.
 SOURCE, SINK = "(feed)", "(demand or outlet)"
 #: Columns of the ``carbon_routes`` table.
-CARBON_ROUTE_COLUMNS = ["mode", "path", "source_compound", "sink_compound", "compounds",
+CARBON_ROUTE_COLUMNS = ["mode", "path", "kind", "source_compound", "sink_compound", "compounds",
                         "steps", "fixation_step", "route", "carbon_flux_per_demand",
                         "carbon_share"]
 
@@ -103,6 +105,10 @@ class CarbonRoutes:
     ----------
     paths : list of CarbonPath
         In the order found (largest bottleneck first).
+    cycles : list of CarbonPath
+        Carbon going round a cycle after the paths are taken out (``carbon_flux``: the carbon
+        circulating, mol C per unit demand; its share is relative to the feed's carbon and may
+        exceed 1).
     carbon_in : float
         Carbon taken from the feed, mol C per unit demand.
     unassigned : float
@@ -113,6 +119,7 @@ class CarbonRoutes:
     """
 
     paths: list[CarbonPath] = field(default_factory=list)
+    cycles: list[CarbonPath] = field(default_factory=list)
     carbon_in: float = 0.0
     unassigned: float = 0.0
     unbalanced: list[str] = field(default_factory=list)
@@ -127,13 +134,15 @@ class CarbonRoutes:
         return dict(sorted(shares.items(), key=lambda kv: (-kv[1], kv[0])))
 
     def to_frame(self, mode: str = "") -> pd.DataFrame:
-        rows = [{"mode": mode, "path": k + 1, "source_compound": p.steps[0].compound_in,
+        rows = [{"mode": mode, "path": k + 1, "kind": kind,
+                 "source_compound": p.steps[0].compound_in,
                  "sink_compound": p.steps[-1].compound_out,
                  "compounds": " → ".join(p.compounds),
                  "steps": ", ".join(s.label for s in p.steps),
                  "fixation_step": fixation_words(p), "route": p.route,
                  "carbon_flux_per_demand": p.carbon_flux, "carbon_share": p.share}
-                for k, p in enumerate(self.paths) if p.steps]
+                for k, (kind, p) in enumerate([("path", p) for p in self.paths]
+                                              + [("cycle", c) for c in self.cycles]) if p.steps]
         return pd.DataFrame(rows, columns=CARBON_ROUTE_COLUMNS)
 
 
@@ -233,6 +242,7 @@ def carbon_graph(model, fluxes: Mapping[str, float], demand_id: str | None,
         When the demand reaction carries no flux (nothing to normalise by).
     """
     carbon = carbon if carbon is not None else transferable_carbon(model)
+    formulas = {m.id: _formula(m) for m in model.metabolites}
     demand = float(fluxes.get(demand_id, 0.0)) if demand_id else 0.0
     if abs(demand) <= FLOW_TOLERANCE:
         raise InputError(f"carbon routes: the demand reaction {demand_id!r} carries no flux in "
@@ -256,11 +266,46 @@ def carbon_graph(model, fluxes: Mapping[str, float], demand_id: str | None,
         total_out, total_in = sum(outs.values()), sum(ins.values())
         if abs(total_out - total_in) > 1e-6 * max(total_in, total_out):
             unbalanced.append(reaction.id)
-        for s, cs in ins.items():
-            for p, cp in outs.items():
-                key = (s, p, reaction.id, d)
-                edges[key] = edges.get(key, 0.0) + cs * cp / total_out
+        for (s, p), f in _share(ins, outs, formulas).items():
+            key = (s, p, reaction.id, d)
+            edges[key] = edges.get(key, 0.0) + f
     return edges, abs(demand), unbalanced
+
+
+def _formula(met) -> dict:
+    try:
+        return parse_formula(str(met.formula or ""))[0]
+    except InputError:
+        return {}
+
+
+def _share(ins: dict[str, float], outs: dict[str, float], formulas: Mapping[str, dict]
+           ) -> dict[tuple[str, str], float]:
+    """Carbon of one reaction from each substrate to each product: a substrate and a product
+    carrying the same carbon are paired first (the most alike formulas first: a transamination
+    passes oxaloacetate's skeleton to aspartate and glutamate's to 2-oxoglutarate); what is left
+    is shared in proportion to the products' carbon."""
+    ins, outs = dict(ins), dict(outs)
+    flows: dict[tuple[str, str], float] = {}
+
+    def unlike(s: str, p: str) -> float:
+        a, b = formulas.get(s, {}), formulas.get(p, {})
+        return sum(abs(a.get(e, 0) - b.get(e, 0)) for e in set(a) | set(b))
+
+    pairs = sorted(((unlike(s, p), s, p) for s in ins for p in outs
+                    if abs(ins[s] - outs[p]) <= 1e-9 * max(ins[s], outs[p])), key=lambda t: t)
+    for _, s, p in pairs:
+        if ins.get(s, 0.0) > FLOW_TOLERANCE and outs.get(p, 0.0) > FLOW_TOLERANCE \
+                and abs(ins[s] - outs[p]) <= 1e-9 * max(ins[s], outs[p]):
+            flows[(s, p)] = ins[s]
+            ins[s] = outs[p] = 0.0
+    ins = {k: x for k, x in ins.items() if x > FLOW_TOLERANCE}
+    outs = {k: x for k, x in outs.items() if x > FLOW_TOLERANCE}
+    total = sum(outs.values())
+    for s, cs in ins.items():
+        for p, cp in outs.items():
+            flows[(s, p)] = flows.get((s, p), 0.0) + cs * cp / total
+    return flows
 
 
 def _widest_path(edges: dict[tuple[str, str, str, int], float]) -> list[tuple[str, str, str, int]]:
@@ -357,8 +402,39 @@ def carbon_routes(model, fluxes: Mapping[str, float], demand_id: str | None,
             continue
         result.paths.append(CarbonPath(steps, width, width / carbon_in if carbon_in else 0.0,
                                        [pathway.get(s.reaction, "") for s in steps]))
+    for _ in range(max_paths):
+        cycle = _a_cycle(edges)
+        if not cycle:
+            break
+        width = min(edges[k] for k in cycle)
+        for k in cycle:
+            edges[k] -= width
+        steps = [PathStep(k[2], k[3], k[0], k[1]) for k in cycle]
+        result.cycles.append(CarbonPath(steps, width, width / carbon_in if carbon_in else 0.0,
+                                        [pathway.get(s.reaction, "") for s in steps]))
     result.unassigned = sum(f for f in edges.values() if f > FLOW_TOLERANCE)
     return result
+
+
+def _a_cycle(edges: dict[tuple[str, str, str, int], float]) -> list[tuple[str, str, str, int]]:
+    """A cycle of edges with positive flow (the flow left after the paths), or []: from the
+    edge of most flow, follow the largest outgoing edge until a compound repeats."""
+    live = {k: f for k, f in edges.items() if f > FLOW_TOLERANCE and SOURCE not in k[:2]
+            and SINK not in k[:2]}
+    if not live:
+        return []
+    out: dict[str, list] = {}
+    for k, f in live.items():
+        out.setdefault(k[0], []).append(k)
+    start = max(live, key=lambda k: (live[k], k[2]))
+    walk, seen = [start], {start[0]: 0}
+    while walk[-1][1] not in seen:
+        seen[walk[-1][1]] = len(walk)
+        nxt = out.get(walk[-1][1])
+        if not nxt:
+            return []   # flow that ends nowhere: an unbalanced reaction, left unassigned
+        walk.append(max(nxt, key=lambda k: (live[k], k[2])))
+    return walk[seen[walk[-1][1]]:]
 
 
 def main_path(routes: CarbonRoutes) -> CarbonPath | None:

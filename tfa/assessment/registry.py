@@ -9,6 +9,7 @@ from __future__ import annotations
 
 from ..errors import InputError
 from .step import Step
+from .steps.budget import EnergyBudgetStep
 from .steps.census import CensusStep
 from .steps.coverage import CoverageStep
 from .steps.driving_force import DrivingForceStep
@@ -65,6 +66,6 @@ def step_ids() -> list[str]:
     return [s.id for s in STEPS]
 
 
-for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
+for _step in (CoverageStep(), FeasibilityStep(), EnergyBudgetStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
               DrivingForceStep(), EnergyProfileStep(), RangesStep(), RobustnessStep()):
     register_step(_step)
