@@ -137,6 +137,30 @@ def gradient_protons(tm: ThermoModel) -> list[str]:
             if str(m.formula or "") == "H" and (m.charge or 0) == 1 and _role(m) != "proton"]
 
 
+def gradient_atp_coupling(tm: ThermoModel) -> tuple[float, float, str] | None:
+    """How the network makes ATP from a proton gradient: (ΔpH = pH − pH_out, H⁺ per ATP,
+    reaction id), or None when no reaction makes ATP from outer protons or the outer protons'
+    activity is not fixed. pH_out = −log10 a_out (a_out the fixed activity of the outer proton);
+    H⁺/ATP = outer protons taken in per ATP made by that reaction.
+
+    For the bundled setting (pH 7.5, a_out = 10^-5.5, ATPS_GRAD: ADP + Pi + 4 H⁺out → ATP + H2O
+    + 3 H⁺): (2.0, 4.0, 'ATPS_GRAD').
+    """
+    protons = gradient_protons(tm)
+    atp = [m.id for m in tm.model.metabolites if _role(m) == "atp"]
+    for proton in protons:
+        low, high = tm.log_bounds.get(proton, (math.nan, math.nan))
+        if not (math.isfinite(low) and abs(high - low) < 1e-9):
+            continue
+        ph_out = -low / math.log(10.0)
+        for reaction in tm.model.reactions:
+            coef = {m.id: c for m, c in reaction.metabolites.items()}
+            n_h, n_atp = coef.get(proton, 0.0), sum(coef.get(a, 0.0) for a in atp)
+            if n_h and n_atp and n_h * n_atp < 0:   # takes outer protons in, makes ATP
+                return tm.conditions.ph - ph_out, abs(n_h / n_atp), reaction.id
+    return None
+
+
 def energy_per_proton(tm: ThermoModel, ln_activity: Mapping[str, float], proton: str) -> float:
     """Free energy released by one outer proton entering, kJ/mol:
     e = μ'(H⁺ in) − μ'(H⁺ out) = −RT (ln 10 · pH + ln a_out).

@@ -46,7 +46,8 @@ logger = logging.getLogger(__name__)
 def energy_profile_figure(frame: pd.DataFrame, title: str | None = None,
                           near_equilibrium: float | None = None) -> Figure:
     """ΔrG' of each step of a path as a horizontal bar, with its uncertainty as a whisker,
-    coloured by whether the step is near equilibrium. Steps are never summed.
+    coloured by whether the step is near equilibrium. Steps are never summed. The flux written
+    beside each bar is its size in the direction the step runs.
 
     One bar per step, the first step on top. A bar's length is the step's ΔrG' in the direction
     it runs (kJ/mol); the whisker is ± σ of its ΔrG'° when given; a step with
@@ -120,7 +121,7 @@ def energy_profile_figure(frame: pd.DataFrame, title: str | None = None,
     if flux is not None and n <= 30:
         right = ax.get_xlim()[1]
         for k in range(n):
-            ax.annotate(f"flux {flux[k]:.3g}", (right, y[k]), xytext=(-3, 0),
+            ax.annotate(f"flux {abs(flux[k]):.3g}", (right, y[k]), xytext=(-3, 0),
                         textcoords="offset points", ha="right", va="center", fontsize=MIN_FONT_PT,
                         color=REFERENCE_COLOUR)
     ax.set_yticks(y)
@@ -128,9 +129,9 @@ def energy_profile_figure(frame: pd.DataFrame, title: str | None = None,
     ax.set_xlabel("ΔrG' of the step (kJ/mol)")
     from matplotlib.patches import Patch
 
-    handles = [Patch(facecolor=DOWNHILL_COLOUR, edgecolor="black", label=f"|ΔrG'| ≥ {limit:.1f}"),
+    handles = [Patch(facecolor=DOWNHILL_COLOUR, edgecolor="black", label=f"|ΔrG'| ≥ {limit:.1f} kJ/mol"),
                Patch(facecolor=NEAR_EQUILIBRIUM_COLOUR, edgecolor="black",
-                     label=f"near equilibrium, |ΔrG'| < {limit:.1f}")]
+                     label=f"near equilibrium, |ΔrG'| < {limit:.1f} kJ/mol")]
     if np.any(dg > 0):
         handles.append(Patch(facecolor="white", edgecolor="black", hatch="///",
                              label="uphill (ΔrG' > 0)"))

@@ -1,10 +1,13 @@
 """Step: what each mode's steady state runs on: its energy budget (table ``energy_budget``) and the
 routes that carry its carbon (table ``carbon_routes``).
 
-The steady state of a mode is the certified point of its feasibility question (feasible) or of
-its first minimal uphill set (infeasible), taken at the least total flux over the same directions
-and concentrations (:mod:`tfa.analyses.steady_state`); modes without such a point (demand
-impossible, undetermined, not applicable) have no row.
+The steady state of the mode of the single-mode analyses is the reference solution the energy
+profile follows (the max-min driving-force solution, :func:`.driving_force.reference_solution`),
+so the summary's route, the budget and the profile describe one steady state; of the other modes,
+the certified point of the feasibility question (feasible) or of the first minimal uphill set
+(infeasible). Each is taken at the least total flux over the same directions and concentrations
+(:mod:`tfa.analyses.steady_state`); modes without such a point (demand impossible, undetermined,
+not applicable) have no row.
 """
 
 from __future__ import annotations
@@ -16,6 +19,7 @@ import pandas as pd
 
 from ...analyses.budget import BUDGET_COLUMNS, EnergyBudget, energy_budget
 from ...analyses.carbon_paths import CARBON_ROUTE_COLUMNS, CarbonRoutes, carbon_routes, main_path
+from ...analyses.route import delta_g_at
 from ...analyses.steady_state import least_flux_state
 from ...errors import ComputationError
 from ..context import RunContext
@@ -37,10 +41,23 @@ class SteadyStateAccount:
 
 def steady_state_of(ctx: RunContext, mode: str) -> tuple[pd.DataFrame, pd.DataFrame, str, dict] | None:
     """(reaction table, concentration table, words, verification) of a mode's certified point:
-    the feasible point, or the point of its first minimal uphill set; None when there is none."""
-    result = ctx.feasibility(mode)
+    for the mode of the single-mode analyses, the reference solution the energy profile and the
+    ranges figure show (the max-min driving-force solution); for the others the feasible point,
+    or the point of the first minimal uphill set; None when there is none."""
     if ctx.not_applicable(mode):
         return None
+    if mode == ctx.settings.mode:
+        from .driving_force import reference_solution
+
+        reference, words = reference_solution(ctx)
+        solution = getattr(reference, "solution", None)
+        if solution is not None:
+            at = dict(zip(reference.table["reaction"], reference.table["delta_g_kJ_per_mol"]))
+            reactions = pd.DataFrame({"reaction": list(solution.reaction_ids),
+                                      "flux": [float(v) for v in solution.fluxes]})
+            reactions["delta_g_kJ_per_mol"] = [at.get(r, math.nan) for r in reactions["reaction"]]
+            return reactions, reference.concentrations, words, reference.verification
+    result = ctx.feasibility(mode)
     if result.feasible and result.solution is not None:
         return (result.to_frame(), result.concentrations(),
                 "the certified steady state of the feasibility question", result.verification)
@@ -62,6 +79,11 @@ def account(ctx: RunContext, mode: str, reactions: pd.DataFrame, concentrations:
                                                 reactions.get("has_energy", [True] * len(reactions)))
                if has and math.isfinite(float(g))}
     ln_activity = dict(zip(concentrations["compound"], concentrations["ln_activity"].astype(float)))
+    for rid, v in fluxes.items():   # a step allowed uphill has no energy in its relaxed problem
+        if v and rid not in delta_g and rid in tm.energies:
+            g = delta_g_at(tm, rid, ln_activity)
+            if math.isfinite(g):
+                delta_g[rid] = g
     check = str(checked.get("check", ""))
     try:
         least = least_flux_state(tm.model, fluxes, set(delta_g))
@@ -151,7 +173,8 @@ def route_lines(a: SteadyStateAccount) -> list[str]:
     if shares:
         entry = ", ".join(f"{k} {100 * v:.0f} %" for k, v in list(shares.items())[:3])
         path = main_path(a.routes)
-        lines.append(f"carbon in the {a.mode} steady state enters through {entry}"
+        lines.append(f"carbon in the {a.mode} steady state ({a.words.split(',')[0]}) enters "
+                     f"through {entry}"
                      + (f"; largest path {' → '.join(path.compounds)} "
                         f"({100 * path.share:.0f} % of the carbon)" if path else ""))
     b = a.budget
