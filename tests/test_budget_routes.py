@@ -1,4 +1,4 @@
-"""Issue 14 items 1, 2 and 7: the energy budget of a steady state, the carbon routes that ran,
+"""The energy budget of a steady state, the carbon routes that ran,
 the energy profile along one connected path, and the words of the summary.
 
 Small hand-built networks with hand-derived answers (the derivations are written beside each
@@ -265,7 +265,7 @@ def bundled(tmp_path_factory):
 
 def test_profile_path_is_connected_by_carbon(bundled):
     """Consecutive steps of the profile share a carbon compound: the product of one is a
-    substrate of the next, checked on the reactions' equations (issue 14 acceptance)."""
+    substrate of the next, checked on the reactions' equations."""
     result, _ = bundled
     profile = result.energy_profile
     table = profile.table

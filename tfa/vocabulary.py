@@ -152,7 +152,7 @@ COLUMNS: dict[str, Term] = _terms(
     ("h2_threshold_q50", "median of the H2 threshold over the draws", ""),
     ("h2_threshold_q75", "75 % quantile of the H2 threshold over the draws", ""),
     ("h2_threshold_q95", "95 % quantile of the H2 threshold over the draws", ""),
-    # issue 14a: energy budget, carbon routes, energy profile
+    # energy budget, carbon routes, energy profile (the steady state that ran)
     ("solution", "which steady state a row describes, in words", ""),
     ("net_reaction", "the net reaction over the internal reactions per unit of demand (one "
                      "turnover of the demand reaction): consumed → made", ""),
@@ -230,7 +230,7 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("route_driving_force_kJ_per_mol", "max-min driving force of the named route", "kJ/mol"),
     ("route_bottlenecks", "reactions at the named route's max-min driving force", ""),
     ("command", "the command that printed the JSON", ""),
-    ("energy_budget", "per mode, the row of the energy_budget table (issue 14a)", ""),
+    ("energy_budget", "per mode, the row of the energy_budget table", ""),
     ("carbon_fixation", "per mode, the share of the feed's carbon per fixation step", ""),
     ("profile_path", "the steps of the energy profile and what they follow", ""),
     ("tables", "every table of the answer: file stem -> rows", ""),

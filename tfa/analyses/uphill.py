@@ -438,7 +438,7 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                 result.certificates.append(point[1])
             else:
                 amounts, short, directions = {}, {}, {}
-            # the certified point behind the set (issue 14: energy budget and carbon routes)
+            # the certified point behind the set (for its energy budget and carbon routes)
             result.points.append((reaction_table(problem, *point), concentration_table(point[0])))
             result.sets.append(members)
             result.uphill_by.append(amounts)
