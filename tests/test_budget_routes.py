@@ -335,3 +335,21 @@ def test_summary_names_the_route_and_what_pays(bundled):
     assert "max-min driving-force solution" in route and "enters through" in route
     pays = next(line for line in text.splitlines() if line.startswith("paid for by"))
     assert "proton gradient" in pays and "H⁺ in" in pays
+
+
+def test_a_named_route_says_which_steps_carry_no_flux():
+    """--route with steps the steady state does not use: the profile keeps them (ΔrG' at the
+    solution's concentrations, flux 0), the summary and the report say so, the figure draws them
+    pale."""
+    import tfa
+    from tfa.report.figures import energy_profile_figure
+
+    result = tfa.assess(route="HDCR,FTHFS,MTHFC,MTHFD,MTHFR,ACS", skip=SKIP + ["energy_budget"])
+    table = result.energy_profile.table
+    assert list(table["reaction"]) == ["HDCR", "FTHFS", "MTHFC", "MTHFD", "MTHFR", "ACS"]
+    idle = list(table.loc[table["flux"] == 0, "reaction"])
+    assert idle   # the max-min driving-force solution does not run the whole methyl branch
+    line = next(x for x in result.summary().splitlines() if x.startswith("energy profile: "))
+    assert all(rid in line for rid in idle) and "no flux" in line
+    bars = list(energy_profile_figure(table).axes[0].containers[0])
+    assert [bar.get_alpha() == 0.35 for bar in bars] == list(table["flux"] == 0)

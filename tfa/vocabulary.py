@@ -303,8 +303,8 @@ OPTIONS: dict[str, Option] = {
     "mode": Option(("--mode",), "the mode of the single-mode analyses: H2 scan and threshold, "
                    "driving force, ranges, energy profile (default %(default)s)", "native", "MODE"),
     "route": Option(("--route",), "reactions of a route, in order, separated by commas (a leading "
-                    "minus runs one backwards); default: the acetyl-CoA pathway to pyruvate that "
-                    "carries flux", None, "R1,R2,-R3"),
+                    "minus runs one backwards); default: the widest carbon path of the steady "
+                    "state (the path that carries the most carbon)", None, "R1,R2,-R3"),
     "h2_range": Option(("--h2-range",), "H2 supply searched, LOW:HIGH (mol/L dissolved; bar for a "
                        "gas feed; default %(default)s)",
                        f"{DEFAULT_H2_RANGE[0]:g}:{DEFAULT_H2_RANGE[1]:g}", "LOW:HIGH"),

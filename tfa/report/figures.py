@@ -52,7 +52,8 @@ def energy_profile_figure(frame: pd.DataFrame, title: str | None = None,
     One bar per step, the first step on top. A bar's length is the step's ΔrG' in the direction
     it runs (kJ/mol); the whisker is ± σ of its ΔrG'° when given; a step with
     |ΔrG'| < ``near_equilibrium`` (the shaded band) is drawn in the near-equilibrium colour, a
-    step that runs uphill (ΔrG' > 0) hatched. The flux of each step is written beside its bar.
+    step that runs uphill (ΔrG' > 0) hatched, a step without flux (a named step that did not run)
+    pale with a dashed edge. The flux of each step is written beside its bar.
 
     Parameters
     ----------
@@ -107,9 +108,13 @@ def energy_profile_figure(frame: pd.DataFrame, title: str | None = None,
     colours = [NEAR_EQUILIBRIUM_COLOUR if e else DOWNHILL_COLOUR for e in near]
     ax.axvspan(-limit, limit, color=REFERENCE_COLOUR, alpha=0.12, linewidth=0)
     bars = ax.barh(y, dg, height=0.62, color=colours, edgecolor=OKABE_ITO["black"], linewidth=0.6)
-    for bar, g in zip(bars, dg):
+    idle = np.zeros(n, bool) if flux is None else ~(np.abs(flux) > 0)
+    for bar, g, no_flux in zip(bars, dg, idle):
         if g > 0:
             bar.set_hatch("///")
+        if no_flux:   # a named step that did not run: drawn pale, with a dashed edge
+            bar.set_alpha(0.35)
+            bar.set_linestyle("--")
     whisker = np.where(np.isfinite(sigma), sigma, 0.0)
     if np.any(whisker > 0):
         ax.errorbar(dg, y, xerr=whisker, fmt="none", ecolor=OKABE_ITO["black"], elinewidth=1.0,
@@ -135,6 +140,9 @@ def energy_profile_figure(frame: pd.DataFrame, title: str | None = None,
     if np.any(dg > 0):
         handles.append(Patch(facecolor="white", edgecolor="black", hatch="///",
                              label="uphill (ΔrG' > 0)"))
+    if np.any(idle):
+        handles.append(Patch(facecolor="white", edgecolor="black", linestyle="--",
+                             label="carries no flux (ΔrG' it would have)"))
     if np.any(whisker > 0):
         handles.append(Line2D([], [], color="black", lw=1.0, label="± σ of ΔrG'°"))
     ax.legend(handles=handles, loc="lower left", frameon=True, framealpha=0.9, edgecolor="none",
