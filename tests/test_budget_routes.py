@@ -304,6 +304,13 @@ def test_budget_of_the_bundled_network_adds_up(bundled):
                 == pytest.approx(total))
     native = table.loc["native"]
     assert native["uphill_supplied_kJ_per_demand"] == 0.0    # feasible: every step downhill
+    # ATP is made by 4 outer protons (ATPS_GRAD, downhill in this steady state), so the
+    # phosphorylation potential lies below what they release: 4 RT ln10 (7.5 - 5.5) = 52.6
+    # kJ/mol at 70 degC (hand-derived); and above 40 kJ/mol, the low end of phosphorylation
+    # potentials in growing cells (Thauer, Jungermann & Decker 1977, from memory: 40-70 kJ/mol)
+    gain = 4 * R * 343.15 * math.log(10) * 2.0
+    assert 40.0 < native["atp_synthesis_delta_g_kJ_per_mol"] < gain
+    assert native["energy_per_proton_kJ_per_mol"] == pytest.approx(-gain / 4)
     assert native["protons_in_per_demand"] > 0 and native["atp_made_per_demand"] > 0
     routes = result.tables()["carbon_routes"]
     paths = routes[(routes["mode"] == "native") & (routes["kind"] == "path")]

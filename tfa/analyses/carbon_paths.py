@@ -35,7 +35,6 @@ dimensionless.
 from __future__ import annotations
 
 import heapq
-import logging
 from dataclasses import dataclass, field
 from typing import Mapping, Sequence
 
@@ -43,8 +42,6 @@ import pandas as pd
 
 from ..errors import InputError
 from ..thermo.balance import parse_formula
-
-log = logging.getLogger(__name__)
 
 #: Least carbon count of a carrier moiety (tetrahydrofolate C19, coenzyme A C21; pyrimidine
 #: nucleotides C9 and hexoses C6 stay below, so their carbon is transferred).
@@ -159,13 +156,6 @@ def pathway_of(reaction) -> str:
     return str((reaction.notes or {}).get("pathway") or reaction.subsystem or "")
 
 
-def _carbon_count(met) -> int:
-    try:
-        return int(parse_formula(str(met.formula or ""))[0].get("C", 0))
-    except InputError:
-        return 0
-
-
 def _contains(big: dict, small: dict) -> bool:
     return big != small and all(big.get(e, 0) >= n for e, n in small.items())
 
@@ -200,12 +190,7 @@ def transferable_carbon(model) -> dict[str, float]:
     >>> transferable_carbon(m)
     {'thf': 0.0, 'fthf': 1.0, 'atp': 0.0}
     """
-    formulas = {}
-    for met in model.metabolites:
-        try:
-            formulas[met.id] = parse_formula(str(met.formula or ""))[0]
-        except InputError:
-            formulas[met.id] = {}
+    formulas = {met.id: _formula(met) for met in model.metabolites}
     roles = {m.id for m in model.metabolites if (m.notes or {}).get("role")
              and str(m.notes.get("role")) != "co2"}
     candidates = {m for m, f in formulas.items() if f.get("C", 0) >= CARRIER_MIN_CARBON
@@ -393,11 +378,10 @@ def carbon_routes(model, fluxes: Mapping[str, float], demand_id: str | None,
         width = min(edges[k] for k in path)
         for k in path:
             edges[k] -= width
-        # the boundary edges (feed, demand, outlet) are not steps of the route
-        inner = [k for k in path if k[0] != SOURCE and k[1] != SINK]
-        if not inner:  # a compound fed and demanded as such: no reaction made it
-            inner = []
-        steps = [PathStep(k[2], k[3], k[0], k[1]) for k in inner]
+        # the boundary edges (feed, demand, outlet) are not steps of the route; a compound fed
+        # and demanded as it is has no step and no path
+        steps = [PathStep(k[2], k[3], k[0], k[1]) for k in path
+                 if k[0] != SOURCE and k[1] != SINK]
         if not steps:
             continue
         result.paths.append(CarbonPath(steps, width, width / carbon_in if carbon_in else 0.0,

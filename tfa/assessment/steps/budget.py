@@ -96,6 +96,10 @@ def account(ctx: RunContext, mode: str, reactions: pd.DataFrame, concentrations:
     out = SteadyStateAccount(mode, words, fluxes, delta_g, ln_activity)
     out.budget = energy_budget(tm, fluxes, delta_g, ln_activity, words, verification)
     out.routes = carbon_routes(tm.model, fluxes, tm.demand_id)
+    if out.routes.unbalanced:
+        ctx.note(f"carbon routes ({mode}): the carrier rule does not balance the carbon of "
+                 f"{', '.join(out.routes.unbalanced)}; "
+                 f"{out.routes.unassigned:.3g} mol C per unit of demand left unassigned")
     return out
 
 
