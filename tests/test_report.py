@@ -414,7 +414,8 @@ def test_summary_sentences():
                "uphill: acs")
     assert mode_line("runs with H2 in place of the carriers", None).startswith(
         "runs with H2 in place of the carriers: undetermined")
-    assert mode_line("runs with ATP regenerated inside", True) == "runs with ATP regenerated inside: yes"
+    assert mode_line("runs with the ATP its own reactions make", True) == (
+        "runs with the ATP its own reactions make: yes")
     assert (h2_line(None, (1e-7, 1e-2))
             == "H2 needed: no amount between 1.00e-07 mol/L and 0.01 mol/L lets the network run")
 
