@@ -372,3 +372,21 @@ def test_a_named_route_says_which_steps_carry_no_flux():
     assert all(rid in line for rid in idle) and "no flux" in line
     bars = list(energy_profile_figure(table).axes[0].containers[0])
     assert [bar.get_alpha() == 0.35 for bar in bars] == list(table["flux"] == 0)
+
+
+def test_dg_names_the_standard_state_of_each_gas(capsys):
+    """The same reaction with dissolved and with gaseous H2 and CO2: the standard state is
+    printed beside ΔrG'°, and the two differ by the solution energies of the gases. With gases at
+    1 bar, H2 + CO2 -> formate + H+ at pH 7, 25 degC is +3.4 kJ/mol (Thauer, Jungermann & Decker
+    1977, Table of ΔG°', from memory)."""
+    from tfa.cli import main
+
+    assert main(["dg", "H2(g) + CO2(g) <=> formate + H+"]) == 0
+    gas = capsys.readouterr().out
+    assert "standard    H2(g), CO2(g) gas at 1 bar" in gas
+    standard = float(gas.split("ΔrG'°")[1].split("±")[0])
+    assert standard == pytest.approx(3.4, abs=1.0)
+    assert main(["dg", "H2 + CO2 <=> formate + H+"]) == 0
+    dissolved = capsys.readouterr().out
+    assert "standard    H2, CO2 dissolved at 1 mol/L" in dissolved
+    assert float(dissolved.split("ΔrG'°")[1].split("±")[0]) < standard - 20   # solution energies

@@ -7,6 +7,24 @@ to these standard states, so every output that shows one says which holds for ea
 from __future__ import annotations
 
 
+def gas_state_of_key(key: str, database) -> str:
+    """"gas at 1 bar" for a gas thermo key (``X(g)``), "dissolved at 1 mol/L" for a dissolved
+    gas (``X`` whose ``X(g)`` is in the species data), "" otherwise.
+
+    >>> from tfa.thermo.database import ThermoDatabase
+    >>> db = ThermoDatabase.load()
+    >>> [gas_state_of_key(k, db) for k in ("H2", "H2(g)", "formate")]
+    ['dissolved at 1 mol/L', 'gas at 1 bar', '']
+    """
+    if key.endswith("(g)"):
+        return "gas at 1 bar"
+    try:
+        database.compound(f"{key}(g)")
+    except Exception:  # noqa: BLE001 - no gas of that name in the species data
+        return ""
+    return "dissolved at 1 mol/L"
+
+
 def gas_standard_states(model, database) -> dict[str, str]:
     """Compound id -> "gas at 1 bar" or "dissolved at 1 mol/L", for the gases of the network.
 
@@ -21,16 +39,9 @@ def gas_standard_states(model, database) -> dict[str, str]:
     out = {}
     for met in model.metabolites:
         key = str((met.notes or {}).get("thermo_key") or "").strip()
-        if not key:
-            continue
-        if key.endswith("(g)"):
-            out[met.id] = "gas at 1 bar"
-            continue
-        try:
-            database.compound(f"{key}(g)")
-        except Exception:  # noqa: BLE001 - no gas of that name in the species data
-            continue
-        out[met.id] = "dissolved at 1 mol/L"
+        state = gas_state_of_key(key, database) if key else ""
+        if state:
+            out[met.id] = state
     return out
 
 
