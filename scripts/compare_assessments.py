@@ -61,7 +61,7 @@ ROBUSTNESS_RENAMED = {"feasible": "feasible_draws", "failed": "failed_draws"}
 #: The census was once written as the long table of its figure: kind -> today's column.
 CENSUS_KINDS = {"ΔrG'°": "delta_g_standard_kJ_per_mol", "ΔrG' at 1 mM": "delta_g_1mM_kJ_per_mol"}
 #: Tables of one optimal solution among equal ones: they may differ run to run.
-SOLUTION_TABLES = {"driving_force", "energy_profile"}
+SOLUTION_TABLES = {"driving_force", "energy_profile", "energy_budget", "carbon_routes"}
 
 
 def _table(folder: Path, stem: str) -> pd.DataFrame:

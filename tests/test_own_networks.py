@@ -140,8 +140,9 @@ def test_textbook_sbml_without_environment_says_so_and_what_does_not_apply(textb
     assert "demand Biomass_Ecoli_core >= 0.01" in lines[1]
     assert ("runs with H2 in place of the carriers: not applicable (no H2 in this network; name "
             "the H2 compound with --h2 ID)") in captured.out
-    native = _lines_of(captured.out, "runs with ATP regenerated inside")
-    assert native.startswith("runs with ATP regenerated inside: yes [certified] (thermodynamically "
+    native = _lines_of(captured.out, "runs with the ATP its own reactions make")
+    assert native.startswith("runs with the ATP its own reactions make: yes [certified] "
+                             "(thermodynamically "
                              "constrained: 63 of 74 reactions; the rest unconstrained)")
     assert "without an energy (unconstrained in every mode): 11 of 74 reactions" in captured.out
     # warnings once, as one short table, one line each, no file paths; -q prints none

@@ -158,22 +158,28 @@ def test_figures_written_as_png_and_svg(tmp_path, name):
     assert not list(tmp_path.glob(".*.part"))  # no temporary file left behind
 
 
-def test_energy_profile_is_cumulative_and_labels_do_not_overlap():
+def test_energy_profile_bars_whiskers_colours_and_labels_do_not_overlap():
+    """One horizontal bar per step whose length is the step's own ΔrG' (never a running sum),
+    a ± σ whisker, the near-equilibrium colour exactly for |ΔrG'| < the limit, uphill bars
+    hatched; the step labels do not overlap."""
+    from matplotlib.colors import to_hex
+
     frame = profile_frame(15)
-    fig = F.energy_profile_figure(frame)
+    frame["sigma_kJ_per_mol"] = 1.5
+    fig = F.energy_profile_figure(frame, near_equilibrium=5.0)
     ax = fig.axes[0]
-    assert ax.get_ylabel() == "cumulative ΔrG' (kJ/mol)"
-    levels = np.concatenate([[0.0], np.cumsum(frame["delta_g_kJ_per_mol"])])
-    drawn = set()
-    for collection in ax.collections:  # the level bars (hlines)
-        for segment in collection.get_segments():
-            drawn.add(round(float(segment[0][1]), 6))
-    for level in levels:
-        assert round(float(level), 6) in drawn
-    bottom, top = ax.get_ylim()
-    assert bottom < min(levels.min(), np.cumsum(frame["delta_g_standard_kJ_per_mol"]).min())
-    assert top > max(levels.max(), np.cumsum(frame["delta_g_standard_kJ_per_mol"]).max())
-    boxes = _text_boxes(fig, ax.get_xticklabels())
+    assert ax.get_xlabel() == "ΔrG' of the step (kJ/mol)"
+    bars = list(ax.containers[0])
+    assert len(bars) == 15
+    widths = [bar.get_width() for bar in bars]
+    assert widths == pytest.approx(list(frame["delta_g_kJ_per_mol"]))   # not cumulative
+    for bar, g in zip(bars, frame["delta_g_kJ_per_mol"]):
+        near = abs(g) < 5.0
+        assert to_hex(bar.get_facecolor()) == ("#e69f00" if near else "#0072b2")
+        assert bool(bar.get_hatch()) == (g > 0)
+    whiskers = [c for c in ax.containers[1:] if hasattr(c, "has_xerr") and c.has_xerr]
+    assert whiskers   # the error bars are drawn
+    boxes = _text_boxes(fig, ax.get_yticklabels())
     assert len(boxes) == 15
     assert _overlaps(boxes) == []
     assert min(_all_font_sizes(fig)) >= 7.0
@@ -408,7 +414,8 @@ def test_summary_sentences():
                "uphill: acs")
     assert mode_line("runs with H2 in place of the carriers", None).startswith(
         "runs with H2 in place of the carriers: undetermined")
-    assert mode_line("runs with ATP regenerated inside", True) == "runs with ATP regenerated inside: yes"
+    assert mode_line("runs with the ATP its own reactions make", True) == (
+        "runs with the ATP its own reactions make: yes")
     assert (h2_line(None, (1e-7, 1e-2))
             == "H2 needed: no amount between 1.00e-07 mol/L and 0.01 mol/L lets the network run")
 
@@ -416,11 +423,12 @@ def test_summary_sentences():
 def test_overlap_check_can_fail():
     """The overlap measure itself: long horizontal labels side by side must be caught."""
     fig = F.energy_profile_figure(profile_frame(15))
-    labels = fig.axes[0].get_xticklabels()
-    for label in labels:
-        label.set_rotation(0)
-        label.set_horizontalalignment("center")
-    assert _overlaps(_text_boxes(fig, labels))
+    labels = fig.axes[0].get_yticklabels()
+    for label in labels:   # all step labels moved onto one line
+        label.set_y(0)
+        label.set_position((0, 0))
+    fig.axes[0].set_yticks([0] * len(labels))
+    assert _overlaps(_text_boxes(fig, fig.axes[0].get_yticklabels()))
 
 
 def test_html_text_keeps_line_breaks_and_lists(tmp_path):

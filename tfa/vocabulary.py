@@ -182,6 +182,53 @@ COLUMNS: dict[str, Term] = _terms(
     ("binding_constraint", "the constraint that sets the value, in words", ""),
     ("at_range_floor_draws", "draws whose H2 threshold lies at the bottom of the range searched",
      ""),
+    # energy budget, carbon routes, energy profile (the steady state that ran)
+    ("solution", "which steady state a row describes, in words", ""),
+    ("net_reaction", "the net reaction over the internal reactions per unit of demand (one "
+                     "turnover of the demand reaction): consumed → made", ""),
+    ("delta_g_net_kJ_per_demand", "ΔrG' of the net reaction = Σ flux × ΔrG' / demand flux, at the "
+                                  "solution's concentrations", "kJ per unit of demand"),
+    ("feed_chemistry_kJ_per_demand", "the part of the net ΔrG' from converting the feed (H2, CO2, "
+                                     "N, S, P) into the products: the net ΔrG' minus the gradient's",
+     "kJ per unit of demand"),
+    ("gradient_kJ_per_demand", "the part of the net ΔrG' from outer protons entering: protons in × "
+                               "energy per proton", "kJ per unit of demand"),
+    ("protons_in_per_demand", "outer protons (of a geochemical gradient) taken in",
+     "mol per unit of demand"),
+    ("energy_per_proton_kJ_per_mol", "free energy one outer proton releases on entering, "
+                                     "-RT (ln10 pH + ln a_out) (membrane potential 0)", "kJ/mol"),
+    ("atp_made_per_demand", "ATP made by the reactions that make it", "mol per unit of demand"),
+    ("atp_spent_per_demand", "ATP used by the reactions that use it", "mol per unit of demand"),
+    ("atp_synthesis_delta_g_kJ_per_mol", "ΔrG' of ADP + Pi → ATP + H2O at the solution's "
+                                         "concentrations", "kJ/mol"),
+    ("atp_energy_kJ_per_demand", "free energy stored in the ATP made: ATP made × ΔrG' of ATP "
+                                 "synthesis", "kJ per unit of demand"),
+    ("uphill_supplied_kJ_per_demand", "energy to supply to the steps that run uphill: Σ flux × ΔrG' "
+                                      "over them / demand flux", "kJ per unit of demand"),
+    ("downhill_dissipated_kJ_per_demand", "Σ flux × ΔrG' over the steps that run downhill / demand "
+                                          "flux", "kJ per unit of demand"),
+    ("h2_consumed_per_demand", "H2 taken in (net)", "mol per unit of demand"),
+    ("carbon_taken_up_per_demand", "carbon atoms taken in from the feed (net)",
+     "mol C per unit of demand"),
+    ("h2_per_carbon", "H2 taken in per carbon atom taken in", ""),
+    ("atp_per_h2", "ATP made per H2 taken in", ""),
+    ("reactions_without_energy", "reactions carrying flux without an energy (left out of the sums), "
+                                 "joined by ', '", ""),
+    ("path", "number of a carbon path (1 = the widest, found first)", ""),
+    ("source_compound", "the compound a carbon path starts from (taken from the feed)", ""),
+    ("sink_compound", "the compound a carbon path ends in (demanded or exported)", ""),
+    ("compounds", "the carbon compounds along a path, joined by ' → '", ""),
+    ("steps", "the reactions along a path in the direction they run, joined by ', '", ""),
+    ("fixation_step", "the reaction that takes a path's carbon from the feed, with its pathway tag",
+     ""),
+    ("route", "the pathway tags along a path, joined by ' → '", ""),
+    ("carbon_flux_per_demand", "carbon a path carries (or a cycle circulates)",
+     "mol C per unit of demand"),
+    ("carbon_share", "a path's part of the carbon taken from the feed", ""),
+    ("compound_in", "the carbon compound a step of the path takes", ""),
+    ("compound_out", "the carbon compound a step of the path makes", ""),
+    ("near_equilibrium", "|ΔrG'| < RT ln 10: the backward flux is more than a tenth of the forward "
+                         "(flux-force relation, Beard & Qian 2007)", ""),
     # conditions (map axes and summaries)
     # issue-19b block: the setting's fluids
     ("vent_fraction", "share of vent fluid in a mixture with seawater (0: seawater, 1: vent fluid)", ""),
@@ -220,6 +267,9 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("route_driving_force_kJ_per_mol", "max-min driving force of the named route", "kJ/mol"),
     ("route_bottlenecks", "reactions at the named route's max-min driving force", ""),
     ("command", "the command that printed the JSON", ""),
+    ("energy_budget", "per mode, the row of the energy_budget table", ""),
+    ("carbon_fixation", "per mode, the share of the feed's carbon per fixation step", ""),
+    ("profile_path", "the steps of the energy profile and what they follow", ""),
     ("tables", "every table of the answer: file stem -> rows", ""),
     # issue 19a: compartments, the proton-motive force, thresholds with and without the gradient
     ("compartment", "compartment id of a compound ('' or the cell's id: the cell, whose "
@@ -313,8 +363,8 @@ OPTIONS: dict[str, Option] = {
     "mode": Option(("--mode",), "the mode of the single-mode analyses: H2 scan and threshold, "
                    "driving force, ranges, energy profile (default %(default)s)", "native", "MODE"),
     "route": Option(("--route",), "reactions of a route, in order, separated by commas (a leading "
-                    "minus runs one backwards); default: the acetyl-CoA pathway to pyruvate that "
-                    "carries flux", None, "R1,R2,-R3"),
+                    "minus runs one backwards); default: the widest carbon path of the steady "
+                    "state (the path that carries the most carbon)", None, "R1,R2,-R3"),
     "h2_range": Option(("--h2-range",), "H2 supply searched, LOW:HIGH (mol/L dissolved; bar for a "
                        "gas feed; default %(default)s)",
                        f"{DEFAULT_H2_RANGE[0]:g}:{DEFAULT_H2_RANGE[1]:g}", "LOW:HIGH"),

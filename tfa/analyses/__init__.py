@@ -2,19 +2,21 @@
 with ``to_frame()``, ``tables()`` (file stem -> table, columns from :mod:`tfa.vocabulary`),
 ``to_dict()``, the conditions, the data provenance and its certificates."""
 
+from .budget import EnergyBudget, energy_budget
+from .carbon_paths import CarbonRoutes, carbon_routes
 from .census import CensusResult, census
 from .driving_force import DrivingForceResult, network_driving_force, pathway_driving_force
 from .feasibility import FeasibilityResult, feasibility
 from .hydrogen import H2ScanResult, H2ThresholdResult, h2_scan, h2_threshold, h2_threshold_by_bisection
 from .ranges import RangesResult, ranges
 from .results import AnalysisResult
-from .route import energy_profile, order_route, parse_route, route_reactions
+from .route import energy_profile, order_route, parse_route
 from .uphill import ImpossibleDemandError, UphillResult, minimal_uphill_set
 
 __all__ = [
-    "AnalysisResult", "CensusResult", "DrivingForceResult", "FeasibilityResult", "H2ScanResult",
-    "H2ThresholdResult", "ImpossibleDemandError", "RangesResult", "UphillResult", "census",
-    "energy_profile", "feasibility", "h2_scan", "h2_threshold", "h2_threshold_by_bisection",
+    "AnalysisResult", "CarbonRoutes", "CensusResult", "EnergyBudget", "DrivingForceResult", "FeasibilityResult", "H2ScanResult",
+    "H2ThresholdResult", "ImpossibleDemandError", "RangesResult", "UphillResult", "carbon_routes", "census",
+    "energy_budget", "energy_profile", "feasibility", "h2_scan", "h2_threshold", "h2_threshold_by_bisection",
     "minimal_uphill_set", "network_driving_force", "order_route", "parse_route",
-    "pathway_driving_force", "ranges", "route_reactions",
+    "pathway_driving_force", "ranges",
 ]

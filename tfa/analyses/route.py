@@ -1,11 +1,12 @@
-"""The carbon-fixation route of a network and the energy profile along it.
+"""A route through a network and the energy profile along it.
 
-A route is a list of (reaction id, direction) in the order the carbon flows. By default it is
-read from a certified steady state (:func:`route_reactions`): the reactions tagged (``pathway``
-note) with the methyl or carbonyl branch of the acetyl-CoA pathway or with pyruvate synthesis that
-carry flux there, put in carbon order by :func:`order_route`; the user may name one instead
-(:func:`parse_route`). :func:`energy_profile` gives ΔrG' and ΔrG'° of each step at given
-concentrations (Alberty 2003, eq. 4.1-4).
+A route is a list of (reaction id, direction) in the order the carbon flows. The energy profile
+follows one connected path that carries flux in a certified steady state (the widest carbon path
+of :mod:`tfa.analyses.carbon_paths`), or the route the user names (:func:`parse_route`), whose
+consecutive steps are linked by the carbon compound they share (:func:`connect_steps`, which says
+where they share none). :func:`energy_profile` gives ΔrG', ΔrG'°, σ and the flux of each step at
+the steady state's concentrations (Alberty 2003, eq. 4.1-4); steps are shown one by one, never
+summed. :func:`order_route` puts a set of steps in carbon order.
 
 Units: kJ/mol; concentrations as natural logarithms of mol/L (gases: bar).
 """
@@ -24,75 +25,10 @@ from ..thermo.balance import parse_formula
 
 log = logging.getLogger(__name__)
 
-#: Pathway tags (lower case, substrings) of the carbon-fixation route from H2 + CO2 to pyruvate.
-ROUTE_PATHWAYS = ("acetyl-coa pathway (methyl branch)", "acetyl-coa pathway (carbonyl branch)",
-                  "pyruvate")
 #: Columns of :func:`energy_profile`.
-PROFILE_COLUMNS = ["step", "reaction", "direction", "delta_g_kJ_per_mol",
-                   "delta_g_standard_kJ_per_mol", "cumulative_delta_g_kJ_per_mol"]
-#: Concentration of a compound the profile has no value for, mol/L (the 1 mM reference state).
-PROFILE_DEFAULT_CONCENTRATION = 1e-3
-
-
-def route_reactions(model, demand_id: str | None = None,
-                    pathways: Sequence[str] = ROUTE_PATHWAYS,
-                    fluxes: Mapping[str, float] | None = None) -> list[tuple[str, int]]:
-    """The main carbon-fixation route from H2 + CO2 to pyruvate: (reaction id, direction), in
-    route order.
-
-    The reactions are those tagged (``pathway`` note, case-insensitive substring of
-    :data:`ROUTE_PATHWAYS`) with the methyl or carbonyl branch of the acetyl-CoA pathway or
-    with pyruvate synthesis that carry flux in the least-total-flux way of making one unit of
-    pyruvate from the feed (parsimonious flux balance, Lewis et al. 2010, Mol. Syst. Biol.
-    6:390; the network's own demand switched off). They are put in order by
-    :func:`order_route`. Empty when the network has no pyruvate or cannot make it.
-
-    When ``fluxes`` (reaction id -> flux of a certified steady state) is given, the route is
-    read from that steady state instead, so the profile's steps and its concentrations come
-    from one and the same solution.
-    """
-    import cobra
-
-    pyruvate = [m for m in model.metabolites if _is_pyruvate(m)]
-    if not pyruvate:
-        return []
-    if fluxes is not None:
-        return _route_from_fluxes(model, fluxes, pathways)
-    with model:
-        if demand_id is not None and demand_id in model.reactions:
-            model.reactions.get_by_id(demand_id).bounds = (0.0, 0.0)
-        sink = model.add_boundary(pyruvate[0], type="demand", reaction_id="tfa_route_pyruvate")
-        sink.bounds = (1.0, 1.0)
-        model.objective = sink
-        try:
-            fluxes = cobra.flux_analysis.pfba(model).fluxes
-        except Exception as err:  # an infeasible LP: cobra raises its own errors
-            log.info("route: pyruvate cannot be made from the feed (%s)", err)
-            return []
-    return _route_from_fluxes(model, fluxes, pathways)
-
-
-def pathway_of(reaction) -> str:
-    """The pathway tag of a reaction (``pathway`` note, else cobra's subsystem; may be empty)."""
-    return str((reaction.notes or {}).get("pathway") or reaction.subsystem or "")
-
-
-def _route_from_fluxes(model, fluxes: Mapping[str, float],
-                       pathways: Sequence[str]) -> list[tuple[str, int]]:
-    """Route steps (tagged reactions that carry flux, in their direction), in carbon order."""
-    chosen = []
-    for reaction in model.reactions:
-        tag = pathway_of(reaction).lower()
-        v = float(fluxes.get(reaction.id, 0.0))
-        if abs(v) <= 1e-9 or not any(p in tag for p in pathways):
-            continue
-        direction = 1 if v > 0 else -1
-        if "acetyl-coa" not in tag:
-            made = [m for m, c in reaction.metabolites.items() if c * direction > 0]
-            if not any(_is_pyruvate(m) for m in made):
-                continue
-        chosen.append((reaction.id, direction))
-    return order_route(model, chosen)
+PROFILE_COLUMNS = ["step", "reaction", "direction", "compound_in", "compound_out", "flux",
+                   "carbon_flux_per_demand", "delta_g_kJ_per_mol", "delta_g_standard_kJ_per_mol",
+                   "sigma_kJ_per_mol", "near_equilibrium"]
 
 
 def _formula_counts(met) -> dict[str, int]:
@@ -148,10 +84,6 @@ def order_route(model, steps: Sequence[tuple[str, int]]) -> list[tuple[str, int]
     return ordered
 
 
-def _is_pyruvate(met) -> bool:
-    return met.id.lower() in ("pyr", "pyruvate") or str(met.name or "").lower() == "pyruvate"
-
-
 def parse_route(text: str | Sequence[str] | None) -> list[tuple[str, int]] | None:
     """``"R1,R2,-R3"`` -> [("R1", 1), ("R2", 1), ("R3", -1)] (a leading minus: run backwards).
 
@@ -173,34 +105,99 @@ def parse_route(text: str | Sequence[str] | None) -> list[tuple[str, int]] | Non
     return out
 
 
-def energy_profile(tm: ThermoModel, route: Sequence[tuple[str, int]],
-                   log_conc: Mapping[str, float]) -> pd.DataFrame:
-    """ΔrG' and ΔrG'° of each route step in the direction it runs, at given concentrations.
+def delta_g_at(tm: ThermoModel, reaction_id: str, log_conc: Mapping[str, float]) -> float:
+    """ΔrG' of a reaction as written at given concentrations, kJ/mol:
+    ΔrG' = ΔrG'° + RT Σ_i ν_i ln a_i (Alberty 2003, eq. 4.1-4); H⁺ and water carry no activity
+    term. NaN when the reaction has no energy or a compound has no concentration given.
 
-    ΔrG' = d (ΔrG'° + RT Σ_i ν_i ln c_i) (Alberty 2003, eq. 4.1-4), d = ±1 the direction; H+ and
-    water carry no activity term. Units: kJ/mol. Compounds missing from ``log_conc`` are taken
-    at :data:`PROFILE_DEFAULT_CONCENTRATION`.
+    Example (hand-derived): ΔrG'° = -10 kJ/mol for A -> B with [B]/[A] = 10 at 25 degC gives
+    -10 + 2.479 ln 10 = -4.29 kJ/mol (tests/test_budget.py).
+    """
+    e = tm.energies.get(reaction_id)
+    if e is None:
+        return math.nan
+    reaction = tm.model.reactions.get_by_id(reaction_id)
+    term = 0.0
+    for m, c in reaction.metabolites.items():
+        if m.id in tm.no_activity:
+            continue
+        if m.id not in log_conc:
+            return math.nan
+        term += c * float(log_conc[m.id])
+    return e.standard + tm.RT * term
+
+
+def near_equilibrium_limit(tm: ThermoModel) -> float:
+    """|ΔrG'| below which a step counts as near equilibrium, kJ/mol: RT ln 10, where the backward
+    flux is a tenth of the forward one (flux-force relation J+/J- = exp(-ΔrG'/RT), D. A. Beard,
+    H. Qian, PLoS ONE 2 (2007) e144; used so by Noor et al. 2014). 5.71 kJ/mol at 25 degC."""
+    return tm.RT * math.log(10.0)
+
+
+def connect_steps(model, route: Sequence[tuple[str, int]], carbon: Mapping[str, float]
+                  ) -> tuple[list[tuple[str, int, str, str]], list[str]]:
+    """A named route as steps (reaction, direction, carbon compound in, carbon compound out): the
+    compound out of a step is the carbon product it shares with the next step's carbon
+    substrates. Returns the steps and, in words, each place where two consecutive steps share no
+    carbon compound (the route is broken there)."""
+    sides = []
+    for rid, d in route:
+        reaction = model.reactions.get_by_id(rid)
+        sides.append(([m.id for m, c in reaction.metabolites.items()
+                       if c * d < 0 and carbon.get(m.id, 0) > 0],
+                      [m.id for m, c in reaction.metabolites.items()
+                       if c * d > 0 and carbon.get(m.id, 0) > 0]))
+    links = []
+    breaks = []
+    for k in range(len(route) - 1):
+        shared = [m for m in sides[k][1] if m in sides[k + 1][0]]
+        links.append(shared[0] if shared else "")
+        if not shared:
+            breaks.append(f"{route[k][0]} and {route[k + 1][0]} share no carbon compound")
+    steps = []
+    for k, (rid, d) in enumerate(route):
+        into = links[k - 1] if k > 0 and links[k - 1] else (sides[k][0][0] if sides[k][0] else "")
+        out = links[k] if k < len(links) and links[k] else (sides[k][1][0] if sides[k][1] else "")
+        steps.append((rid, d, into, out))
+    return steps, breaks
+
+
+def energy_profile(tm: ThermoModel, steps: Sequence[tuple[str, int, str, str]],
+                   log_conc: Mapping[str, float], fluxes: Mapping[str, float],
+                   carbon_flux: float = math.nan) -> pd.DataFrame:
+    """ΔrG', ΔrG'°, σ and flux of each step of a path, in the direction it runs, at the
+    concentrations of one steady state.
+
+    ΔrG' = d (ΔrG'° + RT Σ_i ν_i ln c_i) (Alberty 2003, eq. 4.1-4), d = ±1 the direction; H⁺
+    and water carry no activity term. A step is near equilibrium when |ΔrG'| <
+    :func:`near_equilibrium_limit`. Units: kJ/mol; fluxes in the network's unit. Steps are never
+    summed: each row is one step.
+
+    Parameters
+    ----------
+    steps : sequence of (reaction id, direction, compound in, compound out)
+    log_conc : mapping
+        ln activity of every compound with an activity term at the steady state.
+    fluxes : mapping
+        Reaction id -> flux at the steady state (a step missing or at 0 carries no flux).
+    carbon_flux : float
+        Carbon the path carries, mol C per unit demand (NaN for a named route).
 
     Returns
     -------
     DataFrame
-        :data:`PROFILE_COLUMNS`: ``step``, ``reaction``, ``direction``, ΔrG' and ΔrG'° in the
-        direction run, and the running sum of ΔrG' (kJ/mol).
+        :data:`PROFILE_COLUMNS`.
     """
-    rt = tm.RT
+    limit = near_equilibrium_limit(tm)
     rows = []
-    total = 0.0
-    for rid, d in route:
+    for rid, d, into, out in steps:
         e = tm.energies.get(rid)
-        if e is None:
-            continue
-        reaction = tm.model.reactions.get_by_id(rid)
-        term = sum(c * log_conc.get(m.id, math.log(PROFILE_DEFAULT_CONCENTRATION)) for m, c in reaction.metabolites.items()
-                   if m.id not in tm.no_activity)
-        g = d * (e.standard + rt * term)
-        total += g
+        g = d * delta_g_at(tm, rid, log_conc)
         rows.append({"step": rid if d > 0 else f"{rid} (reverse)", "reaction": rid,
-                     "direction": "forward" if d > 0 else "backward", "delta_g_kJ_per_mol": g,
-                     "delta_g_standard_kJ_per_mol": d * e.standard,
-                     "cumulative_delta_g_kJ_per_mol": total})
+                     "direction": "forward" if d > 0 else "backward", "compound_in": into,
+                     "compound_out": out, "flux": float(fluxes.get(rid, 0.0)),
+                     "carbon_flux_per_demand": carbon_flux, "delta_g_kJ_per_mol": g,
+                     "delta_g_standard_kJ_per_mol": d * e.standard if e else math.nan,
+                     "sigma_kJ_per_mol": e.uncertainty if e else math.nan,
+                     "near_equilibrium": bool(abs(g) < limit) if math.isfinite(g) else None})
     return pd.DataFrame(rows, columns=PROFILE_COLUMNS)

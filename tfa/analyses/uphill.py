@@ -26,7 +26,8 @@ from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions, Solution, ThermoProblem
 from ..problem.solvers import InfeasibleProblem, optimize
 from ..problem.scaling import FLUX_REACH
-from .results import AnalysisResult, certificate_words, certify, optimum_words, provenance_of, verification
+from .results import (AnalysisResult, certificate_words, certify, concentration_table,
+                      optimum_words, provenance_of, reaction_table, verification)
 
 log = logging.getLogger(__name__)
 
@@ -67,6 +68,9 @@ class UphillResult(AnalysisResult):
     lower_bound : int
         Steps known to be uphill in every solution before the search (a direction that every
         steady state meeting the demand uses and that the concentration bounds make uphill).
+    points : list of (DataFrame, DataFrame)
+        Per set: the certified steady state behind it (per reaction: flux, ΔrG'° and the
+        recomputed ΔrG'; per compound: activity), at the concentrations of ``uphill_by``.
     """
 
     size: int = 0
@@ -76,6 +80,7 @@ class UphillResult(AnalysisResult):
     exhausted: bool = False
     short_by: list[dict[str, float]] = field(default_factory=list)
     lower_bound: int = 0
+    points: list[tuple[pd.DataFrame, pd.DataFrame]] = field(default_factory=list)
     analysis: str = "minimal uphill set"
 
     def to_frame(self) -> pd.DataFrame:
@@ -433,11 +438,15 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                 break
             cert = certify(problem, sol, allowed_uphill=members)
             result.certificates.append(cert)
+            point = (sol, cert)
             if members:
                 amounts, short, directions, best = _uphill_amounts(problem, members, sol)
-                result.certificates.append(certify(problem, best, allowed_uphill=members))
+                point = (best, certify(problem, best, allowed_uphill=members))
+                result.certificates.append(point[1])
             else:
                 amounts, short, directions = {}, {}, {}
+            # the certified point behind the set (for its energy budget and carbon routes)
+            result.points.append((reaction_table(problem, *point), concentration_table(point[0])))
             result.sets.append(members)
             result.uphill_by.append(amounts)
             result.short_by.append(short)

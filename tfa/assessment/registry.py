@@ -10,6 +10,7 @@ from __future__ import annotations
 from ..errors import InputError
 from .step import Step
 from .steps.binding import BindingStep
+from .steps.budget import EnergyBudgetStep
 from .steps.census import CensusStep
 from .steps.coverage import CoverageStep
 from .steps.driving_force import DrivingForceStep
@@ -67,7 +68,7 @@ def step_ids() -> list[str]:
     return [s.id for s in STEPS]
 
 
-for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
+for _step in (CoverageStep(), FeasibilityStep(), EnergyBudgetStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
               DrivingForceStep(), EnergyProfileStep(), RangesStep(), RobustnessStep()):
     register_step(_step)
 register_step(GradientStep(), before="driving_force")

@@ -49,7 +49,9 @@ def write_report(assessment: "Assessment", tables: dict[str, pd.DataFrame],
     sources, used = _sources(assessment)
     sections.append(sources_section(sources, used, text=SOURCES_TEXT if "recalled_values" in sources
                                     else ""))
-    sections.append(conventions_section())
+    from ..network.standard_states import standard_state_words
+
+    sections.append(conventions_section(standard_state_words(ctx.model, ctx.database)))
     sections.append(cautions_section())
     env = ctx.environment
     subtitle = f"{ctx.model.id} at {env.name}: {env.conditions.describe()}"

@@ -90,7 +90,14 @@ def _conditions(args: argparse.Namespace) -> tuple[Conditions, list[str]]:
     return conditions, defaulted
 
 
-def _text(result: "ReactionEnergyResult", defaulted: list[str]) -> str:
+def _text(result: "ReactionEnergyResult", defaulted: list[str], database=None) -> str:
+    from ..network.standard_states import gas_state_of_key
+
+    states = {}
+    for key in result.activities:
+        state = gas_state_of_key(str(key), database) if database is not None else ""
+        if state:
+            states.setdefault(state, []).append(str(key))
     lines = [
         f"reaction    {result.equation}",
         f"conditions  {result.conditions.describe()}"
@@ -98,6 +105,8 @@ def _text(result: "ReactionEnergyResult", defaulted: list[str]) -> str:
         f"ΔrG'°       {result.standard:9.2f} ± {result.uncertainty:.2f} kJ/mol  (standard transformed)",
         f"ΔrG'        {result.actual:9.2f} ± {result.uncertainty:.2f} kJ/mol  (at the activities below)",
         "activities  " + (", ".join(f"{k}={v:g}" for k, v in result.activities.items()) or "none"),
+    ] + ([f"standard    " + "; ".join(f"{', '.join(keys)} {state}" for state, keys in states.items())
+          + " (ΔrG'° refers to these states)"] if states else []) + [
         f"balance     {result.balance.message}",
         f"status      {result.status}",
         f"sources     {', '.join(result.sources) or 'none'}",
@@ -138,5 +147,5 @@ def run(args: argparse.Namespace) -> int:
         payload["network"] = args.network_data
         print_json(payload)
     else:
-        sys.stdout.write(_text(result, defaulted))
+        sys.stdout.write(_text(result, defaulted, db))
     return 0

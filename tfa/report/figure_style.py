@@ -45,6 +45,8 @@ DOWNHILL_COLOUR = OKABE_ITO["blue"]
 UPHILL_COLOUR = OKABE_ITO["vermillion"]
 REFERENCE_COLOUR = "#6E6E6E"
 THRESHOLD_COLOUR = OKABE_ITO["vermillion"]
+#: Steps near equilibrium in the energy profile.
+NEAR_EQUILIBRIUM_COLOUR = OKABE_ITO["orange"]
 
 #: Smallest font used anywhere in a figure, pt.
 MIN_FONT_PT = 8.0

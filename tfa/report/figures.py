@@ -6,7 +6,7 @@ figures know nothing of the analyses, so they can be drawn from any table with t
 
 Figures
 -------
-- :func:`energy_profile_figure`: cumulative Delta_r G' along a route, as a staircase.
+- :func:`energy_profile_figure`: Delta_r G' of each step of a path, horizontal bars with σ whiskers.
 - :func:`h2_scan_figure`: feasibility, uphill-set size and driving force against dissolved H2.
 - :func:`census_figure`: distribution of Delta_r G' per mode, with counts of exergonic steps.
 - :func:`ranges_figure`: the feasible interval of Delta_r G' per reaction.
@@ -30,7 +30,7 @@ from matplotlib.ticker import MaxNLocator  # noqa: E402
 from ..errors import InputError  # noqa: E402
 from ..modes import MODES  # noqa: E402
 from .figure_style import (DOWNHILL_COLOUR, HORIZONTAL_BOX, KIND_MARKERS, MIN_FONT_PT,  # noqa: E402
-                           OKABE_ITO, REFERENCE_COLOUR, THRESHOLD_COLOUR, UPHILL_COLOUR,
+                           NEAR_EQUILIBRIUM_COLOUR, OKABE_ITO, REFERENCE_COLOUR, THRESHOLD_COLOUR, UPHILL_COLOUR,
                            mode_label, new_figure, require_columns, save_figure, scientific,
                            wrap_label)
 
@@ -44,20 +44,29 @@ logger = logging.getLogger(__name__)
 # ---------------------------------------------------------------------------------------------
 
 
-def energy_profile_figure(frame: pd.DataFrame, title: str | None = None) -> Figure:
-    """Cumulative Delta_r G' along a route, drawn as a staircase of levels.
+def energy_profile_figure(frame: pd.DataFrame, title: str | None = None,
+                          near_equilibrium: float | None = None) -> Figure:
+    """ΔrG' of each step of a path as a horizontal bar, with its uncertainty as a whisker,
+    coloured by whether the step is near equilibrium. Steps are never summed. The flux written
+    beside each bar is its size in the direction the step runs.
 
-    The level after step k is G_k = sum_{i<=k} Delta_r G'_i (kJ/mol), starting from G_0 = 0 for
-    the substrates of the route; a step whose own Delta_r G' > 0 is drawn in the uphill colour.
+    One bar per step, the first step on top. A bar's length is the step's ΔrG' in the direction
+    it runs (kJ/mol); the whisker is ± σ of its ΔrG'° when given; a step with
+    |ΔrG'| < ``near_equilibrium`` (the shaded band) is drawn in the near-equilibrium colour, a
+    step that runs uphill (ΔrG' > 0) hatched, a step without flux (a named step that did not run)
+    pale with a dashed edge. The flux of each step is written beside its bar.
 
     Parameters
     ----------
     frame : DataFrame
-        One row per step, in route order. Columns: ``step`` (reaction id or label),
-        ``delta_g_kJ_per_mol`` (ΔrG', at the solution or at reference concentrations),
-        optional ``delta_g_standard_kJ_per_mol`` (ΔrG'°), drawn as a second, dashed staircase.
+        One row per step, in path order. Columns: ``step`` (reaction id or label),
+        ``delta_g_kJ_per_mol`` (ΔrG' at the solution); optional ``sigma_kJ_per_mol``,
+        ``flux``, ``compound_in`` and ``compound_out`` (shown in the step's label).
     title : str, optional
         Axes title.
+    near_equilibrium : float, optional
+        |ΔrG'| below which a step is near equilibrium, kJ/mol (default RT ln 10 at 25 degC,
+        5.71 kJ/mol).
 
     Returns
     -------
@@ -66,9 +75,12 @@ def energy_profile_figure(frame: pd.DataFrame, title: str | None = None) -> Figu
     Examples
     --------
     >>> fig = energy_profile_figure(pd.DataFrame({"step": ["a", "b"],
-    ...                                           "delta_g_kJ_per_mol": [-5.0, 2.0]}))
-    >>> fig.axes[0].get_ylabel()
-    "cumulative ΔrG' (kJ/mol)"
+    ...                                           "delta_g_kJ_per_mol": [-15.0, -2.0]}))
+    >>> fig.axes[0].get_xlabel()
+    "ΔrG' of the step (kJ/mol)"
+    >>> from matplotlib.colors import to_hex
+    >>> [to_hex(bar.get_facecolor()) for bar in fig.axes[0].containers[0]]  # far, near equilibrium
+    ['#0072b2', '#e69f00']
     """
     require_columns(frame, ["step", "delta_g_kJ_per_mol"], "energy profile")
     steps = [str(s) for s in frame["step"]]
@@ -77,68 +89,66 @@ def energy_profile_figure(frame: pd.DataFrame, title: str | None = None) -> Figu
         bad = [steps[i] for i in np.flatnonzero(~np.isfinite(dg))]
         raise InputError(f"energy profile: step(s) {', '.join(bad)} have no finite ΔrG'; "
                          "give a value in kJ/mol for every step of the route")
+    limit = 8.314462618e-3 * 298.15 * math.log(10.0) if near_equilibrium is None else near_equilibrium
+    sigma = (pd.to_numeric(frame["sigma_kJ_per_mol"], errors="coerce").to_numpy(dtype=float)
+             if "sigma_kJ_per_mol" in frame.columns else np.full(len(dg), np.nan))
+    flux = (pd.to_numeric(frame["flux"], errors="coerce").to_numpy(dtype=float)
+            if "flux" in frame.columns else None)
+    labels = []
+    for k, step in enumerate(steps):
+        text = step
+        if "compound_in" in frame.columns and "compound_out" in frame.columns:
+            into, out = frame["compound_in"].iloc[k], frame["compound_out"].iloc[k]
+            if isinstance(into, str) and isinstance(out, str) and into and out:
+                text += f"  {into} → {out}"
+        labels.append(wrap_label(text, 34, 1))
     n = len(steps)
-    height = 4.6 if n <= 12 else 5.2
-    fig, ax = new_figure(height)
-    width = 0.6  # half-width of a level
-
-    def staircase(values: np.ndarray, colour_steps: bool, style: str, colour: str,
-                  lw: float) -> None:
-        levels = np.concatenate([[0.0], np.cumsum(values)])
-        for k, level in enumerate(levels):
-            ax.hlines(level, k - width / 2, k + width / 2, colors=colour, linestyles=style,
-                      linewidth=lw + 0.8)
+    fig, ax = new_figure(max(2.6, 0.42 * n + 1.6))
+    y = np.arange(n)[::-1]
+    near = np.abs(dg) < limit
+    colours = [NEAR_EQUILIBRIUM_COLOUR if e else DOWNHILL_COLOUR for e in near]
+    ax.axvspan(-limit, limit, color=REFERENCE_COLOUR, alpha=0.12, linewidth=0)
+    bars = ax.barh(y, dg, height=0.62, color=colours, edgecolor=OKABE_ITO["black"], linewidth=0.6)
+    idle = np.zeros(n, bool) if flux is None else ~(np.abs(flux) > 0)
+    for bar, g, no_flux in zip(bars, dg, idle):
+        if g > 0:
+            bar.set_hatch("///")
+        if no_flux:   # a named step that did not run: drawn pale, with a dashed edge
+            bar.set_alpha(0.35)
+            bar.set_linestyle("--")
+    whisker = np.where(np.isfinite(sigma), sigma, 0.0)
+    if np.any(whisker > 0):
+        ax.errorbar(dg, y, xerr=whisker, fmt="none", ecolor=OKABE_ITO["black"], elinewidth=1.0,
+                    capsize=3)
+    ax.axvline(0.0, color=OKABE_ITO["black"], linewidth=0.8)
+    span = float(max(np.max(np.abs(dg) + whisker), limit))
+    ax.set_xlim(min(-limit, float(np.min(dg - whisker))) - 0.35 * span,
+                max(limit, float(np.max(dg + whisker))) + 0.35 * span)
+    if flux is not None and n <= 30:
+        right = ax.get_xlim()[1]
         for k in range(n):
-            c = colour
-            if colour_steps:
-                c = UPHILL_COLOUR if values[k] > 0 else DOWNHILL_COLOUR
-            ax.plot([k + width / 2, k + 1 - width / 2], [levels[k], levels[k + 1]], color=c,
-                    linestyle=style, linewidth=lw)
+            ax.annotate(f"flux {abs(flux[k]):.3g}", (right, y[k]), xytext=(-3, 0),
+                        textcoords="offset points", ha="right", va="center", fontsize=MIN_FONT_PT,
+                        color=REFERENCE_COLOUR)
+    ax.set_yticks(y)
+    ax.set_yticklabels(labels, fontsize=9.0 if n <= 14 else MIN_FONT_PT)
+    ax.set_xlabel("ΔrG' of the step (kJ/mol)")
+    from matplotlib.patches import Patch
 
-    if "delta_g_standard_kJ_per_mol" in frame.columns:
-        std = pd.to_numeric(frame["delta_g_standard_kJ_per_mol"], errors="coerce").to_numpy(dtype=float)
-        if np.all(np.isfinite(std)):
-            staircase(std, False, "--", REFERENCE_COLOUR, 1.2)
-        else:
-            logger.warning("energy profile: ΔrG'° has missing values; not drawn")
-            std = None
-    else:
-        std = None
-    staircase(dg, True, "-", OKABE_ITO["black"], 1.6)
-
-    levels = np.concatenate([[0.0], np.cumsum(dg)])
-    every = levels if std is None else np.concatenate([levels, np.cumsum(std)])
-    span = float(np.ptp(every)) or 1.0
-    if n <= 20:  # annotate each step's own energy beside its connector
-        for k in range(n):
-            y = (levels[k] + levels[k + 1]) / 2
-            ax.annotate(f"{dg[k]:+.0f}", (k + 0.5, y), xytext=(5, 0), textcoords="offset points",
-                        ha="left", va="center", fontsize=MIN_FONT_PT,
-                        color=UPHILL_COLOUR if dg[k] > 0 else DOWNHILL_COLOUR,
-                        bbox={"boxstyle": "round,pad=0.1", "fc": "white", "ec": "none",
-                              "alpha": 0.8})
-    ax.axhline(0.0, color=REFERENCE_COLOUR, linewidth=0.8, linestyle=":")
-    ax.set_xlim(-0.6, n + 0.6)
-    ax.set_ylim(min(every.min(), 0) - 0.08 * span, max(every.max(), 0) + 0.08 * span)
-    ax.set_xticks(np.arange(n) + 0.5)
-    if n <= 6:  # room for wrapped, horizontal labels
-        labels = [wrap_label(s, 16, 3) for s in steps]
-        ax.set_xticklabels(labels, fontsize=9.0)
-    else:  # one slanted line each, shortened when very long
-        labels = [wrap_label(s, 28, 1) for s in steps]
-        ax.set_xticklabels(labels, rotation=35, ha="right", rotation_mode="anchor",
-                           fontsize=9.0 if n <= 14 else MIN_FONT_PT)
-    ax.set_xlabel("step along the route")
-    ax.set_ylabel("cumulative ΔrG' (kJ/mol)")
-    handles = [
-        Line2D([], [], color=DOWNHILL_COLOUR, lw=1.6, label="downhill step (ΔrG' < 0)"),
-        Line2D([], [], color=UPHILL_COLOUR, lw=1.6, label="uphill step (ΔrG' > 0)"),
-    ]
-    if std is not None:
-        handles.append(Line2D([], [], color=REFERENCE_COLOUR, lw=1.2, ls="--",
-                              label="standard, ΔrG'°"))
-    ax.legend(handles=handles, loc="best", frameon=True, framealpha=0.9, edgecolor="none")
-    ax.set_title(title or f"Energy profile: total ΔrG' = {levels[-1]:.1f} kJ/mol over {n} steps")
+    handles = [Patch(facecolor=DOWNHILL_COLOUR, edgecolor="black", label=f"|ΔrG'| ≥ {limit:.1f} kJ/mol"),
+               Patch(facecolor=NEAR_EQUILIBRIUM_COLOUR, edgecolor="black",
+                     label=f"near equilibrium, |ΔrG'| < {limit:.1f} kJ/mol")]
+    if np.any(dg > 0):
+        handles.append(Patch(facecolor="white", edgecolor="black", hatch="///",
+                             label="uphill (ΔrG' > 0)"))
+    if np.any(idle):
+        handles.append(Patch(facecolor="white", edgecolor="black", linestyle="--",
+                             label="carries no flux (ΔrG' it would have)"))
+    if np.any(whisker > 0):
+        handles.append(Line2D([], [], color="black", lw=1.0, label="± σ of ΔrG'°"))
+    ax.legend(handles=handles, loc="lower left", frameon=True, framealpha=0.9, edgecolor="none",
+              fontsize=MIN_FONT_PT)
+    ax.set_title(title or f"Energy profile: {n} steps, each at its own flux")
     return fig
 
 

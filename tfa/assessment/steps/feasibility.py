@@ -91,11 +91,20 @@ class FeasibilityStep(Step):
 
 
 def question_for(mode: str, ctx: RunContext) -> str:
-    """The mode's question, or "runs as given" for the native mode of a network without ATP,
-    whose question speaks of regenerating it."""
+    """The mode's question, saying what was computed: "runs as given" for the native mode of a
+    network without ATP; "runs with ATP from the proton gradient (ΔpH 2.0, 4 H⁺/ATP)" for a mode
+    that keeps ATP and makes it from a gradient (:func:`tfa.analyses.budget.gradient_atp_coupling`)."""
+    from ...analyses.budget import gradient_atp_coupling
+
     if mode == "native" and "atp" not in {str((m.notes or {}).get("role") or "")
                                           for m in ctx.model.metabolites}:
         return "runs as given"
+    if mode == "native" and not ctx.not_applicable(mode):
+        coupling = gradient_atp_coupling(ctx.thermo_model(mode))
+        if coupling is not None:
+            delta_ph, per_atp, _ = coupling
+            return (f"runs with ATP from the proton gradient (ΔpH {delta_ph:.1f}, "
+                    f"{per_atp:g} H⁺/ATP)")
     return MODES[mode].question
 
 
