@@ -161,6 +161,31 @@ COLUMNS: dict[str, Term] = _terms(
     ("pMg", "-log10 of the free Mg2+ activity", ""),
 )
 
+# issue 14 items 5 and 6 (per-precursor verdicts; canonical alternatives, energy to supply)
+COLUMNS.update(_terms(
+    ("flux_per_demand", "flux of a reaction over the flux of the demand reaction, at the steady "
+                        "state of least energy to supply to the uphill steps", ""),
+    ("energy_to_supply_kJ_per_mol_demand", "energy to supply to an uphill step per unit of demand: "
+                                           "flux_per_demand times how far uphill it runs "
+                                           "(ΔrG' in its direction); summed over a set, "
+                                           "Σ flux × ΔrG' over the uphill steps per mol of demand",
+     "kJ/mol"),
+    ("sets_found", "minimal uphill sets of the least size found in all (listed and counted)", ""),
+    ("all_sets_found", "whether every minimal uphill set of the least size was found (else "
+                       "sets_found is a lower bound)", ""),
+    ("demand_coefficient", "moles of the compound per mole of the demand reaction", ""),
+    ("verdict", "the answer for a demanded compound: downhill (made with every step downhill), "
+                "uphill (made only with the steps of a minimal uphill set driven), stoichiometric "
+                "gap (cannot be made from the feed whatever the energies), not applicable, "
+                "undetermined", ""),
+    ("producible", "the compound can be made from the feed by the stoichiometry and flux bounds, "
+                   "ignoring energies", ""),
+    ("max_flux", "largest flux of the compound's own demand allowed by the stoichiometry and flux "
+                 "bounds, ignoring energies", "flux unit"),
+    ("energy_to_supply_total_kJ_per_mol_demand", "energy to supply to the steps of the first "
+                                                 "minimal uphill set, per mol of demand", "kJ/mol"),
+))
+
 #: Keys of ``summary.json`` besides table columns.
 SUMMARY_KEYS: dict[str, Term] = _terms(
     ("network", "network id", ""),

@@ -40,6 +40,12 @@ class ImpossibleDemandError(ComputationError):
         self.verification = verification or {}
 
 
+#: Columns of a table of minimal uphill sets (one row per member of a set).
+UPHILL_TABLE_COLUMNS = ["set", "reaction", "direction", "uphill_by_kJ_per_mol",
+                        "short_by_kJ_per_mol", "flux_per_demand",
+                        "energy_to_supply_kJ_per_mol_demand"]
+
+
 @dataclass(kw_only=True)
 class UphillResult(AnalysisResult):
     """Minimal uphill sets.
@@ -66,6 +72,16 @@ class UphillResult(AnalysisResult):
     lower_bound : int
         Steps known to be uphill in every solution before the search (a direction that every
         steady state meeting the demand uses and that the concentration bounds make uphill).
+    count : int
+        Minimal sets found in all (the listed ones and those only counted); all of them when
+        ``exhausted``, else a lower bound.
+    ordered : bool
+        True when ``sets`` are the first in the order of reaction ids (sorted ids compared
+        lexicographically), each proven so; False for the solver's order.
+    flux_per_demand : list of dict
+        Per set: reaction -> |v_j| / v_demand at the steady state of least energy to supply
+        (:func:`_energy_to_supply`); times ``uphill_by`` it is the energy to supply to the step
+        per unit of demand (kJ per mol of demand).
     """
 
     size: int = 0
@@ -75,28 +91,59 @@ class UphillResult(AnalysisResult):
     exhausted: bool = False
     short_by: list[dict[str, float]] = field(default_factory=list)
     lower_bound: int = 0
+    count: int = 0
+    ordered: bool = True
+    flux_per_demand: list[dict[str, float]] = field(default_factory=list)
     analysis: str = "minimal uphill set"
+
+    def energy_to_supply(self, k: int = 0) -> float:
+        """Energy to supply to the uphill steps of set ``k``, kJ per mol of demand:
+        sum_j (|v_j| / v_demand) max(0, d_j Delta_r G'_j).
+
+        >>> r = UphillResult(conditions=None, sets=[["A"]], uphill_by=[{"A": 10.0}],
+        ...                  flux_per_demand=[{"A": 2.0}])
+        >>> r.energy_to_supply()      # hand example: 2 x 10 kJ/mol
+        20.0
+        """
+        if k >= len(self.sets):
+            return float("nan")
+        weights = self.flux_per_demand[k] if k < len(self.flux_per_demand) else {}
+        return float(sum(weights.get(r, float("nan")) * self.uphill_by[k].get(r, float("nan"))
+                         for r in self.sets[k]))
+
+    def count_words(self) -> str:
+        """How many minimal sets there are, in words ("4 sets of this size", "at least 20 ...")."""
+        from .set_order import count_words
+
+        return count_words(max(self.count, len(self.sets)), self.exhausted)
 
     def to_frame(self) -> pd.DataFrame:
         rows = []
         for k, members in enumerate(self.sets):
             for rid in members:
+                weight = (self.flux_per_demand[k].get(rid, float("nan"))
+                          if k < len(self.flux_per_demand) else float("nan"))
+                per_mole = self.uphill_by[k].get(rid, float("nan"))
                 rows.append({"set": k + 1, "reaction": rid,
                              "direction": "forward" if self.directions[k].get(rid, 1) > 0 else "backward",
-                             "uphill_by_kJ_per_mol": self.uphill_by[k].get(rid, float("nan")),
+                             "uphill_by_kJ_per_mol": per_mole,
                              "short_by_kJ_per_mol": (self.short_by[k].get(rid, float("nan"))
-                                                     if k < len(self.short_by) else float("nan"))})
-        return pd.DataFrame(rows, columns=["set", "reaction", "direction", "uphill_by_kJ_per_mol",
-                                           "short_by_kJ_per_mol"])
+                                                     if k < len(self.short_by) else float("nan")),
+                             "flux_per_demand": weight,
+                             "energy_to_supply_kJ_per_mol_demand": weight * per_mole})
+        return pd.DataFrame(rows, columns=UPHILL_TABLE_COLUMNS)
 
     def summary(self) -> str:
         if self.size == 0:
             return "no reaction needs to run uphill: the network is feasible as it stands"
         listed = "; ".join(", ".join(s) for s in self.sets)
         best = self.verification.get("status") == "best found"
+        order = "in the order of reaction ids" if self.ordered else "in the order found"
         return (f"{'at most' if best else 'at least'} {self.size} reaction(s) must run uphill "
-                f"(coupled to an energy source); {len(self.sets)} "
-                f"{'best set(s) found' if best else 'minimal set(s)'}: {listed}"
+                f"(coupled to an energy source); {self.count_words()}; "
+                f"{'best set(s) found' if best else 'the first ' + str(len(self.sets))} {order}: "
+                f"{listed}; energy to supply to the first: {self.energy_to_supply(0):.3g} kJ per "
+                "mol of demand"
                 + (f" (the solver proved at least {self.verification.get('bound')})" if best else ""))
 
 
@@ -306,8 +353,172 @@ def _fewest_violations(problem: ThermoProblem, forward: np.ndarray, backward: np
     return mask
 
 
+def _least_set(problem: ThermoProblem, start: Solution | None, forced: list[str], count: dict,
+               checks: list[str], started: bool) -> Solution:
+    """A set of the least size: the first set when it meets the lower bound, else the MILP
+    (started from the first set), keeping the first set when the search ends with a larger one.
+    ``sol.bound`` is the larger of the solver's bound and the steps uphill in every solution.
+
+    Raises InfeasibleProblem when no set exists (the demand is impossible) and UndeterminedError
+    when the time limit stops the search before any set is found."""
+    problem.set_objective(count, "min")
+    if start is not None and len(start.uphill) <= len(forced):
+        start.objective, start.bound, start.proven = float(len(start.uphill)), float(len(forced)), True
+        checks.append(f"set of {len(forced)} step(s) uphill in every solution, found by the "
+                      "least-flux pattern: lower and upper bound meet")
+        return start
+    if started:
+        checks.append(f"HiGHS started from a set of {len(start.uphill)}")
+    try:
+        sol = problem.solve("minimal uphill set", accept_best=True)
+    except UndeterminedError:
+        if start is None:
+            raise
+        sol = start      # nothing better found in time: the first set
+        sol.objective, sol.bound, sol.proven = float(len(start.uphill)), None, False
+    if start is not None and len(start.uphill) < len(sol.uphill):
+        # the first set is smaller: a search stopped early, or a wrong proof (the first set is a
+        # point of the problem): keep it, not proven
+        if sol.proven:
+            checks.append(f"{problem.solver_name} claimed a minimum of {len(sol.uphill)}, "
+                          f"contradicted by a set of {len(start.uphill)}")
+            log.warning("minimal uphill set: %s claimed %d, a certified set of %d exists",
+                        problem.solver_name, len(sol.uphill), len(start.uphill))
+        start.objective, start.proven = float(len(start.uphill)), False
+        start.bound = float(len(forced))
+        sol = start
+    sol.bound = float(len(forced)) if sol.bound is None else max(sol.bound, float(len(forced)))
+    return sol
+
+
+def _record(result: UphillResult, problem: ThermoProblem, members: list[str], sol: Solution) -> None:
+    """Add one set to the result: its certificate, how far each member runs uphill (per mole) and
+    the energy to supply to it per unit of demand."""
+    result.certificates.append(certify(problem, sol, allowed_uphill=members))
+    amounts, short, directions, supply = {}, {}, {}, {}
+    if members:
+        amounts, short, directions, best = _uphill_amounts(problem, members, sol)
+        result.certificates.append(certify(problem, best, allowed_uphill=members))
+        supply, point = _energy_to_supply(problem, members, sol, best, directions)
+        if point is not best:
+            result.certificates.append(certify(problem, point, allowed_uphill=members))
+    result.sets.append(list(members))
+    result.uphill_by.append(amounts)
+    result.short_by.append(short)
+    result.directions.append(directions)
+    result.flux_per_demand.append(supply)
+
+
+def _sets_in_order(result: UphillResult, problem: ThermoProblem, size: int, alternatives: int,
+                   count_limit: int, checks: list[str]) -> None:
+    """Up to ``alternatives`` sets of ``size`` in the order of reaction ids
+    (:func:`tfa.analyses.set_order.first_in_order`), then the count up to ``count_limit``."""
+    from .set_order import count_more, count_words, cut_off, first_in_order
+
+    count = {v: 1.0 for v in problem.u_vars}
+    problem.add_constraint(count, None, float(size), "tfa_size")
+    solves = 0
+    for k in range(max(1, alternatives)):
+        item = first_in_order(problem, size)
+        if item is None:
+            result.exhausted = True
+            break
+        solves += item.solves
+        result.ordered = result.ordered and item.ordered
+        _record(result, problem, item.members, item.solution)
+        cut_off(problem, item.members, f"tfa_cut_{k}")
+    found = len(result.sets)
+    if not result.exhausted:
+        found, result.exhausted = count_more(problem, found, max(count_limit, found))
+    result.count = found
+    checks.append(f"sets listed in the order of reaction ids ({solves} mixed-integer solves; "
+                  + ("each earlier candidate ruled out by a solver proof" if result.ordered
+                     else "a time limit stopped some proofs of the order")
+                  + f"); {count_words(found, result.exhausted)}"
+                  + (" (no further set: the solver proved it)" if result.exhausted else
+                     f" (counting stopped at {found})"))
+
+
+def _sets_as_found(result: UphillResult, problem: ThermoProblem, sol: Solution,
+                   alternatives: int, checks: list[str]) -> None:
+    """The sets in the solver's order (when the least size is not proven, or the order is not
+    asked for): the first, then alternatives by integer cuts."""
+    from .set_order import cut_off
+
+    size = len(sol.uphill)
+    result.ordered = False
+    count = {v: 1.0 for v in problem.u_vars}
+    for k in range(max(1, alternatives)):
+        if k > 0:
+            problem.set_objective(count, "min")
+            try:
+                sol = problem.solve("minimal uphill set", accept_best=True)
+            except InfeasibleProblem:
+                result.exhausted = True
+                checks.append(f"no further set of {size}: {problem.solver_name} proved it")
+                break
+            if len(sol.uphill) > size:
+                result.exhausted = True
+                checks.append(f"no further set of {size}: the next best has {len(sol.uphill)}")
+                break
+        _record(result, problem, sorted(sol.uphill), sol)
+        if k + 1 < alternatives:
+            cut_off(problem, sorted(sol.uphill), f"tfa_cut_{k}")
+    result.count = len(result.sets)
+    checks.append("sets in the order the solver found them")
+
+
+def _energy_to_supply(problem: ThermoProblem, members: list[str], sol: Solution, best: Solution,
+                      directions: dict[str, int]) -> tuple[dict[str, float], Solution]:
+    """Flux of each member per unit of demand flux at the steady state of least energy to supply.
+
+    The energy to supply to the uphill steps is E = sum_{j in S} (|v_j| / v_demand) d_j Delta_r G'_j
+    (kJ per mol of demand; d_j the direction, Delta_r G'_j in kJ/mol; Henry, Broadbelt &
+    Hatzimanikatis 2007 for the problem). It is bilinear in fluxes and concentrations; here the
+    concentrations (and energy slacks) are held at those of least per-mole uphill energy
+    (``best``) and a linear program over the fluxes with the set's flux pattern minimises E: an
+    upper bound of the least E over all steady states of the pattern. Hand example: one uphill
+    step at +10 kJ/mol carrying twice the demand flux costs 20 kJ per mol of demand.
+
+    Returns (member -> |v_j| / v_demand, the point); the fluxes of ``best`` when the linear
+    program finds no point (within the solver's tolerance of a fixed point)."""
+    index = {rid: j for j, rid in enumerate(problem.energy_ids)}
+    demand = problem.thermo_model.demand_id
+    cost = {}
+    for r in members:
+        reaction = problem.reactions[problem.energy_reaction_index[index[r]]]
+        column = reaction.forward_variable if directions[r] > 0 else reaction.reverse_variable
+        cost[column] = max(0.0, float(directions[r] * best.energies[index[r]]))
+    point = best
+    if any(c > 0 for c in cost.values()):
+        fixed = [(v, value) for v, value in zip(problem.x_vars, best.log_conc)]
+        fixed += [(v, value) for v, value in zip(problem.eps_vars, best.slack) if v is not None]
+        saved = [(v, v.lb, v.ub) for v, _ in fixed]
+        forward = np.array([directions.get(r, 0) > 0 for r in problem.energy_ids])
+        backward = np.array([directions.get(r, 0) < 0 for r in problem.energy_ids])
+        try:
+            for v, value in fixed:
+                v.set_bounds(min(max(float(value), v.lb), v.ub), min(max(float(value), v.lb), v.ub))
+            problem.set_objective(cost, "min")
+            point = problem.solve_fixed(sol.forward, sol.backward,
+                                        np.isin(problem.energy_ids, members),
+                                        "least energy to supply to the set",
+                                        uphill_open=(forward, backward))
+        except InfeasibleProblem:
+            log.info("least energy to supply: no point with the concentrations fixed; the "
+                     "fluxes of the least per-mole point are used")
+            point = best
+        finally:
+            for v, lb, ub in reversed(saved):
+                v.set_bounds(lb, ub)
+    v_demand = abs(point.flux(demand)) if demand in point.reaction_ids else float("nan")
+    return ({r: abs(point.flux(r)) / v_demand if v_demand > 0 else float("nan") for r in members},
+            point)
+
+
 def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
-                       alternatives: int = 1, try_downhill_first: bool = True) -> UphillResult:
+                       alternatives: int = 1, try_downhill_first: bool = True,
+                       canonical: bool = True, count_limit: int = 0) -> UphillResult:
     """Fewest reactions that must run against their gradient for the demand to be met.
 
     What is known is used before the search (measured on genome-scale instances with
@@ -323,7 +534,13 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
     tm : ThermoModel
     options : ProblemOptions
     alternatives : int
-        Up to this many alternative minimal sets (integer cuts).
+        Up to this many minimal sets listed (integer cuts).
+    canonical : bool
+        List the sets in the order of reaction ids (:mod:`tfa.analyses.set_order`; a few more
+        mixed-integer solves per set); False: in the order the solver finds them.
+    count_limit : int
+        Count the minimal sets up to this many in all (:data:`tfa.analyses.set_order.COUNT_LIMIT`
+        is the assessment's); at most ``alternatives`` are listed. 0: count only those listed.
     try_downhill_first : bool
         First solve with every u_j fixed at 0 (the plain feasibility problem, on the same build):
         when that is feasible the minimal set is empty and proven so at once; the minimisation
@@ -361,8 +578,8 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                 cert = certify(problem, sol)
                 result.certificates.append(cert)
                 result.sets, result.uphill_by, result.directions = [[]], [{}], [{}]
-                result.short_by = [{}]
-                result.exhausted = True
+                result.short_by, result.flux_per_demand = [{}], [{}]
+                result.exhausted, result.count = True, 1
                 result.verification = verification("certified", certificate_words(cert),
                                                    bound=0, gap=0.0)
                 return result
@@ -373,81 +590,28 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
         start = _start_set(problem, forced)
         # the point of the last solve is the first set's: HiGHS starts its search from it
         started = start is not None and problem.start_from_last_point()
-        size = None
-        checks = []
-        for k in range(max(1, alternatives)):
-            problem.set_objective(count, "min")
+        checks: list[str] = []
+        try:
+            sol = _least_set(problem, start, forced, count, checks, started)
+        except InfeasibleProblem:
             sol = None
-            if k == 0 and start is not None and len(start.uphill) <= len(forced):
-                sol = start          # the first set meets the lower bound: minimal, no search
-                sol.objective, sol.bound, sol.proven = float(len(start.uphill)), float(len(forced)), True
-                checks.append(f"set of {len(forced)} step(s) uphill in every solution, found by "
-                              "the least-flux pattern: lower and upper bound meet")
+            impossible = True
+        if sol is not None:
+            size = len(sol.uphill)
+            status, details = optimum_words(sol, "uphill steps", integral=True)
+            result.verification = verification(status, "", **details)
+            result.size = size
+            if size == 0:
+                _record(result, problem, [], sol)
+                result.exhausted, result.count = True, 1
+            elif canonical and status == "proven":
+                _sets_in_order(result, problem, size, alternatives, count_limit, checks)
             else:
-                if k == 0 and started:
-                    checks.append(f"HiGHS started from a set of {len(start.uphill)}")
-                try:
-                    sol = problem.solve("minimal uphill set", accept_best=True)
-                except InfeasibleProblem:
-                    if k == 0:
-                        impossible = True
-                    else:
-                        result.exhausted = True
-                        checks.append(f"no further set of {size}: {problem.solver_name} proved it")
-                    break
-                except UndeterminedError:
-                    if k > 0 or start is None:
-                        raise
-                    sol = start      # nothing better found in time: the first set
-                    sol.objective, sol.bound, sol.proven = float(len(start.uphill)), None, False
-                if k == 0 and start is not None and len(start.uphill) < len(sol.uphill):
-                    # the first set is smaller: a search stopped early, or a wrong proof (the
-                    # first set is a point of the problem): keep it, not proven
-                    if sol.proven:
-                        checks.append(f"{problem.solver_name} claimed a minimum of {len(sol.uphill)}, "
-                                      f"contradicted by a set of {len(start.uphill)}")
-                        log.warning("minimal uphill set: %s claimed %d, a certified set of %d exists",
-                                    problem.solver_name, len(sol.uphill), len(start.uphill))
-                    start.objective, start.proven = float(len(start.uphill)), False
-                    start.bound = float(len(forced))
-                    sol = start
-                if sol.bound is not None:
-                    sol.bound = max(sol.bound, float(len(forced)))
-                elif k == 0:
-                    sol.bound = float(len(forced))
-            members = sorted(sol.uphill)
-            if size is None:
-                size = len(members)
-                status, details = optimum_words(sol, "uphill steps", integral=True)
-                result.verification = verification(status, "", **details)
-            elif len(members) > size:
-                result.exhausted = True
-                checks.append(f"no further set of {size}: the next best has {len(members)}")
-                break
-            cert = certify(problem, sol, allowed_uphill=members)
-            result.certificates.append(cert)
-            if members:
-                amounts, short, directions, best = _uphill_amounts(problem, members, sol)
-                result.certificates.append(certify(problem, best, allowed_uphill=members))
-            else:
-                amounts, short, directions = {}, {}, {}
-            result.sets.append(members)
-            result.uphill_by.append(amounts)
-            result.short_by.append(short)
-            result.directions.append(directions)
-            if not members:
-                result.exhausted = True
-                break
-            if k + 1 < alternatives:
-                problem.add_constraint({problem.u_vars[index[r]]: 1.0 for r in members}, None,
-                                       len(members) - 1, f"tfa_cut_{k}")
-        result.size = size or 0
-        if not impossible:
-            status = result.verification["status"]
-            bound = result.verification.get("bound")
+                _sets_as_found(result, problem, sol, alternatives, checks)
             words = [f"each set's steady state passed the independent numpy check ({len(result.certificates)} points)",
                      f"{result.lower_bound} step(s) uphill in every solution (flux ranges)"]
             words += checks
+            bound = result.verification.get("bound")
             words.append(f"minimality {'proven' if status == 'proven' else 'not proven'}: "
                          f"bound {bound} (the larger of {problem.solver_name}'s and the steps "
                          "uphill in every solution)")
