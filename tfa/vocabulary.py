@@ -192,6 +192,14 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("environment", "the setting in one line", ""),
     ("coverage", "reactions with an energy, estimated and missing", ""),
     ("uphill", "per mode, the minimal uphill sets found", ""),
+    ("uphill_sets_found", "per mode, how many minimal uphill sets of the least size were found "
+                          "(sets_found, all_sets_found), whether they are listed in the order of "
+                          "reaction ids (in_order_of_ids) and the energy to supply to the first "
+                          "(energy_to_supply_total_kJ_per_mol_demand)", ""),
+    ("in_order_of_ids", "whether the minimal uphill sets are listed in the order of reaction ids "
+                        "(sorted ids compared one by one), each proven so", ""),
+    ("precursors", "per mode, the demanded compounds by verdict (downhill, uphill, stoichiometric "
+                   "gap)", ""),
     ("bottlenecks", "reactions at the max-min driving force", ""),
     ("h2_range", "the H2 range searched, [low, high] (unit: h2_unit)", ""),
     ("robustness", "feasibility over the draws of the energies, per mode", ""),

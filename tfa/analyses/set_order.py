@@ -165,6 +165,63 @@ def count_more(problem: ThermoProblem, found: int, limit: int, what: str = "mini
         return found, False
 
 
+def list_in_order(result, problem: ThermoProblem, size: int, alternatives: int,
+                   count_limit: int, checks: list[str], record) -> None:
+    """Up to ``alternatives`` sets of ``size`` in the order of reaction ids
+    (:func:`first_in_order`), then the count up to ``count_limit``; each set is added to the
+    :class:`~tfa.analyses.uphill.UphillResult` ``result`` by ``record(result, problem, members,
+    solution)``."""
+    count = {v: 1.0 for v in problem.u_vars}
+    problem.add_constraint(count, None, float(size), "tfa_size")
+    solves = 0
+    for k in range(max(1, alternatives)):
+        item = first_in_order(problem, size)
+        if item is None:
+            result.exhausted = True
+            break
+        solves += item.solves
+        result.ordered = result.ordered and item.ordered
+        record(result, problem, item.members, item.solution)
+        cut_off(problem, item.members, f"tfa_cut_{k}")
+    found = len(result.sets)
+    if not result.exhausted:
+        found, result.exhausted = count_more(problem, found, max(count_limit, found))
+    result.count = found
+    checks.append(f"sets listed in the order of reaction ids ({solves} mixed-integer solves; "
+                  + ("each earlier candidate ruled out by a solver proof" if result.ordered
+                     else "a time limit stopped some proofs of the order")
+                  + f"); {count_words(found, result.exhausted)}"
+                  + (" (no further set: the solver proved it)" if result.exhausted else
+                     f" (counting stopped at {found})"))
+
+
+def list_as_found(result, problem: ThermoProblem, sol: Solution,
+                   alternatives: int, checks: list[str], record) -> None:
+    """The sets in the solver's order (when the least size is not proven, or the order is not
+    asked for): the first, then alternatives by integer cuts."""
+    size = len(sol.uphill)
+    result.ordered = False
+    count = {v: 1.0 for v in problem.u_vars}
+    for k in range(max(1, alternatives)):
+        if k > 0:
+            problem.set_objective(count, "min")
+            try:
+                sol = problem.solve("minimal uphill set", accept_best=True)
+            except InfeasibleProblem:
+                result.exhausted = True
+                checks.append(f"no further set of {size}: {problem.solver_name} proved it")
+                break
+            if len(sol.uphill) > size:
+                result.exhausted = True
+                checks.append(f"no further set of {size}: the next best has {len(sol.uphill)}")
+                break
+        record(result, problem, sorted(sol.uphill), sol)
+        if k + 1 < alternatives:
+            cut_off(problem, sorted(sol.uphill), f"tfa_cut_{k}")
+    result.count = len(result.sets)
+    checks.append("sets in the order the solver found them")
+
+
 def count_words(count: int, complete: bool) -> str:
     """The number of minimal sets in words.
 

@@ -25,6 +25,7 @@ from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions, Solution, ThermoProblem
 from ..problem.solvers import InfeasibleProblem, optimize
 from ..problem.scaling import FLUX_REACH
+from .set_order import list_as_found, list_in_order
 from .results import AnalysisResult, certificate_words, certify, optimum_words, provenance_of, verification
 
 log = logging.getLogger(__name__)
@@ -409,65 +410,6 @@ def _record(result: UphillResult, problem: ThermoProblem, members: list[str], so
     result.flux_per_demand.append(supply)
 
 
-def _sets_in_order(result: UphillResult, problem: ThermoProblem, size: int, alternatives: int,
-                   count_limit: int, checks: list[str]) -> None:
-    """Up to ``alternatives`` sets of ``size`` in the order of reaction ids
-    (:func:`tfa.analyses.set_order.first_in_order`), then the count up to ``count_limit``."""
-    from .set_order import count_more, count_words, cut_off, first_in_order
-
-    count = {v: 1.0 for v in problem.u_vars}
-    problem.add_constraint(count, None, float(size), "tfa_size")
-    solves = 0
-    for k in range(max(1, alternatives)):
-        item = first_in_order(problem, size)
-        if item is None:
-            result.exhausted = True
-            break
-        solves += item.solves
-        result.ordered = result.ordered and item.ordered
-        _record(result, problem, item.members, item.solution)
-        cut_off(problem, item.members, f"tfa_cut_{k}")
-    found = len(result.sets)
-    if not result.exhausted:
-        found, result.exhausted = count_more(problem, found, max(count_limit, found))
-    result.count = found
-    checks.append(f"sets listed in the order of reaction ids ({solves} mixed-integer solves; "
-                  + ("each earlier candidate ruled out by a solver proof" if result.ordered
-                     else "a time limit stopped some proofs of the order")
-                  + f"); {count_words(found, result.exhausted)}"
-                  + (" (no further set: the solver proved it)" if result.exhausted else
-                     f" (counting stopped at {found})"))
-
-
-def _sets_as_found(result: UphillResult, problem: ThermoProblem, sol: Solution,
-                   alternatives: int, checks: list[str]) -> None:
-    """The sets in the solver's order (when the least size is not proven, or the order is not
-    asked for): the first, then alternatives by integer cuts."""
-    from .set_order import cut_off
-
-    size = len(sol.uphill)
-    result.ordered = False
-    count = {v: 1.0 for v in problem.u_vars}
-    for k in range(max(1, alternatives)):
-        if k > 0:
-            problem.set_objective(count, "min")
-            try:
-                sol = problem.solve("minimal uphill set", accept_best=True)
-            except InfeasibleProblem:
-                result.exhausted = True
-                checks.append(f"no further set of {size}: {problem.solver_name} proved it")
-                break
-            if len(sol.uphill) > size:
-                result.exhausted = True
-                checks.append(f"no further set of {size}: the next best has {len(sol.uphill)}")
-                break
-        _record(result, problem, sorted(sol.uphill), sol)
-        if k + 1 < alternatives:
-            cut_off(problem, sorted(sol.uphill), f"tfa_cut_{k}")
-    result.count = len(result.sets)
-    checks.append("sets in the order the solver found them")
-
-
 def _energy_to_supply(problem: ThermoProblem, members: list[str], sol: Solution, best: Solution,
                       directions: dict[str, int]) -> tuple[dict[str, float], Solution]:
     """Flux of each member per unit of demand flux at the steady state of least energy to supply.
@@ -605,9 +547,9 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                 _record(result, problem, [], sol)
                 result.exhausted, result.count = True, 1
             elif canonical and status == "proven":
-                _sets_in_order(result, problem, size, alternatives, count_limit, checks)
+                list_in_order(result, problem, size, alternatives, count_limit, checks, _record)
             else:
-                _sets_as_found(result, problem, sol, alternatives, checks)
+                list_as_found(result, problem, sol, alternatives, checks, _record)
             words = [f"each set's steady state passed the independent numpy check ({len(result.certificates)} points)",
                      f"{result.lower_bound} step(s) uphill in every solution (flux ranges)"]
             words += checks
