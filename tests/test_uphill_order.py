@@ -110,3 +110,38 @@ def test_energy_to_supply_weights_each_step_by_its_flux(solver):
 def test_count_words():
     assert count_words(1, True) == "the only set of this size"
     assert count_words(7, False) == "at least 7 sets of this size"
+
+
+def _tfa_json(*args: str) -> dict:
+    import json
+    import subprocess
+
+    run = subprocess.run([sys.executable, "-m", "tfa", *args, "--json", "-q"], capture_output=True,
+                         text=True, timeout=900)
+    assert run.returncode == 0, run.stderr
+    return json.loads(run.stdout)
+
+
+@pytest.mark.slow
+def test_uphill_and_feasible_give_the_same_first_set_and_count_in_every_mode():
+    """Issue 14 acceptance: `tfa uphill` and `tfa feasible` list the same first set and the same
+    count for every mode, whatever number of alternatives each lists (the first set is the first
+    in the order of reaction ids, the count does not depend on the listing)."""
+    up = _tfa_json("uphill", "--modes", "all", "--alternatives", "3")
+    feas = _tfa_json("feasible", "--modes", "all", "--alternatives", "1")
+    assert up["feasible"] == feas["feasible"]
+    for mode in up["feasible"]:
+        first_up = up["uphill"][mode][0] if up["uphill"][mode] else []
+        first_feas = feas["uphill"][mode][0] if feas["uphill"][mode] else []
+        assert first_up == first_feas, mode
+        assert up["uphill_sets_found"].get(mode) is not None or not first_up
+        if first_up:
+            counted_up, counted_feas = up["uphill_sets_found"][mode], feas["uphill_sets_found"][mode]
+            assert counted_up["sets_found"] == counted_feas["sets_found"], mode
+            assert counted_up["all_sets_found"] == counted_feas["all_sets_found"], mode
+            # listed in the order of sorted reaction ids
+            listed = up["uphill"][mode]
+            assert listed == sorted(listed) and all(s == sorted(s) for s in listed)
+    # the summary lines of the two commands tell the same for each mode
+    assert [line for line in up["summary"] if "uphill" in line] == \
+        [line for line in feas["summary"] if "uphill" in line]

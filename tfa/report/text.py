@@ -119,8 +119,8 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
     >>> mode_line("runs without ATP", False, [["acs", "fdh", "mtr"], ["fdh", "mtr", "pfor"]],
     ...           count=4)
     'runs without ATP: no; three steps must be driven uphill: acs, fdh, mtr (the first of four sets of this size in the order of reaction ids)'
-    >>> mode_line("runs without ATP", False, [["acs", "fdh"], ["fdh", "pfor"]], count=2)
-    'runs without ATP: no; two steps must be driven uphill: acs, fdh (the first of two sets of this size in the order of reaction ids; the other: fdh, pfor)'
+    >>> mode_line("runs without ATP", False, [["acs", "fdh"]], count=2)
+    'runs without ATP: no; two steps must be driven uphill: acs, fdh (the first of two sets of this size in the order of reaction ids)'
     >>> mode_line("runs without ATP", False, [["fdh"]], count=20, complete=False)
     'runs without ATP: no; one step must be driven uphill: fdh (the first of at least 20 sets of this size in the order of reaction ids)'
     >>> mode_line("runs without ATP", False, demand_impossible=True)
@@ -146,13 +146,13 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
     if sets:
         first = sets[0]
         line += f"; {counted(len(first), 'step')} must be driven uphill: {names(first)}"
-        line += f" ({set_count_words(len(sets) if count is None else count, complete, ordered, sets)})"
+        line += f" ({set_count_words(len(sets) if count is None else count, complete, ordered)})"
     return line + checked(status)
 
 
-def set_count_words(count: int, complete: bool = True, ordered: bool = True,
-                    sets: Sequence[Sequence[str]] = ()) -> str:
-    """Which minimal set is shown and how many there are, in words.
+def set_count_words(count: int, complete: bool = True, ordered: bool = True) -> str:
+    """Which minimal set is shown and how many there are, in words (the same words however many
+    sets are listed).
 
     >>> set_count_words(1)
     'the only set of this size'
@@ -162,12 +162,9 @@ def set_count_words(count: int, complete: bool = True, ordered: bool = True,
     if count <= 1 and complete:
         return "the only set of this size"
     how_many = f"{'' if complete else 'at least '}{number_in_words(count)}"
-    order = "in the order of reaction ids" if ordered else ""
-    words = (f"the first of {how_many} sets of this size {order}" if ordered
-             else f"the first found of {how_many} sets of this size")
-    if complete and count == 2 and len(sets) == 2:
-        words += f"; the other: {names(sets[1])}"
-    return words
+    if ordered:
+        return f"the first of {how_many} sets of this size in the order of reaction ids"
+    return f"the first found of {how_many} sets of this size"
 
 
 def h2_line(threshold: float | None, h2_range: Sequence[float] | None, unit: str = "mol/L",
