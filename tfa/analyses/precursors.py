@@ -135,6 +135,26 @@ def demanded_compounds(tm: ThermoModel) -> list[tuple[str, float]]:
     return [(m.id, -float(c)) for m, c in demand.metabolites.items() if c < 0]
 
 
+def capacities(tm: ThermoModel, compounds: list[str] | None = None) -> dict[str, float]:
+    """Largest flux of each demanded compound's own demand by flux balance alone (no energies),
+    flux unit: the first question of :func:`precursor_verdicts`, asked alone (one linear program
+    per compound)."""
+    from .uphill import demand_capacity
+
+    wanted = [m for m, _ in demanded_compounds(tm) if compounds is None or m in compounds]
+    if not wanted:
+        return {}
+    copy = dataclasses.replace(tm, model=tm.model.copy())
+    demand = copy.model.reactions.get_by_id(tm.demand_id)
+    out = {}
+    for compound in wanted:
+        with copy.model:
+            demand.subtract_metabolites(dict(demand.metabolites))
+            demand.add_metabolites({copy.model.metabolites.get_by_id(compound): -1.0})
+            out[compound] = demand_capacity(copy)
+    return out
+
+
 def precursor_verdicts(tm: ThermoModel, options: ProblemOptions | None = None,
                        compounds: list[str] | None = None,
                        count_limit: int = PRECURSOR_COUNT_LIMIT) -> PrecursorResult:
@@ -224,7 +244,7 @@ def _one(tm: ThermoModel, options: ProblemOptions, compound: str, coefficient: f
                                         f"{lp}; {d.verification.get('check', '')}",
                                         certificates=list(d.certificates))
     if d.size == 0:
-        verdict.verdict, verdict.feasible = "downhill", True
+        verdict.verdict, verdict.feasible, verdict.energy_to_supply = "downhill", True, 0.0
         verdict.message = f"{compound} is made with every step downhill"
         return verdict
     verdict.feasible = False

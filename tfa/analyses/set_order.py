@@ -148,7 +148,9 @@ def count_more(problem: ThermoProblem, found: int, limit: int, what: str = "mini
     """Go on finding sets (any order) with the found ones cut off, up to ``limit`` in all.
 
     Returns (sets found in all, complete): complete when the solver proved that no further set
-    exists; a time limit stops the count where it is (not complete).
+    exists; a time limit stops the count where it is (not complete). At the limit, one more
+    solve says whether the count is complete; when a further set exists it is counted too
+    (limit + 1, not complete: "at least limit + 1").
     """
     while found < limit:
         try:
@@ -160,9 +162,10 @@ def count_more(problem: ThermoProblem, found: int, limit: int, what: str = "mini
         found += 1
         cut_off(problem, sorted(point.uphill), f"tfa_count_{found}")
     try:
-        return found, _solve_point(problem, f"{what}: one more?") is None
+        more = _solve_point(problem, f"{what}: one more?")
     except UndeterminedError:
         return found, False
+    return (found, True) if more is None else (found + 1, False)
 
 
 def list_in_order(result, problem: ThermoProblem, size: int, alternatives: int,
