@@ -98,3 +98,31 @@ def test_assessment_writes_and_shows_the_precursors(bundled_run):
     lines = [line for line in bundled_run.result.summary_lines() if "each precursor alone" in line]
     strict = [line for line in lines if line.startswith("runs without ATP,")]
     assert strict and "stoichiometric gap" in strict[0] and "thermodynamic bottleneck" in strict[0]
+
+
+@pytest.mark.slow
+def test_cut_demand_without_atp_needs_only_formate_reduction():
+    """The issue's hand check (issue 14): with the demand cut to glycine, alanine, aspartate,
+    glutamate and serine, the strict no-ATP mode needs exactly one step driven uphill, formate
+    reduced to formaldehyde (FALDH run backwards). Its direction is uphill at standard state:
+    formaldehyde + NAD+ + H2O -> formate + NADH has Delta_r G'deg about -43 kJ/mol at 25 degC,
+    pH 7 (`tfa dg` from the reviewed species data; about -41 kJ/mol from E0'(formate/formaldehyde)
+    and E0'(NAD+/NADH) = -0.32 V in Thauer, Jungermann & Decker 1977, Bacteriol. Rev. 41:100,
+    from memory), so the reduction costs about +43 kJ/mol before concentrations."""
+    from tfa.analyses.feasibility import feasibility
+    from tfa.network.energies import prepare
+    from tfa.network.inputs import resolve_inputs
+
+    inputs = resolve_inputs(None, None, None)
+    model = inputs.model.copy()
+    demand = model.reactions.get_by_id("demand_precursors")
+    keep = {"gly", "ala", "asp", "glu", "ser"}
+    demand.subtract_metabolites({m: c for m, c in demand.metabolites.items() if m.id not in keep})
+    tm = prepare(model, inputs.environment, "no_atp_strict")
+    answer = feasibility(tm, ProblemOptions(), alternatives=3, count_limit=20)
+    d = answer.diagnosis
+    assert not answer.feasible and d is not None
+    assert d.sets == [["FALDH"]] and d.directions[0]["FALDH"] == -1
+    assert (d.count, d.exhausted) == (1, True)
+    assert d.verification["status"] == "proven"
+    assert d.uphill_by[0]["FALDH"] > 0 and d.energy_to_supply(0) > d.uphill_by[0]["FALDH"]

@@ -157,7 +157,8 @@ def capacities(tm: ThermoModel, compounds: list[str] | None = None) -> dict[str,
 
 def precursor_verdicts(tm: ThermoModel, options: ProblemOptions | None = None,
                        compounds: list[str] | None = None,
-                       count_limit: int = PRECURSOR_COUNT_LIMIT) -> PrecursorResult:
+                       count_limit: int = PRECURSOR_COUNT_LIMIT,
+                       progress=None) -> PrecursorResult:
     """The verdict of each demanded compound alone, in the mode of ``tm`` (module text).
 
     Parameters
@@ -169,6 +170,8 @@ def precursor_verdicts(tm: ThermoModel, options: ProblemOptions | None = None,
         Only these of the demanded compounds (default all).
     count_limit : int
         Minimal uphill sets counted per compound.
+    progress : callable, optional
+        ``progress(done, total)`` before each compound.
 
     Returns
     -------
@@ -193,7 +196,9 @@ def precursor_verdicts(tm: ThermoModel, options: ProblemOptions | None = None,
     demand = model.reactions.get_by_id(tm.demand_id)
     required = max(demand.lower_bound, 0.0)
     statuses = []
-    for compound, coefficient in wanted:
+    for k, (compound, coefficient) in enumerate(wanted):
+        if progress is not None:
+            progress(k, len(wanted))
         need = required * coefficient
         with model:
             demand.subtract_metabolites(dict(demand.metabolites))

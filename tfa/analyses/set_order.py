@@ -78,13 +78,14 @@ def _solve_point(problem: ThermoProblem, what: str) -> Solution | None:
         return None
 
 
-def first_in_order(problem: ThermoProblem, size: int, what: str = "minimal uphill set"
-                   ) -> OrderedSet | None:
+def first_in_order(problem: ThermoProblem, size: int, what: str = "minimal uphill set",
+                   witness: Solution | None = None) -> OrderedSet | None:
     """The first set of ``size`` uphill steps in the order of reaction ids (see the module text)
     among those the problem still allows, or None when it allows none.
 
     The caller has added the row sum_j u_j <= size and the cuts of the sets found before; the
-    bounds of the uphill binaries are restored on return.
+    bounds of the uphill binaries are restored on return. ``witness``: a point of the problem as
+    it stands (a set of ``size`` not cut off), used as the first W instead of a solve.
 
     Raises
     ------
@@ -97,9 +98,11 @@ def first_in_order(problem: ThermoProblem, size: int, what: str = "minimal uphil
     saved = [(v, v.lb, v.ub) for v in u]
     decided_in = {ids[j] for j, v in enumerate(u) if v.lb >= 1}
     decided_out = {ids[j] for j, v in enumerate(u) if v.ub <= 0}
-    solves = 1
+    solves = 0
     try:
-        witness = _solve_point(problem, f"{what} in order")
+        if witness is None or len(witness.uphill) != size:
+            solves += 1
+            witness = _solve_point(problem, f"{what} in order")
         if witness is None:
             return None
         ordered = True
@@ -169,7 +172,8 @@ def count_more(problem: ThermoProblem, found: int, limit: int, what: str = "mini
 
 
 def list_in_order(result, problem: ThermoProblem, size: int, alternatives: int,
-                   count_limit: int, checks: list[str], record) -> None:
+                   count_limit: int, checks: list[str], record,
+                   first: Solution | None = None) -> None:
     """Up to ``alternatives`` sets of ``size`` in the order of reaction ids
     (:func:`first_in_order`), then the count up to ``count_limit``; each set is added to the
     :class:`~tfa.analyses.uphill.UphillResult` ``result`` by ``record(result, problem, members,
@@ -178,7 +182,7 @@ def list_in_order(result, problem: ThermoProblem, size: int, alternatives: int,
     problem.add_constraint(count, None, float(size), "tfa_size")
     solves = 0
     for k in range(max(1, alternatives)):
-        item = first_in_order(problem, size)
+        item = first_in_order(problem, size, witness=first if k == 0 else None)
         if item is None:
             result.exhausted = True
             break

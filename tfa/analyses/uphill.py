@@ -547,7 +547,8 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                 _record(result, problem, [], sol)
                 result.exhausted, result.count = True, 1
             elif canonical and status == "proven":
-                list_in_order(result, problem, size, alternatives, count_limit, checks, _record)
+                list_in_order(result, problem, size, alternatives, count_limit, checks, _record,
+                              first=sol)
             else:
                 list_as_found(result, problem, sol, alternatives, checks, _record)
             words = [f"each set's steady state passed the independent numpy check ({len(result.certificates)} points)",

@@ -29,8 +29,10 @@ class PrecursorStep(Step):
             if reason:
                 result.verdicts += _not_applicable(ctx, mode, reason)
                 continue
+            tick = ctx.ticker(f"compounds ({mode}, mode {k + 1} of {len(modes)})")
             answer = ctx.attempt(f"precursors ({mode})",
-                                 lambda: precursor_verdicts(ctx.thermo_model(mode), ctx.options))
+                                 lambda: precursor_verdicts(ctx.thermo_model(mode), ctx.options,
+                                                            progress=tick))
             if answer is None:
                 result.verdicts += _not_applicable(ctx, mode, "undetermined", "undetermined")
                 continue
