@@ -293,8 +293,9 @@ OPTIONS: dict[str, Option] = {
                        f"{DEFAULT_H2_RANGE[0]:g}:{DEFAULT_H2_RANGE[1]:g}", "LOW:HIGH"),
     "h2_levels": Option(("--h2-levels",), "levels of the H2 scan, log-spaced over --h2-range "
                         "(default %(default)s)", DEFAULT_H2_LEVELS, "N"),
-    "alternatives": Option(("--alternatives",), "alternative minimal uphill sets per mode "
-                           "(default %(default)s)", DEFAULT_ALTERNATIVES, "N"),
+    "alternatives": Option(("--alternatives",), "minimal uphill sets listed per mode, in the "
+                           "order of reaction ids; they are counted further (default "
+                           "%(default)s)", DEFAULT_ALTERNATIVES, "N"),
     "workers": Option(("--workers",), "worker processes for many independent solves (draws, map "
                       "points, ranges); 'auto': one per core (default %(default)s: in this process)",
                       "1", "N"),
