@@ -1,4 +1,4 @@
-"""Per-precursor verdicts (issue 14 item 5) on a hand-built network whose answers are derived by
+"""Per-precursor verdicts on a hand-built network whose answers are derived by
 hand, and on the bundled network through the assessment (files, report, summary lines).
 
 Conventions (Alberty 2003, eq. 4.1-4): Delta_r G' = Delta_r G'deg + RT ln Q at 298.15 K,
@@ -82,7 +82,7 @@ def test_precursor_line_names_gap_and_bottleneck():
 
 @pytest.mark.slow
 def test_assessment_writes_and_shows_the_precursors(bundled_run):
-    """Issue 14 acceptance: `tfa assess --out DIR` writes the precursors table (CSV and JSON) and
+    """Acceptance: `tfa assess --out DIR` writes the precursors table (CSV and JSON) and
     its figure (PNG and SVG), and the report shows them; the no-ATP summary line says which
     precursors are made and which are not, and why."""
     out = bundled_run.out
@@ -102,7 +102,7 @@ def test_assessment_writes_and_shows_the_precursors(bundled_run):
 
 @pytest.mark.slow
 def test_cut_demand_without_atp_needs_only_formate_reduction():
-    """The issue's hand check (issue 14): with the demand cut to glycine, alanine, aspartate,
+    """A hand check reported by a user: with the demand cut to glycine, alanine, aspartate,
     glutamate and serine, the strict no-ATP mode needs exactly one step driven uphill, formate
     reduced to formaldehyde (FALDH run backwards). Its direction is uphill at standard state:
     formaldehyde + NAD+ + H2O -> formate + NADH has Delta_r G'deg about -43 kJ/mol at 25 degC,

@@ -124,7 +124,7 @@ def _tfa_json(*args: str) -> dict:
 
 @pytest.mark.slow
 def test_uphill_and_feasible_give_the_same_first_set_and_count_in_every_mode():
-    """Issue 14 acceptance: `tfa uphill` and `tfa feasible` list the same first set and the same
+    """Acceptance: `tfa uphill` and `tfa feasible` list the same first set and the same
     count for every mode, whatever number of alternatives each lists (the first set is the first
     in the order of reaction ids, the count does not depend on the listing)."""
     up = _tfa_json("uphill", "--modes", "all", "--alternatives", "3")

@@ -161,7 +161,7 @@ COLUMNS: dict[str, Term] = _terms(
     ("pMg", "-log10 of the free Mg2+ activity", ""),
 )
 
-# issue 14 items 5 and 6 (per-precursor verdicts; canonical alternatives, energy to supply)
+# per-precursor verdicts; the order and count of minimal sets; the energy to supply
 COLUMNS.update(_terms(
     ("flux_per_demand", "flux of a reaction over the flux of the demand reaction, at the steady "
                         "state of least energy to supply to the uphill steps", ""),

@@ -69,4 +69,4 @@ def step_ids() -> list[str]:
 for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
               DrivingForceStep(), EnergyProfileStep(), RangesStep(), RobustnessStep()):
     register_step(_step)
-register_step(PrecursorStep(), before="census")  # issue 14 item 5: each precursor alone
+register_step(PrecursorStep(), before="census")  # each precursor alone
