@@ -191,7 +191,7 @@ def list_in_order(result, problem: ThermoProblem, size: int, alternatives: int,
         record(result, problem, item.members, item.solution)
         cut_off(problem, item.members, f"tfa_cut_{k}")
     found = len(result.sets)
-    if not result.exhausted:
+    if not result.exhausted and count_limit > 0:   # 0: only those listed (robustness draws)
         found, result.exhausted = count_more(problem, found, max(count_limit, found))
     result.count = found
     checks.append(f"sets listed in the order of reaction ids ({solves} mixed-integer solves; "
@@ -199,7 +199,7 @@ def list_in_order(result, problem: ThermoProblem, size: int, alternatives: int,
                      else "a time limit stopped some proofs of the order")
                   + f"); {count_words(found, result.exhausted)}"
                   + (" (no further set: the solver proved it)" if result.exhausted else
-                     f" (counting stopped at {found})"))
+                     f" (counting stopped at {found})" if count_limit > 0 else " (not counted)"))
 
 
 def list_as_found(result, problem: ThermoProblem, sol: Solution,
@@ -237,4 +237,4 @@ def count_words(count: int, complete: bool) -> str:
     """
     if complete and count == 1:
         return "the only set of this size"
-    return f"{'' if complete else 'at least '}{count} sets of this size"
+    return f"{'' if complete else 'at least '}{count} set{'' if count == 1 else 's'} of this size"

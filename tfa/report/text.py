@@ -162,9 +162,10 @@ def set_count_words(count: int, complete: bool = True, ordered: bool = True) -> 
     if count <= 1 and complete:
         return "the only set of this size"
     how_many = f"{'' if complete else 'at least '}{number_in_words(count)}"
+    sets = "set" if count == 1 else "sets"
     if ordered:
-        return f"the first of {how_many} sets of this size in the order of reaction ids"
-    return f"the first found of {how_many} sets of this size"
+        return f"the first of {how_many} {sets} of this size in the order of reaction ids"
+    return f"the first found of {how_many} {sets} of this size"
 
 
 def h2_line(threshold: float | None, h2_range: Sequence[float] | None, unit: str = "mol/L",
