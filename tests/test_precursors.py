@@ -94,7 +94,7 @@ def test_assessment_writes_and_shows_the_precursors(bundled_run):
     assert set(frame["verdict"]) <= {"downhill", "uphill", "stoichiometric gap", "undetermined",
                                      "not applicable"}
     report = (out / "report.html").read_text()
-    assert "Each precursor alone" in report and "precursors" in report
+    assert 'id="sec-each-precursor-alone"' in report and "Verdict per demanded compound" in report
     lines = [line for line in bundled_run.result.summary_lines() if "each precursor alone" in line]
     strict = [line for line in lines if line.startswith("runs without ATP,")]
     assert strict and "stoichiometric gap" in strict[0] and "thermodynamic bottleneck" in strict[0]
