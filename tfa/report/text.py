@@ -103,8 +103,9 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
     sets : list of list of str
         Minimal uphill sets listed (of the same size, the first shown).
     count, complete, ordered
-        How many sets of that size were found (default: those listed), whether that is all of
-        them (else "at least"), and whether they are in the order of reaction ids.
+        How many sets of that size were found, whether that is all of them (else "at least"),
+        and whether they are in the order of reaction ids. Without a count, more than one set
+        listed is said as "at least" that many, one set alone is not qualified.
     demand_impossible : bool
         The demand cannot be met even ignoring thermodynamics.
     not_applicable : str
@@ -146,7 +147,10 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
     if sets:
         first = sets[0]
         line += f"; {counted(len(first), 'step')} must be driven uphill: {names(first)}"
-        line += f" ({set_count_words(len(sets) if count is None else count, complete, ordered)})"
+        if count is not None:
+            line += f" ({set_count_words(count, complete, ordered)})"
+        elif len(sets) > 1:     # not counted: the sets listed are a lower bound
+            line += f" ({set_count_words(len(sets), False, ordered)})"
     return line + checked(status)
 
 
