@@ -243,12 +243,45 @@ COLUMNS: dict[str, Term] = _terms(
     ("pMg", "-log10 of the free Mg2+ activity", ""),
 )
 
+# per-precursor verdicts; the order and count of minimal sets; the energy to supply
+COLUMNS.update(_terms(
+    ("flux_per_demand", "flux of a reaction over the flux of the demand reaction, at the steady "
+                        "state of least energy to supply to the uphill steps", ""),
+    ("energy_to_supply_kJ_per_mol_demand", "energy to supply to an uphill step per unit of demand: "
+                                           "flux_per_demand times how far uphill it runs "
+                                           "(ΔrG' in its direction); summed over a set, "
+                                           "Σ flux × ΔrG' over the uphill steps per mol of demand",
+     "kJ/mol"),
+    ("sets_found", "minimal uphill sets of the least size found in all (listed and counted)", ""),
+    ("all_sets_found", "whether every minimal uphill set of the least size was found (else "
+                       "sets_found is a lower bound)", ""),
+    ("demand_coefficient", "moles of the compound per mole of the demand reaction", ""),
+    ("verdict", "the answer for a demanded compound: downhill (made with every step downhill), "
+                "uphill (made only with the steps of a minimal uphill set driven), stoichiometric "
+                "gap (cannot be made from the feed whatever the energies), not applicable, "
+                "undetermined", ""),
+    ("producible", "the compound can be made from the feed by the stoichiometry and flux bounds, "
+                   "ignoring energies", ""),
+    ("max_flux", "largest flux of the compound's own demand allowed by the stoichiometry and flux "
+                 "bounds, ignoring energies", "flux unit"),
+    ("energy_to_supply_total_kJ_per_mol_demand", "energy to supply to the steps of the first "
+                                                 "minimal uphill set, per mol of demand", "kJ/mol"),
+))
+
 #: Keys of ``summary.json`` besides table columns.
 SUMMARY_KEYS: dict[str, Term] = _terms(
     ("network", "network id", ""),
     ("environment", "the setting in one line", ""),
     ("coverage", "reactions with an energy, estimated and missing", ""),
     ("uphill", "per mode, the minimal uphill sets found", ""),
+    ("uphill_sets_found", "per mode, how many minimal uphill sets of the least size were found "
+                          "(sets_found, all_sets_found), whether they are listed in the order of "
+                          "reaction ids (in_order_of_ids) and the energy to supply to the first "
+                          "(energy_to_supply_total_kJ_per_mol_demand)", ""),
+    ("in_order_of_ids", "whether the minimal uphill sets are listed in the order of reaction ids "
+                        "(sorted ids compared one by one), each proven so", ""),
+    ("precursors", "per mode, the demanded compounds by verdict (downhill, uphill, stoichiometric "
+                   "gap)", ""),
     ("bottlenecks", "reactions at the max-min driving force", ""),
     ("h2_range", "the H2 range searched, [low, high] (unit: h2_unit)", ""),
     ("robustness", "feasibility over the draws of the energies, per mode", ""),
@@ -370,8 +403,9 @@ OPTIONS: dict[str, Option] = {
                        f"{DEFAULT_H2_RANGE[0]:g}:{DEFAULT_H2_RANGE[1]:g}", "LOW:HIGH"),
     "h2_levels": Option(("--h2-levels",), "levels of the H2 scan, log-spaced over --h2-range "
                         "(default %(default)s)", DEFAULT_H2_LEVELS, "N"),
-    "alternatives": Option(("--alternatives",), "alternative minimal uphill sets per mode "
-                           "(default %(default)s)", DEFAULT_ALTERNATIVES, "N"),
+    "alternatives": Option(("--alternatives",), "minimal uphill sets listed per mode, in the "
+                           "order of reaction ids; they are counted further (default "
+                           "%(default)s)", DEFAULT_ALTERNATIVES, "N"),
     "workers": Option(("--workers",), "worker processes for many independent solves (draws, map "
                       "points, ranges); 'auto': one per core (default %(default)s: in this process)",
                       "1", "N"),

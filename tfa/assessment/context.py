@@ -257,6 +257,7 @@ class RunContext:
         applicable" and why (nothing is solved)."""
         if mode not in self._feasibility:
             from ..analyses.feasibility import FeasibilityResult, feasibility
+            from ..analyses.set_order import COUNT_LIMIT
 
             reason = self.not_applicable(mode)
             if reason:
@@ -266,7 +267,8 @@ class RunContext:
                 return self._feasibility[mode]
             tm = self.thermo_model(mode)
             try:
-                result = feasibility(tm, self.options, alternatives=self.settings.alternatives)
+                result = feasibility(tm, self.options, alternatives=self.settings.alternatives,
+                                     count_limit=COUNT_LIMIT)
             except UndeterminedError as err:
                 result = FeasibilityResult(conditions=tm.conditions, mode=mode, feasible=False,
                                            message=f"undetermined: {err}")

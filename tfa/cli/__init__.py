@@ -23,6 +23,7 @@ COMMANDS: dict[str, str] = {
     "inspect": "cmd_inspect",
     "feasible": "cmd_feasible",
     "uphill": "cmd_uphill",
+    "precursors": "cmd_precursors",
     "h2-scan": "cmd_h2_scan",
     "h2-threshold": "cmd_h2_threshold",
     "ranges": "cmd_ranges",

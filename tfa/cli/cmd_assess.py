@@ -13,9 +13,9 @@ from .step_command import run_step_command
 
 #: The steps of ``tfa assess``, named in its help (the registry is the source; this list is
 #: checked against it by the tests, so that the help can stay free of heavy imports).
-STEP_IDS = ("coverage", "feasibility", "energy_budget", "census", "h2_scan", "h2_threshold",
-            "gradient", "driving_force", "binding_constraints", "energy_profile", "ranges",
-            "robustness")
+STEP_IDS = ("coverage", "feasibility", "energy_budget", "precursors", "census", "h2_scan",
+            "h2_threshold", "gradient", "driving_force", "binding_constraints", "energy_profile",
+            "ranges", "robustness")
 
 
 def register(subparsers) -> None:
