@@ -37,7 +37,7 @@ import pandas as pd
 from ..conditions import Conditions
 from ..errors import InputError
 from ..modes import STANDARD_MODES, parse_modes
-from ..util.points import RunSummary, run_and_read
+from ..util.points import RunSummary, run_and_read, worker_cache
 from .jobs import NetworkJob, outcome, points_verification
 from .uncertainty import energy_covariance, with_energies
 
@@ -53,7 +53,7 @@ def robustness_point(job: NetworkJob, point: dict) -> dict:
     """Outcome of one draw (or of the mean, ``index == "mean"``) in one mode; runs in a worker."""
     tm = job.thermo_model(point["mode"])
     if point["index"] != MEAN:
-        cov = energy_covariance(tm)
+        cov = worker_cache(("covariance", job.token, point["mode"]), lambda: energy_covariance(tm))
         draw = cov.draw(int(point["seed"]), int(point["index"]))
         scale = float(point.get("sigma_scale", 1.0))
         values = cov.mean + scale * (draw - cov.mean)

@@ -39,7 +39,7 @@ from __future__ import annotations
 import hashlib
 import logging
 import math
-from dataclasses import dataclass, replace
+from dataclasses import dataclass, field, replace
 from typing import Mapping, Sequence
 
 import numpy as np
@@ -59,32 +59,61 @@ COMPOUND_BASED_SOURCES = ("species", "estimated")
 class EnergyCovariance:
     """Mean, covariance and draw factor of the ΔrG'° of a set of reactions (kJ/mol).
 
+    g = ḡ + N F z + R w: N the reactions' coefficients over the compounds, F the compounds'
+    factor over the named sources (:mod:`tfa.network.compound_space`), R the reaction-level
+    terms (only where a value stands alone), z and w standard normal numbers keyed by name.
+
     Attributes
     ----------
     reaction_ids : reactions, in the order of every array
     mean : ΔrG'° as prepared
     sigma : stated standard uncertainty of each reaction
-    compound_ids, compound_sigma : compounds with an independent σ_k and their σ_k
+    compound_ids : compounds, columns of ``loadings`` and rows of ``compound_factor``
     loadings : N, reactions × compounds, net coefficients
-    independent_sigma : s_j, the reaction-level part not shared with any other reaction
+    compound_factor : F, compounds × sources (kJ/mol per unit normal)
+    source_names : name of each column of F (the key of its normal number)
+    reaction_loadings : R, reactions × reaction-level terms
+    reaction_term_names : name of each column of R
+    source_labels : plain words for each source, then each reaction-level term
     """
 
     reaction_ids: list[str]
     mean: np.ndarray
     sigma: np.ndarray
     compound_ids: list[str]
-    compound_sigma: np.ndarray
     loadings: np.ndarray
-    independent_sigma: np.ndarray
+    compound_factor: np.ndarray
+    source_names: list[str]
+    reaction_loadings: np.ndarray
+    reaction_term_names: list[str]
+    source_labels: list[str] = field(default_factory=list)
+
+    @property
+    def compound_sigma(self) -> np.ndarray:
+        """σ of each compound's ΔfG'° (kJ/mol)."""
+        return np.sqrt(np.sum(self.compound_factor ** 2, axis=1))
+
+    @property
+    def independent_sigma(self) -> np.ndarray:
+        """σ of each reaction's reaction-level terms (kJ/mol; 0 where it has none)."""
+        return np.sqrt(np.sum(self.reaction_loadings ** 2, axis=1))
 
     @property
     def factor(self) -> np.ndarray:
-        """F = [N diag(σ_k) | diag(s_j)], reactions × (compounds + reactions); F Fᵀ = Σ."""
-        return np.hstack([self.loadings * self.compound_sigma[None, :], np.diag(self.independent_sigma)])
+        """[N F | R], reactions × (sources + reaction terms); its product with its transpose is Σ."""
+        return np.hstack([self.loadings @ self.compound_factor, self.reaction_loadings])
+
+    @property
+    def energy_map(self) -> np.ndarray:
+        """[N | E]: what the reaction energies are made of, the compounds and (E, a 0/1 matrix)
+        the reaction-level terms. Every y with yᵀ[N | E] = 0 (a vector of its left null space) is
+        an identity of the energies: yᵀg = yᵀḡ in every draw."""
+        indicator = (np.abs(self.reaction_loadings) > 0).astype(float)
+        return np.hstack([self.loadings, indicator])
 
     @property
     def covariance(self) -> np.ndarray:
-        """Σ = N C Nᵀ + D, kJ²/mol²."""
+        """Σ = N F Fᵀ Nᵀ + R Rᵀ, kJ²/mol²."""
         f = self.factor
         return f @ f.T
 
@@ -100,12 +129,26 @@ class EnergyCovariance:
 
     @property
     def factor_names(self) -> list[str]:
-        """Name of each column of :attr:`factor`: compound keys, then ``reaction:<id>``."""
-        return list(self.compound_ids) + [f"reaction:{r}" for r in self.reaction_ids]
+        """Name of each column of :attr:`factor`: the sources, then the reaction-level terms."""
+        return list(self.source_names) + list(self.reaction_term_names)
+
+    @property
+    def factor_labels(self) -> list[str]:
+        """Plain words for each column of :attr:`factor`."""
+        labels = list(self.source_labels) or list(self.source_names)
+        labels += [name.replace("reaction:", "reaction value ", 1)
+                   for name in self.reaction_term_names]
+        return labels
+
+    def normals(self, seed: int, index: int) -> np.ndarray:
+        """The standard normal numbers of draw ``index`` (one per :attr:`factor_names`)."""
+        return keyed_normals(seed, index, self.factor_names)
 
     def draw(self, seed: int, index: int) -> np.ndarray:
-        """Draw number ``index`` of the run seeded ``seed``: ḡ + F z, kJ/mol."""
-        return self.mean + self.factor @ keyed_normals(seed, index, self.factor_names)
+        """Draw number ``index`` of the run seeded ``seed``: ḡ + N F z + R w, kJ/mol."""
+        z = self.normals(seed, index)
+        k = len(self.source_names)
+        return self.mean + self.loadings @ (self.compound_factor @ z[:k]) + self.reaction_loadings @ z[k:]
 
     def to_frame(self) -> pd.DataFrame:
         """One row per reaction: ΔrG'°, stated σ, σ from Σ, shared and independent parts."""
@@ -197,20 +240,15 @@ def energy_covariance(thermo_model: ThermoModel, compound_sigma: Mapping[str, fl
     if missing:
         raise InputError(f"reaction(s) {', '.join(missing[:5])} have no energy; leave them out of "
                          "the covariance")
+    mean = np.array([float(energies[r].standard) for r in ids])
+    sigma = np.array([0.0 if energies[r].uncertainty is None or not math.isfinite(energies[r].uncertainty)
+                      else abs(float(energies[r].uncertainty)) for r in ids])
+    table = getattr(thermo_model, "compound_table", None)
+    if compound_sigma is None and table is not None:
+        return _compound_space_covariance(energies, ids, mean, sigma, table, tolerance)
     sigmas = dict(compound_sigmas(thermo_model) if compound_sigma is None else compound_sigma)
     used = sorted({k for r in ids for k in energies[r].compound_terms if k in sigmas})
-    index = {k: i for i, k in enumerate(used)}
-    n = np.zeros((len(ids), len(used)))
-    mean = np.zeros(len(ids))
-    sigma = np.zeros(len(ids))
-    for j, rid in enumerate(ids):
-        e = energies[rid]
-        mean[j] = float(e.standard)
-        s = 0.0 if e.uncertainty is None or not math.isfinite(e.uncertainty) else abs(float(e.uncertainty))
-        sigma[j] = s
-        for k, coef in e.compound_terms.items():
-            if k in index:
-                n[j, index[k]] += float(coef)
+    n = _loadings(energies, ids, used)
     c_sigma = np.array([abs(float(sigmas[k])) for k in used])
     shared_var = (n ** 2) @ (c_sigma ** 2)
     residual = sigma ** 2 - shared_var
@@ -220,7 +258,51 @@ def energy_covariance(thermo_model: ThermoModel, compound_sigma: Mapping[str, fl
         log.warning("reaction %s: its compounds' σ give %.3g kJ/mol, more than its stated σ %.3g; "
                     "the compound part is used as is", ids[j], math.sqrt(shared_var[j]), sigma[j])
     independent = np.sqrt(np.maximum(residual, 0.0))
-    return EnergyCovariance(ids, mean, sigma, used, c_sigma, n, independent)
+    return EnergyCovariance(ids, mean, sigma, used, n, np.diag(c_sigma), list(used),
+                            np.diag(independent), [f"reaction:{r}" for r in ids])
+
+
+def _loadings(energies, ids: Sequence[str], compounds: Sequence[str]) -> np.ndarray:
+    """N: reactions × compounds, the net coefficients of each reaction over the compounds."""
+    index = {k: i for i, k in enumerate(compounds)}
+    n = np.zeros((len(ids), len(compounds)))
+    for j, rid in enumerate(ids):
+        for k, coef in energies[rid].compound_terms.items():
+            if k in index:
+                n[j, index[k]] += float(coef)
+    return n
+
+
+def _compound_space_covariance(energies, ids, mean, sigma, table, tolerance) -> EnergyCovariance:
+    """The covariance of reactions written over a compound table's compounds: every source in
+    compound space (:mod:`tfa.network.compound_space`), reaction-level terms only where a value
+    stands alone."""
+    from ..network.compound_space import canonical_stoichiometry, compound_space
+
+    used = sorted({k for r in ids for k in energies[r].compound_terms})
+    space = compound_space(table, used)
+    n = _loadings(energies, ids, space.keys)
+    shared_var = np.sum((n @ space.factor) ** 2, axis=1)
+    terms: dict[str, int] = {}
+    entries: list[tuple[int, int, float]] = []
+    for j, rid in enumerate(ids):
+        e = energies[rid]
+        extra = sigma[j] ** 2 - shared_var[j]
+        if not e.compound_terms:
+            name = f"reaction:{rid}"
+        elif extra > 1e-6 * max(1.0, sigma[j] ** 2) and any(f.startswith("class check:") for f in e.audit_flags):
+            name = "reaction:" + canonical_stoichiometry(e.compound_terms)
+        else:
+            continue
+        if extra <= 0:
+            continue
+        column = terms.setdefault(name, len(terms))
+        entries.append((j, column, math.sqrt(extra)))
+    r = np.zeros((len(ids), len(terms)))
+    for j, column, value in entries:
+        r[j, column] = value
+    return EnergyCovariance(ids, mean, sigma, list(space.keys), n, space.factor,
+                            list(space.source_names), r, list(terms), list(space.source_labels))
 
 
 def psd_factor(covariance: np.ndarray, tolerance: float = 1e-10) -> np.ndarray:
