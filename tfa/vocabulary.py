@@ -184,6 +184,26 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("route_bottlenecks", "reactions at the named route's max-min driving force", ""),
     ("command", "the command that printed the JSON", ""),
     ("tables", "every table of the answer: file stem -> rows", ""),
+    # issue 18: compound-space uncertainty, verdict margins, intervals, scenario draws
+    ("margin_sigma", "least total change of the energies' sources (L1 norm, in units of each "
+                     "source's σ) that flips the verdict", "σ"),
+    ("margin_status", "how the margin was found: proven (exact minimum), best found (a verified "
+                      "flip), or none within the cap", ""),
+    ("carried_by", "the sources carrying most of the change, with their shares", ""),
+    ("rounds", "linear programs of cuts the search of a margin took", ""),
+    ("label", "a source of uncertainty in plain words", ""),
+    ("deviation_sigma", "deviation of one source, in units of its σ", "σ"),
+    ("share", "fraction of the total change carried by one source", ""),
+    ("verdict_margins", "per mode, the distance to a flipped verdict", ""),
+    ("interval_low", "lower end of the Wilson score interval of the probability", ""),
+    ("interval_high", "upper end of the Wilson score interval of the probability", ""),
+    ("confidence", "confidence level of the intervals", ""),
+    ("stopped_by", "why the draws stopped: the interval width reached, or the draw budget", ""),
+    ("assumption", "an assumption of the setting drawn in a scenario run", ""),
+    ("probability_held_central", "probability with this assumption held at its central value", ""),
+    ("probability_change", "probability minus the probability with the assumption held central",
+     ""),
+    ("scenario", "what was drawn: energies, assumptions, or both", ""),
 )
 
 #: Symbols used in text: key -> (Unicode, ASCII fallback).
@@ -269,6 +289,9 @@ OPTIONS: dict[str, Option] = {
                   "no files)", None, "DIR"),
     "seed": Option(("--seed",), "seed of the draws of the energies (default %(default)s)", 0, "S"),
     "draws": Option(("--draws",), "draws of the energies per mode (default %(default)s)", 100, "N"),
+    "interval_width": Option(("--interval-width",), "draw until every 95 %% Wilson interval of a "
+                             "probability is at most W wide, or --draws are made (0: exactly "
+                             "--draws; default %(default)s)", 0.1, "W"),
     "network_data": Option(("--network",), "a network (reactions table or folder, SBML or cobra "
                            "JSON) whose own data and compound names are used instead of the "
                            "library's (species data, its reaction_values.tsv, estimates)", None,

@@ -45,8 +45,6 @@ from dataclasses import dataclass, field
 import numpy as np
 import pandas as pd
 
-from ..errors import InputError
-from ..network.compound_space import energy_covariance
 from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions, ThermoProblem
 from ..problem.solvers import InfeasibleProblem
@@ -212,61 +210,51 @@ def _to_feasible(tm: ThermoModel, options: ProblemOptions, result: MarginResult)
 
 
 def _to_infeasible(tm: ThermoModel, options: ProblemOptions, result: MarginResult) -> None:
-    """Feasible verdict: cuts from the steady states found, until none is left (module text)."""
+    """Feasible verdict: cuts from the steady states found, until none is left (module text).
+    One problem is built (slack up to :data:`MARGIN_CAP`) and each round fixes its deviations."""
     from scipy.optimize import linprog
 
-    from .feasibility import feasibility
-
-    cov = energy_covariance(tm)
-    ids = list(cov.reaction_ids)
-    a = cov.factor
-    keep = np.flatnonzero(np.any(np.abs(a) > 0, axis=0))
-    a = a[:, keep]
-    names = [cov.factor_names[i] for i in keep]
-    labels = [cov.factor_labels[i] for i in keep]
-    mean = cov.mean
-    n_z = a.shape[1]
     delta = options.min_driving_force
-    cuts_a: list[np.ndarray] = []
-    cuts_b: list[float] = []
-    z = np.zeros(n_z)
-    for rounds in range(1, MAX_ROUNDS + 1):
-        h = mean + a @ z
-        moved = with_energies(tm, dict(zip(ids, h.tolist())), uncertainty=0.0)
-        try:
-            answer = feasibility(moved, options, diagnose=False)
-            feasible, how = answer.feasible, (f"{answer.verification.get('status')}: "
-                                              f"{answer.verification.get('check')}")
-        except InputError as err:   # no reaction reaches δ anywhere in the box: nothing runs
-            if "least driving force" not in str(err):
-                raise
-            feasible, how = False, "interval bounds: no reaction can reach the least driving force"
-        if not feasible:
-            result.distance = float(np.sum(np.abs(z)))
-            result.status = "best found"
-            result.sources = _ranked(names, labels, z)
-            result.reaction_change = {rid: float(d) for rid, d in zip(ids, a @ z) if abs(d) > 1e-9}
-            result.rounds = rounds - 1
-            result.verification = verification(
-                "best found", f"the network is infeasible at the moved energies ({how}); "
-                f"the change was found by {rounds - 1} round(s) of cuts and is not proven the "
-                "smallest")
-            return
-        cut = _cut(moved, answer.solution, ids, delta)
-        if cut is None:
-            break
-        weights, constant = cut   # φ(g) = weights · g + constant
-        # φ(ḡ + A z) <= δ − ε  <=>  (weightsᵀ A) z <= δ − ε − φ(ḡ)
-        cuts_a.append(weights @ a)
-        cuts_b.append(delta - CUT_EPSILON - (weights @ mean + constant))
-        a_ub = np.array(cuts_a)
-        lp = linprog(np.ones(2 * n_z), A_ub=np.hstack([a_ub, -a_ub]), b_ub=np.array(cuts_b),
-                     bounds=[(0, MARGIN_CAP)] * (2 * n_z), method="highs")
-        if lp.status != 0:
-            break
-        z = lp.x[:n_z] - lp.x[n_z:]
-        if float(np.sum(np.abs(z))) > MARGIN_CAP:
-            break
+    with ThermoProblem(tm, _options(options, MARGIN_CAP)) as problem:
+        a = problem.slack_factor
+        names, labels = problem.slack_names, problem.slack_labels
+        ids = list(problem.energy_ids)
+        mean = np.asarray(problem.standard, float)
+        n_z = a.shape[1]
+        cuts_a: list[np.ndarray] = []
+        cuts_b: list[float] = []
+        z = np.zeros(n_z)
+        for rounds in range(1, MAX_ROUNDS + 1):
+            problem.fix_slack(z)
+            try:
+                sol = problem.solve(f"distance to an infeasible verdict ({tm.mode})")
+            except InfeasibleProblem as err:
+                result.distance = float(np.sum(np.abs(z)))
+                result.status = "best found"
+                result.sources = _ranked(names, labels, z)
+                result.reaction_change = {rid: float(d) for rid, d in zip(ids, a @ z)
+                                          if abs(d) > 1e-9}
+                result.rounds = rounds - 1
+                result.verification = verification(
+                    "best found", f"no steady state at the moved energies ({problem.solver_name}: "
+                    f"{err}); the change was found by {rounds - 1} round(s) of cuts and is not "
+                    "proven the smallest")
+                return
+            result.certificates.append(certify(problem, sol))
+            moved = with_energies(tm, dict(zip(ids, (mean + a @ z).tolist())), uncertainty=0.0)
+            cut = _cut(moved, sol, ids, delta)
+            if cut is None:
+                break
+            weights, constant = cut   # φ(g) = weights · g + constant
+            # φ(ḡ + A z) <= δ − ε  <=>  (weightsᵀ A) z <= δ − ε − φ(ḡ)
+            cuts_a.append(weights @ a)
+            cuts_b.append(delta - CUT_EPSILON - (weights @ mean + constant))
+            a_ub = np.array(cuts_a)
+            lp = linprog(np.ones(2 * n_z), A_ub=np.hstack([a_ub, -a_ub]), b_ub=np.array(cuts_b),
+                         bounds=[(0, MARGIN_CAP)] * (2 * n_z), method="highs")
+            if lp.status != 0 or float(np.sum(lp.x)) > MARGIN_CAP:
+                break
+            z = lp.x[:n_z] - lp.x[n_z:]
     result.rounds = len(cuts_a)
     result.status = f"none within {MARGIN_CAP:g} σ"
     result.verification = verification(

@@ -14,6 +14,7 @@ from .steps.coverage import CoverageStep
 from .steps.driving_force import DrivingForceStep
 from .steps.feasibility import FeasibilityStep
 from .steps.hydrogen import H2ScanStep, H2ThresholdStep
+from .steps.margins import VerdictMarginStep
 from .steps.profile import EnergyProfileStep
 from .steps.ranges import RangesStep
 from .steps.robustness import RobustnessStep
@@ -68,3 +69,4 @@ def step_ids() -> list[str]:
 for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
               DrivingForceStep(), EnergyProfileStep(), RangesStep(), RobustnessStep()):
     register_step(_step)
+register_step(VerdictMarginStep(), before="robustness")   # issue 18: distance to a flipped verdict

@@ -43,6 +43,7 @@ def register(subparsers) -> None:
                         help="comma-separated steps not to run: " + ", ".join(STEP_IDS))
     group = parser.add_argument_group("robustness")
     add_option(group, "draws", "assess", type=int)
+    add_option(group, "interval_width", "assess")
     add_option(group, "seed", "assess", type=int)
     add_option(group, "workers", "assess")
     add_deprecated(parser, "--robustness-draws", "--draws", "draws",

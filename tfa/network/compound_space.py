@@ -30,8 +30,9 @@ e.g. PTA + ACK − ACD) has yᵀg = yᵀḡ in every draw: Hess's law holds draw
   quadrature over the values; the per-reaction σ of :mod:`tfa.network.energies` adds the value
   terms linearly, which is larger).
 - **group-contribution estimates** (:mod:`tfa.thermo.group_contribution`, σ² = s²(1 + xᵀM⁻¹x) +
-  Σ_rare (n_g s)²): (i) the fit part s²xᵀM⁻¹x through a Cholesky factor of M⁻¹ shared by every
-  estimate (``group fit:<i>``); (ii) the cross-validated residual s, carried by the compound's
+  Σ_rare (n_g s)²): (i) the fit part s²xᵀM⁻¹x through the training values, s·xᵀM⁻¹Zᵀ (Z the
+  design matrix; one source per training species, ``group fit:<species>``, shared by every
+  estimate); (ii) the cross-validated residual s, carried by the compound's
   groups in proportion to their counts, s·n_g/‖n‖ on ``group:<g>``, so every estimate keeps its
   σ while two estimates correlate by the cosine of their group vectors and homologous steps that
   share all groups but one nearly cancel (our modelling choice: the residual of a group model is
@@ -229,17 +230,17 @@ def _estimate_rows(b: _Builder, key: str, name: str, counts: Mapping[str, int], 
 
     fit = gc.fits["G"]
     s = gc.cross_validation().rmse
-    chol = _fit_cholesky(id(fit), fit.inverse)
+    influence, species = _fit_influence(gc)
     x = np.zeros(len(fit.columns) + 1)
     x[0] = 1.0
     index = {c: i + 1 for i, c in enumerate(fit.columns)}
     for g, n in counts.items():
         if g in index:
             x[index[g]] = n
-    fit_row = s * (x @ chol)
+    fit_row = s * (x @ influence)
     variance = float(fit_row @ fit_row)
-    for i, value in enumerate(fit_row):
-        b.add(key, f"group fit:{i}", "the group-contribution fit", float(value))
+    for sid, value in zip(species, fit_row):
+        b.add(key, f"group fit:{sid}", f"training value {sid} of the group fit", float(value))
     norm = math.sqrt(sum(float(n) ** 2 for n in counts.values()))
     for g, n in sorted(counts.items()):
         if norm > 0:
@@ -253,14 +254,22 @@ def _estimate_rows(b: _Builder, key: str, name: str, counts: Mapping[str, int], 
         b.add(key, key, f"{name} (estimate)", math.sqrt(rest))
 
 
-_CHOLESKY: dict[int, np.ndarray] = {}
+_INFLUENCE: dict[int, tuple[np.ndarray, list[str]]] = {}
 
 
-def _fit_cholesky(token: int, inverse: np.ndarray) -> np.ndarray:
-    """Lower Cholesky factor L of M⁻¹ (L Lᵀ = M⁻¹), cached per fit."""
-    if token not in _CHOLESKY:
-        _CHOLESKY[token] = np.linalg.cholesky((inverse + inverse.T) / 2.0)
-    return _CHOLESKY[token]
+def _fit_influence(gc) -> tuple[np.ndarray, list[str]]:
+    """M⁻¹Zᵀ of the ΔfG° group fit (groups × training species) and the species ids: the change
+    of the group values per unit change of each training value, cached per fit. s²·M⁻¹ZᵀZM⁻¹
+    is the fit's covariance s²M⁻¹ less the ridge's M⁻¹ΛM⁻¹ (Λ = 1e-3 on the groups; the small
+    remainder stays in the estimate's own source)."""
+    from ..thermo.group_contribution import _design
+
+    token = id(gc)
+    if token not in _INFLUENCE:
+        fit = gc.fits["G"]
+        design = _design(gc.counts, fit.columns)
+        _INFLUENCE[token] = (fit.inverse @ design.T, [sp.id for sp in gc.species])
+    return _INFLUENCE[token]
 
 
 def canonical_stoichiometry(terms: Mapping[str, float]) -> str:

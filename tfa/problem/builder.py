@@ -380,6 +380,24 @@ class ThermoProblem(PointSearch):
         xv = self.x_vars[i]
         xv.set_bounds(float(lower), float(upper))
 
+    def fix_slack(self, z: np.ndarray | None) -> None:
+        """Fix the sources' deviations at ``z`` (σ units; None frees them again), so one built
+        problem answers for the energies ḡ + A z: ‖z‖₁ must stay within the k it was built with
+        (the big-M bounds cover that ball)."""
+        if z is None:
+            for v in self.z_plus + self.z_minus:
+                v.set_bounds(0.0, float(self.options.uncertainty_k))
+            return
+        z = np.asarray(z, float)
+        if z.shape != (len(self.z_plus),):
+            raise InputError(f"fix_slack: {len(self.z_plus)} deviations expected, got {z.shape}")
+        if float(np.sum(np.abs(z))) > self.options.uncertainty_k + 1e-9:
+            raise InputError(f"fix_slack: ‖z‖₁ = {np.sum(np.abs(z)):.4g} exceeds the k = "
+                             f"{self.options.uncertainty_k:g} the problem was built for")
+        for p, m, value in zip(self.z_plus, self.z_minus, z):
+            p.set_bounds(max(float(value), 0.0), max(float(value), 0.0))
+            m.set_bounds(max(-float(value), 0.0), max(-float(value), 0.0))
+
     def log_bounds_of(self, metabolite_id: str) -> tuple[float, float]:
         """Current (ln lo, ln hi) of one compound."""
         xv = self.x_vars[self.metabolite_index[metabolite_id]]
