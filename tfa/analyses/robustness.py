@@ -97,10 +97,23 @@ def wilson_interval(k: int, n: int, confidence: float = CONFIDENCE) -> tuple[flo
 
 
 def robustness_point(job: NetworkJob, point: dict) -> dict:
-    """Outcome of one draw (or of the mean, ``index == "mean"``) in one mode; runs in a worker."""
-    tm = job.thermo_model(point["mode"])
-    if point["index"] != MEAN:
-        cov = worker_cache(("covariance", job.token, point["mode"]), lambda: energy_covariance(tm))
+    """Outcome of one draw (or of the mean, ``index == "mean"``) in one mode; runs in a worker.
+
+    ``point["scenario"]`` says what is drawn: "energies" (default), "assumptions" (the setting's
+    ranges, :mod:`tfa.network.scenario`) or "both"; ``point["held"]`` lists assumptions held at
+    their central value."""
+    scenario = point.get("scenario", "energies")
+    changes: dict = {}
+    if scenario != "energies" and point["index"] != MEAN:
+        from ..network.scenario import draw_changes
+
+        _, environment, _ = job.objects()
+        changes = draw_changes(environment.scenario, int(point["seed"]), int(point["index"]),
+                               tuple(point.get("held", ())))
+    tm = job.scenario_model(point["mode"], changes) if changes else job.thermo_model(point["mode"])
+    if point["index"] != MEAN and scenario != "assumptions":
+        key = ("covariance", job.token, point["mode"], tuple(sorted(changes.items())))
+        cov = worker_cache(key, lambda: energy_covariance(tm))
         draw = cov.draw(int(point["seed"]), int(point["index"]))
         scale = float(point.get("sigma_scale", 1.0))
         values = cov.mean + scale * (draw - cov.mean)
@@ -108,19 +121,30 @@ def robustness_point(job: NetworkJob, point: dict) -> dict:
     return outcome(tm, job.problem_options(), job.options.get("parts", ("uphill", "threshold")))
 
 
-def robustness_points(n_draws: int, seed: int, modes: Sequence[str], sigma_scale: float = 1.0) -> list[dict]:
-    """The points of a run: the mean and draws 0..n-1 of every mode, ids ``<mode>/<index>``.
+def robustness_points(n_draws: int, seed: int, modes: Sequence[str], sigma_scale: float = 1.0,
+                      scenario: str = "energies", assumptions: Sequence[str] = ()) -> list[dict]:
+    """The points of a run: the mean and draws 0..n-1 of every mode, ids ``<mode>/<index>``;
+    with a scenario (``assumptions`` or ``both``) ids ``<mode>/<scenario>/<index>``, and per
+    assumption the same draws with it held central (``<mode>/<scenario>-held:<key>/<index>``).
 
     >>> [p["id"] for p in robustness_points(2, 7, ["native"])]
     ['native/mean', 'native/d00000', 'native/d00001']
+    >>> [p["id"] for p in robustness_points(1, 7, ["native"], scenario="both", assumptions=["pH"])]
+    ['native/mean', 'native/both/d00000', 'native/both-held:pH/d00000']
     """
+    variants = [("", ())] if scenario == "energies" else (
+        [(scenario, ())] + [(f"{scenario}-held:{key}", (key,)) for key in assumptions])
     points = []
     for mode in modes:
         points.append({"id": f"{mode}/{MEAN}", "mode": mode, "index": MEAN, "seed": int(seed),
                        "sigma_scale": float(sigma_scale)})
-        for i in range(n_draws):
-            points.append({"id": f"{mode}/d{i:05d}", "mode": mode, "index": i, "seed": int(seed),
-                           "sigma_scale": float(sigma_scale)})
+        for variant, held in variants:
+            for i in range(n_draws):
+                point = {"id": f"{mode}/{variant + '/' if variant else ''}d{i:05d}", "mode": mode,
+                         "index": i, "seed": int(seed), "sigma_scale": float(sigma_scale)}
+                if variant:
+                    point.update(scenario=scenario, variant=variant, held=list(held))
+                points.append(point)
     return points
 
 
@@ -151,12 +175,35 @@ class RobustnessResult:
     run: RunSummary | None = None
     provenance: dict = field(default_factory=dict)
     confidence: float = CONFIDENCE
+    scenario: str = "energies"
+    assumptions: list = field(default_factory=list)
+    variant: str = ""
     stopped_by: str = ""
     interval_width: float | None = None
     analysis: str = "robustness"
 
-    def _draws(self, mode: str) -> list[dict]:
-        return [r for r in self.records if r["mode"] == mode and r["draw"] != MEAN]
+    def _draws(self, mode: str, variant: str | None = None) -> list[dict]:
+        want = self.variant if variant is None else variant
+        return [r for r in self.records if r["mode"] == mode and r["draw"] != MEAN
+                and r.get("variant", "") == want]
+
+    def assumption_frame(self) -> pd.DataFrame:
+        """Per mode and assumption of the scenario: the probability of feasibility with everything
+        drawn, with the assumption held at its central value, and the change (how much of the
+        verdict's uncertainty the assumption carries)."""
+        rows = []
+        for mode in self.modes:
+            solved = [r for r in self._draws(mode) if r["error"] is None]
+            p_all = sum(1 for r in solved if r["feasible"]) / len(solved) if solved else math.nan
+            for key in self.assumptions:
+                held = [r for r in self._draws(mode, f"{self.variant}-held:{key}") if r["error"] is None]
+                p_held = sum(1 for r in held if r["feasible"]) / len(held) if held else math.nan
+                rows.append({"mode": mode, "scenario": self.scenario, "assumption": key,
+                             "probability": p_all, "probability_held_central": p_held,
+                             "probability_change": p_all - p_held, "draws": len(held)})
+        return pd.DataFrame(rows, columns=["mode", "scenario", "assumption", "probability",
+                                           "probability_held_central", "probability_change",
+                                           "draws"])
 
     def _mean(self, mode: str) -> dict | None:
         return next((r for r in self.records if r["mode"] == mode and r["draw"] == MEAN), None)
@@ -241,9 +288,12 @@ class RobustnessResult:
 
     def frames(self) -> dict[str, pd.DataFrame]:
         """Every table by name (for files)."""
-        return {"feasibility": self.feasibility_frame(), "uphill": self.uphill_frame(),
-                "uphill_set_size": self.uphill_size_frame(), "threshold": self.threshold_frame(),
-                "draws": self.records_frame()}
+        out = {"feasibility": self.feasibility_frame(), "uphill": self.uphill_frame(),
+               "uphill_set_size": self.uphill_size_frame(), "threshold": self.threshold_frame(),
+               "draws": self.records_frame()}
+        if self.assumptions:
+            out["assumptions"] = self.assumption_frame()
+        return out
 
     def tables(self) -> dict[str, pd.DataFrame]:
         """The tables of an assessment's robustness run (file stems ``robustness_...``)."""
@@ -261,6 +311,10 @@ class RobustnessResult:
                              + (f"; {row.failed_draws} draw(s) failed" if row.failed_draws else ""))
             else:
                 lines.append(f"{row.mode}: no draw solved")
+        for row in (self.assumption_frame().itertuples() if self.assumptions else ()):
+            lines.append(f"{row.mode}: {row.assumption} carries {row.probability_change:+.2f} of "
+                         f"the probability (p = {row.probability:.2f} with it drawn, "
+                         f"{row.probability_held_central:.2f} with it held at its central value)")
         if self.stopped_by:
             lines.append(f"draws stopped by {self.stopped_by}")
         return "\n".join(lines)
@@ -270,6 +324,7 @@ class RobustnessResult:
         return {"analysis": self.analysis, "summary": self.summary(), "seed": self.seed,
                 "n_draws": self.n_draws, "sigma_scale": self.sigma_scale, "modes": self.modes,
                 "confidence": self.confidence, "stopped_by": self.stopped_by,
+                "scenario": self.scenario,
                 "interval_width": self.interval_width,
                 "conditions": self.conditions.to_dict() if self.conditions else None,
                 "provenance": self.provenance,
@@ -280,6 +335,8 @@ class RobustnessResult:
 def _record(point: dict, line: dict | None) -> dict:
     base = {"mode": point["mode"], "draw": point["index"], "feasible": None, "uphill_set_size": None,
             "uphill_set": None, "h2_threshold": None, "error": None}
+    if point.get("variant"):
+        base["variant"] = point["variant"]
     if line is None:
         base["error"] = "not computed (run interrupted)"
     elif "error" in line:
@@ -295,7 +352,8 @@ def robustness(model, environment, n_draws: int = 100, seed: int = 0,
                results_path: str | Path | None = None, resume: bool = False, overwrite: bool = False,
                sigma_scale: float = 1.0, threshold: bool = True, prepare: Callable | None = None,
                progress: Callable | None = None, interval_width: float | None = None,
-               batch: int = BATCH, **problem_options: Any) -> RobustnessResult:
+               scenario: str = "energies", batch: int = BATCH,
+               **problem_options: Any) -> RobustnessResult:
     """Feasibility, minimal uphill set and H2 threshold under seeded draws of ΔrG'°.
 
     Parameters
@@ -316,6 +374,10 @@ def robustness(model, environment, n_draws: int = 100, seed: int = 0,
         (:func:`wilson_interval`, 95 %) of every mode is at most this wide, or ``n_draws`` are made
         (None: exactly ``n_draws``). The result says which stopped it (``stopped_by``)
     batch : draws per mode between two looks at the intervals
+    scenario : what is drawn: "energies" (default), "assumptions" (the ranges of the
+        environment's ``[scenario]`` alone, :mod:`tfa.network.scenario`) or "both" jointly; with
+        assumptions each is also held at its central value over the same draws, and
+        :meth:`RobustnessResult.assumption_frame` reports the change it makes
     problem_options : ``min_driving_force``, ``solver``, ``time_limit``, ``unknown_energy``
 
     Returns
@@ -333,10 +395,18 @@ def robustness(model, environment, n_draws: int = 100, seed: int = 0,
     if interval_width is not None and not (0 < interval_width <= 1):
         raise InputError(f"the interval width must lie in (0, 1], got {interval_width}")
     modes = parse_modes(list(modes))
+    if scenario not in ("energies", "assumptions", "both"):
+        raise InputError(f"scenario {scenario!r}: use energies, assumptions or both")
+    assumptions = sorted(getattr(environment, "scenario", {}) or {})
+    if scenario != "energies" and not assumptions:
+        raise InputError(f"scenario {scenario}: the environment gives no ranges; add a [scenario] "
+                         "section, e.g. \"pH_feed.h_out\" = [5.0, 6.0]")
     parts = ("uphill", "threshold") if threshold else ("uphill",)
     job = NetworkJob.create(model, environment, parts=parts, prepare=prepare, **problem_options)
     header = {"analysis": "robustness", "seed": int(seed), "modes": modes,
               "sigma_scale": float(sigma_scale), **job.describe()}
+    if scenario != "energies":
+        header["scenario"] = scenario
     function = functools.partial(robustness_point, job)
     looks = ([int(n_draws)] if interval_width is None else
              sorted(set(list(range(min(batch, n_draws), n_draws, max(1, batch))) + [int(n_draws)])))
@@ -345,7 +415,7 @@ def robustness(model, environment, n_draws: int = 100, seed: int = 0,
         seconds = 0.0
         stopped_by = f"the draw budget ({n_draws} per mode)" if interval_width is not None else ""
         for look, count in enumerate(looks):
-            points = robustness_points(count, seed, modes, sigma_scale)
+            points = robustness_points(count, seed, modes, sigma_scale, scenario, assumptions)
             summary, lines = run_and_read(points, function, path, "draws.jsonl", executor=executor,
                                           workers=workers, scheduler=scheduler,
                                           resume=resume or look > 0,
@@ -356,7 +426,8 @@ def robustness(model, environment, n_draws: int = 100, seed: int = 0,
             if summary.interrupted or interval_width is None:
                 break
             partial = RobustnessResult(modes=modes, n_draws=count, seed=int(seed),
-                                       sigma_scale=float(sigma_scale), records=records)
+                                       sigma_scale=float(sigma_scale), records=records,
+                                       variant="" if scenario == "energies" else scenario)
             frame = partial.feasibility_frame()
             widths = (frame["interval_high"] - frame["interval_low"]).fillna(1.0)
             if count < n_draws and bool((widths <= interval_width + 1e-12).all()):
@@ -368,6 +439,9 @@ def robustness(model, environment, n_draws: int = 100, seed: int = 0,
     return RobustnessResult(modes=modes, n_draws=int(count), seed=int(seed),
                             sigma_scale=float(sigma_scale), records=records, conditions=conditions,
                             run=summary, stopped_by=stopped_by, interval_width=interval_width,
+                            scenario=scenario,
+                            assumptions=assumptions if scenario != "energies" else [],
+                            variant="" if scenario == "energies" else scenario,
                             provenance={"executor": summary.executor, "seconds": summary.seconds,
                                         "results_file": str(results_path) if results_path else None,
                                         "interrupted": summary.interrupted, **job.describe()})

@@ -140,6 +140,12 @@ def register(subparsers) -> None:
                         default=1.0, metavar="F",
                         help="multiply every uncertainty by F (0: every draw is the deterministic "
                         "answer; default 1)")
+    parser.add_argument("--scenario", choices=("energies", "assumptions", "both"),
+                        default="energies",
+                        help="what to draw: the energies (default), the ranges of the setting's "
+                        "assumptions given in the environment's [scenario] section, or both "
+                        "jointly; with assumptions, each is also held at its central value and "
+                        "the change of the probability is reported")
     add_threshold_switch(parser)
     add_problem_options(parser)
     add_execution_options(parser, "robustness")
@@ -170,6 +176,7 @@ def run(args: argparse.Namespace) -> int:
                                 modes=modes, sigma_scale=args.sigma_scale,
                                 threshold=not args.no_threshold,
                                 interval_width=args.interval_width or None,
+                                scenario=args.scenario,
                                 results_path=out / "robustness.jsonl" if out else None,
                                 progress=point_progress(bar, "draws"),
                                 **dict(execution, overwrite=True), **problem_kwargs(args))
@@ -194,6 +201,9 @@ def run(args: argparse.Namespace) -> int:
     if not uphill.empty:
         write("\nminimal uphill set: how often each reaction is in it\n")
         print_table(uphill, "{:.3f}")
+    if result.assumptions:
+        write("\nassumptions of the setting: the probability with each drawn and held central\n")
+        print_table(result.assumption_frame(), "{:.3f}")
     if not args.no_threshold:
         write("\nH2 threshold (mol/L; gases bar) over the draws where it exists\n")
         print_table(result.threshold_frame(), "{:.3g}")

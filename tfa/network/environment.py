@@ -71,6 +71,7 @@ SECTIONS: dict[str, tuple[str, ...] | None] = {
     "bounds": None,
     "demand": ("reaction", "flux", "none"),
     "outlets": ("allowed",),
+    "scenario": None,   # issue 18: ranges of the assumptions (tfa.network.scenario)
 }
 REQUIRED_CONDITIONS = ("temperature_C", "pH", "ionic_strength_M")
 #: Default concentration bounds, mol/L, when a file gives none (common practice in
@@ -104,6 +105,9 @@ class Environment:
         The file read, or empty.
     no_demand : bool
         True when the file asks explicitly for no demand (``[demand] none = true``).
+    scenario : dict
+        Assumption key -> :class:`tfa.network.scenario.Assumption`: the ranges of the setting's
+        assumptions that robustness may draw (``[scenario]``).
     network_exchanges : bool
         Keep the flux bounds the network file gives its boundary reactions (every exchange open
         within them; the neutral default of :mod:`tfa.network.default_environment`) instead of
@@ -122,6 +126,7 @@ class Environment:
     source: str = ""
     no_demand: bool = False
     network_exchanges: bool = False
+    scenario: dict = field(default_factory=dict)
 
     # ---------------------------------------------------------------- reading
 
@@ -210,10 +215,17 @@ class Environment:
         overlap = sorted(set(outlets) & set(feed))
         if overlap:
             logger.info("%s: %s both fed and allowed as outlets", where, ", ".join(overlap))
+        from .scenario import parse_scenario
+
+        scenario = parse_scenario(data.get("scenario"), where)
+        missing = [k.split(".", 1)[1] for k in scenario if "." in k and k.split(".", 1)[1] not in feed]
+        if missing:
+            raise NetworkFileError(f"{where} [scenario]: {', '.join(missing)} is not fed in [feed]; a "
+                                   "scenario changes the activity of a fed compound only")
         return cls(name=name.strip(), conditions=conditions, feed=feed, default_bounds=default_bounds,
                    bounds=bounds, demand_reaction=demand_reaction, demand_flux=demand_flux,
                    outlets=tuple(outlets), description=description, source=source,
-                   no_demand=no_demand)
+                   no_demand=no_demand, scenario=scenario)
 
     # ---------------------------------------------------------------- copies for scans
 
