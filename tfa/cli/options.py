@@ -185,8 +185,10 @@ def add_problem_options(parser: argparse.ArgumentParser) -> None:
                        help="MILP solver (default: the measured best available)")
     group.add_argument("--k-sigma", type=gated(minimum=0.0, maximum=numbers.MAX_K_SIGMA),
                        default=0.0, metavar="K",
-                       help="let each reaction energy move by K standard uncertainties (0-"
-                       f"{numbers.MAX_K_SIGMA:g}; default 0)")
+                       help="let the energies move by K standard uncertainties in total, in "
+                       "compound space: the formation energies' sources (species data, reaction "
+                       "values, groups) together by at most K of their σ, so identities and loops "
+                       f"stay consistent (0-{numbers.MAX_K_SIGMA:g}; default 0)")
     group.add_argument("--min-driving-force", metavar="KJ",
                        type=gated(minimum=0.0, maximum=numbers.MAX_DRIVING_FORCE),
                        help="least driving force of a reaction carrying flux, kJ/mol (default 0.1)")
