@@ -184,7 +184,7 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("route_bottlenecks", "reactions at the named route's max-min driving force", ""),
     ("command", "the command that printed the JSON", ""),
     ("tables", "every table of the answer: file stem -> rows", ""),
-    # issue 18: compound-space uncertainty, verdict margins, intervals, scenario draws
+    # compound-space uncertainty, verdict margins, intervals, scenario draws
     ("margin_sigma", "least total change of the energies' sources (L1 norm, in units of each "
                      "source's σ) that flips the verdict", "σ"),
     ("margin_status", "how the margin was found: proven (exact minimum), best found (a verified "

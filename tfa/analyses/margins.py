@@ -41,6 +41,7 @@ from __future__ import annotations
 import logging
 import math
 from dataclasses import dataclass, field
+from typing import Callable
 
 import numpy as np
 import pandas as pd
@@ -55,6 +56,8 @@ log = logging.getLogger(__name__)
 
 #: Largest distance searched, σ (the cap of --k-sigma, tfa.util.numbers.MAX_K_SIGMA).
 MARGIN_CAP = 10.0
+#: Growing caps of the exact search of an infeasible verdict, σ.
+CAPS = (0.5, 1.0, 2.0, 4.0, MARGIN_CAP)
 #: Rounds of cuts of a feasible verdict's search.
 MAX_ROUNDS = 12
 #: How far below δ a cut puts a blocked way of running, kJ/mol (so the solvers see it blocked).
@@ -137,7 +140,8 @@ def _words(items: list[str]) -> str:
 
 
 def verdict_margin(tm: ThermoModel, options: ProblemOptions | None = None,
-                   feasible: bool | None = None) -> MarginResult:
+                   feasible: bool | None = None,
+                   progress: Callable[[str], None] | None = None) -> MarginResult:
     """The smallest change of the energies (σ, L1 in whitened compound space) that flips the
     verdict of ``tm`` (module text).
 
@@ -146,6 +150,7 @@ def verdict_margin(tm: ThermoModel, options: ProblemOptions | None = None,
     tm : ThermoModel
     options : ProblemOptions — solver, time limit, least driving force (its slack is ignored)
     feasible : the verdict when already known (else it is computed)
+    progress : called with a few words before each solve (e.g. "within 2σ", "round 3")
 
     Returns
     -------
@@ -165,10 +170,11 @@ def verdict_margin(tm: ThermoModel, options: ProblemOptions | None = None,
         feasible = feasibility(tm, base, diagnose=False).feasible
     result = MarginResult(conditions=tm.conditions, mode=tm.mode, feasible=bool(feasible))
     result.provenance = provenance_of(tm, options)
+    tell = progress or (lambda _text: None)
     if feasible:
-        _to_infeasible(tm, base, result)
+        _to_infeasible(tm, base, result, tell)
     else:
-        _to_feasible(tm, options, result)
+        _to_feasible(tm, options, result, tell)
     return result
 
 
@@ -178,38 +184,48 @@ def _options(options: ProblemOptions, k: float) -> ProblemOptions:
     return replace(options, uncertainty_k=k, uphill=False, driving_force=False)
 
 
-def _to_feasible(tm: ThermoModel, options: ProblemOptions, result: MarginResult) -> None:
-    """Infeasible verdict: the exact MILP min ‖z‖₁ with the compound-space slack."""
+def _to_feasible(tm: ThermoModel, options: ProblemOptions, result: MarginResult,
+                 tell: Callable[[str], None]) -> None:
+    """Infeasible verdict: the exact MILP min ‖z‖₁ with the compound-space slack, within caps
+    of growing size (:data:`CAPS`): the first cap with a point holds the global minimum (any
+    smaller change lies within it too), and small caps give tight big-M bounds."""
     from .results import optimum_words
 
-    opts = _options(options, MARGIN_CAP)
-    with ThermoProblem(tm, opts) as problem:
-        problem.set_objective({v: 1.0 for v in problem.z_plus + problem.z_minus}, "min")
-        try:
-            sol = problem.solve(f"distance to a feasible verdict ({tm.mode})", accept_best=True)
-        except InfeasibleProblem:
-            result.status = f"none within {MARGIN_CAP:g} σ"
-            result.verification = verification(
-                "solver proof", f"no steady state even with the energies moved by {MARGIN_CAP:g}σ "
-                f"({problem.solver_name})")
-            result.rounds = 1
+    for rounds, cap in enumerate(CAPS, start=1):
+        tell(f"within {cap:g}σ")
+        with ThermoProblem(tm, _options(options, cap)) as problem:
+            problem.set_objective({v: 1.0 for v in problem.z_plus + problem.z_minus}, "min")
+            try:
+                sol = problem.solve(f"distance to a feasible verdict ({tm.mode})", accept_best=True)
+            except InfeasibleProblem:
+                continue
+            _fill_feasible(problem, sol, result, optimum_words)
+            result.rounds = rounds
             return
-        cert = certify(problem, sol)
-        result.certificates.append(cert)
-        z = np.asarray(sol.slack_coordinates, float)
-        result.distance = float(np.sum(np.abs(z)))
-        status, details = optimum_words(sol, "the distance")
-        result.status = status
-        result.sources = _ranked(problem.slack_names, problem.slack_labels, z)
-        result.reaction_change = {rid: float(e) for rid, e in zip(problem.energy_ids, sol.slack)
-                                  if abs(e) > 1e-9}
-        result.rounds = 1
-        result.verification = verification(
-            status, certificate_words(cert, "the steady state at the moved energies")
-            + f"; least ‖z‖₁ by {sol.solver}", **details)
+    result.status = f"none within {MARGIN_CAP:g} σ"
+    result.verification = verification(
+        "solver proof", f"no steady state even with the energies moved by {MARGIN_CAP:g}σ")
+    result.rounds = len(CAPS)
 
 
-def _to_infeasible(tm: ThermoModel, options: ProblemOptions, result: MarginResult) -> None:
+def _fill_feasible(problem: ThermoProblem, sol, result: MarginResult, optimum_words) -> None:
+    """The answer of an infeasible verdict from the least-change point ``sol``."""
+    cert = certify(problem, sol)
+    result.certificates.append(cert)
+    z = np.asarray(sol.slack_coordinates, float)
+    result.distance = float(np.sum(np.abs(z)))
+    status, details = optimum_words(sol, "the distance")
+    result.status = status
+    result.sources = _ranked(problem.slack_names, problem.slack_labels, z)
+    result.reaction_change = {rid: float(e) for rid, e in zip(problem.energy_ids, sol.slack)
+                              if abs(e) > 1e-9}
+    result.verification = verification(
+        status, certificate_words(cert, "the steady state at the moved energies")
+        + f"; least ‖z‖₁ by {sol.solver}", **details)
+
+
+def _to_infeasible(tm: ThermoModel, options: ProblemOptions, result: MarginResult,
+                   tell: Callable[[str], None]) -> None:
     """Feasible verdict: cuts from the steady states found, until none is left (module text).
     One problem is built (slack up to :data:`MARGIN_CAP`) and each round fixes its deviations."""
     from scipy.optimize import linprog
@@ -225,6 +241,7 @@ def _to_infeasible(tm: ThermoModel, options: ProblemOptions, result: MarginResul
         cuts_b: list[float] = []
         z = np.zeros(n_z)
         for rounds in range(1, MAX_ROUNDS + 1):
+            tell(f"round {rounds}")
             problem.fix_slack(z)
             try:
                 sol = problem.solve(f"distance to an infeasible verdict ({tm.mode})")

@@ -40,7 +40,7 @@ NOT_APPLICABLE = "not applicable"
 #: Draws per mode of the robustness step of an assessment (a small run; about 1.5 s per draw on
 #: the bundled network; ``tfa robustness`` runs large ones).
 ASSESSMENT_DRAWS = 20
-#: Width at which the assessment's draws stop (sequential stopping, issue 18).
+#: Width at which the assessment's draws stop (sequential stopping).
 ASSESSMENT_INTERVAL_WIDTH = 0.3
 
 

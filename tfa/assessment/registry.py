@@ -69,4 +69,4 @@ def step_ids() -> list[str]:
 for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
               DrivingForceStep(), EnergyProfileStep(), RangesStep(), RobustnessStep()):
     register_step(_step)
-register_step(VerdictMarginStep(), before="robustness")   # issue 18: distance to a flipped verdict
+register_step(VerdictMarginStep(), before="robustness")   # the distance to a flipped verdict

@@ -71,7 +71,7 @@ SECTIONS: dict[str, tuple[str, ...] | None] = {
     "bounds": None,
     "demand": ("reaction", "flux", "none"),
     "outlets": ("allowed",),
-    "scenario": None,   # issue 18: ranges of the assumptions (tfa.network.scenario)
+    "scenario": None,   # ranges of the assumptions (tfa.network.scenario)
 }
 REQUIRED_CONDITIONS = ("temperature_C", "pH", "ionic_strength_M")
 #: Default concentration bounds, mol/L, when a file gives none (common practice in

@@ -28,8 +28,12 @@ class VerdictMarginStep(Step):
         for k, mode in enumerate(modes):
             ctx.tick(k, len(modes), f"modes ({mode})")
             verdict = ctx.feasibility(mode).feasible
-            answer = ctx.attempt(f"verdict margin ({mode})", lambda mode=mode, verdict=verdict:
-                                 verdict_margin(ctx.thermo_model(mode), ctx.options, verdict))
+            def tell(text: str, k: int = k, mode: str = mode) -> None:
+                ctx.tick(k, len(modes), f"modes ({mode}: {text})")
+
+            answer = ctx.attempt(f"verdict margin ({mode})", lambda mode=mode, verdict=verdict,
+                                 tell=tell: verdict_margin(ctx.thermo_model(mode), ctx.options,
+                                                           verdict, progress=tell))
             if answer is not None:
                 out[mode] = answer
         return out
