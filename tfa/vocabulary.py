@@ -159,6 +159,25 @@ COLUMNS: dict[str, Term] = _terms(
     ("ionic_strength_mol_per_L", "ionic strength", "mol/L"),
     ("pressure_bar", "pressure", "bar"),
     ("pMg", "-log10 of the free Mg2+ activity", ""),
+    # compound-space uncertainty, verdict margins, intervals, scenario draws
+    ("margin_sigma", "least total change of the energies' sources (L1 norm, in units of each "
+                     "source's σ) that flips the verdict", "σ"),
+    ("margin_status", "how the margin was found: proven (exact minimum), best found (a verified "
+                      "flip), or none within the cap", ""),
+    ("carried_by", "the sources carrying most of the change, with their shares", ""),
+    ("rounds", "linear programs of cuts the search of a margin took", ""),
+    ("label", "a source of uncertainty in plain words", ""),
+    ("deviation_sigma", "deviation of one source, in units of its σ", "σ"),
+    ("share", "fraction of the total change carried by one source", ""),
+    ("interval_low", "lower end of the Wilson score interval of the probability", ""),
+    ("interval_high", "upper end of the Wilson score interval of the probability", ""),
+    ("confidence", "confidence level of the intervals", ""),
+    ("stopped_by", "why the draws stopped: the interval width reached, or the draw budget", ""),
+    ("assumption", "an assumption of the setting drawn in a scenario run", ""),
+    ("probability_held_central", "probability with this assumption held at its central value", ""),
+    ("probability_change", "probability minus the probability with the assumption held central",
+     ""),
+    ("scenario", "what was drawn: energies, assumptions, or both", ""),
 )
 
 #: Keys of ``summary.json`` besides table columns.
@@ -184,26 +203,7 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("route_bottlenecks", "reactions at the named route's max-min driving force", ""),
     ("command", "the command that printed the JSON", ""),
     ("tables", "every table of the answer: file stem -> rows", ""),
-    # compound-space uncertainty, verdict margins, intervals, scenario draws
-    ("margin_sigma", "least total change of the energies' sources (L1 norm, in units of each "
-                     "source's σ) that flips the verdict", "σ"),
-    ("margin_status", "how the margin was found: proven (exact minimum), best found (a verified "
-                      "flip), or none within the cap", ""),
-    ("carried_by", "the sources carrying most of the change, with their shares", ""),
-    ("rounds", "linear programs of cuts the search of a margin took", ""),
-    ("label", "a source of uncertainty in plain words", ""),
-    ("deviation_sigma", "deviation of one source, in units of its σ", "σ"),
-    ("share", "fraction of the total change carried by one source", ""),
     ("verdict_margins", "per mode, the distance to a flipped verdict", ""),
-    ("interval_low", "lower end of the Wilson score interval of the probability", ""),
-    ("interval_high", "upper end of the Wilson score interval of the probability", ""),
-    ("confidence", "confidence level of the intervals", ""),
-    ("stopped_by", "why the draws stopped: the interval width reached, or the draw budget", ""),
-    ("assumption", "an assumption of the setting drawn in a scenario run", ""),
-    ("probability_held_central", "probability with this assumption held at its central value", ""),
-    ("probability_change", "probability minus the probability with the assumption held central",
-     ""),
-    ("scenario", "what was drawn: energies, assumptions, or both", ""),
 )
 
 #: Symbols used in text: key -> (Unicode, ASCII fallback).
