@@ -241,6 +241,25 @@ COLUMNS: dict[str, Term] = _terms(
     ("ionic_strength_mol_per_L", "ionic strength", "mol/L"),
     ("pressure_bar", "pressure", "bar"),
     ("pMg", "-log10 of the free Mg2+ activity", ""),
+    # compound-space uncertainty, verdict margins, intervals, scenario draws
+    ("margin_sigma", "least total change of the energies' sources (L1 norm, in units of each "
+                     "source's σ) that flips the verdict", "σ"),
+    ("margin_status", "how the margin was found: proven (exact minimum), best found (a verified "
+                      "flip), or none within the cap", ""),
+    ("carried_by", "the sources carrying most of the change, with their shares", ""),
+    ("rounds", "linear programs of cuts the search of a margin took", ""),
+    ("label", "a source of uncertainty in plain words", ""),
+    ("deviation_sigma", "deviation of one source, in units of its σ", "σ"),
+    ("share", "fraction of the total change carried by one source", ""),
+    ("interval_low", "lower end of the Wilson score interval of the probability", ""),
+    ("interval_high", "upper end of the Wilson score interval of the probability", ""),
+    ("confidence", "confidence level of the intervals", ""),
+    ("stopped_by", "why the draws stopped: the interval width reached, or the draw budget", ""),
+    ("assumption", "an assumption of the setting drawn in a scenario run", ""),
+    ("probability_held_central", "probability with this assumption held at its central value", ""),
+    ("probability_change", "probability minus the probability with the assumption held central",
+     ""),
+    ("scenario", "what was drawn: energies, assumptions, or both", ""),
 )
 
 # per-precursor verdicts; the order and count of minimal sets; the energy to supply
@@ -327,6 +346,7 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("standard_state", "what ΔrG'° refers to: every compound at 1 mol/L (gases 1 bar) at the "
                        "environment's pH; for a reaction across a membrane, each compound at its "
                        "compartment's pH and electric potential", ""),
+    ("verdict_margins", "per mode, the distance to a flipped verdict", ""),
 )
 
 #: Symbols used in text: key -> (Unicode, ASCII fallback).
@@ -413,6 +433,9 @@ OPTIONS: dict[str, Option] = {
                   "no files)", None, "DIR"),
     "seed": Option(("--seed",), "seed of the draws of the energies (default %(default)s)", 0, "S"),
     "draws": Option(("--draws",), "draws of the energies per mode (default %(default)s)", 100, "N"),
+    "interval_width": Option(("--interval-width",), "draw until every 95 %% Wilson interval of a "
+                             "probability is at most W wide, or --draws are made (0: exactly "
+                             "--draws; default %(default)s)", 0.1, "W"),
     "network_data": Option(("--network",), "a network (reactions table or folder, SBML or cobra "
                            "JSON) whose own data and compound names are used instead of the "
                            "library's (species data, its reaction_values.tsv, estimates)", None,

@@ -121,6 +121,11 @@ class NetworkJob:
         :data:`tfa.vocabulary.DEFAULT_H2_RANGE` unless the run names another)."""
         return tuple(self.options.get("h2_range", DEFAULT_H2_RANGE))
 
+    def scenario_model(self, mode: str, changes: Mapping[str, float]) -> ThermoModel:
+        """The prepared model of ``mode`` with a scenario's drawn assumptions
+        (:func:`_scenario_model`)."""
+        return _scenario_model(self, mode, changes)
+
     def thermo_model(self, mode: str, changes: Mapping[str, float] | None = None) -> ThermoModel:
         """The prepared model of ``mode`` at the environment with ``changes`` (see
         :func:`changed_environment`), cached per worker."""
@@ -139,6 +144,48 @@ class NetworkJob:
                 cache.popitem(last=False)
         cache.move_to_end(key)
         return fresh_copy(*cache[key])
+
+
+def _scenario_model(job: "NetworkJob", mode: str, changes: Mapping[str, float]) -> ThermoModel:
+    """The prepared model of ``mode`` with a scenario's drawn assumptions
+    (:mod:`tfa.network.scenario`): a change of the conditions prepares the network again
+    (cached per worker); a change of fed activities only replaces those compounds' fixed
+    log-activities on the prepared model (the energies do not depend on them)."""
+    from ..network.scenario import CONDITION_KEYS, apply_changes
+
+    model, environment, custom = job.objects()
+    conditions = {k: v for k, v in changes.items() if k in CONDITION_KEYS}
+    feeds = {k: v for k, v in changes.items() if k not in CONDITION_KEYS}
+    if conditions:
+        key = (mode, "scenario", tuple(sorted(conditions.items())))
+        cache: OrderedDict = worker_cache(("prepared", job.token), OrderedDict)
+        if key not in cache:
+            from ..network.energies import prepare
+
+            env = apply_changes(environment, conditions)
+            tm = (custom or prepare)(model, env, mode)
+            cache[key] = (tm, pickle.dumps(tm.model, protocol=pickle.HIGHEST_PROTOCOL))
+            while len(cache) > PREPARED_CACHE_SIZE:
+                cache.popitem(last=False)
+        cache.move_to_end(key)
+        tm = fresh_copy(*cache[key])
+    else:
+        tm = job.thermo_model(mode)
+    if feeds:
+        env = apply_changes(environment, feeds)
+        bounds = dict(tm.log_bounds)
+        for name in feeds:
+            compound = name.split(".", 1)[1]
+            met = env.resolve(tm.model, compound)
+            if met.id in bounds:
+                value = math.log(env.feed[compound])
+                bounds[met.id] = (value, value)
+        copy = replace(tm, log_bounds=bounds)
+        for extra in ("compound_table", "all_energies"):
+            if hasattr(tm, extra):
+                setattr(copy, extra, getattr(tm, extra))
+        tm = copy
+    return tm
 
 
 def fresh_copy(tm: ThermoModel, model_bytes: bytes) -> ThermoModel:

@@ -39,7 +39,9 @@ ProgressCallback = Callable[[str, int, int], None]
 NOT_APPLICABLE = "not applicable"
 #: Draws per mode of the robustness step of an assessment (a small run; about 1.5 s per draw on
 #: the bundled network; ``tfa robustness`` runs large ones).
-ASSESSMENT_DRAWS = 4
+ASSESSMENT_DRAWS = 20
+#: Width at which the assessment's draws stop (sequential stopping).
+ASSESSMENT_INTERVAL_WIDTH = 0.3
 
 
 @dataclass
@@ -69,7 +71,10 @@ class Settings:
     ratio : float
         Substrate:product ratio of the census's third reference state.
     draws : int
-        Draws of the energies per mode for the robustness step (0: skip it).
+        Draws of the energies per mode for the robustness step, at most (0: skip it).
+    interval_width : float
+        The draws stop once every 95 % Wilson interval is at most this wide (0: exactly
+        ``draws``).
     seed : int
         Seed of the draws.
     workers : int
@@ -91,6 +96,7 @@ class Settings:
     ranges_compounds: bool = False
     ratio: float = 100.0
     draws: int = ASSESSMENT_DRAWS
+    interval_width: float = ASSESSMENT_INTERVAL_WIDTH
     seed: int = 0
     workers: int = 1
     include_unreviewed: bool = False
@@ -117,6 +123,8 @@ class Settings:
             self.h2_values = values
         self.ratio = read_number(self.ratio, "substrate:product ratio", above=0.0)
         self.draws = read_count(self.draws, "draws", minimum=0, maximum=MAX_DRAWS, text=False)
+        self.interval_width = read_number(self.interval_width, "interval width", minimum=0.0,
+                                          maximum=1.0)
         self.seed = read_count(self.seed, "seed", minimum=0, maximum=MAX_SEED, text=False)
         self.workers = read_count(self.workers, "workers", maximum=MAX_WORKERS, text=False)
         if self.route is not None and not isinstance(self.route, list):

@@ -18,6 +18,7 @@ from .steps.feasibility import FeasibilityStep
 from .steps.gradient import GradientStep
 from .steps.hydrogen import H2ScanStep, H2ThresholdStep
 from .steps.precursors import PrecursorStep
+from .steps.margins import VerdictMarginStep
 from .steps.profile import EnergyProfileStep
 from .steps.ranges import RangesStep
 from .steps.robustness import RobustnessStep
@@ -75,3 +76,4 @@ for _step in (CoverageStep(), FeasibilityStep(), EnergyBudgetStep(), CensusStep(
 register_step(GradientStep(), before="driving_force")
 register_step(BindingStep(), before="energy_profile")   # after the answers it reads
 register_step(PrecursorStep(), before="census")  # each precursor alone
+register_step(VerdictMarginStep(), before="robustness")   # the distance to a flipped verdict

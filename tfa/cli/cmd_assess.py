@@ -15,7 +15,7 @@ from .step_command import run_step_command
 #: checked against it by the tests, so that the help can stay free of heavy imports).
 STEP_IDS = ("coverage", "feasibility", "energy_budget", "precursors", "census", "h2_scan",
             "h2_threshold", "gradient", "driving_force", "binding_constraints", "energy_profile",
-            "ranges", "robustness")
+            "ranges", "verdict_margins", "robustness")
 
 
 def register(subparsers) -> None:
@@ -45,6 +45,7 @@ def register(subparsers) -> None:
                         help="comma-separated steps not to run: " + ", ".join(STEP_IDS))
     group = parser.add_argument_group("robustness")
     add_option(group, "draws", "assess", type=int)
+    add_option(group, "interval_width", "assess")
     add_option(group, "seed", "assess", type=int)
     add_option(group, "workers", "assess")
     add_deprecated(parser, "--robustness-draws", "--draws", "draws",

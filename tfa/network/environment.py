@@ -93,6 +93,7 @@ SECTIONS: dict[str, tuple[str, ...] | None] = {
     "cofactors": None,   # checked by tfa.network.cofactors
     "fluid": None,       # checked by tfa.network.fluid
     "mixing": None,      # checked by tfa.network.mixing_line
+    "scenario": None,   # ranges of the assumptions (tfa.network.scenario)
 }
 #: Keys of one ``[compartments.ID]`` table.
 COMPARTMENT_KEYS = ("name", "pH", "ionic_strength_M", "pMg", "membrane_potential_mV")
@@ -128,6 +129,9 @@ class Environment:
         The file read, or empty.
     no_demand : bool
         True when the file asks explicitly for no demand (``[demand] none = true``).
+    scenario : dict
+        Assumption key -> :class:`tfa.network.scenario.Assumption`: the ranges of the setting's
+        assumptions that robustness may draw (``[scenario]``).
     network_exchanges : bool
         Keep the flux bounds the network file gives its boundary reactions (every exchange open
         within them; the neutral default of :mod:`tfa.network.default_environment`) instead of
@@ -168,6 +172,7 @@ class Environment:
     cofactors: CofactorStates | None = None
     fluid: dict[str, float] = field(default_factory=dict)
     mixing: MixingLine | None = None
+    scenario: dict = field(default_factory=dict)
 
     # ---------------------------------------------------------------- reading
 
@@ -273,11 +278,18 @@ class Environment:
         compartments = _compartments(where, data.get("compartments", {}))
         ions = {str(rid): _real(where, "ion_stoichiometry", rid, value, minimum=0.0, maximum=20.0)
                 for rid, value in data.get("ion_stoichiometry", {}).items()}
+        from .scenario import parse_scenario
+
+        scenario = parse_scenario(data.get("scenario"), where)
+        missing = [k.split(".", 1)[1] for k in scenario if "." in k and k.split(".", 1)[1] not in feed]
+        if missing:
+            raise NetworkFileError(f"{where} [scenario]: {', '.join(missing)} is not fed in [feed]; a "
+                                   "scenario changes the activity of a fed compound only")
         return cls(name=name.strip(), conditions=conditions, feed=feed, default_bounds=default_bounds,
                    bounds=bounds, demand_reaction=demand_reaction, demand_flux=demand_flux,
                    outlets=tuple(outlets), description=description, source=source,
                    no_demand=no_demand, compartments=compartments, ion_stoichiometry=ions,
-                   cofactors=cofactors, fluid=fluid, mixing=mixing)
+                   cofactors=cofactors, fluid=fluid, mixing=mixing, scenario=scenario)
 
     # ---------------------------------------------------------------- copies for scans
 

@@ -13,7 +13,8 @@ Biophys. J. 92:1792) and verifies, within stated tolerances:
 1. mass balance: |S v|_inf <= 1e-6 s (steady state);
 2. flux bounds: lower - 1e-6 s <= v <= upper + 1e-6 s;
 3. concentration bounds: ln c_min <= x <= ln c_max (to 1e-6);
-4. uncertainty slack: |eps_j| <= k sigma_j (to 1e-6 E);
+4. uncertainty slack: eps = A z with ||z||_1 <= k in compound space (or |eps_j| <= k sigma_j
+   when no factor is given) (to 1e-6 E);
 5. second law: a reaction carrying flux (|v| > 1e-9 s) forward has g_j <= -delta, backward
    g_j >= +delta (to 1e-6 E), except the reactions listed as allowed uphill (minimal uphill sets).
 
@@ -91,6 +92,9 @@ class CertificateInput:
         lower <= sum a_i x_i <= upper, checked to 1e-6.
     pools : list of (columns, total, allowed relative excess, text)
         Pool totals: sum_i exp(x_i) <= total (1 + excess), checked on the concentrations.
+    slack_factor, slack_coordinates : ndarray or None
+        A (reactions with an energy × sources) and z: with a factor, the slack must be
+        eps = A z with ‖z‖₁ <= k (slack in compound space) instead of |eps_j| <= k sigma_j.
     """
 
     reaction_ids: list[str]
@@ -121,6 +125,8 @@ class CertificateInput:
     energy_scale: float = 1.0
     log_rows: list = field(default_factory=list)
     pools: list = field(default_factory=list)
+    slack_factor: np.ndarray | None = None
+    slack_coordinates: np.ndarray | None = None
 
 
 @dataclass
@@ -257,10 +263,28 @@ def check_solution(data: CertificateInput) -> Certificate:
 
     # 4. uncertainty slack
     slack = np.asarray(data.slack, float)
-    allowed = data.uncertainty_k * np.asarray(data.sigma, float)
-    slack_excess = np.abs(slack) - allowed
-    slack_violation = float(max(0.0, np.max(slack_excess))) if slack.size else 0.0
-    if slack_violation > energy_tol:
+    factor = data.slack_factor
+    if factor is not None and np.asarray(factor).size:
+        z = np.asarray(data.slack_coordinates if data.slack_coordinates is not None else [], float)
+        if z.shape != (np.asarray(factor).shape[1],):
+            z = np.zeros(np.asarray(factor).shape[1])
+        norm_excess = float(np.sum(np.abs(z)) - data.uncertainty_k)
+        mismatch = np.abs(slack - np.asarray(factor, float) @ z) if slack.size else np.zeros(0)
+        slack_violation = max(0.0, norm_excess, float(np.max(mismatch)) if mismatch.size else 0.0)
+        if norm_excess > LOG_TOLERANCE:
+            failures.append(f"uncertainty slack: the sources move by {np.sum(np.abs(z)):.6g} "
+                            f"standard units in total, more than k = {data.uncertainty_k:g}")
+        elif mismatch.size and float(np.max(mismatch)) > energy_tol:
+            j = int(np.argmax(mismatch))
+            rid = data.reaction_ids[int(data.energy_reaction_index[j])]
+            failures.append(f"uncertainty slack: reaction {rid} uses {slack[j]:.4g} kJ/mol, not "
+                            "the change its compounds' deviations give")
+        slack_excess = np.zeros(0)
+    else:
+        allowed = data.uncertainty_k * np.asarray(data.sigma, float)
+        slack_excess = np.abs(slack) - allowed
+        slack_violation = float(max(0.0, np.max(slack_excess))) if slack.size else 0.0
+    if slack_excess.size and slack_violation > energy_tol:
         j = int(np.argmax(slack_excess))
         rid = data.reaction_ids[int(data.energy_reaction_index[j])]
         failures.append(f"uncertainty slack: reaction {rid} uses {slack[j]:.4g} kJ/mol, more than "
