@@ -100,3 +100,28 @@ def test_infeasible_when_no_choice_helps():
     tm.energies["R2"].standard = 50.0
     result = fewest_couplings(tm)
     assert not result.feasible and "infeasible" in result.message
+
+
+def test_bundled_amino_acids_need_formate_activation_alone():
+    """Glycine, alanine, aspartate, glutamate and serine from H2 + CO2 at the demo setting: the
+    one indispensable ATP step is formate activation (formate-tetrahydrofolate ligase, FTHFS),
+    the ATP coming from the proton-gradient ATP synthase. Expected from the pathway logic of the
+    acetyl-CoA pathway (Fuchs 2011, Annu. Rev. Microbiol. 65:631: the methyl branch spends one
+    ATP at formyl-THF synthetase; from memory); the ATP-free detour (formate reduced to
+    formaldehyde) runs about 21 kJ/mol uphill (README of the bundled network)."""
+    from tfa.network.energies import prepare
+    from tfa.network.inputs import load_environment, load_network
+    from tfa.problem.builder import ProblemOptions
+
+    model, env = load_network(), load_environment()
+    demand = model.reactions.get_by_id(env.demand_reaction)
+    keep = {"gly", "ala", "asp", "glu", "ser"}
+    demand.add_metabolites({m: -c for m, c in demand.metabolites.items() if m.id not in keep})
+    tm = prepare(model, env, "coupling_choice")
+    result = fewest_couplings(tm, ProblemOptions(solver="highs"), alternatives=3)
+    assert result.sets == [["FTHFS"]]
+    assert result.exhausted and result.verification["status"] == "proven"
+    assert result.made_by[0] == ["ATPS_GRAD"]
+    # the coupling adds the ATP hydrolysis energy at the setting: +40.0 kJ/mol (README: ΔrG'° =
+    # +40.0 kJ/mol for ADP + Pi -> ATP + H2O at the setting)
+    assert result.pairs["FTHFS"].coupling_energy == pytest.approx(40.0, abs=0.1)

@@ -161,6 +161,23 @@ COLUMNS: dict[str, Term] = _terms(
     ("pMg", "-log10 of the free Mg2+ activity", ""),
 )
 
+# issue 20: fewest couplings, currencies, routes
+COLUMNS.update(_terms(
+    ("precursor", "a compound of the demand asked alone ('(whole demand)' for the demand)", ""),
+    ("coupling_role", "what an ATP-coupled step did: spends ATP (a coupling kept) or makes ATP "
+                      "(energy conservation, not counted)", ""),
+    ("bonds", "phosphoanhydride bonds the step spends per unit of flux in its direction "
+              "(negative: it makes them)", ""),
+    ("coupling_energy_kJ_per_mol", "ΔrG'° the ATP coupling adds to a step in its direction "
+                                   "(ΔrG'° of the bare chemistry minus that of the coupled step)",
+     "kJ/mol"),
+    ("couplings_kept", "fewest ATP couplings kept (steps spending ATP) with every step downhill",
+     ""),
+    ("sets_found", "number of optimal sets found", ""),
+    ("exhausted", "every optimal set is listed", ""),
+    ("coupling_sets", "the optimal sets of kept couplings, sets separated by '; '", ""),
+))
+
 #: Keys of ``summary.json`` besides table columns.
 SUMMARY_KEYS: dict[str, Term] = _terms(
     ("network", "network id", ""),

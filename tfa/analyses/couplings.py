@@ -45,7 +45,7 @@ log = logging.getLogger(__name__)
 #: The objectives of :func:`fewest_couplings`.
 COUPLING_OBJECTIVES = ("count", "energy")
 #: Minimal sets enumerated at most (for the stable order) before the rest is left unlisted.
-MAX_ENUMERATED = 20
+MAX_ENUMERATED = 10
 #: Columns of the ``fewest_couplings`` table (one row per coupling of each set, per demand).
 COUPLING_COLUMNS = ["precursor", "set", "reaction", "direction", "coupling_role", "bonds",
                     "coupling_energy_kJ_per_mol", "flux"]

@@ -11,6 +11,7 @@ from ..errors import InputError
 from .step import Step
 from .steps.census import CensusStep
 from .steps.coverage import CoverageStep
+from .steps.couplings import FewestCouplingsStep
 from .steps.driving_force import DrivingForceStep
 from .steps.feasibility import FeasibilityStep
 from .steps.hydrogen import H2ScanStep, H2ThresholdStep
@@ -68,3 +69,4 @@ def step_ids() -> list[str]:
 for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
               DrivingForceStep(), EnergyProfileStep(), RangesStep(), RobustnessStep()):
     register_step(_step)
+register_step(FewestCouplingsStep())   # issue 20

@@ -32,6 +32,7 @@ COMMANDS: dict[str, str] = {
     "new-network": "cmd_new_network",
     "robustness": "cmd_robustness",
     "map": "cmd_map",
+    "couplings": "cmd_couplings",
 }
 
 

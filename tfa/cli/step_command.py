@@ -27,7 +27,7 @@ def settings_from_args(args: argparse.Namespace) -> "Settings":
     from ..assessment.context import Settings
 
     given: dict = {}
-    for name in ("modes", "mode", "alternatives", "seed", "ratio", "draws"):
+    for name in ("modes", "mode", "alternatives", "seed", "ratio", "draws", "coupling_objective"):
         if getattr(args, name, None) is not None:
             given[name] = getattr(args, name)
     if getattr(args, "h2_range", None) is not None:
