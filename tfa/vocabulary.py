@@ -176,6 +176,12 @@ COLUMNS.update(_terms(
     ("sets_found", "number of optimal sets found", ""),
     ("exhausted", "every optimal set is listed", ""),
     ("coupling_sets", "the optimal sets of kept couplings, sets separated by '; '", ""),
+    ("currency", "what pays for the ATP-coupled steps: ATP, acetyl_phosphate, thioester, "
+                 "pyrophosphate, polyphosphate, or none (ATP removed or bare chemistry)", ""),
+    ("carriers", "electron carriers kept, or H2 in their place", ""),
+    ("precursors_made", "precursors the mode makes alone with every step downhill, joined by ', '",
+     ""),
+    ("precursors_not_made", "precursors the mode cannot make alone with every step downhill", ""),
 ))
 
 #: Keys of ``summary.json`` besides table columns.

@@ -38,6 +38,7 @@ from ..errors import InputError
 from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions, ThermoProblem
 from ..problem.solvers import InfeasibleProblem
+from .precursor_demand import per_precursor
 from .results import AnalysisResult, certificate_words, certify, optimum_words, provenance_of, verification
 
 log = logging.getLogger(__name__)
@@ -306,31 +307,6 @@ def _recount(problem: ThermoProblem, sol, pairs: dict[str, CouplingPair]
 
 def _energy(kept: list[str], flux: dict[str, float], pairs: dict[str, CouplingPair]) -> float:
     return float(sum(abs(flux[r]) * abs(pairs[r].coupling_energy) for r in kept))
-
-
-def demand_precursors(tm: ThermoModel) -> dict[str, float]:
-    """Compound id -> coefficient of each compound the demand reaction draws (negative)."""
-    if tm.demand_id is None:
-        return {}
-    reaction = tm.model.reactions.get_by_id(tm.demand_id)
-    return {m.id: c for m, c in reaction.metabolites.items() if c < 0}
-
-
-def per_precursor(tm: ThermoModel, run, precursors: list[str] | None = None) -> list:
-    """``run(tm, precursor)`` for each compound of the demand alone (the demand reaction drawing
-    only it, with its own coefficient; the model is restored after each)."""
-    drawn = demand_precursors(tm)
-    out = []
-    for compound in precursors or list(drawn):
-        if compound not in drawn:
-            raise InputError(f"precursor '{compound}' is not drawn by the demand reaction "
-                             f"{tm.demand_id}; use one of {', '.join(drawn)}")
-        with tm.model:
-            reaction = tm.model.reactions.get_by_id(tm.demand_id)
-            reaction.add_metabolites({tm.model.metabolites.get_by_id(m): -c
-                                      for m, c in drawn.items() if m != compound})
-            out.append(run(tm, compound))
-    return out
 
 
 def coupling_answers(tm: ThermoModel, options: ProblemOptions | None = None,

@@ -12,6 +12,7 @@ from .step import Step
 from .steps.census import CensusStep
 from .steps.coverage import CoverageStep
 from .steps.couplings import FewestCouplingsStep
+from .steps.currencies import CurrenciesStep
 from .steps.driving_force import DrivingForceStep
 from .steps.feasibility import FeasibilityStep
 from .steps.hydrogen import H2ScanStep, H2ThresholdStep
@@ -70,3 +71,4 @@ for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2T
               DrivingForceStep(), EnergyProfileStep(), RangesStep(), RobustnessStep()):
     register_step(_step)
 register_step(FewestCouplingsStep())   # issue 20
+register_step(CurrenciesStep())        # issue 20

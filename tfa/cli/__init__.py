@@ -33,6 +33,7 @@ COMMANDS: dict[str, str] = {
     "robustness": "cmd_robustness",
     "map": "cmd_map",
     "couplings": "cmd_couplings",
+    "currencies": "cmd_currencies",
 }
 
 

@@ -14,7 +14,8 @@ from .step_command import run_step_command
 #: The steps of ``tfa assess``, named in its help (the registry is the source; this list is
 #: checked against it by the tests, so that the help can stay free of heavy imports).
 STEP_IDS = ("coverage", "feasibility", "census", "h2_scan", "h2_threshold", "driving_force",
-            "energy_profile", "ranges", "robustness", "couplings")
+            "energy_profile", "ranges", "robustness", "couplings",
+            "currencies")
 
 
 def register(subparsers) -> None:
