@@ -2,8 +2,12 @@
 ATP-coupled step given the choice of running as its bare chemistry.
 
 Both build on the bare chemistry of a step (:func:`tfa.network.rewrites.bare_stoichiometry`): the
-step minus the hydrolyses H1-H4 of ATP, ADP and pyrophosphate that cancel its nucleotides, which
-spends n = x1 + x2 + x3 + x4 phosphoanhydride bonds (n < 0: it makes them).
+step minus the hydrolyses H1-H4 of ATP, ADP and pyrophosphate that cancel its nucleotides. The
+step spends n = -2 ν(ATP) - ν(ADP) phosphoanhydride bonds of the adenine nucleotides (ATP -> ADP
+one, ATP -> AMP two: the pyrophosphate an AMP-forming step releases is counted as spent, as the
+cell's diphosphatase spends it; n < 0: the step makes them). Only steps with ATP, ADP or AMP are
+rewritten; steps with pyrophosphate alone (phosphoribosyltransferases, the diphosphatase, a
+pyrophosphate-dependent kinase) stay as they are.
 
 - :func:`currency_substitution` (rewrites ``currency_<id>``): each ATP-coupled step becomes its
   bare chemistry plus n times the hydrolysis of the currency's donor (:data:`CURRENCIES`), so a
@@ -11,8 +15,8 @@ spends n = x1 + x2 + x3 + x4 phosphoanhydride bonds (n < 0: it makes them).
   ATP makes the donor instead. The energy of the new step is that of its compounds (the network's
   own data: acetyl phosphate and acetyl-CoA from their hydrolysis values), so each currency
   carries its own energies. Steps whose chemistry is nothing but the currency (acetate kinase in
-  the acetyl-phosphate currency, adenylate kinase, diphosphatase) become empty and are removed;
-  ATP, ADP, AMP (and pyrophosphate, unless it is the currency) leave the network.
+  the acetyl-phosphate currency, adenylate kinase) become empty and are removed; ATP hydrolysis
+  becomes the donor's; ATP, ADP and AMP leave the network, pyrophosphate stays.
 - :func:`coupling_choices` (rewrite ``atp_coupling_optional``): every ATP-coupled step keeps its
   coupling and gains a twin ``<id>__bare``, its bare chemistry; the fewest-couplings analysis
   (:mod:`tfa.analyses.couplings`) lets each step use one of the two.
@@ -88,6 +92,18 @@ CURRENCIES = {c.id: c for c in (
     Currency("polyphosphate", ("polyp", "polyphosphate", "polyphosphate unit"), (), 1,
              "polyphosphate (one phosphoanhydride unit) + H2O -> Pi"),
 )}
+
+
+def bonds_spent(stoichiometry: dict, nucleotides: dict[str, cobra.Metabolite]) -> float:
+    """Phosphoanhydride bonds of the adenine nucleotides a step spends per unit of forward flux:
+    n = -2 ν(ATP) - ν(ADP) (AMP holds none).
+
+    >>> m = {"atp": "ATP", "adp": "ADP"}
+    >>> bonds_spent({"ATP": -1.0, "ADP": 1.0}, m), bonds_spent({"ATP": -1.0, "AMP": 1.0}, m)
+    (1.0, 2.0)
+    """
+    atp, adp = nucleotides.get("atp"), nucleotides.get("adp")
+    return float(-2.0 * stoichiometry.get(atp, 0.0) - stoichiometry.get(adp, 0.0)) + 0.0
 
 
 def find_compound(model: cobra.Model, names: tuple[str, ...]) -> cobra.Metabolite | None:
@@ -178,12 +194,11 @@ def currency_substitution(model: cobra.Model, currency_id: str) -> Iterator[Rewr
         phosphate = single_with_role(model, "phosphate", ("pi", "pi_c"))
         proton = single_with_role(model, "proton", ("h", "h_c"))
         inert = {m.id for m in (proton, water) if m is not None}
-        stripped = {m for m in nucleotides.values()}
-        kept_roles = {"pyrophosphate"} if donor in stripped else set()
+        adenine = {m for role, m in nucleotides.items() if role != "pyrophosphate"}
         remove: list[cobra.Reaction] = []
         for reaction in list(model.reactions):
             stoich = reaction.metabolites
-            if is_boundary(reaction) or not any(m in stripped for m in stoich):
+            if is_boundary(reaction) or not any(m in adenine for m in stoich):
                 continue
             bare = bare_stoichiometry(reaction, nucleotides, water, phosphate, proton)
             if bare is None:
@@ -192,7 +207,7 @@ def currency_substitution(model: cobra.Model, currency_id: str) -> Iterator[Rewr
                              "nucleotides", summary)
                 continue
             new, amounts = bare
-            bonds = sum(amounts.values())
+            bonds = bonds_spent(stoich, nucleotides)
             if abs(bonds) > _TOL:
                 hydrolysis = {donor: -1.0, water: -1.0, phosphate: float(currency.phosphate_made)}
                 for p in products:
@@ -214,16 +229,16 @@ def currency_substitution(model: cobra.Model, currency_id: str) -> Iterator[Rewr
             batch.set_terms(reaction, new)
             note_rewrite(context, reaction, f"{label}: {used}; plus {bonds:g} x "
                          f"({currency.hydrolysis})", summary)
-        gone = {m for role, m in nucleotides.items() if role not in kept_roles}
-        _finish(model, summary, remove, gone, label, context, batch)
+        _finish(model, summary, remove, adenine, label, context, batch)
         logger.info("%s: %d reactions rewritten, %d removed", label,
                     len(summary.rewritten) - len(summary.removed), len(summary.removed))
         yield summary
 
 
-def coupled_steps(model: cobra.Model) -> dict[str, tuple[dict, dict[str, float]]]:
-    """Reaction id -> (bare terms, hydrolysis amounts) of every internal ATP-coupled step that has
-    a bare chemistry that is not empty (those a coupling choice applies to)."""
+def coupled_steps(model: cobra.Model) -> dict[str, tuple[dict, float]]:
+    """Reaction id -> (bare terms, bonds spent, :func:`bonds_spent`) of every internal
+    ATP-coupled step that spends or makes bonds and has a bare chemistry that is not empty (those
+    a coupling choice applies to)."""
     nucleotides = nucleotide_metabolites(model)
     stripped = set(nucleotides.values())
     water = single_with_role(model, "water", ("h2o", "h2o_c"))
@@ -237,9 +252,10 @@ def coupled_steps(model: cobra.Model) -> dict[str, tuple[dict, dict[str, float]]
         if reaction.id.endswith(BARE_SUFFIX):
             continue
         bare = bare_stoichiometry(reaction, nucleotides, water, phosphate, proton)
-        if bare is None or _is_empty(bare[0], inert) or abs(sum(bare[1].values())) <= _TOL:
+        bonds = bonds_spent(reaction.metabolites, nucleotides)
+        if bare is None or _is_empty(bare[0], inert) or abs(bonds) <= _TOL:
             continue
-        out[reaction.id] = bare
+        out[reaction.id] = (bare[0], bonds)
     return out
 
 
@@ -269,17 +285,16 @@ def coupling_choices(model: cobra.Model) -> Iterator[RewriteSummary]:
     summary = RewriteSummary("atp_coupling_optional")
     with exact_context(model) as context:
         twins = []
-        for rid, (terms, amounts) in coupled_steps(model).items():
+        for rid, (terms, bonds) in coupled_steps(model).items():
             original = model.reactions.get_by_id(rid)
             twin = cobra.Reaction(rid + BARE_SUFFIX, name=f"{original.name} (bare chemistry)",
                                   lower_bound=original.lower_bound, upper_bound=original.upper_bound)
             twin.add_metabolites(terms)
             notes = {k: v for k, v in (original.notes or {}).items()
                      if k not in ("energy_source", "rewritten")}
-            bonds = float(sum(amounts.values()))
             notes.update({"bare_of": rid, "bonds": bonds,
                           "rewritten": f"atp_coupling_optional: bare twin of {rid} "
-                                       f"({hydrolysis_words(amounts)})"})
+                                       f"({bonds:g} phosphoanhydride bond(s) spent)"})
             twin.notes = notes
             twin.subsystem = original.subsystem
             twins.append(twin)
