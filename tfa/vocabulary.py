@@ -182,6 +182,10 @@ COLUMNS.update(_terms(
     ("precursors_made", "precursors the mode makes alone with every step downhill, joined by ', '",
      ""),
     ("precursors_not_made", "precursors the mode cannot make alone with every step downhill", ""),
+    ("route", "id of a carbon-fixation route (route file or pathway tag)", ""),
+    ("name", "words for a route, as tables and figures show it", ""),
+    ("closed_entries", "carbon-fixing reactions outside the route closed while it is asked", ""),
+    ("routes_feasible", "per route, whether it meets the demand as the only carbon entry", ""),
 ))
 
 #: Keys of ``summary.json`` besides table columns.

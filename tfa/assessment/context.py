@@ -78,6 +78,9 @@ class Settings:
         Use data from sources that are not peer reviewed too.
     scan_uphill : bool
         The size of the minimal uphill set at infeasible H2 levels.
+    route_file : str, optional
+        Route file of the route comparison (default ``routes.toml`` beside the network, else one
+        route per carbon-fixing pathway tag).
     coupling_objective : str
         Objective of the fewest-couplings step: ``count`` or ``energy``
         (:data:`tfa.analyses.couplings.COUPLING_OBJECTIVES`).
@@ -99,6 +102,7 @@ class Settings:
     include_unreviewed: bool = False
     scan_uphill: bool = True
     coupling_objective: str = "count"
+    route_file: str | None = None
 
     def __post_init__(self) -> None:
         self.modes = parse_modes(self.modes)

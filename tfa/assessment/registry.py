@@ -13,6 +13,7 @@ from .steps.census import CensusStep
 from .steps.coverage import CoverageStep
 from .steps.couplings import FewestCouplingsStep
 from .steps.currencies import CurrenciesStep
+from .steps.route_comparison import RouteComparisonStep
 from .steps.driving_force import DrivingForceStep
 from .steps.feasibility import FeasibilityStep
 from .steps.hydrogen import H2ScanStep, H2ThresholdStep
@@ -72,3 +73,4 @@ for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2T
     register_step(_step)
 register_step(FewestCouplingsStep())   # issue 20
 register_step(CurrenciesStep())        # issue 20
+register_step(RouteComparisonStep())   # issue 20

@@ -34,6 +34,7 @@ COMMANDS: dict[str, str] = {
     "map": "cmd_map",
     "couplings": "cmd_couplings",
     "currencies": "cmd_currencies",
+    "compare": "cmd_compare",
 }
 
 

@@ -15,7 +15,7 @@ from .step_command import run_step_command
 #: checked against it by the tests, so that the help can stay free of heavy imports).
 STEP_IDS = ("coverage", "feasibility", "census", "h2_scan", "h2_threshold", "driving_force",
             "energy_profile", "ranges", "robustness", "couplings",
-            "currencies")
+            "currencies", "route_comparison")
 
 
 def register(subparsers) -> None:

@@ -36,6 +36,8 @@ def settings_from_args(args: argparse.Namespace) -> "Settings":
         given["h2_levels"] = args.h2_levels
     if getattr(args, "h2_values", None):
         given["h2_values"] = args.h2_values
+    if getattr(args, "route_file", None):
+        given["route_file"] = args.route_file
     if getattr(args, "route", None):
         given["route"] = parse_route(args.route)
     if getattr(args, "workers", None) is not None:

@@ -5,11 +5,13 @@ consumes the carbon source is closed in that direction while the route is asked.
 Routes come from a route file (``routes.toml`` beside the network, or named with ``--routes``)::
 
     carbon_source = "co2"                  # optional: default the compound with thermo key CO2
+    shared = ["CPS"]                       # optional: carbon entries open for every route
 
     [routes.acetyl_coa]
     name = "acetyl-CoA pathway"            # optional: words for tables and figures
     pathways = ["acetyl-CoA pathway (methyl branch)", "acetyl-CoA pathway (carbonyl branch)"]
     reactions = ["PFOR"]                   # further reactions (ids) of the route
+    exclude = ["ACL"]                      # optional: reactions blocked while the route is asked
 
 or, without a file, one route per pathway tag that holds a carbon-fixing reaction
 (:func:`routes_from_pathways`). A reaction "fixes" carbon in the direction in which it consumes
@@ -39,18 +41,22 @@ except ModuleNotFoundError:  # pragma: no cover - Python 3.10
 ROUTE_FILE = "routes.toml"
 #: Names of the carbon source tried when the route file names none.
 CARBON_SOURCE_NAMES = ("CO2", "co2", "carbon dioxide", "CO2tot")
-_ROUTE_KEYS = ("name", "pathways", "reactions")
+_ROUTE_KEYS = ("name", "pathways", "reactions", "exclude")
+_FILE_KEYS = ("carbon_source", "shared", "routes")
 
 
 @dataclass(frozen=True)
 class Route:
-    """A carbon-fixation route: ``id``, words ``name``, its ``reactions`` (ids, in network order)
-    and where it was defined (``defined_by``)."""
+    """A carbon-fixation route: ``id``, words ``name``, its ``reactions`` (ids, in network order),
+    where it was defined (``defined_by``), the ``excluded`` reactions blocked while it is asked
+    and the ``shared`` carbon entries left open for every route."""
 
     id: str
     name: str
     reactions: tuple[str, ...]
     defined_by: str = ""
+    excluded: tuple[str, ...] = ()
+    shared: tuple[str, ...] = ()
 
 
 def pathway_tag(reaction: cobra.Reaction) -> str:
@@ -126,10 +132,10 @@ def read_routes(path: str | Path, model: cobra.Model) -> tuple[list[Route], str 
         data = tomllib.loads(read_input_text(path, "route file"))
     except tomllib.TOMLDecodeError as err:
         raise InputError(f"{path}: not valid TOML ({err}); see docs/formats.md, route files") from None
-    unknown = [k for k in data if k not in ("carbon_source", "routes")]
+    unknown = [k for k in data if k not in _FILE_KEYS]
     if unknown:
         raise InputError(f"{path}: unknown key(s) {', '.join(unknown)}; a route file has "
-                         "carbon_source and [routes.ID] tables")
+                         "carbon_source, shared and [routes.ID] tables")
     routes_data = data.get("routes")
     if not isinstance(routes_data, dict) or not routes_data:
         raise InputError(f"{path}: no routes; add a table [routes.ID] with pathways and/or reactions")
@@ -137,6 +143,18 @@ def read_routes(path: str | Path, model: cobra.Model) -> tuple[list[Route], str 
     for reaction in model.reactions:
         tags.setdefault(pathway_tag(reaction).lower(), []).append(reaction.id)
     ids = {r.id for r in model.reactions}
+
+    def reaction_ids(value, where: str, key: str) -> list[str]:
+        out = []
+        for rid in _strings(value, where, key):
+            if rid not in ids:
+                close = difflib.get_close_matches(rid, sorted(ids), n=1)
+                raise InputError(f"{where}: reaction '{rid}' is not in the network"
+                                 + (f"; did you mean '{close[0]}'?" if close else ""))
+            out.append(rid)
+        return out
+
+    shared = tuple(reaction_ids(data.get("shared", []), str(path), "shared"))
     routes = []
     for route_id, spec in routes_data.items():
         where = f"{path}, route {route_id}"
@@ -156,18 +174,15 @@ def read_routes(path: str | Path, model: cobra.Model) -> tuple[list[Route], str 
                 raise InputError(f"{where}: no reaction carries the pathway tag '{tag}'"
                                  + (f"; did you mean '{close[0]}'?" if close else ""))
             members += found
-        for rid in _strings(spec.get("reactions", []), where, "reactions"):
-            if rid not in ids:
-                close = difflib.get_close_matches(rid, sorted(ids), n=1)
-                raise InputError(f"{where}: reaction '{rid}' is not in the network"
-                                 + (f"; did you mean '{close[0]}'?" if close else ""))
-            members.append(rid)
+        members += reaction_ids(spec.get("reactions", []), where, "reactions")
+        excluded = reaction_ids(spec.get("exclude", []), where, "exclude")
+        members = [m for m in members if m not in excluded]
         if not members:
             raise InputError(f"{where}: the route has no reactions; list pathways or reactions")
         order = {r.id: k for k, r in enumerate(model.reactions)}
         members = sorted(set(members), key=order.get)
         routes.append(Route(str(route_id), str(spec.get("name") or route_id), tuple(members),
-                            f"route file {path.name}"))
+                            f"route file {path.name}", tuple(excluded), shared))
     source = data.get("carbon_source")
     if source is not None and not isinstance(source, str):
         raise InputError(f"{path}: carbon_source must be a compound id in quotes")
@@ -199,10 +214,15 @@ def network_routes(model: cobra.Model, route_file: str | Path | None = None,
 @contextlib.contextmanager
 def route_only(model: cobra.Model, route: Route, carbon: cobra.Metabolite) -> Iterator[list[str]]:
     """Close, for the duration of the context, the carbon-fixing direction of every reaction not
-    in ``route`` (``with model:``, undone on exit); yields the ids closed."""
-    members = set(route.reactions)
+    in ``route`` (nor among its shared entries), and block its excluded reactions (``with
+    model:``, undone on exit); yields the ids closed."""
+    members = set(route.reactions) | set(route.shared)
     closed = []
     with model:
+        for rid in route.excluded:
+            if rid in model.reactions:
+                model.reactions.get_by_id(rid).bounds = (0.0, 0.0)
+                closed.append(rid)
         for rid, direction in carbon_fixing(model, carbon).items():
             if rid in members or rid not in model.reactions:
                 continue
