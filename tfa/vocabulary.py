@@ -161,7 +161,7 @@ COLUMNS: dict[str, Term] = _terms(
     ("pMg", "-log10 of the free Mg2+ activity", ""),
 )
 
-# issue 20: fewest couplings, currencies, routes
+# fewest couplings, energy currencies, carbon-fixation routes
 COLUMNS.update(_terms(
     ("precursor", "a compound of the demand asked alone ('(whole demand)' for the demand)", ""),
     ("coupling_role", "what an ATP-coupled step did: spends ATP (a coupling kept) or makes ATP "

@@ -2,7 +2,7 @@
 (with its own coefficient, the demand flux unchanged), so an analysis can say which precursors a
 mode can make.
 
-Hook: the per-precursor verdicts of the assessment (issue 14, table ``precursors``) ask the same
+Hook: the per-precursor verdicts of the assessment (table ``precursors``) ask the same
 question; once merged, :func:`precursor_verdicts` should read them instead of solving again.
 """
 

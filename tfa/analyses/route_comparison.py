@@ -9,7 +9,7 @@ Every answer is certified or proven by the analysis that gives it (tfa.analyses.
 driving_force, hydrogen).
 
 Hooks left for the analyses built elsewhere: the energy budget per pyruvate or per carbon fixed
-(issue 14, table ``energy_budget``) and the binding steps (issue 14, ``binding_constraints``) are
+(table ``energy_budget``) and the binding steps (table ``binding_constraints``) are
 not columns here yet; :data:`ROUTE_COMPARISON_COLUMNS` is where they go.
 """
 

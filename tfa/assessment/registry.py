@@ -71,6 +71,6 @@ def step_ids() -> list[str]:
 for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
               DrivingForceStep(), EnergyProfileStep(), RangesStep(), RobustnessStep()):
     register_step(_step)
-register_step(FewestCouplingsStep())   # issue 20
-register_step(CurrenciesStep())        # issue 20
-register_step(RouteComparisonStep())   # issue 20
+register_step(FewestCouplingsStep())   # energy coupling and routes
+register_step(CurrenciesStep())        # energy coupling and routes
+register_step(RouteComparisonStep())   # energy coupling and routes
