@@ -81,3 +81,39 @@ def test_route_file_is_read_and_checked(tmp_path):
     with route_only(tm.model, routes[0], tm.model.metabolites.A) as closed:
         assert closed == ["RQ1"] and tm.model.reactions.RQ1.upper_bound == 0
     assert tm.model.reactions.RQ1.upper_bound > 0
+
+
+def test_route_figure_draws_every_route():
+    import pandas as pd
+
+    from tfa.report.route_figure import route_comparison_figure
+
+    tm = _two_routes()
+    routes = [Route("P", "route P", ("RP1", "RP2")), Route("Q", "route Q", ("RQ1", "RQ2")),
+              Route("none", "no carbon entry", ("RP2",))]
+    table = comparison_table(compare_routes(tm, routes, tm.model.metabolites.A))
+    assert isinstance(table, pd.DataFrame) and len(table) == 3
+    fig = route_comparison_figure(table, (1e-12, 1e-2), 1e-3)
+    verdict, window, size = fig.axes[:3]
+    ticks = {t.get_text(): t.get_position()[1] for t in verdict.get_yticklabels()}
+    assert ticks["route P"] > ticks["route Q"] > ticks["no carbon entry"]   # table order, top down
+    texts = " ".join(t.get_text() for t in window.texts)
+    assert "no H2 level in range" in texts and "setting" in texts
+
+
+@pytest.mark.slow
+def test_compare_runs_every_bundled_route(tmp_path):
+    """tfa compare on the bundled network: every route of its routes.toml, table and figure."""
+    import pandas as pd
+
+    from tfa.cli import main
+
+    out = tmp_path / "routes"
+    assert main(["compare", "--out", str(out), "-q"]) == 0
+    table = pd.read_csv(out / "route_comparison.csv")
+    assert list(table["route"]) == ["acetyl_coa", "reductive_tca", "reversed_oxidative_tca",
+                                    "reductive_glycine"]
+    assert (out / "route_comparison.png").is_file() and (out / "route_comparison.svg").is_file()
+    closed = dict(zip(table["route"], table["closed_entries"].fillna("")))
+    assert "CS" in closed["reductive_tca"] and "ACL" in closed["reversed_oxidative_tca"]
+    assert "HDCR" not in closed["reductive_glycine"] and "PFOR" in closed["reductive_glycine"]
