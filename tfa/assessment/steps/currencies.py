@@ -10,6 +10,23 @@ from ..context import RunContext
 from ..step import Section, Step
 
 
+def _whole(ctx: RunContext, mode: str):
+    """The whole demand in a mode the feasibility step does not ask: the verdict and one minimal
+    uphill set, an infeasible verdict not re-asked of the second solver (many modes)."""
+    from dataclasses import replace
+
+    from ...analyses.feasibility import FeasibilityResult, feasibility
+    from ...errors import UndeterminedError
+
+    try:
+        return feasibility(ctx.thermo_model(mode), replace(ctx.options, confirm_infeasible="never"),
+                           alternatives=1)
+    except UndeterminedError as err:
+        ctx.undetermined.append(f"currencies ({mode})")
+        return FeasibilityResult(conditions=ctx.environment.conditions, mode=mode,
+                                 message=f"undetermined: {err}")
+
+
 class CurrenciesStep(Step):
     """Which energy currency can pay for the network's coupled steps."""
 
@@ -31,7 +48,8 @@ class CurrenciesStep(Step):
             if reason:
                 rows.append(CurrencyRow(mode, None, message=f"not applicable: {reason}"))
                 continue
-            whole = ctx.feasibility(mode)
+            whole = (ctx.feasibility(mode) if mode in ctx.settings.modes
+                     else ctx.cached(f"currency_feasibility:{mode}", lambda: _whole(ctx, mode)))
             sets = whole.diagnosis.sets if whole.diagnosis is not None else []
             verdicts = ctx.attempt(f"currencies ({mode}) per precursor",
                                    lambda: precursor_verdicts(ctx.thermo_model(mode), ctx.options))
