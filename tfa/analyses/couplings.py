@@ -19,8 +19,9 @@ with c_j the coupling energy per mole (kJ/mol, the transformed standard energy o
 hydrolysis the coupling adds, at the setting) and v_j the flux in the spending direction d_j.
 Steps that make ATP (an ATP synthase, acetate kinase) are energy conservation: not counted, but
 listed. Alternative optima come from integer cuts sum_{j in S} s_j <= |S| - 1 (Balas & Jeroslow
-1972, SIAM J. Appl. Math. 23:61), enumerated until the next optimum is worse and sorted
-(smallest first, then by reaction ids), so the order does not depend on the solver.
+1972, SIAM J. Appl. Math. 23:61), enumerated until the next optimum is worse (or two beyond
+those asked for) and sorted (smallest first, then by reaction ids): when the enumeration ends
+(``exhausted``) the order does not depend on the solver.
 
 Every solution is certified by the independent numpy check (mass balance, bounds, the second law
 recomputed from the concentrations), and the set is recounted from the certified fluxes.
@@ -45,8 +46,9 @@ log = logging.getLogger(__name__)
 
 #: The objectives of :func:`fewest_couplings`.
 COUPLING_OBJECTIVES = ("count", "energy")
-#: Minimal sets enumerated at most (for the stable order) before the rest is left unlisted.
-MAX_ENUMERATED = 10
+#: Optimal sets enumerated beyond those listed, so that the listed ones are the first in the stable
+#: order whenever the enumeration ends (``exhausted``) within them.
+ENUMERATION_MARGIN = 2
 #: Columns of the ``fewest_couplings`` table (one row per coupling of each set, per demand).
 COUPLING_COLUMNS = ["precursor", "set", "reaction", "direction", "coupling_role", "bonds",
                     "coupling_energy_kJ_per_mol", "flux"]
@@ -179,7 +181,7 @@ def fewest_couplings(tm: ThermoModel, options: ProblemOptions | None = None,
     objective : {"count", "energy"}
         Fewest couplings kept, or least sum of flux x coupling energy [flux unit x kJ/mol].
     alternatives : int
-        Optimal sets listed (all are enumerated up to :data:`MAX_ENUMERATED` for the order).
+        Optimal sets listed (up to :data:`ENUMERATION_MARGIN` more are enumerated for the order).
     precursor : str
         Label of the demand (the caller has set the demand reaction).
 
@@ -225,7 +227,7 @@ def fewest_couplings(tm: ThermoModel, options: ProblemOptions | None = None,
             weights = {spend_flux[rid]: abs(pair.coupling_energy) for rid, pair in pairs.items()}
         found: list[tuple] = []
         checks = []
-        limit = max(alternatives, MAX_ENUMERATED) if objective == "count" else max(1, alternatives)
+        limit = max(1, alternatives) + (ENUMERATION_MARGIN if objective == "count" else 0)
         best_value = None
         for k in range(limit):
             problem.set_objective(weights, "min")
