@@ -3,8 +3,9 @@
 Left: the verdict with the demand met by that route alone, as a bar: the max-min driving force
 (kJ/mol, blue, to the right) when it runs downhill throughout, or the size of its minimal uphill
 set (vermillion, to the left, its members written beside it). Middle: the H2 window in which the
-route runs, from its least H2 to the top of the range searched, on a log axis, with the setting's
-H2 as a dashed line. Right: how many reactions the route has and how many other carbon entries
+route runs, drawn from its least H2 to the top of the range searched (the least H2 is computed;
+that the route runs at every level above it is assumed, as it does when H2 is only consumed), on
+a log axis, with the setting's H2 as a dashed line. Right: how many reactions the route has and how many other carbon entries
 were closed. Reads only the plain ``route_comparison`` table.
 """
 
@@ -49,7 +50,7 @@ def route_comparison_figure(frame: pd.DataFrame, h2_range: tuple[float, float],
                                  gridspec_kw={"width_ratios": [1.3, 1.3, 0.7]})
     ax_verdict, ax_h2, ax_size = axes
     y = np.arange(n)[::-1]
-    labels = [wrap_label(str(name), 22, 2) for name in frame["name"]]
+    labels = [wrap_label(str(name), 22, 3) for name in frame["name"]]
 
     # 1. verdict: driving force (feasible) or uphill steps (infeasible)
     for yi, (_, row) in zip(y, frame.iterrows()):
