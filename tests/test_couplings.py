@@ -52,6 +52,9 @@ def test_exactly_one_of_three_couplings_is_needed():
     assert result.exhausted                 # no other single coupling does it
     assert result.verification["status"] == "proven"
     assert result.certificates and all(c.passed for c in result.certificates)
+    # independent of the MILP's coupling rows: the set re-solved on its own network
+    assert "re-solved on its own network" in result.verification["check"]
+    assert "bare, no coupling rows): certified" in result.verification["check"]
     rows = result.to_frame()
     assert list(rows["reaction"]) == ["R2"]
     # coupling energy of B -> C: ΔrG'°(bare) - ΔrG'°(coupled) = 40 - 10 = +30 kJ/mol

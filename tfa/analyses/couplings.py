@@ -266,6 +266,7 @@ def fewest_couplings(tm: ThermoModel, options: ProblemOptions | None = None,
         else:
             checks.append(f"enumeration stopped after {limit} sets")
     found.sort(key=lambda item: (len(item[0]), item[3] if objective == "energy" else 0.0, item[0]))
+    checks.append(_recheck(tm, options, pairs, found[0][0] + found[0][1]))
     shown = found[:max(1, alternatives)]
     result.feasible = True
     result.sets = [s[0] for s in shown]
@@ -305,6 +306,29 @@ def _recount(problem: ThermoProblem, sol, pairs: dict[str, CouplingPair]
         flux[rid] = v
         (kept if (v > 0) == pair.spends_forward else made).append(rid)
     return kept, made, flux
+
+
+def _recheck(tm: ThermoModel, options: ProblemOptions, pairs: dict[str, CouplingPair],
+             coupled: list[str]) -> str:
+    """The first set checked on its own network: the steps in ``coupled`` keep their coupling
+    (their bare twins blocked), every other ATP-coupled step runs bare (the coupled step blocked),
+    and the plain feasibility problem (no coupling rows, no objective) must find a certified
+    steady state. Raises ComputationError when it does not."""
+    from ..errors import ComputationError
+    from .feasibility import feasibility
+
+    keep = set(coupled)
+    with tm.model:
+        for rid, pair in pairs.items():
+            blocked = pair.twin if rid in keep else rid
+            tm.model.reactions.get_by_id(blocked).bounds = (0.0, 0.0)
+        answer = feasibility(tm, options, diagnose=False)
+    if not answer.feasible:
+        raise ComputationError(f"fewest couplings: the set {', '.join(sorted(keep)) or '(none)'} "
+                               "did not meet the demand when re-solved on its own network; a "
+                               "solver fault, try the other solver (--solver glpk or highs)")
+    return ("the first set re-solved on its own network (those couplings kept, every other step "
+            f"bare, no coupling rows): {answer.verification.get('status', '')}")
 
 
 def _energy(kept: list[str], flux: dict[str, float], pairs: dict[str, CouplingPair]) -> float:
