@@ -337,9 +337,10 @@ def _energy(kept: list[str], flux: dict[str, float], pairs: dict[str, CouplingPa
 
 def coupling_answers(tm: ThermoModel, options: ProblemOptions | None = None,
                      objective: str = "count", alternatives: int = 2,
-                     precursors: bool = True) -> list[CouplingResult]:
+                     precursors: bool = True, progress=None) -> list[CouplingResult]:
     """:func:`fewest_couplings` for the whole demand and, with ``precursors``, for each compound
-    of the demand alone (a demand that even the stoichiometry cannot meet says so)."""
+    of the demand alone (a demand that even the stoichiometry cannot meet says so);
+    ``progress(done, total)`` before each precursor."""
     from ..errors import ComputationError
 
     def run(model: ThermoModel, label: str) -> CouplingResult:
@@ -352,7 +353,7 @@ def coupling_answers(tm: ThermoModel, options: ProblemOptions | None = None,
 
     answers = [run(tm, WHOLE_DEMAND)]
     if precursors:
-        answers += per_precursor(tm, run)
+        answers += per_precursor(tm, run, progress=progress)
     return answers
 
 

@@ -24,9 +24,10 @@ def demand_precursors(tm: ThermoModel) -> dict[str, float]:
 
 
 def per_precursor(tm: ThermoModel, run: Callable[[ThermoModel, str], Any],
-                  precursors: list[str] | None = None) -> list:
+                  precursors: list[str] | None = None,
+                  progress: Callable[[int, int], None] | None = None) -> list:
     """``run(tm, precursor)`` for each compound of the demand alone (the demand reaction drawing
-    only it; the model is restored after each).
+    only it; the model is restored after each); ``progress(done, total)`` before each.
 
     Raises
     ------
@@ -35,7 +36,10 @@ def per_precursor(tm: ThermoModel, run: Callable[[ThermoModel, str], Any],
     """
     drawn = demand_precursors(tm)
     out = []
-    for compound in precursors or list(drawn):
+    asked = precursors or list(drawn)
+    for k, compound in enumerate(asked):
+        if progress is not None:
+            progress(k, len(asked))
         if compound not in drawn:
             raise InputError(f"precursor '{compound}' is not drawn by the demand reaction "
                              f"{tm.demand_id}; use one of {', '.join(drawn)}")
@@ -47,7 +51,8 @@ def per_precursor(tm: ThermoModel, run: Callable[[ThermoModel, str], Any],
     return out
 
 
-def precursor_verdicts(tm: ThermoModel, options: ProblemOptions | None = None) -> dict[str, bool | None]:
+def precursor_verdicts(tm: ThermoModel, options: ProblemOptions | None = None,
+                       progress: Callable[[int, int], None] | None = None) -> dict[str, bool | None]:
     """Precursor -> can the mode make it alone with every step downhill (True/False; None when a
     solver stopped without an answer). A "no" is the solver's proof, not confirmed by the second
     solver (to keep the many small questions fast); a "yes" is a certified steady state."""
@@ -63,4 +68,4 @@ def precursor_verdicts(tm: ThermoModel, options: ProblemOptions | None = None) -
         except ComputationError:
             return compound, None
 
-    return dict(per_precursor(tm, ask))
+    return dict(per_precursor(tm, ask, progress=progress))

@@ -63,15 +63,18 @@ class RouteAnswer:
 
 
 def compare_route(tm: ThermoModel, route: Route, carbon, options: ProblemOptions | None = None,
-                  h2_range: tuple[float, float] = DEFAULT_H2_RANGE) -> RouteAnswer:
-    """The questions of the module text for one route (the model is restored afterwards)."""
+                  h2_range: tuple[float, float] = DEFAULT_H2_RANGE, stage=None) -> RouteAnswer:
+    """The questions of the module text for one route (the model is restored afterwards);
+    ``stage(words)`` is told before each question."""
     from .driving_force import network_driving_force
     from .feasibility import feasibility
     from .hydrogen import h2_threshold
 
     answer = RouteAnswer(route)
+    stage = stage or (lambda words: None)
     with route_only(tm.model, route, carbon) as closed:
         answer.closed = closed
+        stage("feasibility")
         try:
             verdict = feasibility(tm, options, alternatives=1)
         except ComputationError as err:
@@ -84,6 +87,7 @@ def compare_route(tm: ThermoModel, route: Route, carbon, options: ProblemOptions
             answer.message = "the demand cannot be met through this route alone: " + verdict.message
         elif verdict.feasible:
             answer.uphill_set_size = 0
+            stage("driving force")
             try:
                 mdf = network_driving_force(tm, options)
                 answer.driving_force = mdf.driving_force
@@ -95,6 +99,7 @@ def compare_route(tm: ThermoModel, route: Route, carbon, options: ProblemOptions
             answer.uphill_set = list(verdict.diagnosis.sets[0])
             answer.uphill_set_size = verdict.diagnosis.size
         if not verdict.demand_impossible:
+            stage("H2 threshold")
             try:
                 threshold = h2_threshold(tm, options, h2_range=h2_range)
                 answer.h2_unit = threshold.unit
@@ -111,15 +116,17 @@ def compare_routes(tm: ThermoModel, routes: list[Route], carbon,
                    options: ProblemOptions | None = None,
                    h2_range: tuple[float, float] = DEFAULT_H2_RANGE,
                    progress=None) -> list[RouteAnswer]:
-    """:func:`compare_route` for every route, in order (``progress(done, total)`` after each)."""
+    """:func:`compare_route` for every route, in order (``progress(done, total, words)`` before
+    each question of each route)."""
     if not routes:
         raise InputError("no routes to compare: the network has no carbon-fixing pathway tag; "
                          "write a route file (routes.toml) beside it")
     out = []
     for k, route in enumerate(routes):
-        out.append(compare_route(tm, route, carbon, options, h2_range))
-        if progress is not None:
-            progress(k + 1, len(routes))
+        def stage(words: str, k: int = k, route: Route = route) -> None:
+            if progress is not None:
+                progress(k, len(routes), f"{route.id}: {words}")
+        out.append(compare_route(tm, route, carbon, options, h2_range, stage))
     return out
 
 

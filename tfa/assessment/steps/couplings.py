@@ -43,8 +43,10 @@ class FewestCouplingsStep(Step):
         if ctx.skipped_as_not_applicable("fewest couplings", mode):
             return []
         tm = ctx.thermo_model(mode)
+        ctx.tick(0, 1, "the whole demand")
         answers = ctx.attempt("fewest couplings", lambda: coupling_answers(
-            tm, ctx.options, ctx.settings.coupling_objective, ctx.settings.alternatives))
+            tm, ctx.options, ctx.settings.coupling_objective, ctx.settings.alternatives,
+            progress=ctx.ticker("precursors alone")))
         return answers or []
 
     def tables(self, result: list[CouplingResult], ctx: RunContext) -> dict:

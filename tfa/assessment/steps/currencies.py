@@ -48,11 +48,15 @@ class CurrenciesStep(Step):
             if reason:
                 rows.append(CurrencyRow(mode, None, message=f"not applicable: {reason}"))
                 continue
+            ctx.tick(k, len(modes), f"modes ({mode}, whole demand)")
             whole = (ctx.feasibility(mode) if mode in ctx.settings.modes
                      else ctx.cached(f"currency_feasibility:{mode}", lambda: _whole(ctx, mode)))
             sets = whole.diagnosis.sets if whole.diagnosis is not None else []
+            tick = (lambda done, total, k=k, mode=mode: ctx.tick(
+                k, len(modes), f"modes ({mode}, precursor {done + 1}/{total})"))
             verdicts = ctx.attempt(f"currencies ({mode}) per precursor",
-                                   lambda: precursor_verdicts(ctx.thermo_model(mode), ctx.options))
+                                   lambda: precursor_verdicts(ctx.thermo_model(mode), ctx.options,
+                                                              progress=tick))
             rows.append(CurrencyRow(mode, None if whole.message.startswith("undetermined")
                                     else whole.feasible, sets, verdicts or {}, whole.message,
                                     whole.verification.get("status", "")))

@@ -28,7 +28,7 @@ class RouteComparisonStep(Step):
                                         getattr(ctx.inputs, "network_folder", None))
         return ctx.attempt("route comparison", lambda: compare_routes(
             tm, routes, carbon, ctx.options, ctx.settings.h2_range,
-            progress=ctx.ticker("routes"))) or []
+            progress=lambda done, total, words: ctx.tick(done, total, f"routes ({words})"))) or []
 
     def tables(self, result: list[RouteAnswer], ctx: RunContext) -> dict:
         return {"route_comparison": comparison_table(result)} if result else {}
