@@ -82,7 +82,8 @@ def test_a_new_step_reaches_files_summary_and_report(toy_step, tmp_path, capsys)
     from tfa.cli import main
 
     out = tmp_path / "out"
-    skip = "feasibility,h2_scan,h2_threshold,gradient,driving_force,energy_profile,ranges,robustness"
+    skip = ("feasibility,h2_scan,h2_threshold,gradient,driving_force,energy_profile,ranges,robustness,"
+            "couplings,currencies,route_comparison")
     assert main(["assess", "--skip", skip, "--out", str(out), "-q"]) == 0
     printed = capsys.readouterr().out
     assert "pathways: " in printed

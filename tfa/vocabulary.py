@@ -286,6 +286,31 @@ COLUMNS.update(_terms(
     ("energy_to_supply_total_kJ_per_mol_demand", "energy to supply to the steps of the first "
                                                  "minimal uphill set, per mol of demand", "kJ/mol"),
 ))
+# fewest couplings, energy currencies, carbon-fixation routes
+COLUMNS.update(_terms(
+    ("precursor", "a compound of the demand asked alone ('(whole demand)' for the demand)", ""),
+    ("coupling_role", "what an ATP-coupled step did: spends ATP (a coupling kept) or makes ATP "
+                      "(energy conservation, not counted)", ""),
+    ("bonds", "phosphoanhydride bonds the step spends per unit of flux in its direction "
+              "(negative: it makes them)", ""),
+    ("coupling_energy_kJ_per_mol", "ΔrG'° the ATP coupling adds to a step in its direction "
+                                   "(ΔrG'° of the bare chemistry minus that of the coupled step)",
+     "kJ/mol"),
+    ("couplings_kept", "fewest ATP couplings kept (steps spending ATP) with every step downhill",
+     ""),
+    ("exhausted", "every optimal set is listed", ""),
+    ("coupling_sets", "the optimal sets of kept couplings, sets separated by '; '", ""),
+    ("currency", "what pays for the ATP-coupled steps: ATP, acetyl_phosphate, thioester, "
+                 "pyrophosphate, polyphosphate, or none (ATP removed or bare chemistry)", ""),
+    ("carriers", "electron carriers kept, or H2 in their place", ""),
+    ("precursors_made", "precursors the mode makes alone with every step downhill, joined by ', '",
+     ""),
+    ("precursors_not_made", "precursors the mode cannot make alone with every step downhill", ""),
+    ("route", "id of a carbon-fixation route (route file or pathway tag)", ""),
+    ("name", "words for a route, as tables and figures show it", ""),
+    ("closed_entries", "carbon-fixing reactions outside the route closed while it is asked", ""),
+    ("routes_feasible", "per route, whether it meets the demand as the only carbon entry", ""),
+))
 
 #: Keys of ``summary.json`` besides table columns.
 SUMMARY_KEYS: dict[str, Term] = _terms(

@@ -83,6 +83,12 @@ class Settings:
         Use data from sources that are not peer reviewed too.
     scan_uphill : bool
         The size of the minimal uphill set at infeasible H2 levels.
+    route_file : str, optional
+        Route file of the route comparison (default ``routes.toml`` beside the network, else one
+        route per carbon-fixing pathway tag).
+    coupling_objective : str
+        Objective of the fewest-couplings step: ``count`` or ``energy``
+        (:data:`tfa.analyses.couplings.COUPLING_OBJECTIVES`).
     """
 
     modes: list[str] = field(default_factory=lambda: list(STANDARD_MODES))
@@ -101,6 +107,8 @@ class Settings:
     workers: int = 1
     include_unreviewed: bool = False
     scan_uphill: bool = True
+    coupling_objective: str = "count"
+    route_file: str | None = None
 
     def __post_init__(self) -> None:
         self.modes = parse_modes(self.modes)
@@ -127,6 +135,8 @@ class Settings:
                                           maximum=1.0)
         self.seed = read_count(self.seed, "seed", minimum=0, maximum=MAX_SEED, text=False)
         self.workers = read_count(self.workers, "workers", maximum=MAX_WORKERS, text=False)
+        if self.coupling_objective not in ("count", "energy"):
+            raise InputError(f"coupling objective {self.coupling_objective!r}: use count or energy")
         if self.route is not None and not isinstance(self.route, list):
             raise InputError(f"route {self.route!r}: give a list of (reaction id, +1 or -1)")
         if self.ranges_reactions is not None and (

@@ -13,6 +13,9 @@ from .steps.binding import BindingStep
 from .steps.budget import EnergyBudgetStep
 from .steps.census import CensusStep
 from .steps.coverage import CoverageStep
+from .steps.couplings import FewestCouplingsStep
+from .steps.currencies import CurrenciesStep
+from .steps.route_comparison import RouteComparisonStep
 from .steps.driving_force import DrivingForceStep
 from .steps.feasibility import FeasibilityStep
 from .steps.gradient import GradientStep
@@ -77,3 +80,6 @@ register_step(GradientStep(), before="driving_force")
 register_step(BindingStep(), before="energy_profile")   # after the answers it reads
 register_step(PrecursorStep(), before="census")  # each precursor alone
 register_step(VerdictMarginStep(), before="robustness")   # the distance to a flipped verdict
+register_step(FewestCouplingsStep())   # energy coupling and routes
+register_step(CurrenciesStep())        # energy coupling and routes
+register_step(RouteComparisonStep())   # energy coupling and routes

@@ -34,6 +34,9 @@ COMMANDS: dict[str, str] = {
     "new-network": "cmd_new_network",
     "robustness": "cmd_robustness",
     "map": "cmd_map",
+    "couplings": "cmd_couplings",
+    "currencies": "cmd_currencies",
+    "compare": "cmd_compare",
 }
 
 

@@ -15,7 +15,8 @@ from .step_command import run_step_command
 #: checked against it by the tests, so that the help can stay free of heavy imports).
 STEP_IDS = ("coverage", "feasibility", "energy_budget", "precursors", "census", "h2_scan",
             "h2_threshold", "gradient", "driving_force", "binding_constraints", "energy_profile",
-            "ranges", "verdict_margins", "robustness")
+            "ranges", "verdict_margins", "robustness", "couplings", "currencies",
+            "route_comparison")
 
 
 def register(subparsers) -> None:

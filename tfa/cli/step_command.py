@@ -27,7 +27,8 @@ def settings_from_args(args: argparse.Namespace) -> "Settings":
     from ..assessment.context import Settings
 
     given: dict = {}
-    for name in ("modes", "mode", "alternatives", "seed", "ratio", "draws", "interval_width"):
+    for name in ("modes", "mode", "alternatives", "seed", "ratio", "draws", "interval_width",
+                 "coupling_objective"):
         if getattr(args, name, None) is not None:
             given[name] = getattr(args, name)
     if getattr(args, "h2_range", None) is not None:
@@ -36,6 +37,8 @@ def settings_from_args(args: argparse.Namespace) -> "Settings":
         given["h2_levels"] = args.h2_levels
     if getattr(args, "h2_values", None):
         given["h2_values"] = args.h2_values
+    if getattr(args, "route_file", None):
+        given["route_file"] = args.route_file
     if getattr(args, "route", None):
         given["route"] = parse_route(args.route)
     if getattr(args, "workers", None) is not None:
