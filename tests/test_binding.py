@@ -258,3 +258,24 @@ def test_assess_writes_binding_constraints_and_the_report_shows_them(tmp_path):
     assert top["kind"] == "concentration bound" and abs(top["sensitivity"]) == pytest.approx(1.0)
     assert any(line.startswith("what binds the H2 threshold (native)") for line in result.summary_lines())
     assert table.loc[table["sensitivity"].abs() > 1e-7, "dual_confirmed"].all()
+
+
+def test_a_carrier_state_row_that_binds_is_named_with_its_dual():
+    """A <=> B forward at ΔrG'° = 5 kJ/mol, both in 1 uM-10 mM, with the ratio row
+    ln B - ln A >= ln 0.1 (a carrier state of the environment's [cofactors]): the max-min
+    driving force is -(5 + RT ln 0.1) = 0.708 kJ/mol at RT = 2.478957 kJ/mol (298.15 K), and it
+    falls by RT per unit ln of the row's lower end (hand-derived); the finite differences agree."""
+    import numpy as np
+
+    from tfa.problem.sensitivity import PatternLP, finite_difference, solve_pattern
+
+    lp = PatternLP(["R1"], np.array([1.0]), ["A", "B"], np.array([5.0]), np.array([0.0]),
+                   np.array([0, 0]), np.array([0, 1]), np.array([-1.0, 1.0]),
+                   np.log([1e-6, 1e-6]), np.log([1e-2, 1e-2]), 2.478957, 0.1,
+                   state_rows=[({1: 1.0, 0: -1.0}, float(np.log(0.1)), None, "B/A >= 0.1")])
+    opt = solve_pattern(lp, ("driving_force", None), "max")
+    assert opt.value == pytest.approx(-(5.0 + 2.478957 * np.log(0.1)), abs=1e-6)
+    low_dual, high_dual = opt.state_duals[0]
+    assert low_dual == pytest.approx(-2.478957, rel=1e-6) and high_dual == 0.0
+    left, right = finite_difference(lp, ("driving_force", None), "max", ("state", "0", "lower"))
+    assert left == pytest.approx(-2.478957, rel=1e-3) and right == pytest.approx(-2.478957, rel=1e-3)

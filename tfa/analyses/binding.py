@@ -56,7 +56,7 @@ AT_BOUND = 1e-6
 #: Priority of the kinds in the table (lower is named first; bounds and feeds compete on the
 #: size of their dual value, both per unit ln c).
 KIND_ORDER = {"range searched": 0, "concentration bound": 1, "fed concentration": 1,
-              "reaction energy": 2, "least driving force": 3, "demand": 4}
+              "carrier state": 1, "reaction energy": 2, "least driving force": 3, "demand": 4}
 
 
 @dataclass(kw_only=True)
@@ -225,6 +225,21 @@ def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
                      "sensitivity_left": left, "sensitivity_right": right,
                      "dual_confirmed": dual_confirmed(dual, left, right),
                      "message": f"reaction {rid} runs at its limit and sets {name}: {change}"})
+    for k, (coefficients, low, high, text) in enumerate(lp.state_rows):
+        for side, dual in zip(("lower", "upper"), opt.state_duals[k]):
+            if abs(dual) <= ZERO_DUAL:
+                continue
+            left, right = finite_difference(lp, objective, sense, ("state", str(k), side))
+            change = (_ln_words(dual, name) if is_h2 else
+                      f"a rise of its {side} bound by one unit of ln changes it by {dual:+.3g} kJ/mol")
+            rows.append({"kind": "carrier state", "compound": ", ".join(
+                             lp.metabolite_ids[i] for i in coefficients), "reaction": "",
+                         "bound": side, "activity": math.nan, "sensitivity": float(dual),
+                         "sensitivity_unit": unit_bound if is_h2 else "kJ/mol per unit ln",
+                         "sensitivity_left": left, "sensitivity_right": right,
+                         "dual_confirmed": dual_confirmed(dual, left, right),
+                         "message": f"the carrier state {text} ({side} end) sets {name}: {change}"
+                                    + _one_sided(dual, left, right)})
     if is_h2 and abs(opt.delta_dual) > ZERO_DUAL:
         left, right = finite_difference(lp, objective, sense, ("delta", "", ""))
         rows.append({"kind": "least driving force", "compound": "", "reaction": "", "bound": "",

@@ -73,6 +73,9 @@ class PatternLP:
     upper: np.ndarray
     rt: float
     min_driving_force: float
+    #: Linear rows on ln c from the carrier states (ratio bounds, the phosphorylation floor):
+    #: (column -> coefficient, lower or None, upper or None, text), as in the full problem.
+    state_rows: list = field(default_factory=list)
 
     def index(self, metabolite_id: str) -> int:
         """Column of a compound (InputError naming it when it has no activity term here)."""
@@ -132,6 +135,18 @@ def pattern_lp(tm, solution, options, log_bound_overrides: dict | None = None,
             rows.append(k)
             cols.append(m_index[met.id])
             vals.append(float(coef))
+    state_rows = []
+    for row in getattr(tm, "log_rows", []):
+        # a row on compounds of the pattern binds it as in the full problem; a compound of the
+        # row that no carried reaction uses joins as a column of its own (within its bounds)
+        if not any(mid in m_index for mid in row.coefficients):
+            continue
+        for mid in row.coefficients:
+            if mid not in m_index:
+                m_index[mid] = len(met_ids)
+                met_ids.append(mid)
+        state_rows.append(({m_index[mid]: float(a) for mid, a in row.coefficients.items()},
+                           row.lower, row.upper, row.text))
     lower, upper = [], []
     for mid in met_ids:
         bounds = overrides.get(mid, tm.log_bounds.get(mid))
@@ -145,7 +160,8 @@ def pattern_lp(tm, solution, options, log_bound_overrides: dict | None = None,
                      np.array([float(tm.energies[r].standard) for r in ids], float),
                      options.uncertainty_k * np.nan_to_num(sigma), np.array(rows, int),
                      np.array(cols, int), np.array(vals, float), np.array(lower, float),
-                     np.array(upper, float), float(tm.RT), float(options.min_driving_force))
+                     np.array(upper, float), float(tm.RT), float(options.min_driving_force),
+                     state_rows)
 
 
 @dataclass
@@ -159,6 +175,7 @@ class LPOptimum:
     lower_duals, upper_duals : d(value)/d(ln lower bound), d(value)/d(ln upper bound) per compound
     energy_duals : d(value)/d(Delta_r G'deg) per reaction [value units per kJ/mol]
     delta_dual : d(value)/d(delta) (feasibility form; 0 in the driving-force form)
+    state_duals : per carrier-state row of the LP, (d(value)/d(its lower), d(value)/d(its upper))
     """
 
     value: float
@@ -168,6 +185,7 @@ class LPOptimum:
     energy_duals: np.ndarray
     delta_dual: float
     objective: tuple = field(default_factory=tuple)
+    state_duals: list = field(default_factory=list)
 
 
 def solve_pattern(lp: PatternLP, objective: tuple[str, str | None], sense: str) -> LPOptimum:
@@ -212,6 +230,26 @@ def solve_pattern(lp: PatternLP, objective: tuple[str, str | None], sense: str) 
         if with_b:
             a[k, -1] = 1.0
     b = -lp.direction * lp.standard - (0.0 if with_b else lp.min_driving_force)
+    # carrier-state rows: a x <= upper, and -a x <= -lower
+    state_index = []
+    extra_a, extra_b = [], []
+    for coefficients, low, high, _ in lp.state_rows:
+        line = np.zeros(n)
+        for i, value in coefficients.items():
+            line[i] = value
+        sides = []
+        for bound, sign_row in ((high, 1.0), (low, -1.0)):
+            if bound is None:
+                sides.append(None)
+                continue
+            sides.append(len(extra_a))
+            extra_a.append(sign_row * line)
+            extra_b.append(sign_row * float(bound))
+        state_index.append(tuple(sides))
+    if extra_a:
+        a = np.vstack([a, np.array(extra_a)])
+        b = np.concatenate([b, np.array(extra_b)])
+    n_rows = len(b)
     c = np.zeros(n)
     if with_b:
         c[-1] = 1.0
@@ -223,19 +261,23 @@ def solve_pattern(lp: PatternLP, objective: tuple[str, str | None], sense: str) 
     bounds = ([(float(lo), float(hi)) for lo, hi in zip(lp.lower, lp.upper)]
               + [(-float(w), float(w)) for w in lp.allowance]
               + ([(None, None)] if with_b else []))
-    res = linprog(sign * c, A_ub=a if n_r else None, b_ub=b if n_r else None, bounds=bounds,
+    res = linprog(sign * c, A_ub=a if n_rows else None, b_ub=b if n_rows else None, bounds=bounds,
                   method="highs")
     if res.status != 0:
         raise ComputationError(f"the linear program of the flux pattern has no optimum "
                                f"({res.message}); the pattern does not hold at these bounds")
-    row_duals = np.asarray(res.ineqlin.marginals, float) if n_r else np.zeros(0)
+    all_duals = np.asarray(res.ineqlin.marginals, float) if n_rows else np.zeros(0)
+    row_duals, extra_duals = all_duals[:n_r], all_duals[n_r:]
+    state_duals = [(0.0 if lo is None else float(-sign * extra_duals[lo]),
+                    0.0 if hi is None else float(sign * extra_duals[hi]))
+                   for hi, lo in state_index]
     lower = sign * np.asarray(res.lower.marginals, float)
     upper = sign * np.asarray(res.upper.marginals, float)
     return LPOptimum(value=sign * float(res.fun), log_conc=np.asarray(res.x[:n_m], float),
                      lower_duals=lower[:n_m], upper_duals=upper[:n_m],
                      energy_duals=sign * row_duals * (-lp.direction),
                      delta_dual=0.0 if with_b else float(sign * -row_duals.sum()),
-                     objective=(kind, target, sense))
+                     objective=(kind, target, sense), state_duals=state_duals)
 
 
 def optimum_value(lp: PatternLP, objective: tuple[str, str | None], sense: str) -> float:
@@ -253,12 +295,22 @@ def finite_difference(lp: PatternLP, objective: tuple[str, str | None], sense: s
 
     ``what``: ("lower" | "upper" | "fixed", compound id, "") for a concentration bound (ln
     units; "fixed" moves both bounds), or ("energy", reaction id, "") for a standard energy
-    (kJ/mol), or ("delta", "", "") for the least driving force. nan where the moved LP has no
-    optimum.
+    (kJ/mol), or ("delta", "", "") for the least driving force, or ("state", row number,
+    "lower" | "upper") for a bound of a carrier-state row (ln units). nan where the moved LP has
+    no optimum.
     """
-    side, name, _ = what
+    side, name, extra = what
 
     def moved(h: float) -> PatternLP:
+        if side == "state":
+            rows = list(lp.state_rows)
+            coefficients, low, high, text = rows[int(name)]
+            if extra == "lower":
+                low = low + h
+            else:
+                high = high + h
+            rows[int(name)] = (coefficients, low, high, text)
+            return replace(lp, state_rows=rows)
         if side == "energy":
             standard = lp.standard.copy()
             standard[lp.reaction_ids.index(name)] += h
