@@ -11,9 +11,9 @@ together, :meth:`~tfa.network.environment.Environment.with_gradient_scaled`; s =
 environment's, s = 0 none) and s is found by bisection on the yes/no question of
 :func:`tfa.analyses.feasibility.feasibility` (every point certified by the numpy check; every
 "no" the solver's proof, re-asked of the second solver on networks up to 1000 reactions). It
-assumes that a larger gradient never hurts (true when every ion-coupled reaction is reversible,
-since a larger gradient then only widens the range of each one's energy in the direction it can
-use; stated in the result). The answer is verified at its two ends: a certified point at s_hi and
+assumes that a larger gradient never hurts, which the bisection cannot check between its points
+(a reaction that must move ions out against the gradient could make a larger gradient hurt; the
+verification says the assumption was made). The answer is verified at its two ends: a certified point at s_hi and
 no point at s_lo, with s_hi − s_lo below the tolerance. Per entering H+ the energy is
 −RT ln10 ΔpH + F Δψ (:func:`tfa.thermo.membrane.proton_inflow_energy`, Mitchell 1961).
 
@@ -317,7 +317,7 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
                 row["h2_threshold"] = found.threshold if found.feasible else None
                 row["h2_unit"] = found.unit
     checks, sentences = [], []
-    for m in modes:
+    for m in (modes if result.has_gradient else ()):
         answers = {r["gradient"]: r for r in result.verdicts if r["mode"] == m}
         if answers.get("without", {}).get("feasible") is None and m != mode:
             continue
@@ -335,6 +335,9 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
         sentences.append(f"{m}: {words}")
     result.verification = weakest(checks, [s.split(":")[0] for s in sentences
                                            if "ignoring thermodynamics" not in s])
+    if not result.has_gradient:
+        sentences = [f"{m}: the environment has no gradient (every compartment at the cell's pH, "
+                     "Δψ = 0): nothing to scale" for m in modes]
     result.least_words = sentences
     words = "least gradient: " + "; ".join(sentences)
     tm = prepare_at(environment, mode)
