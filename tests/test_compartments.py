@@ -355,3 +355,30 @@ def test_census_keeps_fed_compounds_at_feed_and_protons_at_their_compartment_ph(
     assert ht["delta_g_standard_kJ_per_mol"] == pytest.approx(-27.6118, abs=1e-3)
     assert "e pH 5.5, Δψ = ψ cell − ψ e = -150 mV" in ht["standard_state"]
     assert "cell pH 7.5" in ht["standard_state"]
+
+
+def test_gradient_dependence_on_the_atp_synthase_network(network):
+    """The whole analysis on the hand-built ATP synthase: with the gradient ATP is made, without
+    it one step (ATPS) must be driven uphill, and the least gradient is the hand-derived
+    fraction s* = (ΔG_p + δ) / (4 |ΔG_H|) (Mitchell 1961)."""
+    from tfa.analyses import feasibility
+    from tfa.analyses.gradient import SCALE_TOLERANCE, gradient_dependence
+    from tfa.network.energies import prepare
+    from tfa.problem import ProblemOptions
+
+    options = ProblemOptions(time_limit=60)
+    env = _environment(n=4)
+    with_gradient = {"native": feasibility(prepare(network, env, "native"), options)}
+    result = gradient_dependence(
+        env, ["native"], lambda e, m: prepare(network, e, m),
+        lambda tm, diagnose: feasibility(tm, options, diagnose=diagnose), with_gradient, "native",
+        options)
+    verdicts = {r["gradient"]: r for r in result.verdicts}
+    assert verdicts["with"]["feasible"] and not verdicts["without"]["feasible"]
+    assert verdicts["without"]["uphill_set_size"] == 1
+    s_star = (_phosphorylation_potential(network, env) + options.min_driving_force) / (
+        4 * -(-R * T70 * math.log(10) * 2.0 + F * -0.150))
+    (row,) = result.least
+    assert row["mode"] == "native" and s_star <= row["gradient_scale"] <= s_star + SCALE_TOLERANCE
+    assert set(result.tables()) == {"gradient_verdicts", "least_gradient"}
+    assert "native: runs from" in result.message
