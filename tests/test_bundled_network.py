@@ -405,6 +405,7 @@ def test_what_the_gradient_pays_for_at_the_demo_setting():
     from tfa.network import bundled
     from tfa.network import environment
     from tfa.analyses import feasibility
+    from tfa.network.compartments import without_gradient
     from tfa.problem import ProblemOptions
 
     model, env = bundled.load_bundled_network(), environment.bundled_environment()
@@ -414,7 +415,7 @@ def test_what_the_gradient_pays_for_at_the_demo_setting():
         assert with_gradient.feasible and all(c.passed for c in with_gradient.certificates), mode
     fluxes = with_gradient.to_frame().set_index("reaction")["flux"]
     assert fluxes["ATPS_GRAD"] > 1e-6 and fluxes["DHODH_FUM"] > 1e-6
-    without = feasibility(energies.prepare(model, env.without_gradient(), "h2_only"), options)
+    without = feasibility(energies.prepare(model, without_gradient(env), "h2_only"), options)
     assert not without.feasible and not without.demand_impossible
     assert without.diagnosis.size == 1 and ["ATPS_GRAD"] in without.diagnosis.sets
 
@@ -489,10 +490,11 @@ def test_the_energies_exclude_atp_from_nothing():
 
     from tfa.analyses import feasibility
     from tfa.network import bundled, energies, environment
+    from tfa.network.compartments import without_gradient
     from tfa.problem import ProblemOptions
 
     model, env = bundled.load_bundled_network(), environment.bundled_environment()
-    nothing = dataclasses.replace(env.without_gradient(), feed={}, outlets=(),
+    nothing = dataclasses.replace(without_gradient(env), feed={}, outlets=(),
                                   demand_reaction="ATPM", demand_flux=0.01)
     result = feasibility(energies.prepare(model, nothing, "native"), ProblemOptions(time_limit=120),
                          diagnose=False)

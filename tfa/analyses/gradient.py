@@ -3,11 +3,11 @@ gradient across its membrane, the least gradient at which it runs, and how far H
 carrier (ferredoxin) with and without an ion-coupled enzyme (issue 19, items 3 and 6).
 
 Without the gradient means every compartment at the cell's pH and Δψ = 0
-(:meth:`tfa.network.environment.Environment.without_gradient`): no proton-motive force, all
+(:func:`tfa.network.compartments.without_gradient`): no proton-motive force, all
 else equal.
 
 The least gradient: the gradient is scaled by a factor s (ΔpH and Δψ of every compartment
-together, :meth:`~tfa.network.environment.Environment.with_gradient_scaled`; s = 1 is the
+together, :func:`~tfa.network.compartments.with_gradient_scaled`; s = 1 is the
 environment's, s = 0 none) and s is found by bisection on the yes/no question of
 :func:`tfa.analyses.feasibility.feasibility` (every point certified by the numpy check; every
 "no" the solver's proof, re-asked of the second solver on networks up to 1000 reactions). It
@@ -43,6 +43,7 @@ import pandas as pd
 
 from ..constants import FARADAY, LN10
 from ..errors import InputError, UndeterminedError
+from ..network.compartments import with_gradient_scaled, without_gradient
 from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions
 from ..thermo.membrane import proton_inflow_energy, proton_motive_force_mV
@@ -146,10 +147,10 @@ def least_gradient(environment, prepare: Prepare, ask: Ask, at_zero=None, at_one
         steps[0] += 1
         if progress is not None:
             progress(min(steps[0], budget), budget)
-        return ask(prepare(environment.with_gradient_scaled(scale)), False)
+        return ask(prepare(with_gradient_scaled(environment, scale)), False)
 
     def rows_at(scale: float, feasible: bool, status: str, words: str) -> list[dict]:
-        rows = gradient_rows(environment.with_gradient_scaled(scale))
+        rows = gradient_rows(with_gradient_scaled(environment, scale))
         for row in rows:
             row.update(gradient_scale=scale, feasible=feasible, status=status, message=words)
         return rows
@@ -283,7 +284,7 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
                          "gradient to compare with; give one with [compartments.ID] pH = ...")
     result = GradientResult(conditions=environment.conditions)
     result.has_gradient = has_gradient(environment)
-    flat = environment.without_gradient()
+    flat = without_gradient(environment)
     budget = 2 + math.ceil(math.log2(max(MAX_SCALE / SCALE_TOLERANCE, 2)))
     total = len(modes) + 1 + budget * len(modes)
     done = [0]
