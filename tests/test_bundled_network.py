@@ -463,7 +463,7 @@ def test_the_gradient_alone_makes_no_demand_and_no_reductant(model):
 
 def test_no_atp_or_reductant_from_nothing(model):
     """With every feed closed, plain flux balance finds no H2 and no demand; it does find ATP
-    made from nothing, through the reactions whose imposed directions were lifted (issue 19
+    made from nothing, through the reactions whose imposed directions were lifted (direction
     review: formate-THF ligase, aldehyde and GAP:ferredoxin oxidoreductases, ferredoxin-NAD(P)+
     reductases, citrate lyase), a stoichiometric loop; the thermodynamic constraints exclude it
     (next test)."""
@@ -504,7 +504,7 @@ def test_the_energies_exclude_atp_from_nothing():
 
 @pytest.mark.slow
 def test_the_assessment_says_what_the_gradient_does_for_ferredoxin_and_for_each_mode(capsys):
-    """Issue 19 acceptance, at the demo setting: whether ferredoxin can be reduced by H2 with
+    """At the demo setting: whether ferredoxin can be reduced by H2 with
     the gradient's help and how much gradient that needs; the verdicts with and without the
     gradient and the least gradient at which H2-only runs. Checked against hand arithmetic:
     2 H+ at ΔpH 2 raise the reachable red/ox ratio by 10^(2×2) = 1e4 (Mitchell 1961); H2-only

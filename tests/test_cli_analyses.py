@@ -50,7 +50,7 @@ def census_json():
 def test_census_energy_at_1mM_recomputed(census_json, tmp_path):
     """Alberty 2003 eq. 4.1-4 at 1 mM (Flamholz et al. 2012): recomputed for every reaction; fed
     compounds stay at their feed values, and H+ of either compartment (h, h_out) and water have
-    no activity term (issue 19)."""
+    no activity term."""
     from tfa.network.bundled import load_bundled_network
 
     model = load_bundled_network()

@@ -1,4 +1,4 @@
-"""Compartments and the proton-motive force (issue 19, item 2), on small hand-built networks
+"""Compartments and the proton-motive force, on small hand-built networks
 with hand-derived answers.
 
 Sign convention under test: Δψ = ψ(cell) − ψ(compartment) (the environment's
@@ -340,7 +340,7 @@ def test_ferredoxin_by_h2_with_and_without_the_gradient(tmp_path):
 
 
 def test_census_keeps_fed_compounds_at_feed_and_protons_at_their_compartment_ph(network):
-    """Census (issue 19 item 7): ΔrG' 'at 1 mM' keeps the fed compounds (ADP 1 mM, Pi 10 mM) at
+    """Census: ΔrG' 'at 1 mM' keeps the fed compounds (ADP 1 mM, Pi 10 mM) at
     their feed values; H+ of either compartment has no activity term (it stands at its
     compartment's pH, inside ΔrG'°); a reaction across the membrane states its reference."""
     from tfa.analyses.census import census

@@ -184,7 +184,7 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("route_bottlenecks", "reactions at the named route's max-min driving force", ""),
     ("command", "the command that printed the JSON", ""),
     ("tables", "every table of the answer: file stem -> rows", ""),
-    # issue 19a: compartments, the proton-motive force, thresholds with and without the gradient
+    # compartments, the proton-motive force, thresholds with and without the gradient
     ("compartment", "compartment id of a compound ('' or the cell's id: the cell, whose "
                     "conditions the environment's [conditions] give)", ""),
     ("gradient", "with or without the environment's gradient across the membrane (every "

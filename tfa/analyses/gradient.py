@@ -1,6 +1,6 @@
 """Which energy source a network depends on: its verdicts and H2 threshold with and without the
 gradient across its membrane, the least gradient at which it runs, and how far H2 can reduce a
-carrier (ferredoxin) with and without an ion-coupled enzyme (issue 19, items 3 and 6).
+carrier (ferredoxin) with and without an ion-coupled enzyme.
 
 Without the gradient means every compartment at the cell's pH and Δψ = 0
 (:func:`tfa.network.compartments.without_gradient`): no proton-motive force, all

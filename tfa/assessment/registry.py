@@ -69,4 +69,4 @@ def step_ids() -> list[str]:
 for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
               DrivingForceStep(), EnergyProfileStep(), RangesStep(), RobustnessStep()):
     register_step(_step)
-register_step(GradientStep(), before="driving_force")   # issue 19a
+register_step(GradientStep(), before="driving_force")   # the gradient across the membrane

@@ -1,4 +1,4 @@
-"""Compartments of a network (issue 19): which compartment is the cell, the warning for a
+"""Compartments of a network: which compartment is the cell, the warning for a
 compartment whose pH the environment does not state, and the ion stoichiometry of reactions
 that move ions across the membrane (an environment parameter, e.g. H+ per ATP).
 
@@ -99,7 +99,7 @@ def set_ion_stoichiometry(model: cobra.Model, stoichiometry: dict[str, float], w
 def compartment_warnings(model: cobra.Model, environment) -> list[str]:
     """One warning per compartment of ``model`` besides the cell that the environment gives no
     pH: its compounds are taken at the cell's pH with Δψ = 0, which is rarely what the network
-    means (issue 19)."""
+    means."""
     from .role_inference import inner_compartment
 
     cell = inner_compartment(model)
@@ -277,7 +277,7 @@ def offset_words(compartment: str, offset: float) -> str:
 def standard_state_words(table, stoichiometry: Mapping[str, float]) -> str:
     """The reference of ΔrG'° of a reaction across a membrane, in words ("" within the cell):
     every compound at 1 mol/L (gases 1 bar) in its own compartment, at that compartment's pH,
-    ionic strength and electric potential, H+ of each compartment at its pH (issue 19)."""
+    ionic strength and electric potential, H+ of each compartment at its pH."""
     places = {table.compounds[m].compartment for m in stoichiometry if m in table.compounds}
     if not places - {""}:
         return ""

@@ -73,8 +73,8 @@ SECTIONS: dict[str, tuple[str, ...] | None] = {
     "bounds": None,
     "demand": ("reaction", "flux", "none"),
     "outlets": ("allowed",),
-    "compartments": None,          # issue 19: [compartments.ID] pH, ionic_strength_M, pMg, membrane_potential_mV
-    "ion_stoichiometry": None,     # issue 19: reaction id -> ions moved across the membrane per turnover
+    "compartments": None,          # [compartments.ID] pH, ionic_strength_M, pMg, membrane_potential_mV
+    "ion_stoichiometry": None,     # reaction id -> ions moved across the membrane per turnover
 }
 REQUIRED_CONDITIONS = ("temperature_C", "pH", "ionic_strength_M")
 #: Default concentration bounds, mol/L, when a file gives none (common practice in
