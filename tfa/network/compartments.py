@@ -219,6 +219,29 @@ def without_gradient(environment):
     return with_gradient_scaled(environment, 0.0)
 
 
+def with_cell_ph(environment, ph: float, hold_gradient: bool = True):
+    """A copy of ``environment`` with the cell at pH ``ph``; with ``hold_gradient`` every
+    compartment's pH moves by the same amount, so ΔpH (and Δψ) stay as they were (a pH axis that
+    does not silently change the gradient), else the compartments keep their own pH.
+
+    >>> from tfa.network.environment import Environment
+    >>> env = Environment("demo", Conditions(ph=7.5), compartments={"out": Compartment("out", 5.5)})
+    >>> with_cell_ph(env, 8.0).compartments["out"].ph, with_cell_ph(env, 8.0, False).compartments["out"].ph
+    (6.0, 5.5)
+
+    Raises
+    ------
+    ConditionsError
+        When a moved pH leaves 0-14.
+    """
+    shift = ph - environment.conditions.ph
+    moved = environment.with_conditions(ph=ph)
+    if not hold_gradient:
+        return moved
+    return replace(moved, compartments={cid: replace(c, ph=c.ph + shift)
+                                        for cid, c in environment.compartments.items()})
+
+
 def describe_compartments(environment, prefix: str = "") -> str:
     """The compartments besides the cell in words ("" when none), e.g.
     ``out: pH 5.50, Δψ = 0 mV (ψ cell − ψ out)``."""
