@@ -159,6 +159,29 @@ COLUMNS: dict[str, Term] = _terms(
     ("ionic_strength_mol_per_L", "ionic strength", "mol/L"),
     ("pressure_bar", "pressure", "bar"),
     ("pMg", "-log10 of the free Mg2+ activity", ""),
+    # compartments, the proton-motive force, thresholds with and without the gradient
+    ("compartment", "compartment id of a compound ('' or the cell's id: the cell, whose "
+                    "conditions the environment's [conditions] give)", ""),
+    ("gradient", "with or without the environment's gradient across the membrane (every "
+                 "compartment's pH and membrane potential, or the cell's pH and 0 mV)", ""),
+    ("gradient_scale", "fraction of the environment's gradient (ΔpH and Δψ of every compartment "
+                       "scaled together; 0 none, 1 the environment's)", ""),
+    ("delta_ph", "ΔpH = pH(cell) − pH(compartment)", ""),
+    ("membrane_potential_mV", "Δψ = ψ(cell) − ψ(compartment); negative when the cell is negative "
+                              "inside", "mV"),
+    ("proton_inflow_kJ_per_mol", "ΔG of one H+ entering the cell from the compartment, "
+                                 "−RT ln10 ΔpH + F Δψ (Mitchell 1961)", "kJ/mol"),
+    ("proton_motive_force_mV", "Δp = Δψ − (RT ln10 / F) ΔpH; negative when it drives H+ in", "mV"),
+    ("ions_in", "ions a reaction takes into the cell per turnover (negative: out)", ""),
+    ("reduced_to_oxidised_max", "the highest reduced/oxidised ratio of a carrier that the "
+                                "reaction can reach running downhill at the given H2", ""),
+    ("carrier_potential_mV", "reduction potential E' of the carrier pair at that ratio", "mV"),
+    ("needed_per_ion_kJ_per_mol", "energy each entering ion must bring for the reaction to reach "
+                                  "the most reduced carrier state the bounds allow (0: none "
+                                  "needed)", "kJ/mol"),
+    ("standard_state", "what ΔrG'° refers to: every compound at 1 mol/L (gases 1 bar) at the "
+                       "environment's pH; for a reaction across a membrane, each compound at its "
+                       "compartment's pH and electric potential", ""),
 )
 
 #: Keys of ``summary.json`` besides table columns.
@@ -184,29 +207,6 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("route_bottlenecks", "reactions at the named route's max-min driving force", ""),
     ("command", "the command that printed the JSON", ""),
     ("tables", "every table of the answer: file stem -> rows", ""),
-    # compartments, the proton-motive force, thresholds with and without the gradient
-    ("compartment", "compartment id of a compound ('' or the cell's id: the cell, whose "
-                    "conditions the environment's [conditions] give)", ""),
-    ("gradient", "with or without the environment's gradient across the membrane (every "
-                 "compartment's pH and membrane potential, or the cell's pH and 0 mV)", ""),
-    ("gradient_scale", "fraction of the environment's gradient (ΔpH and Δψ of every compartment "
-                       "scaled together; 0 none, 1 the environment's)", ""),
-    ("delta_ph", "ΔpH = pH(cell) − pH(compartment)", ""),
-    ("membrane_potential_mV", "Δψ = ψ(cell) − ψ(compartment); negative when the cell is negative "
-                              "inside", "mV"),
-    ("proton_inflow_kJ_per_mol", "ΔG of one H+ entering the cell from the compartment, "
-                                 "−RT ln10 ΔpH + F Δψ (Mitchell 1961)", "kJ/mol"),
-    ("proton_motive_force_mV", "Δp = Δψ − (RT ln10 / F) ΔpH; negative when it drives H+ in", "mV"),
-    ("ions_in", "ions a reaction takes into the cell per turnover (negative: out)", ""),
-    ("reduced_to_oxidised_max", "the highest reduced/oxidised ratio of a carrier that the "
-                                "reaction can reach running downhill at the given H2", ""),
-    ("carrier_potential_mV", "reduction potential E' of the carrier pair at that ratio", "mV"),
-    ("needed_per_ion_kJ_per_mol", "energy each entering ion must bring for the reaction to reach "
-                                  "the most reduced carrier state the bounds allow (0: none "
-                                  "needed)", "kJ/mol"),
-    ("standard_state", "what ΔrG'° refers to: every compound at 1 mol/L (gases 1 bar) at the "
-                       "environment's pH; for a reaction across a membrane, each compound at its "
-                       "compartment's pH and electric potential", ""),
 )
 
 #: Symbols used in text: key -> (Unicode, ASCII fallback).

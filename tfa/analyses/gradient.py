@@ -297,6 +297,14 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
     flat_answers: dict = {}
     for m in modes:
         for label, answer in (("with", with_gradient[m]), ("without", None)):
+            if answer is None and not with_gradient[m].feasible:
+                # not asked again: a mode that does not run with the gradient does not run with
+                # less of it (the assumption of the module text), and its diagnosis is costly
+                result.verdicts.append({
+                    "mode": m, "gradient": label, "feasible": False, "uphill_set_size": None,
+                    "message": "infeasible: it does not run even with the gradient (not asked "
+                               "again without it)"})
+                continue
             if answer is None:
                 tick()
                 try:
@@ -326,6 +334,10 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
             sentences.append(f"{m}: the demand cannot be met even ignoring thermodynamics, with "
                              "any gradient")
             continue
+        if not with_gradient[m].feasible and m != mode:
+            sentences.append(f"{m}: does not run at the environment's gradient (larger gradients "
+                             f"are searched in the analysis mode, {mode}, only)")
+            continue
         rows, check, words = least_gradient(environment, lambda env, m=m: prepare_at(env, m), ask,
                                             at_zero=flat_answers.get(m), at_one=with_gradient[m],
                                             progress=lambda d, t: tick())
@@ -335,7 +347,8 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
         checks.append(check)
         sentences.append(f"{m}: {words}")
     result.verification = weakest(checks, [s.split(":")[0] for s in sentences
-                                           if "ignoring thermodynamics" not in s])
+                                           if "ignoring thermodynamics" not in s
+                                           and "larger gradients are searched" not in s])
     if not result.has_gradient:
         sentences = [f"{m}: the environment has no gradient (every compartment at the cell's pH, "
                      "Δψ = 0): nothing to scale" for m in modes]
