@@ -387,5 +387,5 @@ def carrier_words(rows: list[dict]) -> str:
                  f"needs at least {needed:.3g} kJ/mol from each entering H+ (ΔpH "
                  f"{needed / best_c['rt_ln10']:.3g} at Δψ = 0, or Δψ {-1000 * needed / FARADAY:.3g} "
                  "mV at ΔpH = 0)")
-    return text
+    return text + " [computed: arithmetic on the reaction energies, no optimisation]"
 
