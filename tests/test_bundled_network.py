@@ -407,6 +407,7 @@ def test_what_the_gradient_pays_for_at_the_demo_setting():
     from tfa.network import bundled
     from tfa.network import environment
     from tfa.analyses import feasibility
+    from tfa.network.compartments import without_gradient
     from tfa.problem import ProblemOptions
 
     model, env = bundled.load_bundled_network(), environment.bundled_environment()
@@ -416,7 +417,7 @@ def test_what_the_gradient_pays_for_at_the_demo_setting():
         assert with_gradient.feasible and all(c.passed for c in with_gradient.certificates), mode
     fluxes = with_gradient.to_frame().set_index("reaction")["flux"]
     assert fluxes["ATPS_GRAD"] > 1e-6 and fluxes["DHODH_FUM"] > 1e-6
-    without = feasibility(energies.prepare(model, env.without_gradient(), "h2_only"), options)
+    without = feasibility(energies.prepare(model, without_gradient(env), "h2_only"), options)
     assert not without.feasible and not without.demand_impossible
     # one step must then be driven; with the physiological carrier states of the environment
     # more than one single step will do (ATP synthesis itself, or running the aldehyde:ferredoxin
@@ -467,7 +468,7 @@ def test_the_gradient_alone_makes_no_demand_and_no_reductant(model):
 
 def test_no_atp_or_reductant_from_nothing(model):
     """With every feed closed, plain flux balance finds no H2 and no demand; it does find ATP
-    made from nothing, through the reactions whose imposed directions were lifted (issue 19
+    made from nothing, through the reactions whose imposed directions were lifted (direction
     review: formate-THF ligase, aldehyde and GAP:ferredoxin oxidoreductases, ferredoxin-NAD(P)+
     reductases, citrate lyase), a stoichiometric loop; the thermodynamic constraints exclude it
     (next test)."""
@@ -494,10 +495,11 @@ def test_the_energies_exclude_atp_from_nothing():
 
     from tfa.analyses import feasibility
     from tfa.network import bundled, energies, environment
+    from tfa.network.compartments import without_gradient
     from tfa.problem import ProblemOptions
 
     model, env = bundled.load_bundled_network(), environment.bundled_environment()
-    nothing = dataclasses.replace(env.without_gradient(), feed={}, outlets=(),
+    nothing = dataclasses.replace(without_gradient(env), feed={}, outlets=(),
                                   demand_reaction="ATPM", demand_flux=0.01)
     result = feasibility(energies.prepare(model, nothing, "native"), ProblemOptions(time_limit=120),
                          diagnose=False)
@@ -507,7 +509,7 @@ def test_the_energies_exclude_atp_from_nothing():
 
 @pytest.mark.slow
 def test_the_assessment_says_what_the_gradient_does_for_ferredoxin_and_for_each_mode(capsys):
-    """Issue 19 acceptance, at the demo setting: whether ferredoxin can be reduced by H2 with
+    """At the demo setting: whether ferredoxin can be reduced by H2 with
     the gradient's help and how much gradient that needs; the verdicts with and without the
     gradient and the least gradient at which H2-only runs. Checked against hand arithmetic:
     2 H+ at ΔpH 2 raise the reachable red/ox ratio by 10^(2×2) = 1e4 (Mitchell 1961); H2-only
@@ -535,3 +537,36 @@ def test_the_assessment_says_what_the_gradient_does_for_ferredoxin_and_for_each_
     assert coupled["reduced_to_oxidised_max"] / direct["reduced_to_oxidised_max"] == \
         pytest.approx(1e4, rel=1e-6)
     assert 0 < coupled["needed_per_ion_kJ_per_mol"] < 13.1   # less than the demo's 13.1 per H+
+
+
+def test_ion_coupled_redox_energies_against_published_potentials():
+    """At 25 °C, pH 7, I = 0 with no gradient the ion-coupled enzymes reduce to their soluble
+    reactions, whose ΔrG'° follow from E'° (Thauer, Jungermann & Decker 1977, Bacteriol. Rev.
+    41:100, table of redox potentials, from memory): Fd (−420 mV) to NAD+ (−320 mV):
+    −2F(0.100 V) = −19.3 kJ/mol; H2(aq) to Fd: −2F(−0.420 + 0.414) − ΔfG°(H2, aq) ≈ +1.2 −
+    17.7 = −16.5 kJ/mol (H2(aq) 17.7 kJ/mol, Shock & Helgeson 1988, from memory); dihydroorotate
+    (−290 mV, from memory) to fumarate (+33 mV): −62.3 kJ/mol. At the demo setting each H+ that
+    enters brings −RT ln10 × 2 = −13.139 kJ/mol (Mitchell 1961), so ECH − HYD_FD = 2 × that and
+    RNF − FNOR = −2 × that, exactly."""
+    import dataclasses
+
+    from tfa.conditions import Conditions
+    from tfa.network import bundled, energies, environment
+    from tfa.network.compartments import without_gradient
+
+    model, env = bundled.load_bundled_network(), environment.bundled_environment()
+    flat = without_gradient(env)
+    at25 = dataclasses.replace(flat, conditions=Conditions.from_celsius(25, ph=7.0),
+                               compartments={k: dataclasses.replace(c, ph=7.0, ionic_strength=0.0)
+                                             for k, c in flat.compartments.items()})
+    e = energies.prepare(model, at25, "native").energies
+    assert e["RNF"].standard == pytest.approx(e["FNOR"].standard, abs=1e-9)
+    assert e["ECH"].standard == pytest.approx(e["HYD_FD"].standard, abs=1e-9)
+    assert e["FNOR"].standard == pytest.approx(-19.3, abs=3.0)
+    assert e["HYD_FD"].standard == pytest.approx(-16.5, abs=3.0)
+    assert e["DHODH_FUM"].standard == pytest.approx(-62.3, abs=8.0)
+    demo = energies.prepare(model, env, "native").energies
+    per_h = -8.314462618e-3 * env.conditions.temperature * math.log(10) * 2.0
+    assert per_h == pytest.approx(-13.139, abs=1e-3)
+    assert demo["ECH"].standard - demo["HYD_FD"].standard == pytest.approx(2 * per_h, abs=1e-6)
+    assert demo["RNF"].standard - demo["FNOR"].standard == pytest.approx(-2 * per_h, abs=1e-6)

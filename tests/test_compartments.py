@@ -1,4 +1,4 @@
-"""Compartments and the proton-motive force (issue 19, item 2), on small hand-built networks
+"""Compartments and the proton-motive force, on small hand-built networks
 with hand-derived answers.
 
 Sign convention under test: Δψ = ψ(cell) − ψ(compartment) (the environment's
@@ -12,6 +12,8 @@ from __future__ import annotations
 import math
 
 import pytest
+
+from tfa.network.compartments import with_gradient_scaled, without_gradient
 
 R = 8.314462618e-3       # kJ/mol/K, CODATA 2018
 F = 96.48533212          # kJ/mol/V, CODATA 2018
@@ -157,8 +159,8 @@ def test_environment_compartments_are_checked(tmp_path):
     path.write_text(base + "[compartments.e]\npH = 6.0\nmembrane_potential_mV = -120\n")
     env = Environment.from_toml(path)
     assert env.compartments["e"].ph == 6.0 and env.compartments["e"].membrane_potential_V == -0.12
-    assert env.without_gradient().compartments["e"].ph == 7.0
-    assert env.with_gradient_scaled(0.5).compartments["e"].ph == pytest.approx(6.5)
+    assert without_gradient(env).compartments["e"].ph == 7.0
+    assert with_gradient_scaled(env, 0.5).compartments["e"].ph == pytest.approx(6.5)
     path.write_text(base + "[compartments.e]\nmembrane_potential_mV = -120\n")
     with pytest.raises(NetworkFileError, match="'pH' is missing"):
         Environment.from_toml(path)
@@ -213,7 +215,7 @@ def test_least_gradient_of_an_atp_synthase_is_the_hand_derived_one(network):
     assert row["membrane_potential_mV"] == pytest.approx(-150.0 * row["gradient_scale"])
     assert check["status"] in ("proven", "solver proof") and "certified point" in check["check"]
     # without the gradient nothing runs; with three times it, it does
-    no = feasibility(prepare(network, env.without_gradient(), "native"), options, diagnose=False)
+    no = feasibility(prepare(network, without_gradient(env), "native"), options, diagnose=False)
     assert not no.feasible
 
 
@@ -236,6 +238,7 @@ def test_textbook_transport_energies_follow_the_stated_compartment_ph(textbook_s
     −150 mV); the phosphate symport PIt2r changes too; without a stated pH the user is told."""
     import logging
 
+    from tfa.network.compartments import with_compartment
     from tfa.network.energies import prepare
     from tfa.network.inputs import resolve_inputs
 
@@ -248,7 +251,7 @@ def test_textbook_transport_energies_follow_the_stated_compartment_ph(textbook_s
     rt_ln10 = R * env.conditions.temperature * math.log(10)
     energy = {}
     for ph_e, psi in ((7.0, 0.0), (6.0, 0.0), (7.0, -150.0)):
-        tm = prepare(model, env.with_compartment("e", ph=ph_e, membrane_potential_mV=psi), "native")
+        tm = prepare(model, with_compartment(env, "e", ph=ph_e, membrane_potential_mV=psi), "native")
         energy[ph_e, psi] = {r: tm.energies[r].standard for r in ("ATPS4r", "PIt2r")}
     flat = prepare(model, env, "native")   # no compartment stated: the cell's pH, 0 mV
     assert flat.energies["ATPS4r"].standard == pytest.approx(energy[7.0, 0.0]["ATPS4r"], abs=1e-9)
@@ -263,6 +266,7 @@ def test_textbook_transport_energies_follow_the_stated_compartment_ph(textbook_s
 def test_textbook_cobra_json_compartments_map_the_same_way(textbook_sbml, tmp_path):
     import cobra
 
+    from tfa.network.compartments import with_compartment
     from tfa.network.energies import prepare
     from tfa.network.inputs import resolve_inputs
 
@@ -271,7 +275,7 @@ def test_textbook_cobra_json_compartments_map_the_same_way(textbook_sbml, tmp_pa
     values = []
     for source in (textbook_sbml, path):
         inputs = resolve_inputs(source)
-        env = inputs.environment.with_compartment("e", ph=6.0, membrane_potential_mV=-150.0)
+        env = with_compartment(inputs.environment, "e", ph=6.0, membrane_potential_mV=-150.0)
         values.append(prepare(inputs.model, env, "native").energies["ATPS4r"].standard)
     assert values[1] == pytest.approx(values[0], abs=1e-9)
 
@@ -330,13 +334,13 @@ def test_ferredoxin_by_h2_with_and_without_the_gradient(tmp_path):
     at_bound = g_direct + rt * (math.log(1e-2 / 1e-6) - math.log(1e-3))
     assert rows["ECH"]["needed_per_ion_kJ_per_mol"] == pytest.approx(max(0.0, (at_bound + delta) / 2))
     # without the gradient the coupled enzyme does no better than the direct one
-    flat = {r["reaction"]: r for r in carrier_by_h2(prepare(model, env.without_gradient(), "native"),
+    flat = {r["reaction"]: r for r in carrier_by_h2(prepare(model, without_gradient(env), "native"),
                                                     "h2", options)}
     assert flat["ECH"]["reduced_to_oxidised_max"] == pytest.approx(flat["HYD"]["reduced_to_oxidised_max"])
 
 
 def test_census_keeps_fed_compounds_at_feed_and_protons_at_their_compartment_ph(network):
-    """Census (issue 19 item 7): ΔrG' 'at 1 mM' keeps the fed compounds (ADP 1 mM, Pi 10 mM) at
+    """Census: ΔrG' 'at 1 mM' keeps the fed compounds (ADP 1 mM, Pi 10 mM) at
     their feed values; H+ of either compartment has no activity term (it stands at its
     compartment's pH, inside ΔrG'°); a reaction across the membrane states its reference."""
     from tfa.analyses.census import census
@@ -355,3 +359,30 @@ def test_census_keeps_fed_compounds_at_feed_and_protons_at_their_compartment_ph(
     assert ht["delta_g_standard_kJ_per_mol"] == pytest.approx(-27.6118, abs=1e-3)
     assert "e pH 5.5, Δψ = ψ cell − ψ e = -150 mV" in ht["standard_state"]
     assert "cell pH 7.5" in ht["standard_state"]
+
+
+def test_gradient_dependence_on_the_atp_synthase_network(network):
+    """The whole analysis on the hand-built ATP synthase: with the gradient ATP is made, without
+    it one step (ATPS) must be driven uphill, and the least gradient is the hand-derived
+    fraction s* = (ΔG_p + δ) / (4 |ΔG_H|) (Mitchell 1961)."""
+    from tfa.analyses import feasibility
+    from tfa.analyses.gradient import SCALE_TOLERANCE, gradient_dependence
+    from tfa.network.energies import prepare
+    from tfa.problem import ProblemOptions
+
+    options = ProblemOptions(time_limit=60)
+    env = _environment(n=4)
+    with_gradient = {"native": feasibility(prepare(network, env, "native"), options)}
+    result = gradient_dependence(
+        env, ["native"], lambda e, m: prepare(network, e, m),
+        lambda tm, diagnose: feasibility(tm, options, diagnose=diagnose), with_gradient, "native",
+        options)
+    verdicts = {r["gradient"]: r for r in result.verdicts}
+    assert verdicts["with"]["feasible"] and not verdicts["without"]["feasible"]
+    assert verdicts["without"]["uphill_set_size"] == 1
+    s_star = (_phosphorylation_potential(network, env) + options.min_driving_force) / (
+        4 * -(-R * T70 * math.log(10) * 2.0 + F * -0.150))
+    (row,) = result.least
+    assert row["mode"] == "native" and s_star <= row["gradient_scale"] <= s_star + SCALE_TOLERANCE
+    assert set(result.tables()) == {"gradient_verdicts", "least_gradient"}
+    assert "native: runs from" in result.message

@@ -254,7 +254,7 @@ def condition_overrides(given, where: str = "conditions") -> dict:
 
 @dataclass(frozen=True)
 class Compartment:
-    """The conditions of one compartment other than the cell (issue 19): its pH, and optionally
+    """The conditions of one compartment other than the cell: its pH, and optionally
     its ionic strength and pMg (the cell's when not given), and the membrane potential between
     the cell and it.
 

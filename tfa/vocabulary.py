@@ -152,7 +152,7 @@ COLUMNS: dict[str, Term] = _terms(
     ("h2_threshold_q50", "median of the H2 threshold over the draws", ""),
     ("h2_threshold_q75", "75 % quantile of the H2 threshold over the draws", ""),
     ("h2_threshold_q95", "95 % quantile of the H2 threshold over the draws", ""),
-    # issue 14b: what binds, and the H2 answer as a window
+    # what binds, and the H2 answer as a window
     ("answer", "the answer a binding constraint belongs to: feasible, h2_threshold, "
                "h2_window_low, h2_window_high, driving_force", ""),
     ("rank", "order of a row within its answer (1 = the constraint named first)", ""),
@@ -221,7 +221,7 @@ COLUMNS: dict[str, Term] = _terms(
     ("steps", "the reactions along a path in the direction they run, joined by ', '", ""),
     ("fixation_step", "the reaction that takes a path's carbon from the feed, with its pathway tag",
      ""),
-    ("route", "the pathway tags along a path, joined by ' → '", ""),
+    ("pathway_tags", "the pathway tags along a path, joined by ' → '", ""),
     ("carbon_flux_per_demand", "carbon a path carries (or a cycle circulates)",
      "mol C per unit of demand"),
     ("carbon_share", "a path's part of the carbon taken from the feed", ""),
@@ -260,6 +260,29 @@ COLUMNS: dict[str, Term] = _terms(
     ("probability_change", "probability minus the probability with the assumption held central",
      ""),
     ("scenario", "what was drawn: energies, assumptions, or both", ""),
+    # compartments, the proton-motive force, thresholds with and without the gradient
+    ("compartment", "compartment id of a compound ('' or the cell's id: the cell, whose "
+                    "conditions the environment's [conditions] give)", ""),
+    ("gradient", "with or without the environment's gradient across the membrane (every "
+                 "compartment's pH and membrane potential, or the cell's pH and 0 mV)", ""),
+    ("gradient_scale", "fraction of the environment's gradient (ΔpH and Δψ of every compartment "
+                       "scaled together; 0 none, 1 the environment's)", ""),
+    ("delta_ph", "ΔpH = pH(cell) − pH(compartment)", ""),
+    ("membrane_potential_mV", "Δψ = ψ(cell) − ψ(compartment); negative when the cell is negative "
+                              "inside", "mV"),
+    ("proton_inflow_kJ_per_mol", "ΔG of one H+ entering the cell from the compartment, "
+                                 "−RT ln10 ΔpH + F Δψ (Mitchell 1961)", "kJ/mol"),
+    ("proton_motive_force_mV", "Δp = Δψ − (RT ln10 / F) ΔpH; negative when it drives H+ in", "mV"),
+    ("ions_in", "ions a reaction takes into the cell per turnover (negative: out)", ""),
+    ("reduced_to_oxidised_max", "the highest reduced/oxidised ratio of a carrier that the "
+                                "reaction can reach running downhill at the given H2", ""),
+    ("carrier_potential_mV", "reduction potential E' of the carrier pair at that ratio", "mV"),
+    ("needed_per_ion_kJ_per_mol", "energy each entering ion must bring for the reaction to reach "
+                                  "the most reduced carrier state the bounds allow (0: none "
+                                  "needed)", "kJ/mol"),
+    ("standard_state", "what ΔrG'° refers to: every compound at 1 mol/L (gases 1 bar) at the "
+                       "environment's pH; for a reaction across a membrane, each compound at its "
+                       "compartment's pH and electric potential", ""),
 )
 
 # per-precursor verdicts; the order and count of minimal sets; the energy to supply
@@ -348,29 +371,6 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("carbon_fixation", "per mode, the share of the feed's carbon per fixation step", ""),
     ("profile_path", "the steps of the energy profile and what they follow", ""),
     ("tables", "every table of the answer: file stem -> rows", ""),
-    # issue 19a: compartments, the proton-motive force, thresholds with and without the gradient
-    ("compartment", "compartment id of a compound ('' or the cell's id: the cell, whose "
-                    "conditions the environment's [conditions] give)", ""),
-    ("gradient", "with or without the environment's gradient across the membrane (every "
-                 "compartment's pH and membrane potential, or the cell's pH and 0 mV)", ""),
-    ("gradient_scale", "fraction of the environment's gradient (ΔpH and Δψ of every compartment "
-                       "scaled together; 0 none, 1 the environment's)", ""),
-    ("delta_ph", "ΔpH = pH(cell) − pH(compartment)", ""),
-    ("membrane_potential_mV", "Δψ = ψ(cell) − ψ(compartment); negative when the cell is negative "
-                              "inside", "mV"),
-    ("proton_inflow_kJ_per_mol", "ΔG of one H+ entering the cell from the compartment, "
-                                 "−RT ln10 ΔpH + F Δψ (Mitchell 1961)", "kJ/mol"),
-    ("proton_motive_force_mV", "Δp = Δψ − (RT ln10 / F) ΔpH; negative when it drives H+ in", "mV"),
-    ("ions_in", "ions a reaction takes into the cell per turnover (negative: out)", ""),
-    ("reduced_to_oxidised_max", "the highest reduced/oxidised ratio of a carrier that the "
-                                "reaction can reach running downhill at the given H2", ""),
-    ("carrier_potential_mV", "reduction potential E' of the carrier pair at that ratio", "mV"),
-    ("needed_per_ion_kJ_per_mol", "energy each entering ion must bring for the reaction to reach "
-                                  "the most reduced carrier state the bounds allow (0: none "
-                                  "needed)", "kJ/mol"),
-    ("standard_state", "what ΔrG'° refers to: every compound at 1 mol/L (gases 1 bar) at the "
-                       "environment's pH; for a reaction across a membrane, each compound at its "
-                       "compartment's pH and electric potential", ""),
     ("verdict_margins", "per mode, the distance to a flipped verdict", ""),
 )
 

@@ -9,7 +9,7 @@ At 1 mM of every reactant (gases at 1e-3 bar) this is the "Delta_r G'm" of Flamh
 1 mM * sqrt(r) and every product at 1 mM / sqrt(r) (geometric mean 1 mM, each substrate/product
 pair at ratio r). H+ and water never enter the activity term: each compartment's H+ stands at
 that compartment's pH (its energy is in ΔrG'°). Fed compounds stay at their feed values in both
-reference states (they are fixed by the environment; issue 19). ΔrG'° of a reaction across a
+reference states (they are fixed by the environment). ΔrG'° of a reaction across a
 membrane refers to each compound in its own compartment, and the column ``standard_state`` says
 so (:func:`tfa.network.energies.standard_state_words`).
 """

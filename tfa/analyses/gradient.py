@@ -1,19 +1,19 @@
 """Which energy source a network depends on: its verdicts and H2 threshold with and without the
 gradient across its membrane, the least gradient at which it runs, and how far H2 can reduce a
-carrier (ferredoxin) with and without an ion-coupled enzyme (issue 19, items 3 and 6).
+carrier (ferredoxin) with and without an ion-coupled enzyme.
 
 Without the gradient means every compartment at the cell's pH and Δψ = 0
-(:meth:`tfa.network.environment.Environment.without_gradient`): no proton-motive force, all
+(:func:`tfa.network.compartments.without_gradient`): no proton-motive force, all
 else equal.
 
 The least gradient: the gradient is scaled by a factor s (ΔpH and Δψ of every compartment
-together, :meth:`~tfa.network.environment.Environment.with_gradient_scaled`; s = 1 is the
+together, :func:`~tfa.network.compartments.with_gradient_scaled`; s = 1 is the
 environment's, s = 0 none) and s is found by bisection on the yes/no question of
 :func:`tfa.analyses.feasibility.feasibility` (every point certified by the numpy check; every
 "no" the solver's proof, re-asked of the second solver on networks up to 1000 reactions). It
-assumes that a larger gradient never hurts (true when every ion-coupled reaction is reversible,
-since a larger gradient then only widens the range of each one's energy in the direction it can
-use; stated in the result). The answer is verified at its two ends: a certified point at s_hi and
+assumes that a larger gradient never hurts, which the bisection cannot check between its points
+(a reaction that must move ions out against the gradient could make a larger gradient hurt; the
+verification says the assumption was made). The answer is verified at its two ends: a certified point at s_hi and
 no point at s_lo, with s_hi − s_lo below the tolerance. Per entering H+ the energy is
 −RT ln10 ΔpH + F Δψ (:func:`tfa.thermo.membrane.proton_inflow_energy`, Mitchell 1961).
 
@@ -43,6 +43,7 @@ import pandas as pd
 
 from ..constants import FARADAY, LN10
 from ..errors import InputError, UndeterminedError
+from ..network.compartments import with_gradient_scaled, without_gradient
 from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions
 from ..thermo.membrane import proton_inflow_energy, proton_motive_force_mV
@@ -146,10 +147,10 @@ def least_gradient(environment, prepare: Prepare, ask: Ask, at_zero=None, at_one
         steps[0] += 1
         if progress is not None:
             progress(min(steps[0], budget), budget)
-        return ask(prepare(environment.with_gradient_scaled(scale)), False)
+        return ask(prepare(with_gradient_scaled(environment, scale)), False)
 
     def rows_at(scale: float, feasible: bool, status: str, words: str) -> list[dict]:
-        rows = gradient_rows(environment.with_gradient_scaled(scale))
+        rows = gradient_rows(with_gradient_scaled(environment, scale))
         for row in rows:
             row.update(gradient_scale=scale, feasible=feasible, status=status, message=words)
         return rows
@@ -283,7 +284,7 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
                          "gradient to compare with; give one with [compartments.ID] pH = ...")
     result = GradientResult(conditions=environment.conditions)
     result.has_gradient = has_gradient(environment)
-    flat = environment.without_gradient()
+    flat = without_gradient(environment)
     budget = 2 + math.ceil(math.log2(max(MAX_SCALE / SCALE_TOLERANCE, 2)))
     total = len(modes) + 1 + budget * len(modes)
     done = [0]
@@ -296,6 +297,14 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
     flat_answers: dict = {}
     for m in modes:
         for label, answer in (("with", with_gradient[m]), ("without", None)):
+            if answer is None and not with_gradient[m].feasible:
+                # not asked again: a mode that does not run with the gradient does not run with
+                # less of it (the assumption of the module text), and its diagnosis is costly
+                result.verdicts.append({
+                    "mode": m, "gradient": label, "feasible": False, "uphill_set_size": None,
+                    "message": "infeasible: it does not run even with the gradient (not asked "
+                               "again without it)"})
+                continue
             if answer is None:
                 tick()
                 try:
@@ -317,13 +326,17 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
                 row["h2_threshold"] = found.threshold if found.feasible else None
                 row["h2_unit"] = found.unit
     checks, sentences = [], []
-    for m in modes:
+    for m in (modes if result.has_gradient else ()):
         answers = {r["gradient"]: r for r in result.verdicts if r["mode"] == m}
         if answers.get("without", {}).get("feasible") is None and m != mode:
             continue
         if getattr(with_gradient[m], "demand_impossible", False):
             sentences.append(f"{m}: the demand cannot be met even ignoring thermodynamics, with "
                              "any gradient")
+            continue
+        if not with_gradient[m].feasible and m != mode:
+            sentences.append(f"{m}: does not run at the environment's gradient (larger gradients "
+                             f"are searched in the analysis mode, {mode}, only)")
             continue
         rows, check, words = least_gradient(environment, lambda env, m=m: prepare_at(env, m), ask,
                                             at_zero=flat_answers.get(m), at_one=with_gradient[m],
@@ -334,7 +347,11 @@ def gradient_dependence(environment, modes: Sequence[str], prepare_at: Callable[
         checks.append(check)
         sentences.append(f"{m}: {words}")
     result.verification = weakest(checks, [s.split(":")[0] for s in sentences
-                                           if "ignoring thermodynamics" not in s])
+                                           if "ignoring thermodynamics" not in s
+                                           and "larger gradients are searched" not in s])
+    if not result.has_gradient:
+        sentences = [f"{m}: the environment has no gradient (every compartment at the cell's pH, "
+                     "Δψ = 0): nothing to scale" for m in modes]
     result.least_words = sentences
     words = "least gradient: " + "; ".join(sentences)
     tm = prepare_at(environment, mode)
@@ -370,5 +387,5 @@ def carrier_words(rows: list[dict]) -> str:
                  f"needs at least {needed:.3g} kJ/mol from each entering H+ (ΔpH "
                  f"{needed / best_c['rt_ln10']:.3g} at Δψ = 0, or Δψ {-1000 * needed / FARADAY:.3g} "
                  "mV at ΔpH = 0)")
-    return text
+    return text + " [computed: arithmetic on the reaction energies, no optimisation]"
 

@@ -65,9 +65,11 @@ def _environment(assessment: "Assessment") -> ReportSection:
     bounds = pd.DataFrame([{"compound": m, "lower": math.exp(lo), "upper": math.exp(hi)}
                            for m, (lo, hi) in sorted(tm.log_bounds.items())],
                           columns=["compound", "lower", "upper"])
+    from ..network.compartments import describe_compartments
+
     text = (f"{env.description}\n\nNetwork: {ctx.inputs.network_source}. Environment file: "
             f"{ctx.inputs.environment_source}."
-            + (f"\n\nCompartments besides the cell: {env.describe_compartments()}."
+            + (f"\n\nCompartments besides the cell: {describe_compartments(env)}."
                if env.compartments else "")
             + ("\n\nIons moved across the membrane per turnover: "
                + ", ".join(f"{rid} {n:g}" for rid, n in sorted(env.ion_stoichiometry.items())) + "."

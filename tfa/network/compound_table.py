@@ -74,7 +74,7 @@ class CompoundEnergyTable:
     reconciliation: Reconciliation | None = None
     literature: tuple[LiteratureValue, ...] = ()
     skipped_values: dict[str, str] = field(default_factory=dict)
-    #: Compartment id -> :class:`tfa.conditions.Compartment` of the environment (issue 19).
+    #: Compartment id -> :class:`tfa.conditions.Compartment` of the environment.
     compartments: dict = field(default_factory=dict)
 
     # ----------------------------------------------------------------------------------------

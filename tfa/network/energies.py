@@ -79,6 +79,7 @@ from ..thermo.species import Species
 from ..thermo.status import ESTIMATED, combined_value_status
 from .compound_table import CompoundEnergy, CompoundEnergyTable, extend_unique
 from .environment import Environment, apply_environment
+from .compartments import compartment_places, offset_words, standard_state_words
 from .roles import without_activity
 from .thermo_model import ReactionEnergy, ThermoModel
 
@@ -303,7 +304,7 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
         if m in keyed:
             fe = db.formation_energy(keyed[m], at)
             table[m] = CompoundEnergy(m, "species", fe.value + offset, fe.uncertainty,
-                                      fe.provenance + _offset_words(compartment, offset), keyed[m],
+                                      fe.provenance + offset_words(compartment, offset), keyed[m],
                                       None, tuple(fe.sources), tuple(fe.flags), True, smiles,
                                       fe.status, library_audit.flags_for([keyed[m]]),
                                       compartment=compartment, at=at, offset=offset)
@@ -335,7 +336,7 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
             fe = ext.formation_energy(est_key, at)
             table[m] = CompoundEnergy(m, "estimated", fe.value + offset, fe.uncertainty,
                                       f"{m}: group-contribution estimate from SMILES"
-                                      + _offset_words(compartment, offset), est_key, est_key,
+                                      + offset_words(compartment, offset), est_key, est_key,
                                       tuple(fe.sources), tuple(fe.flags), True, smiles, ESTIMATED, (),
                                       group_counts.get(m, {}), compartment, at, offset)
             continue
@@ -350,42 +351,6 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
                                       None, None, (), (), False, smiles)
     return CompoundEnergyTable(conditions, table, ext, rec, tuple(usable), skipped,
                                dict(getattr(environment, "compartments", None) or {}))
-
-
-def compartment_places(model: cobra.Model, environment, conditions: Conditions
-                       ) -> dict[str, tuple[str, Conditions, float]]:
-    """Metabolite id -> (compartment, its conditions, electrochemical offset in kJ/mol) for
-    every compound outside the cell whose compartment the environment describes
-    (:mod:`tfa.thermo.membrane`, equation (1)); compounds of the cell, and of compartments the
-    environment does not describe (warned about by
-    :func:`tfa.network.compartments.compartment_warnings`), are at the cell's conditions."""
-    from ..thermo.membrane import electrochemical_offset
-    from .compartments import cell_compartment
-
-    described = getattr(environment, "compartments", None) or {}
-    if not described:
-        return {}
-    cell = cell_compartment(model)
-    out: dict[str, tuple[str, Conditions, float]] = {}
-    for met in model.metabolites:
-        place = met.compartment or cell
-        if place == cell or place not in described:
-            continue
-        compartment = described[place]
-        species = _metabolite_species(met)
-        n_h = species.n_h if species.n_h is not None else 0.0
-        charge = species.charge if species.charge is not None else float(met.charge or 0)
-        offset = electrochemical_offset(n_h, charge, conditions.ph, compartment.ph,
-                                        compartment.membrane_potential_V, conditions.temperature)
-        out[met.id] = (place, compartment.conditions(conditions), offset)
-    return out
-
-
-def _offset_words(compartment: str, offset: float) -> str:
-    if not compartment:
-        return ""
-    return (f"; in compartment {compartment}: at its pH, ionic strength and pMg, plus "
-            f"{offset:+.2f} kJ/mol for its H+ and electric potential relative to the cell")
 
 
 # ------------------------------------------------------------------------ reaction energies
@@ -419,26 +384,6 @@ def reaction_energies(model: cobra.Model, table: CompoundEnergyTable,
                                          provenance=f"{energy.provenance}; reference: {state}")
         out[reaction.id] = energy
     return out
-
-
-def standard_state_words(table: CompoundEnergyTable, stoichiometry: Mapping[str, float]) -> str:
-    """The reference of ΔrG'° of a reaction across a membrane, in words ("" within the cell):
-    every compound at 1 mol/L (gases 1 bar) in its own compartment, at that compartment's pH,
-    ionic strength and electric potential, H+ of each compartment at its pH (issue 19)."""
-    places = {table.compounds[m].compartment for m in stoichiometry if m in table.compounds}
-    if not places - {""}:
-        return ""
-    c = table.conditions
-    parts = [f"cell pH {c.ph:g}"]
-    for m in sorted({m for m in stoichiometry if m in table.compounds and table.compounds[m].compartment}):
-        ce = table.compounds[m]
-        comp = table.compartments.get(ce.compartment)
-        text = (f"{ce.compartment} pH {comp.ph:g}, Δψ = ψ cell − ψ {ce.compartment} = "
-                f"{comp.membrane_potential_mV:g} mV" if comp is not None else ce.compartment)
-        if text not in parts:
-            parts.append(text)
-    return ("each compound at 1 mol/L in its compartment at that compartment's pH and electric "
-            "potential (" + "; ".join(parts) + "; the electric and H+ terms relative to the cell)")
 
 
 def network_reaction_energy(model: cobra.Model, conditions: Conditions, equation: str,

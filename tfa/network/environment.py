@@ -22,19 +22,8 @@ File format (units: degC at the interface, mol/L for solutes, bar for gases)::
     flux = 0.01                   # > 0, in the network's flux unit
     [outlets]
     allowed = ["ac", "for"]
-    [compartments.out]            # optional: a compartment other than the cell (issue 19)
-    pH = 5.5                      # required for each compartment
-    membrane_potential_mV = 0.0   # Δψ = ψ(cell) − ψ(out), mV; negative: the cell negative inside
-    ionic_strength_M = 0.25       # optional (default: the cell's); pMg likewise
-    [ion_stoichiometry]           # optional: ions a reaction moves across the membrane
-    ATPS_GRAD = 4                 # e.g. H+ per ATP of an ATP synthase
-
-The ``[conditions]`` describe the cell: the network's inner compartment (the only one, ``c``,
-else the compartment with most compounds; :func:`tfa.network.role_inference.inner_compartment`).
-Every other compartment of the network needs a ``[compartments.ID]`` table with its pH; one
-without is taken at the cell's pH with Δψ = 0 and a warning says so
-(:func:`compartment_warnings`). An ``[ion_stoichiometry]`` entry sets how many ions a reaction
-moves across the membrane (:func:`set_ion_stoichiometry`).
+    [compartments.out]            # optional: see tfa.network.compartments; also
+    pH = 5.5                      # [ion_stoichiometry] (reaction id = ions per turnover)
 
 Without a demand the zero-flux state meets every question, so a file must name one; to ask
 explicitly whether the network can run at all with nothing required, write ``[demand]`` with
@@ -61,7 +50,7 @@ from typing import Any
 
 import cobra
 
-from ..conditions import Compartment, Conditions
+from ..conditions import Conditions
 from ..errors import ConditionsError, InputError, NetworkFileError
 from ..util.files import read_input_text
 
@@ -95,8 +84,6 @@ SECTIONS: dict[str, tuple[str, ...] | None] = {
     "mixing": None,      # checked by tfa.network.mixing_line
     "scenario": None,   # ranges of the assumptions (tfa.network.scenario)
 }
-#: Keys of one ``[compartments.ID]`` table.
-COMPARTMENT_KEYS = ("name", "pH", "ionic_strength_M", "pMg", "membrane_potential_mV")
 REQUIRED_CONDITIONS = ("temperature_C", "pH", "ionic_strength_M")
 #: Default concentration bounds, mol/L, when a file gives none (common practice in
 #: thermodynamics-based flux analysis: 1 uM to 10 mM; Henry et al. 2007).
@@ -275,9 +262,8 @@ class Environment:
         overlap = sorted(set(outlets) & set(feed))
         if overlap:
             logger.info("%s: %s both fed and allowed as outlets", where, ", ".join(overlap))
-        compartments = _compartments(where, data.get("compartments", {}))
-        ions = {str(rid): _real(where, "ion_stoichiometry", rid, value, minimum=0.0, maximum=20.0)
-                for rid, value in data.get("ion_stoichiometry", {}).items()}
+        from .compartments import read_compartments
+        compartments, ions = read_compartments(where, data, _real)
         from .scenario import parse_scenario
 
         scenario = parse_scenario(data.get("scenario"), where)
@@ -311,49 +297,6 @@ class Environment:
         if unknown:
             raise ConditionsError(f"cannot change {', '.join(unknown)}; use {', '.join(sorted(allowed))}")
         return replace(self, conditions=self.conditions.with_(**changes))
-
-    def with_compartment(self, compartment_id: str, **changes: float | None) -> "Environment":
-        """A copy with one compartment's conditions changed (``ph``, ``ionic_strength``, ``pmg``,
-        ``membrane_potential_mV``), or added when it had none (then ``ph`` is required).
-
-        >>> env = Environment("demo", Conditions(ph=7.5))
-        >>> env.with_compartment("out", ph=5.5).compartments["out"].ph
-        5.5
-        """
-        old = self.compartments.get(compartment_id)
-        if old is None:
-            if changes.get("ph") is None:
-                raise ConditionsError(f"compartment {compartment_id}: give its pH")
-            new = Compartment(compartment_id, **{k: v for k, v in changes.items() if v is not None})
-        else:
-            new = replace(old, **{k: v for k, v in changes.items() if v is not None})
-        return replace(self, compartments={**self.compartments, compartment_id: new})
-
-    def without_gradient(self) -> "Environment":
-        """A copy in which every compartment has the cell's pH and Δψ = 0 (no proton-motive force;
-        ionic strength and pMg kept)."""
-        flat = {cid: replace(c, ph=self.conditions.ph, membrane_potential_mV=0.0)
-                for cid, c in self.compartments.items()}
-        return replace(self, compartments=flat)
-
-    def with_gradient_scaled(self, factor: float) -> "Environment":
-        """A copy in which every compartment's ΔpH (pH_cell − pH_k) and Δψ are ``factor`` times
-        this environment's (0: no gradient; 1: this one).
-
-        Raises
-        ------
-        ConditionsError
-            When a scaled pH leaves 0-14.
-        """
-        ph = self.conditions.ph
-        scaled = {cid: replace(c, ph=ph - factor * (ph - c.ph),
-                               membrane_potential_mV=factor * c.membrane_potential_mV)
-                  for cid, c in self.compartments.items()}
-        return replace(self, compartments=scaled)
-
-    def compartment_conditions(self) -> dict[str, Conditions]:
-        """Compartment id -> its conditions (the cell's temperature and pressure)."""
-        return {cid: c.conditions(self.conditions) for cid, c in self.compartments.items()}
 
     def with_feed(self, changes: dict[str, float] | None = None, **more: float) -> "Environment":
         """A copy with some fed activities changed or added (mol/L; gases bar).
@@ -611,19 +554,13 @@ class Environment:
 
     def describe(self) -> str:
         """One line for reports."""
+        from .compartments import describe_compartments
         feed = ", ".join(f"{k} {v:g}" for k, v in self.feed.items())
         names = {"dissolved_inorganic_carbon": "DIC", "total_sulfide": "total sulfide",
                  "total_ammonia": "total ammonia"}
         fluid = "".join(f"; {names[k]} {v:g} mol/L" for k, v in self.fluid.items())
-        return (f"{self.name}: {self.conditions.describe()}{self.describe_compartments('; ')}; "
+        return (f"{self.name}: {self.conditions.describe()}{describe_compartments(self, '; ')}; "
                 f"feed {feed or 'none'}{fluid}")
-
-    def describe_compartments(self, prefix: str = "") -> str:
-        """The compartments besides the cell in words ("" when none), e.g.
-        ``out: pH 5.50, Δψ = 0 mV (ψ cell − ψ out)``."""
-        if not self.compartments:
-            return ""
-        return prefix + "; ".join(c.describe() for _, c in sorted(self.compartments.items()))
 
 
 @dataclass(frozen=True)
@@ -675,37 +612,6 @@ def apply_environment(model: cobra.Model, environment: Environment,
     return AppliedEnvironment(bounds, feed_ids, environment.demand_reaction, frozenset(no_activity))
 
 
-def _compartments(where: str, section: Any) -> dict[str, Compartment]:
-    """The ``[compartments.ID]`` tables: compartment id -> :class:`~tfa.conditions.Compartment`."""
-    out: dict[str, Compartment] = {}
-    for cid, table in section.items():
-        if not isinstance(table, dict):
-            raise NetworkFileError(f"{where} [compartments] {cid}: give a table [compartments.{cid}] "
-                                   "with pH = ... (and optionally membrane_potential_mV, "
-                                   "ionic_strength_M, pMg)")
-        for key in table:
-            if key not in COMPARTMENT_KEYS:
-                raise NetworkFileError(_unknown(where, f"key '{key}' in [compartments.{cid}]", key,
-                                                list(COMPARTMENT_KEYS)))
-        if "pH" not in table:
-            raise NetworkFileError(f"{where} [compartments.{cid}]: 'pH' is missing; give the pH of "
-                                   f"compartment {cid}, e.g. pH = 5.5")
-        section_name = f"compartments.{cid}"
-        value = {k: _real(where, section_name, k, v) for k, v in table.items() if k != "name"}
-        name = table.get("name", "")
-        if not isinstance(name, str):
-            raise NetworkFileError(f"{where} [{section_name}] name: give a text")
-        try:
-            out[str(cid)] = Compartment(str(cid), ph=value["pH"],
-                                        ionic_strength=value.get("ionic_strength_M"),
-                                        pmg=value.get("pMg"),
-                                        membrane_potential_mV=value.get("membrane_potential_mV", 0.0),
-                                        name=name)
-        except ConditionsError as exc:
-            raise ConditionsError(f"{where} [{section_name}]: {exc}") from exc
-        if out[str(cid)].ionic_strength is not None:
-            Conditions(ionic_strength=out[str(cid)].ionic_strength)   # the same checks as the cell's
-    return out
 
 
 def bundled_environment() -> Environment:

@@ -1,6 +1,6 @@
 """Step: which energy source the network depends on: verdicts and the H2 threshold with and
 without the gradient across the membrane, the least gradient at which it runs, and how far H2
-reduces a carrier with and without an ion-coupled enzyme (issue 19, items 3 and 6)."""
+reduces a carrier with and without an ion-coupled enzyme."""
 
 from __future__ import annotations
 
