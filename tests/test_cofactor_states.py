@@ -126,3 +126,26 @@ def test_cofactor_section_is_read_and_checked():
     bad = dict(data, cofactors={"pool": {}})
     with pytest.raises(NetworkFileError, match="did you mean 'pools'"):
         Environment.from_dict(bad, "env.toml")
+
+
+@pytest.mark.slow
+def test_bundled_h2_threshold_is_set_by_the_nadh_ratio_bound():
+    """Hand derivation: at the H2 threshold H2 + NAD+ -> NADH + H+ (HYD_NAD) runs at exactly
+    -delta, so H2* = (NADH/NAD+)_least exp((ΔrG'° + δ)/RT): proportional to the least NADH/NAD+
+    the carrier states allow. Loose bounds allow 1 uM / 10 mM = 1e-4, the physiological
+    [cofactors] ratio NADH/NAD+ >= 1e-3 (the file's value), so the threshold rises tenfold and
+    the ratio row is what binds at the threshold point."""
+    from tfa.analyses import h2_threshold
+    from tfa.network.energies import prepare
+    from tfa.network.inputs import resolve_inputs
+
+    inputs = resolve_inputs()
+    env = inputs.environment
+    ratio = next(r for r in env.cofactors.ratios if r.name == "nadh/nad")
+    physiological = h2_threshold(prepare(inputs.model, env, "native"), ProblemOptions())
+    loose = h2_threshold(prepare(inputs.model, env.with_loose_cofactors(), "native"), ProblemOptions())
+    assert physiological.threshold / loose.threshold == pytest.approx(ratio.lowest / 1e-4, rel=1e-6)
+    point = physiological.solution
+    assert point.concentration("nadh") / point.concentration("nad") == pytest.approx(ratio.lowest,
+                                                                                    rel=1e-6)
+    assert physiological.certificates and physiological.certificates[0].carrier_checks >= 5

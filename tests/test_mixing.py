@@ -110,3 +110,23 @@ def test_mixing_line_map_of_the_bundled_network_and_its_figure(bundled, tmp_path
     assert shown == [(0.0, 0.0), (0.6, 1.0)]       # the figure shows no at 0, yes at 0.6
     paths = write_line_figures(frame, "vent_fraction", tmp_path)
     assert sorted(p.suffix for p in paths) == [".png", ".svg"]
+
+
+@pytest.mark.slow
+def test_tfa_map_along_the_mixing_line_writes_its_table_and_figure(tmp_path):
+    import json
+    import subprocess
+    import sys
+
+    out = tmp_path / "line"
+    proc = subprocess.run([sys.executable, "-m", "tfa", "map", "--x", "mixing=0.6,1", "--modes",
+                           "native", "--no-threshold", "--no-driving-force", "--out", str(out),
+                           "--json"], capture_output=True, text=True, timeout=900)
+    assert proc.returncode == 0, proc.stderr
+    data = json.loads(proc.stdout)
+    assert data["y"] is None and data["x"]["name"] == "mixing"
+    rows = data["table"]
+    assert [r["vent_fraction"] for r in rows] == [0.6, 1.0]
+    assert [r["feasible"] for r in rows] == [True, False]
+    assert rows[1]["pH"] == pytest.approx(10.38)           # the pure vent fluid
+    assert (out / "map_native.png").is_file() and (out / "map_native.svg").is_file()

@@ -16,8 +16,8 @@ of ATP synthesis at the cell's concentrations). All of them act on x = ln c (c i
     (the chords of a convex function lie above it), s_i >= chord_k(x_i) for every k and
     sum_i s_i <= T. Every point that meets the rows meets the true total (conservative; the
     certificate checks the true sum). The chords are at most :data:`CHORD_RELATIVE_ERROR` above
-    exp(x) in the part of the range that matters (above 1e-6 T), so a pool may reach a total
-    about 1 % below T at worst.
+    exp(x) in the part of the range that matters (above 1e-3 T; below it one chord, at most
+    1e-3 T above), so a pool may reach a total about 1 % below T at worst.
   * ``outer``: tangents at the same breakpoints (below exp(x)) relax the total by at most the
     same share: a point may exceed T by that share, and an infeasible answer then holds for the
     true total too (a bracket with ``inner``).
@@ -64,8 +64,9 @@ POOL_APPROXIMATIONS = ("inner", "outer")
 CHORD_RELATIVE_ERROR = 0.008
 #: Width of a segment in ln c, from CHORD_RELATIVE_ERROR (h^2/8 = 0.008).
 SEGMENT_WIDTH = 0.25
-#: Below this share of the total a form is negligible: one chord covers the range beneath it.
-NEGLIGIBLE_SHARE = 1e-6
+#: Below this share of the total a form is negligible: one chord covers the range beneath it
+#: (the chord lies at most this share of the total above exp there, 0.1 % of the pool).
+NEGLIGIBLE_SHARE = 1e-3
 #: The reaction whose energy the phosphorylation potential is: thermo keys and coefficients.
 PHOSPHORYLATION = {"ADP": -1.0, "phosphate": -1.0, "ATP": 1.0, "H2O": 1.0}
 
@@ -248,7 +249,7 @@ def breakpoints(lower: float, upper: float, total: float) -> list[float]:
     >>> [round(p, 3) for p in breakpoints(math.log(1e-6), math.log(1e-3), 1e-3)][:3]
     [-13.816, -13.569, -13.322]
     >>> len(breakpoints(math.log(1e-9), math.log(1e-3), 1e-3))
-    57
+    30
     """
     if upper <= lower:
         return [lower]
