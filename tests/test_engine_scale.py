@@ -20,6 +20,7 @@ sys.path.insert(0, str(Path(__file__).parent))
 from engine_networks import build_thermo_model  # noqa: E402
 
 from tfa.analyses import feasibility, minimal_uphill_set  # noqa: E402
+from tfa.analyses.uphill import ImpossibleDemandError  # noqa: E402
 from tfa.errors import InputError  # noqa: E402
 from tfa.problem import ProblemOptions, available_solvers  # noqa: E402
 
@@ -150,3 +151,18 @@ def test_a_two_sided_demand_is_never_a_reaction_without_an_energy(policy):
     result = feasibility(tm, ProblemOptions(solver="glpk", unknown_energy=policy))
     assert result.feasible and result.reactions_without_energy == []
     assert result.solution.flux("GROWTH") >= 1.0 - 1e-9
+
+
+def test_an_impossible_demand_under_the_block_policy_says_what_was_closed():
+    # A -> B -> C with no energy for B -> C: under "block" the only route is closed, so the
+    # demand of C (1) cannot be met at all; plain flux balance with that reaction closed allows
+    # 0 (hand-derived), and the message says the closure made it so rather than the feed.
+    tm = build_thermo_model({"R1": ("A <=> B", -5.0, 1.0), "R2": ("B -> C", None, 0.0)},
+                            {"A": (1e-3, 1e-3), "B": (1e-6, 1e-2), "C": (1e-6, 1e-2)},
+                            exchanges={"A": (-10, 10)}, demand=("C", 1.0), solver="glpk")
+    with pytest.raises(ImpossibleDemandError) as caught:
+        minimal_uphill_set(tm, ProblemOptions(solver="glpk", unknown_energy="block"))
+    message = str(caught.value)
+    assert "allow at most 0 with the 1 reaction(s) without an energy blocked" in message
+    # under "free" the same network is feasible, so the closure is the whole reason
+    assert feasibility(tm, ProblemOptions(solver="glpk", unknown_energy="free")).feasible

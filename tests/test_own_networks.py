@@ -77,7 +77,7 @@ def test_the_new_command_writes_the_example_and_it_runs(tmp_path, capsys):
     assert re.search(r"^\s*atp\s+none\s+missing\s+no_atp_strict, no_atp_bare, h2_bare$", out, re.M)
     assert main(["feasible", str(folder), "-q"]) == 0
     out = capsys.readouterr().out
-    assert _lines_of(out, "runs as given") == "runs as given: yes"
+    assert _lines_of(out, "runs as given") == "runs as given: yes [certified]"
     assert "runs without ATP: not applicable (no ATP in this network)" in out
 
 
@@ -141,7 +141,7 @@ def test_textbook_sbml_without_environment_says_so_and_what_does_not_apply(textb
     assert ("runs with H2 in place of the carriers: not applicable (no H2 in this network; name "
             "the H2 compound with --h2 ID)") in captured.out
     native = _lines_of(captured.out, "runs with ATP regenerated inside")
-    assert native.startswith("runs with ATP regenerated inside: yes (thermodynamically "
+    assert native.startswith("runs with ATP regenerated inside: yes [certified] (thermodynamically "
                              "constrained: 63 of 74 reactions; the rest unconstrained)")
     assert "without an energy (unconstrained in every mode): 11 of 74 reactions" in captured.out
     # warnings once, as one short table, one line each, no file paths; -q prints none
@@ -153,13 +153,14 @@ def test_textbook_sbml_without_environment_says_so_and_what_does_not_apply(textb
 
 def test_model_range_warning_is_one_line_and_quiet_silences_it(capsys):
     # 300 degC is beyond the constant-Cp range of the species data (common practice: the
-    # integration from 25 degC is stretched above 150 degC)
-    assert main(["dg", "H2 + CO2tot <=> formate + H2O", "--temperature", "300"]) == 0
+    # integration from 25 degC is stretched above 150 degC); 100 bar keeps water liquid (its
+    # saturation pressure at 300 degC is 85.9 bar, Wagner & Pruss 2002, doi:10.1063/1.1461829)
+    assert main(["dg", "H2 + CO2tot <=> formate + H2O", "--temperature", "300", "--pressure", "100"]) == 0
     err = capsys.readouterr().err
     assert "300 degC: constant-Cp integration" in err and ".py" not in err and "warn(" not in err
-    assert main(["dg", "H2 + CO2tot <=> formate + H2O", "--temperature", "300", "-q"]) == 0
+    assert main(["dg", "H2 + CO2tot <=> formate + H2O", "--temperature", "300", "--pressure", "100", "-q"]) == 0
     assert capsys.readouterr().err == ""
-    assert main(["dg", "H2 + CO2tot <=> formate + H2O", "--temperature", "300", "-v"]) == 0
+    assert main(["dg", "H2 + CO2tot <=> formate + H2O", "--temperature", "300", "--pressure", "100", "-v"]) == 0
     err = capsys.readouterr().err      # --verbose: every warning in full, still one line each
     assert "warnings:\n  300 degC: constant-Cp integration from 25 degC is stretched above 150 degC" in err
 
@@ -298,12 +299,13 @@ def test_demand_and_h2_named_on_the_command_line(tmp_path, capsys):
 
     write_starter_network(tmp_path)
     env = tmp_path / "environment.toml"
-    env.write_text(env.read_text().replace('[demand]\nreaction = "DM_succ"\n', "[demand]\n"))
+    env.write_text(re.sub(r'\[demand\]\nreaction = "DM_succ"\nflux = [^\n]*\n', "[demand]\nnone = true\n",
+                          env.read_text()))
     assert main(["feasible", str(tmp_path), "-q"]) == 0       # no demand: nothing to ask
     out = capsys.readouterr().out
     assert "runs as given: not applicable (no demand reaction; name one with --demand ID" in out
     assert main(["feasible", str(tmp_path), "-q", "--demand", "DM_succ"]) == 0
-    assert _lines_of(capsys.readouterr().out, "runs as given") == "runs as given: yes"
+    assert _lines_of(capsys.readouterr().out, "runs as given") == "runs as given: yes [certified]"
     assert main(["feasible", str(tmp_path), "--demand", "DM_suc"]) == 2
     assert "--demand DM_suc: not a reaction of network" in capsys.readouterr().err
     assert main(["feasible", str(tmp_path), "--h2", "h22"]) == 2

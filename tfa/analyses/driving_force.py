@@ -183,7 +183,8 @@ def network_driving_force(tm: ThermoModel, options: ProblemOptions | None = None
         except InfeasibleProblem:
             from .uphill import impossible_demand_message
 
-            raise InfeasibleProblem(f"driving force: {impossible_demand_message(tm)}") from None
+            raise InfeasibleProblem(f"driving force: {impossible_demand_message(tm, problem.blocked_ids)}"
+                                   ) from None
         b = float(sol.driving_force)
         cert = certify(problem, sol, min_driving_force=b)
         result.certificates.append(cert)

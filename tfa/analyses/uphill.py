@@ -15,6 +15,7 @@ Biophys. J. 92:1792).
 from __future__ import annotations
 
 import logging
+from collections.abc import Sequence
 from dataclasses import dataclass, field, replace
 
 import numpy as np
@@ -100,12 +101,15 @@ class UphillResult(AnalysisResult):
                 + (f" (the solver proved at least {self.verification.get('bound')})" if best else ""))
 
 
-def demand_capacity(tm: ThermoModel) -> float:
-    """Largest demand flux the stoichiometry and flux bounds allow (plain LP, no energies)."""
+def demand_capacity(tm: ThermoModel, blocked: Sequence[str] = ()) -> float:
+    """Largest demand flux the stoichiometry and flux bounds allow (plain LP, no energies), with
+    the ``blocked`` reactions held at zero as the problem holds them."""
     model = tm.model
     if tm.demand_id is None:
         return float("nan")
     with model:
+        for rid in blocked:
+            model.reactions.get_by_id(rid).bounds = (0.0, 0.0)
         demand = model.reactions.get_by_id(tm.demand_id)
         demand.lower_bound = min(0.0, demand.upper_bound)
         model.objective = demand
@@ -114,13 +118,14 @@ def demand_capacity(tm: ThermoModel) -> float:
     return float(value)
 
 
-def impossible_demand_message(tm: ThermoModel) -> str:
-    """Plain words for a demand that no steady state can meet, with the largest possible flux."""
+def impossible_demand_message(tm: ThermoModel, blocked: Sequence[str] = ()) -> str:
+    """Plain words for a demand that no steady state can meet, with the largest possible flux
+    (with the ``blocked`` reactions, those without an energy under the "block" policy, closed)."""
     if tm.demand_id is None:
         return ("no steady state satisfies the flux bounds even without thermodynamics: check "
                 "the bounds of the exchange reactions and forced fluxes")
     required = tm.model.reactions.get_by_id(tm.demand_id).lower_bound
-    capacity = demand_capacity(tm)
+    capacity = demand_capacity(tm, blocked)
     if np.isnan(capacity):
         return ("no steady state satisfies the flux bounds even without thermodynamics and with no "
                 f"demand on {tm.demand_id}: check the forced fluxes and the feed")
@@ -129,16 +134,18 @@ def impossible_demand_message(tm: ThermoModel) -> str:
                 f"{capacity:g} ignoring thermodynamics, but not with every flux at most "
                 f"{FLUX_REACH:g} times the demand ({required:g}); check for fluxes that must be "
                 "that large")
+    closed = (f" with the {len(blocked)} reaction(s) without an energy blocked (the 'block' "
+              "policy; 'free' leaves them open)" if blocked else "")
     return (f"the demand cannot be met even ignoring thermodynamics: {tm.demand_id} must carry at "
-            f"least {required:g}, but the stoichiometry and feed allow at most {capacity:g}; lower "
-            "the demand or open the missing feed/exchange")
+            f"least {required:g}, but the stoichiometry and feed allow at most {capacity:g}{closed}; "
+            "lower the demand or open the missing feed/exchange")
 
 
-def impossible_demand(tm: ThermoModel, what: str) -> ImpossibleDemandError:
+def impossible_demand(tm: ThermoModel, what: str, blocked: Sequence[str] = ()) -> ImpossibleDemandError:
     """The error for a demand no steady state meets, with its verification: the uphill-set
     problem (every step allowed uphill) has no point, and cobra's flux balance, a linear program
     without any of the thermodynamic rows, gives the largest demand flux."""
-    message = impossible_demand_message(tm)
+    message = impossible_demand_message(tm, blocked)
     check = (f"{what} has no point with every step allowed uphill; a plain flux-balance linear "
              f"program (cobra) gives the largest demand flux")
     return ImpossibleDemandError(message, verification("proven", check))
@@ -453,5 +460,5 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                          "uphill in every solution)")
             result.verification["check"] = "; ".join(words)
     if impossible:
-        raise impossible_demand(tm, "the uphill-set problem")
+        raise impossible_demand(tm, "the uphill-set problem", problem.blocked_ids)
     return result

@@ -352,14 +352,17 @@ class Environment:
                 try:
                     self.resolve(model, key)
                 except NetworkFileError as exc:
-                    raise NetworkFileError(str(exc).replace(f"{where}: ", f"{where} [{table or section}]: ", 1)
-                                           ) from None
+                    name = table or section
+                    located_message = self._at(name, key, str(exc))
+                    if located_message == str(exc):      # no line known: name the section
+                        located_message = str(exc).replace(f"{where}: ", f"{where} [{name}]: ", 1)
+                    raise NetworkFileError(located_message) from None
         self.feed_metabolites(model)   # a [fluid] total that names nothing, or a compound fed twice
         if self.demand_reaction is not None and self.demand_reaction not in model.reactions:
             close = difflib.get_close_matches(self.demand_reaction, [r.id for r in model.reactions], n=3)
             hint = f"did you mean {', '.join(repr(c) for c in close)}?" if close else "add it to the network"
-            raise NetworkFileError(f"{where} [demand] reaction: '{self.demand_reaction}' is not a "
-                                   f"reaction of network {model.id}; {hint}")
+            raise NetworkFileError(self._at("demand", "reaction", f"{where}: '{self.demand_reaction}' "
+                                            f"is not a reaction of network {model.id}; {hint}"))
 
     def fluid_feed(self, model: cobra.Model) -> dict[str, tuple[str, float]]:
         """Metabolite id -> (thermo key, activity mol/L) of the compounds the ``[fluid]`` totals

@@ -364,16 +364,21 @@ class ThermoProblem(PointSearch):
         self.solver.remove([constraint])
         self._extra_constraints.remove(constraint)
 
+    @property
+    def blocked_ids(self) -> list[str]:
+        """Reactions the problem holds at zero flux: those without an energy under the "block"
+        policy (none under "free")."""
+        return list(self.unknown_energy_ids) if self.options.unknown_energy == "block" else []
+
     # ------------------------------------------------------------------ solve
     def flux_bounds(self) -> tuple[np.ndarray, np.ndarray]:
         """Lower and upper flux bounds of every reaction as the problem sees them (read from the
         cobra model; zero for reactions without an energy under the "block" policy)."""
         lower = np.array([r.lower_bound for r in self.reactions], float)
         upper = np.array([r.upper_bound for r in self.reactions], float)
-        if self.options.unknown_energy == "block":
-            for rid in self.unknown_energy_ids:
-                j = self.reaction_index[rid]
-                lower[j] = upper[j] = 0.0
+        for rid in self.blocked_ids:
+            j = self.reaction_index[rid]
+            lower[j] = upper[j] = 0.0
         return lower, upper
 
     def _flux_caps(self, flux_lower, flux_upper, bound_fwd, bound_bwd) -> tuple[np.ndarray, np.ndarray]:
