@@ -90,6 +90,14 @@ def test_a_ph_change_keeps_the_gradient_unless_asked(bundled):
     assert kept.feed["h_out"] == env.feed["h_out"]
 
 
+def test_ph_override_keeps_the_gradient(bundled):
+    env = bundled.environment
+    moved = resolve_inputs(ph=6.5).environment
+    assert moved.conditions.ph == 6.5
+    # pH_out 5.5 -> 4.5 (hand derivation: dpH = 7.5 - 5.5 = 2 kept)
+    assert -math.log10(moved.feed["h_out"]) == pytest.approx(-math.log10(env.feed["h_out"]) - 1.0)
+
+
 @pytest.mark.slow
 def test_mixing_line_map_of_the_bundled_network_and_its_figure(bundled, tmp_path):
     from tfa.report.maps import line_figure, write_line_figures
