@@ -25,7 +25,6 @@ File format::
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 
 from ..errors import NetworkFileError
@@ -90,6 +89,7 @@ def environment_with_ph(environment, model, ph: float, hold_gradient: bool = Tru
     """``environment`` at another pH; with ``hold_gradient`` the fed outer protons (thermo key
     ``H+(outside)``) move with it, activity × 10^-(pH_new − pH_old), so ΔpH = pH − pH_out stays.
 
+    >>> import math
     >>> from tfa.network.inputs import resolve_inputs
     >>> inputs = resolve_inputs()
     >>> env = environment_with_ph(inputs.environment, inputs.model, 8.0)
