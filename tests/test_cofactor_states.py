@@ -123,6 +123,76 @@ def test_cofactor_section_is_read_and_checked():
     bad = dict(data, cofactors={"ratios": {"nadh": [0.1, 1.0]}})
     with pytest.raises(NetworkFileError, match="numerator/denominator"):
         Environment.from_dict(bad, "env.toml")
+    floored = dict(data, cofactors={"pools": {"NAD": {"forms": ["nad", "nadh"], "total": 1e-3,
+                                                      "least": 5e-4, "shares": [0.97, 0.03]}}})
+    pool = Environment.from_dict(floored, "env.toml").cofactors.pools[0]
+    assert (pool.least, pool.shares) == (5e-4, (0.97, 0.03))
+    floored["cofactors"]["pools"]["NAD"]["shares"] = [1.0]
+    with pytest.raises(NetworkFileError, match="one number per form"):
+        Environment.from_dict(floored, "env.toml")
     bad = dict(data, cofactors={"pool": {}})
     with pytest.raises(NetworkFileError, match="did you mean 'pools'"):
         Environment.from_dict(bad, "env.toml")
+
+
+@pytest.mark.slow
+def test_bundled_h2_threshold_is_set_by_the_nadh_ratio_bound():
+    """Hand derivation: at the H2 threshold H2 + NAD+ -> NADH + H+ (HYD_NAD) runs at exactly
+    -delta, so H2* = (NADH/NAD+)_least exp((ΔrG'° + δ)/RT): proportional to the least NADH/NAD+
+    the carrier states allow. Loose bounds allow 1 uM / 10 mM = 1e-4, the physiological
+    [cofactors] ratio NADH/NAD+ >= 1e-3 (the file's value), so the threshold rises tenfold and
+    the ratio row is what binds at the threshold point."""
+    from tfa.analyses import h2_threshold
+    from tfa.network.energies import prepare
+    from tfa.network.inputs import resolve_inputs
+
+    inputs = resolve_inputs()
+    env = inputs.environment
+    ratio = next(r for r in env.cofactors.ratios if r.name == "nadh/nad")
+    physiological = h2_threshold(prepare(inputs.model, env, "native"), ProblemOptions())
+    loose = h2_threshold(prepare(inputs.model, env.with_loose_cofactors(), "native"), ProblemOptions())
+    assert physiological.threshold / loose.threshold == pytest.approx(ratio.lowest / 1e-4, rel=1e-6)
+    point = physiological.solution
+    assert point.concentration("nadh") / point.concentration("nad") == pytest.approx(ratio.lowest,
+                                                                                    rel=1e-6)
+    assert physiological.certificates and physiological.certificates[0].carrier_checks >= 5
+
+
+def floor_network(solver):
+    """A (fed 1 mM) <=> P (dG'deg -5), P drained; Q only in Q <=> D (no flux needed); P, Q, D in
+    [1 uM, 10 mM]. R1 needs P <= 1e-3 exp(4.9/RT) = 7.216e-3 mol/L (hand derivation). With the
+    floor P + Q >= L and Q <= 10 mM the true limit is L <= 10 mM + 7.216 mM = 17.216 mM."""
+    return build_thermo_model(
+        {"R1": ("A <=> P", -5.0, 0.0), "R2": ("Q <=> D", 0.0, 0.0)},
+        {"A": (1e-3, 1e-3), "P": (1e-6, 1e-2), "Q": (1e-6, 1e-2), "D": (1e-6, 1e-2)},
+        exchanges={"A": (-10, 10)}, demand=("P", 1.0), solver=solver)
+
+
+P_MOST = 1e-3 * math.exp((5.0 - DELTA) / RT)
+
+
+@pytest.mark.parametrize("solver", SOLVERS)
+def test_pool_floor_is_conservative_and_exact_at_its_reference_shares(solver):
+    from tfa.network.cofactors import Pool, floor_row
+
+    assert P_MOST == pytest.approx(7.216e-3, rel=1e-3)
+    true_limit = 1e-2 + P_MOST
+
+    def feasible(least, shares):
+        tm = floor_network(solver)
+        tm.log_rows = [floor_row(Pool("PQ", ("P", "Q"), 1.0, least, shares), ("P", "Q"))]
+        answer = feasibility(tm, ProblemOptions(solver=solver), diagnose=False)
+        if answer.feasible:   # the floor holds on the concentrations (AM-GM on the row)
+            point = answer.solution
+            assert point.concentration("P") + point.concentration("Q") >= least * (1 - 1e-6)
+        return answer.feasible
+
+    # equal reference shares: sqrt(P Q) >= L/2 with Q <= 10 mM gives L <= 2 sqrt(0.01 P_MOST)
+    equal_limit = 2 * math.sqrt(1e-2 * P_MOST)
+    assert equal_limit < true_limit                              # stricter than the true floor
+    assert feasible(equal_limit * 0.999, (0.5, 0.5))
+    assert not feasible(equal_limit * 1.001, (0.5, 0.5))
+    # shares of the limiting point (P_MOST : 10 mM): exact there
+    shares = (P_MOST, 1e-2)
+    assert feasible(true_limit * 0.999, shares)
+    assert not feasible(true_limit * 1.001, shares)

@@ -90,6 +90,14 @@ def test_a_ph_change_keeps_the_gradient_unless_asked(bundled):
     assert kept.compartments["out"].ph == env.compartments["out"].ph
 
 
+def test_ph_override_keeps_the_gradient(bundled):
+    env = bundled.environment
+    moved = resolve_inputs(ph=6.5).environment
+    assert moved.conditions.ph == 6.5
+    # pH_out 5.5 -> 4.5 (hand derivation: dpH = 7.5 - 5.5 = 2 kept)
+    assert -math.log10(moved.feed["h_out"]) == pytest.approx(-math.log10(env.feed["h_out"]) - 1.0)
+
+
 @pytest.mark.slow
 def test_mixing_line_map_of_the_bundled_network_and_its_figure(bundled, tmp_path):
     from tfa.report.maps import line_figure, write_line_figures
@@ -110,3 +118,23 @@ def test_mixing_line_map_of_the_bundled_network_and_its_figure(bundled, tmp_path
     assert shown == [(0.0, 0.0), (0.6, 1.0)]       # the figure shows no at 0, yes at 0.6
     paths = write_line_figures(frame, "vent_fraction", tmp_path)
     assert sorted(p.suffix for p in paths) == [".png", ".svg"]
+
+
+@pytest.mark.slow
+def test_tfa_map_along_the_mixing_line_writes_its_table_and_figure(tmp_path):
+    import json
+    import subprocess
+    import sys
+
+    out = tmp_path / "line"
+    proc = subprocess.run([sys.executable, "-m", "tfa", "map", "--x", "mixing=0.6,1", "--modes",
+                           "native", "--no-threshold", "--no-driving-force", "--out", str(out),
+                           "--json"], capture_output=True, text=True, timeout=900)
+    assert proc.returncode == 0, proc.stderr
+    data = json.loads(proc.stdout)
+    assert data["y"] is None and data["x"]["name"] == "mixing"
+    rows = data["table"]
+    assert [r["vent_fraction"] for r in rows] == [0.6, 1.0]
+    assert [r["feasible"] for r in rows] == [True, False]
+    assert rows[1]["pH"] == pytest.approx(10.38)           # the pure vent fluid
+    assert (out / "map_native.png").is_file() and (out / "map_native.svg").is_file()

@@ -16,15 +16,17 @@ of ATP synthesis at the cell's concentrations). All of them act on x = ln c (c i
     (the chords of a convex function lie above it), s_i >= chord_k(x_i) for every k and
     sum_i s_i <= T. Every point that meets the rows meets the true total (conservative; the
     certificate checks the true sum). The chords are at most :data:`CHORD_RELATIVE_ERROR` above
-    exp(x) in the part of the range that matters (above 1e-6 T), so a pool may reach a total
-    about 1 % below T at worst.
+    exp(x) in the part of the range that matters (above 1e-3 T; below it one chord, at most
+    1e-3 T above), so a pool may reach a total about 1 % below T at worst.
   * ``outer``: tangents at the same breakpoints (below exp(x)) relax the total by at most the
     same share: a point may exceed T by that share, and an infeasible answer then holds for the
     true total too (a bracket with ``inner``).
 
-  The total is an upper limit: a pool may be smaller than T (each form keeps its own lower bound
-  from ``[cofactors.bounds]`` or ``[bounds]``). An equality or a floor on the total is not
-  convex in log space (it would need a binary choice per pool) and is not offered.
+  A floor on the total, sum_i c_i >= L (``least``), is not convex in log space; it enters as
+  one linear row, the tangent plane of ln sum exp at reference shares w of the forms
+  (``shares``): sum_i w_i x_i >= ln L + sum_i w_i ln w_i (:func:`floor_row`). By the weighted
+  inequality of arithmetic and geometric means every point meeting it meets the floor
+  (conservative); it is exact where the forms stand in the shares w.
 
 File format (every key optional)::
 
@@ -34,7 +36,7 @@ File format (every key optional)::
     [cofactors.bounds]                                  # per form, mol/L; override [bounds]
     atp = [5.0e-4, 1.0e-2]
     [cofactors.pools]                                   # total of each pool, mol/L
-    NAD = { forms = ["nad", "nadh"], total = 1.0e-3 }
+    NAD = { forms = ["nad", "nadh"], total = 1.0e-3, least = 5.0e-4, shares = [0.97, 0.03] }
     [cofactors.ratios]                                  # "form/form" = [lowest, highest]
     "nadph/nadp" = [1.0, 1000.0]
 
@@ -64,19 +66,24 @@ POOL_APPROXIMATIONS = ("inner", "outer")
 CHORD_RELATIVE_ERROR = 0.008
 #: Width of a segment in ln c, from CHORD_RELATIVE_ERROR (h^2/8 = 0.008).
 SEGMENT_WIDTH = 0.25
-#: Below this share of the total a form is negligible: one chord covers the range beneath it.
-NEGLIGIBLE_SHARE = 1e-6
+#: Below this share of the total a form is negligible: one chord covers the range beneath it
+#: (the chord lies at most this share of the total above exp there, 0.1 % of the pool).
+NEGLIGIBLE_SHARE = 1e-3
 #: The reaction whose energy the phosphorylation potential is: thermo keys and coefficients.
 PHOSPHORYLATION = {"ADP": -1.0, "phosphate": -1.0, "ATP": 1.0, "H2O": 1.0}
 
 
 @dataclass(frozen=True)
 class Pool:
-    """A carrier pool: its forms (compound keys of the network) and their largest total, mol/L."""
+    """A carrier pool: its forms (compound keys of the network), their largest total (mol/L),
+    and optionally their least total (mol/L) with the reference shares of the forms at which
+    the floor is exact (see :func:`floor_row`)."""
 
     name: str
     forms: tuple[str, ...]
     total: float
+    least: float | None = None
+    shares: tuple[float, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -144,15 +151,31 @@ class CofactorStates:
             raise NetworkFileError(f"{where} [cofactors.pools]: give a table of NAME = {{ forms = "
                                    "[...], total = ... }}")
         for name, spec in pools_section.items():
-            if not isinstance(spec, dict) or set(spec) != {"forms", "total"}:
+            if (not isinstance(spec, dict) or not {"forms", "total"} <= set(spec)
+                    or not set(spec) <= {"forms", "total", "least", "shares"}
+                    or ("least" in spec) != ("shares" in spec)):
                 raise NetworkFileError(f"{where} [cofactors.pools] {name}: write {name} = {{ forms = "
-                                       "[\"nad\", \"nadh\"], total = 1.0e-3 }} (mol/L)")
+                                       "[\"nad\", \"nadh\"], total = 1.0e-3 }} (mol/L), optionally with "
+                                       "least = 5.0e-4 and shares = [0.97, 0.03] (the floor and the "
+                                       "reference shares of the forms)")
             forms = spec["forms"]
             if (not isinstance(forms, list) or len(forms) < 2
                     or not all(isinstance(f, str) and f for f in forms) or len(set(forms)) != len(forms)):
                 raise NetworkFileError(f"{where} [cofactors.pools] {name}: forms must list two or more "
                                        "different compound ids, e.g. [\"nad\", \"nadh\"]")
-            pools.append(Pool(name, tuple(forms), positive(where, "cofactors.pools", name, spec["total"])))
+            total = positive(where, "cofactors.pools", name, spec["total"])
+            least, shares = None, ()
+            if "least" in spec:
+                least = positive(where, "cofactors.pools", f"{name} least", spec["least"])
+                raw = spec["shares"]
+                if not isinstance(raw, list) or len(raw) != len(forms):
+                    raise NetworkFileError(f"{where} [cofactors.pools] {name}: shares must give one "
+                                           f"number per form ({len(forms)})")
+                shares = tuple(positive(where, "cofactors.pools", f"{name} shares", v) for v in raw)
+                if least > total:
+                    raise NetworkFileError(f"{where} [cofactors.pools] {name}: least {least:g} is above "
+                                           f"total {total:g}")
+            pools.append(Pool(name, tuple(forms), total, least, shares))
         ratios = []
         ratios_section = data.get("ratios", {})
         if not isinstance(ratios_section, dict):
@@ -231,12 +254,42 @@ def resolved_constraints(states: CofactorStates, resolve, phosphorylation_standa
                 f"(ΔrG'° = {standard:.1f} kJ/mol at the setting + RT ln([ATP]/[ADP][Pi]))"))
     pools: list[PoolTotal] = []
     for pool in states.pools:
-        forms = tuple(m for m in (resolve(f) for f in pool.forms) if m is not None)
+        resolved = [resolve(f) for f in pool.forms]
+        forms = tuple(m for m in resolved if m is not None)
+        if pool.least is not None and all(m is not None for m in resolved):
+            rows.append(floor_row(pool, forms))
+        elif pool.least is not None:
+            logger.info("floor of pool %s left out: not every form is in this network", pool.name)
         if not forms:
             continue
         pools.append(PoolTotal(f"pool {pool.name}", forms, pool.total, states.pool_approximation,
                                f"{' + '.join(pool.forms)} <= {pool.total:g} mol/L"))
     return rows, pools
+
+
+def floor_row(pool: Pool, forms: tuple[str, ...]) -> LogLinearBound:
+    """The floor sum_i c_i >= L of a pool as one linear row in ln c: the tangent plane of
+    ln sum_i exp(x_i) at the reference shares w (normalised),
+
+        sum_i w_i x_i >= ln L + sum_i w_i ln w_i,
+
+    i.e. prod_i (c_i / w_i)^w_i >= L. By the weighted inequality of arithmetic and geometric
+    means, sum_i c_i = sum_i w_i (c_i / w_i) >= prod_i (c_i / w_i)^w_i, so every point that meets
+    the row meets the floor (conservative, an inner approximation; a floor is not convex in ln c,
+    so no polytope holds it exactly); it is exact when the forms stand in the reference shares and
+    stricter the farther they are from them.
+
+    >>> row = floor_row(Pool("NAD", ("nad", "nadh"), 1e-3, 5e-4, (0.97, 0.03)), ("nad", "nadh"))
+    >>> x = {"nad": math.log(0.97 * 5e-4), "nadh": math.log(0.03 * 5e-4)}    # on the floor, at w
+    >>> round(sum(a * x[m] for m, a in row.coefficients.items()) - row.lower, 12)
+    0.0
+    """
+    weights = [w / sum(pool.shares) for w in pool.shares]
+    lower = math.log(pool.least) + sum(w * math.log(w) for w in weights)
+    shares = ":".join(f"{w:.3g}" for w in weights)
+    return LogLinearBound(f"floor of pool {pool.name}", dict(zip(forms, weights)), lower, None,
+                          f"{' + '.join(pool.forms)} >= {pool.least:g} mol/L (tangent in ln c at "
+                          f"shares {shares}: conservative)")
 
 
 def breakpoints(lower: float, upper: float, total: float) -> list[float]:
@@ -248,7 +301,7 @@ def breakpoints(lower: float, upper: float, total: float) -> list[float]:
     >>> [round(p, 3) for p in breakpoints(math.log(1e-6), math.log(1e-3), 1e-3)][:3]
     [-13.816, -13.569, -13.322]
     >>> len(breakpoints(math.log(1e-9), math.log(1e-3), 1e-3))
-    57
+    30
     """
     if upper <= lower:
         return [lower]

@@ -379,11 +379,11 @@ class Environment:
                 try:
                     self.resolve(model, key)
                 except NetworkFileError as exc:
-                    message = str(exc).replace(f"{where}: ", f"{where} [{table or section}]: ", 1)
-                    if table is None:                    # the line of the key when it is known
-                        located_message = self._at(section, key, str(exc))
-                        message = located_message if located_message != str(exc) else message
-                    raise NetworkFileError(message) from None
+                    name = table or section
+                    located_message = self._at(name, key, str(exc))
+                    if located_message == str(exc):      # no line known: name the section
+                        located_message = str(exc).replace(f"{where}: ", f"{where} [{name}]: ", 1)
+                    raise NetworkFileError(located_message) from None
         self.feed_metabolites(model)   # a [fluid] total that names nothing, or a compound fed twice
         if self.demand_reaction is not None and self.demand_reaction not in model.reactions:
             close = difflib.get_close_matches(self.demand_reaction, [r.id for r in model.reactions], n=3)

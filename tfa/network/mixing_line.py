@@ -25,7 +25,6 @@ File format::
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 
 from ..errors import NetworkFileError
@@ -92,6 +91,7 @@ def environment_with_ph(environment, model, ph: float, hold_gradient: bool = Tru
     with it (pH_ID + shift) and so does a fed outer proton (thermo key ``H+(outside)``, activity
     × 10^-shift), so every ΔpH across the membrane stays.
 
+    >>> import math
     >>> from tfa.network.inputs import resolve_inputs
     >>> inputs = resolve_inputs()
     >>> env = environment_with_ph(inputs.environment, inputs.model, 8.0)

@@ -37,10 +37,15 @@ class ConcentrationChecks:
     rows : list of (column indices, coefficients, lower or None, upper or None, text)
         Linear rows on ln c (columns index the problem's compounds with an activity term).
     pools : list of (column indices, total mol/L, allowed relative excess, text)
+    names : dict
+        Solver row name -> the constraint in words (``tfa_c_<k>``: a ratio or the
+        phosphorylation floor; ``tfa_p_<k>``: a pool total), for an analysis of binding
+        constraints.
     """
 
     rows: list = field(default_factory=list)
     pools: list = field(default_factory=list)
+    names: dict = field(default_factory=dict)
 
     def describe(self) -> list[str]:
         """The constraints in words, for reports."""
@@ -73,6 +78,7 @@ def concentration_rows(problem, variable) -> tuple[list, list, ConcentrationChec
         rows.append((f"tfa_c_{k}", row.lower, row.upper,
                      {problem.x_vars[i]: float(a) for i, a in zip(cols, coefs)}))
         checks.rows.append((cols, coefs, row.lower, row.upper, row.text))
+        checks.names[f"tfa_c_{k}"] = row.text
     for k, pool in enumerate(getattr(tm, "pools", []) or []):
         cols = [index[m] for m in pool.forms if m in index]
         if not cols:
@@ -91,6 +97,7 @@ def concentration_rows(problem, variable) -> tuple[list, list, ConcentrationChec
                 rows.append((f"tfa_p_{k}_{i}_{p}", float(intercept), None,
                              {share: 1.0, problem.x_vars[i]: -float(slope)}))
         rows.append((f"tfa_p_{k}", None, 1.0, total_row))
+        checks.names[f"tfa_p_{k}"] = pool.text
         excess = 1e-6 if pool.method == "inner" else CHORD_RELATIVE_ERROR + 1e-6
         checks.pools.append((np.array(cols, int), pool.total, excess,
                              f"{pool.text} ({pool.method} approximation)"))

@@ -50,6 +50,7 @@ AXIS_LABELS = {
     "ionic_strength_mol_per_L": "ionic strength, mol/L",
     "h2_activity": "H2 supply, mol/L (gas feed: bar)",
     "pressure_bar": "pressure, bar",
+    "vent_fraction": "share of vent fluid (0: seawater, 1: vent fluid)",
 }
 #: Largest grid whose cells get their value written in.
 ANNOTATE_MAX_CELLS = 144
@@ -209,8 +210,7 @@ def line_figure(frame: pd.DataFrame, x_column: str, mode: str, title: str | None
             lines = ax.get_lines() + twin.get_lines()
             ax.legend(lines, [ln.get_label() for ln in lines], loc="best", fontsize=7)
             ax.set_title("the mixture")
-        axes[-1].set_xlabel({"vent_fraction": "share of vent fluid (0: seawater, 1: vent fluid)"}.get(
-            x_column, AXIS_LABELS.get(x_column, x_column)))
+        axes[-1].set_xlabel(AXIS_LABELS.get(x_column, x_column))
         label = MODES[mode].title if mode in MODES else mode
         kind = "mixing line" if x_column == "vent_fraction" else "condition line"
         fig.suptitle(title or f"{kind}, {label} (grey: failed or not computed)")
