@@ -357,7 +357,8 @@ def _range_words(lo: float, hi: float, unit: str) -> str:
 
 def h2_threshold(tm: ThermoModel, options: ProblemOptions | None = None, h2_id: str | None = None,
                  h2_range: tuple[float, float] = DEFAULT_H2_RANGE, window: bool = False,
-                 precision: float = WINDOW_PRECISION, mode: str | None = None) -> H2ThresholdResult:
+                 precision: float = WINDOW_PRECISION, mode: str | None = None,
+                 progress: LevelProgress | None = None) -> H2ThresholdResult:
     """Least H2 (mol/L or bar) at which the network is feasible, by one MILP minimising ln[H2];
     with ``window``, every H2 level in the range at which it is feasible.
 
@@ -377,6 +378,7 @@ def h2_threshold(tm: ThermoModel, options: ProblemOptions | None = None, h2_id: 
     window : also the largest feasible H2, the gaps and the binding constraints at the ends
     precision : relative precision of the ends found by bisection [dimensionless]
     mode : the mode's id, for the rows of the binding constraints
+    progress : called with (solves done, solves planned) as the window is searched
     """
     options = options or ProblemOptions()
     h2 = _h2_id(tm, h2_id)
@@ -411,7 +413,7 @@ def h2_threshold(tm: ThermoModel, options: ProblemOptions | None = None, h2_id: 
                 f"bound on ln[H2] {details.get('bound')}", **details)
             if window:
                 before = len(result.certificates)
-                _find_windows(problem, result, h2, sol, precision)
+                _find_windows(problem, result, h2, sol, precision, progress)
                 result.verification["check"] += (
                     f"; window: {len(result.certificates) - before} more point(s) (the largest "
                     "H2 and the levels checked between) passed the independent check, gaps by "
@@ -425,7 +427,7 @@ def h2_threshold(tm: ThermoModel, options: ProblemOptions | None = None, h2_id: 
                                             f"no point: {solver} (branch and bound); {words}")
         if outcome == "point":   # the other solver found a point: ask again for the least H2
             return h2_threshold(tm, replace(options, solver="glpk" if solver == "highs" else "highs"),
-                                h2_id, h2_range, window, precision, mode)
+                                h2_id, h2_range, window, precision, mode, progress)
         return result
     x = float(sol.log_conc[sol.metabolite_ids.index(h2)])
     result.feasible = True
@@ -447,8 +449,18 @@ def h2_threshold(tm: ThermoModel, options: ProblemOptions | None = None, h2_id: 
 
 
 def _find_windows(problem: ThermoProblem, result: H2ThresholdResult, h2: str, low_sol: Solution,
-                  precision: float) -> None:
+                  precision: float, progress: LevelProgress | None = None) -> None:
     """Fill ``result.windows`` and ``result.ends`` (see :func:`h2_threshold`)."""
+    step = math.log1p(precision)
+    grid = [math.log(v) for v in scan_levels(result.search_range, DEFAULT_H2_LEVELS)]
+    done, planned = 1, 2 + len(grid)
+
+    def tick(more: int = 0) -> None:
+        nonlocal done, planned
+        done, planned = done + 1, planned + more
+        if progress is not None:
+            progress(min(done, planned), planned)
+
     lo, hi = (math.log(v) for v in result.search_range)
     x_h2 = problem.x_vars[problem.metabolite_index[h2]]
     index = low_sol.metabolite_ids.index(h2)
@@ -457,6 +469,7 @@ def _find_windows(problem: ThermoProblem, result: H2ThresholdResult, h2: str, lo
     high_sol = problem.solve("largest H2 at which the network is feasible", accept_best=True)
     result.certificates.append(certify(problem, high_sol))
     x_high = float(high_sol.log_conc[index])
+    tick()
     problem.set_objective({})
 
     def feasible_at(x: float):
@@ -464,18 +477,19 @@ def _find_windows(problem: ThermoProblem, result: H2ThresholdResult, h2: str, lo
         try:
             sol = problem.solve(f"H2 window at {math.exp(x):.3g}")
         except InfeasibleProblem:
-            return None
-        result.certificates.append(certify(problem, sol))
+            sol = None
+        else:
+            result.certificates.append(certify(problem, sol))
+        tick()
         return sol
 
-    step = math.log1p(precision)
-    grid = [math.log(v) for v in scan_levels(result.search_range, DEFAULT_H2_LEVELS)]
     points = [(x_low, low_sol)] + [(x, feasible_at(x)) for x in grid if x_low + step < x < x_high - step]
     points.append((x_high, high_sol))
     refined = [points[0]]
     for (xa, sa), (xb, sb) in zip(points, points[1:]):
         if (sa is None) != (sb is None):   # bisection in ln[H2] between disagreeing neighbours
             a, b, s_a, s_b = xa, xb, sa, sb
+            planned += max(0, math.ceil(math.log2((b - a) / step)))
             while b - a > step:
                 mid = 0.5 * (a + b)
                 s_mid = feasible_at(mid)
@@ -503,6 +517,8 @@ def _find_windows(problem: ThermoProblem, result: H2ThresholdResult, h2: str, lo
                          "at_range_end": last and x >= hi - 1e-9, "solution": sol})
             start = None
     result.windows, result.ends = windows, ends
+    if progress is not None:
+        progress(done, done)
 
 
 def _window_binding(tm: ThermoModel, opts: ProblemOptions, result: H2ThresholdResult,

@@ -91,7 +91,7 @@ class H2ThresholdStep(Step):
         tm = ctx.thermo_model(ctx.settings.mode)
         return ctx.attempt("H2 threshold", lambda: h2_threshold(
             tm, ctx.options, h2_id=h2, h2_range=ctx.settings.h2_range, window=True,
-            mode=ctx.settings.mode))
+            mode=ctx.settings.mode, progress=ctx.ticker("solves of the H2 window")))
 
     def tables(self, result: H2ThresholdResult | None, ctx: RunContext) -> dict:
         return {} if result is None else result.tables()
