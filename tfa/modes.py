@@ -202,13 +202,19 @@ DEFAULT_MODE = "native"
 
 
 def get_mode(mode_id: str) -> Mode:
-    """The registered mode with this id.
+    """The registered mode with this id (a combined id ``a+b`` is registered on first use).
+
+    >>> get_mode("h2_only+pyrophosphate").rewrites
+    ('carriers_to_h2', 'currency_pyrophosphate')
 
     Raises
     ------
     InputError
         For an unknown id, listing the known ones.
     """
+    if mode_id not in MODES and "+" in str(mode_id):
+        # a combined mode named in another process (a worker) is registered here on first use
+        return combine_modes([p.strip() for p in str(mode_id).split("+") if p.strip()])
     try:
         return MODES[mode_id]
     except KeyError:

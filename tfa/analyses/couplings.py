@@ -265,7 +265,10 @@ def fewest_couplings(tm: ThermoModel, options: ProblemOptions | None = None,
                                    f"tfa_couple_cut_{k}")
         else:
             checks.append(f"enumeration stopped after {limit} sets")
-    found.sort(key=lambda item: (len(item[0]), item[3] if objective == "energy" else 0.0, item[0]))
+    if objective == "energy":
+        found.sort(key=lambda item: (round(item[3], 9), len(item[0]), item[0]))
+    else:
+        found.sort(key=lambda item: (len(item[0]), item[0]))
     checks.append(_recheck(tm, options, pairs, found[0][0] + found[0][1]))
     shown = found[:max(1, alternatives)]
     result.feasible = True
@@ -276,11 +279,15 @@ def fewest_couplings(tm: ThermoModel, options: ProblemOptions | None = None,
     result.size = len(result.sets[0])
     listed = "; ".join("{" + (", ".join(s) or "none") + "}" for s in result.sets)
     more = len(found) - len(shown)
-    result.message = (f"{result.size} ATP coupling(s) kept at the least"
-                      + (f" ({len(found)} optimal set(s){', all listed' if result.exhausted else ''})"
-                         if objective == "count" else
-                         f", least coupling energy {result.energies[0]:.3g} (flux unit x kJ/mol)")
-                      + f": {listed}" + (f" and {more} more" if more > 0 else ""))
+    if objective == "count":
+        result.message = (f"{result.size} ATP coupling(s) kept at the least ({len(found)} optimal "
+                          f"set(s){', all listed' if result.exhausted else ''}): {listed}"
+                          + (f" and {more} more" if more > 0 else ""))
+    else:
+        result.message = ("least coupling energy (flux x ΔrG'° of the coupling, flux unit x kJ/mol): "
+                          + "; ".join("{" + (", ".join(s) or "none") + f"}} {e:.3g}"
+                                      for s, e in zip(result.sets, result.energies))
+                          + " (the best first, then the next best)")
     result.verification["check"] = "; ".join(
         [f"every set's steady state: {certificate_words(result.certificates[0])}",
          "each set recounted from the certified fluxes (coupled and bare copy never both used)"]
