@@ -230,7 +230,7 @@ COLUMNS: dict[str, Term] = _terms(
     ("near_equilibrium", "|ΔrG'| < RT ln 10: the backward flux is more than a tenth of the forward "
                          "(flux-force relation, Beard & Qian 2007)", ""),
     # conditions (map axes and summaries)
-    # issue-19b block: the setting's fluids
+    # the setting's fluids
     ("vent_fraction", "share of vent fluid in a mixture with seawater (0: seawater, 1: vent fluid)", ""),
     ("dissolved_inorganic_carbon_mol_per_L", "dissolved inorganic carbon, CO2(aq) + HCO3- + CO3--",
      "mol/L"),
@@ -470,7 +470,7 @@ OPTIONS: dict[str, Option] = {
     "demand": Option(("--demand",), "the demand reaction (reaction id), over the environment's "
                      "(default: the environment's [demand]; without an environment, the model's "
                      "objective)", None, "ID"),
-    # issue-19b block: pH changes and the gradient
+    # pH changes and the gradient
     "fixed_outer_ph": Option(("--fixed-outer-ph",), "keep the outer fluid's pH when the pH changes "
                              "(a pH axis, a mixing line), so the gradient ΔpH changes with it "
                              "(default: the outer pH moves with the pH, ΔpH kept)", False, None),
