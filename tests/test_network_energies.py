@@ -17,7 +17,8 @@ import pytest
 from tfa.conditions import Conditions
 from tfa.errors import NetworkFileError
 from tfa.network.energies import compound_energies, prepare, prepared, reaction_energies
-from tfa.network.environment import Environment, apply_environment
+from tfa.network.applied_environment import apply_environment
+from tfa.network.environment import Environment
 from tfa.network.io_table import read_network
 from tfa.thermo.database import ThermoDatabase
 from tfa.thermo.literature import read_literature_values

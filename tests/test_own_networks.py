@@ -54,7 +54,7 @@ def test_the_formats_example_alone_builds_a_network_that_is_assessed(tmp_path):
     assert result.h2_threshold.feasible and 1e-8 < result.h2_threshold.threshold < 1e-4
     # fumarate hydratase of the example against Nelson & Cox (2008), Table 16-1: fumarate + H2O
     # -> malate -3.8 kJ/mol at pH 7, 25 degC (from memory); the example's FUM is the reverse
-    from tfa.network.energies import network_reaction_energy
+    from tfa.network.reaction_in_network import network_reaction_energy
     from tfa.conditions import Conditions
 
     fum = network_reaction_energy(result.network, Conditions.from_celsius(25, ph=7.0,

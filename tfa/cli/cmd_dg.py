@@ -129,7 +129,7 @@ def run(args: argparse.Namespace) -> int:
 
     db = ThermoDatabase.load(include_unreviewed=args.include_unreviewed)
     if args.network_data:
-        from ..network.energies import network_reaction_energy
+        from ..network.reaction_in_network import network_reaction_energy
         from .step_command import load_inputs
 
         inputs = load_inputs(argparse.Namespace(network=args.network_data), require_balanced=False)

@@ -62,12 +62,12 @@ import logging
 import math
 from importlib import resources
 from pathlib import Path
-from typing import Any, Iterator, Mapping, Sequence
+from typing import Any, Iterator, Sequence
 
 import cobra
 
 from ..conditions import Conditions
-from ..errors import InputError, MissingDataError, NetworkFileError, UnknownCompoundError
+from ..errors import InputError, NetworkFileError, UnknownCompoundError
 from ..thermo.audit import reconciliation_audit
 from ..thermo.balance import parse_formula
 from ..thermo.database import ThermoDatabase
@@ -77,8 +77,9 @@ from ..thermo.reconcile import (Reconciliation, UnknownSpecies, legendre_offset,
                                 reconciled_species)
 from ..thermo.species import Species
 from ..thermo.status import ESTIMATED, combined_value_status
-from .compound_table import CompoundEnergy, CompoundEnergyTable, extend_unique
-from .environment import Environment, apply_environment
+from .compound_table import CompoundEnergy, CompoundEnergyTable
+from .applied_environment import apply_environment
+from .environment import Environment
 from .compartments import compartment_places, offset_words, standard_state_words
 from .roles import without_activity
 from .thermo_model import ReactionEnergy, ThermoModel
@@ -384,122 +385,6 @@ def reaction_energies(model: cobra.Model, table: CompoundEnergyTable,
                                          provenance=f"{energy.provenance}; reference: {state}")
         out[reaction.id] = energy
     return out
-
-
-def network_reaction_energy(model: cobra.Model, conditions: Conditions, equation: str,
-                            activities: Mapping[str, float] | None = None,
-                            db: ThermoDatabase | None = None, literature=None,
-                            estimate: bool = True, compartments: Mapping | None = None):
-    """ΔrG'° and ΔrG' of any reaction over a network's compounds, from the network's own data.
-
-    The compounds are named by metabolite id, name, synonym or thermo key; their energies are
-    those the network uses (:func:`compound_energies`: species data, its own reaction values
-    reconciled, estimates), so this answers "what does this network take for this reaction".
-    ``compartments`` (compartment id -> :class:`tfa.conditions.Compartment`, the environment's)
-    put compounds outside the cell at their compartment's pH and potential; the flags state the
-    reference of a reaction across the membrane, or that a compartment has no stated pH.
-
-    Returns
-    -------
-    tfa.thermo.database.ReactionEnergyResult
-        With ``status`` and ``audit_flags``; ``compounds`` is empty (the per-compound energies are
-        in :func:`compound_energies`).
-
-    Raises
-    ------
-    UnknownCompoundError
-        A name that is no compound of the network (with close matches).
-    UnbalancedReactionError
-        The reaction does not balance over the network's formulas and charges.
-    MissingDataError
-        The network's data do not fix the reaction's energy.
-    """
-    import difflib
-
-    from ..equation import format_equation, parse_equation
-    from ..thermo.balance import check_balance, require_balanced
-    from ..thermo.compounds import normalise_name
-    from ..thermo.database import ReactionEnergyResult
-
-    db = db or ThermoDatabase.load()
-    index: dict[str, str] = {}
-    for met in model.metabolites:
-        names = [met.id, met.name, _note(met, "thermo_key")] + _note(met, "synonyms").split(";")
-        for name in names:
-            if name and name.strip():
-                index.setdefault(normalise_name(name), met.id)
-
-    def resolve(name: str) -> str:
-        key = normalise_name(name)
-        if key in index:
-            return index[key]
-        close = difflib.get_close_matches(key, list(index), n=5, cutoff=0.6)
-        matches = tuple(dict.fromkeys(index[k] for k in close))
-        hint = f"; did you mean: {', '.join(matches)}?" if matches else ""
-        raise UnknownCompoundError(f"'{name}' is no compound of network {model.id}{hint} Write a "
-                                   "metabolite id, name or synonym of its compounds table",
-                                   name=name, matches=matches)
-
-    parsed = parse_equation(equation)
-    net: dict[str, float] = {}
-    for name, nu in parsed.stoichiometry().items():
-        met_id = resolve(name)
-        net[met_id] = net.get(met_id, 0.0) + nu
-    net = {m: n for m, n in net.items() if abs(n) > 1e-12}
-    text = format_equation(net, "<=>" if parsed.arrow == "=" else parsed.arrow)
-    mets = {m: model.metabolites.get_by_id(m) for m in net}
-    formulas = {m: (parse_formula(met.formula or "", where=f"compound '{m}'")[0],
-                    int(met.charge or 0)) for m, met in mets.items()}
-    balance = check_balance(net, formulas)
-    require_balanced(balance, text, where=f"network {model.id}")
-    import types
-
-    setting = types.SimpleNamespace(conditions=conditions, compartments=dict(compartments or {}))
-    table = compound_energies(model, setting, db, literature, estimate=estimate)
-    energy = checked_estimate(table.reaction_energy("equation", net), table)
-    state = standard_state_words(table, net)
-    if not math.isfinite(energy.standard):
-        raise MissingDataError(f"network {model.id} does not fix the energy of {text}: "
-                               f"{energy.provenance}")
-    fixed = without_activity(model, _kind_of(db))
-    used: dict[str, float] = {}
-    flags: list[str] = []
-    given = {resolve(k): float(v) for k, v in (activities or {}).items()}
-    for m in given:
-        if m not in net or m in fixed:
-            raise InputError(f"activity given for '{m}', which is not a variable compound of the "
-                             "reaction (water and H+ are fixed); remove it")
-    actual = energy.standard
-    for m, nu in net.items():
-        if m in fixed:
-            continue
-        a = given.get(m, 1.0)
-        if not (math.isfinite(a) and a > 0):
-            raise InputError(f"activity of '{m}' must be a positive number (mol/L or bar)")
-        used[m] = a
-        actual += nu * conditions.RT * math.log(a)
-    defaulted = [m for m in used if m not in given]
-    if defaulted:
-        flags.append("activity 1 (standard state) used for " + ", ".join(defaulted))
-    if state:
-        flags.append(f"reference of the standard energy: {state}")
-    from .compartments import cell_compartment
-
-    cell = cell_compartment(model)
-    unstated = sorted({mets[m].compartment for m in net if mets[m].compartment
-                       and mets[m].compartment != cell} - set(setting.compartments))
-    if unstated:
-        flags.append(f"compartment(s) {', '.join(unstated)} have no stated pH: taken at the "
-                     f"cell's pH {conditions.ph:g} with membrane potential 0 (give the network's "
-                     "environment with [compartments.ID])")
-    sources: list[str] = []
-    for m in net:
-        extend_unique(sources, table.compounds[m].sources)
-    return ReactionEnergyResult(text, net, energy.standard, actual, energy.uncertainty, balance,
-                                tuple(sources), (f"network {model.id}: {energy.source}; "
-                                                 f"{energy.provenance}",),
-                                tuple(flags), used, conditions, {}, energy.status,
-                                energy.audit_flags)
 
 
 def checked_estimate(energy: ReactionEnergy, table: CompoundEnergyTable) -> ReactionEnergy:
