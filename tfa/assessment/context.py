@@ -37,9 +37,9 @@ log = logging.getLogger(__name__)
 ProgressCallback = Callable[[str, int, int], None]
 #: How an answer that does not apply begins (a mode needing a role the network lacks).
 NOT_APPLICABLE = "not applicable"
-#: Draws per mode of the robustness step of an assessment (a small run; about 1.5 s per draw on
-#: the bundled network; ``tfa robustness`` runs large ones).
-ASSESSMENT_DRAWS = 20
+#: Draws per mode of the robustness step of an assessment (a small first look, the most it draws;
+#: ``tfa robustness`` runs large ones; the command-line default in tfa.cli.options is the same).
+ASSESSMENT_DRAWS = 12
 #: Width at which the assessment's draws stop (sequential stopping).
 ASSESSMENT_INTERVAL_WIDTH = 0.3
 
