@@ -82,7 +82,7 @@ def test_a_new_step_reaches_files_summary_and_report(toy_step, tmp_path, capsys)
     from tfa.cli import main
 
     out = tmp_path / "out"
-    skip = "feasibility,h2_scan,h2_threshold,driving_force,energy_profile,ranges,robustness"
+    skip = "feasibility,precursors,h2_scan,h2_threshold,driving_force,energy_profile,ranges,robustness"
     assert main(["assess", "--skip", skip, "--out", str(out), "-q"]) == 0
     printed = capsys.readouterr().out
     assert "pathways: " in printed
