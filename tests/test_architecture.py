@@ -82,8 +82,9 @@ def test_a_new_step_reaches_files_summary_and_report(toy_step, tmp_path, capsys)
     from tfa.cli import main
 
     out = tmp_path / "out"
-    skip = ("feasibility,h2_scan,h2_threshold,gradient,driving_force,energy_profile,ranges,robustness,"
-            "couplings,currencies,route_comparison")
+    skip = ("feasibility,energy_budget,precursors,h2_scan,h2_threshold,gradient,driving_force,"
+            "binding_constraints,energy_profile,ranges,verdict_margins,robustness,couplings,"
+            "currencies,route_comparison")
     assert main(["assess", "--skip", skip, "--out", str(out), "-q"]) == 0
     printed = capsys.readouterr().out
     assert "pathways: " in printed

@@ -17,10 +17,10 @@ from tfa.analyses.route import order_route, parse_route
 from tfa.assessment import REPORT_FILE, SUMMARY_FILE
 from tfa.report.tables import compare_table_files
 
-TABLE_FILES = ("coverage", "census", "census_counts", "feasibility", "uphill_sets", "h2_scan",
+TABLE_FILES = ("coverage", "census", "census_counts", "feasibility", "uphill_sets", "precursors", "h2_scan",
                "h2_threshold", "driving_force", "energy_profile", "ranges",
                "robustness_feasibility", "robustness_uphill")
-FIGURE_FILES = ("energy_profile", "h2_scan", "census", "ranges")
+FIGURE_FILES = ("energy_profile", "h2_scan", "census", "ranges", "precursors")
 
 
 @pytest.fixture(scope="module")

@@ -85,7 +85,7 @@ def test_an_answer_stopped_by_the_time_limit_is_undetermined_with_exit_1(mini_fo
 def test_model_range_warnings_reach_summary_and_report(mini_folder, tmp_path, capsys):
     """Range warnings never reached report.html or summary.json."""
     out = tmp_path / "results"
-    assert main(["assess", str(mini_folder), "--skip", "ranges,robustness,h2_scan,census,"
+    assert main(["assess", str(mini_folder), "--skip", "ranges,robustness,h2_scan,census,precursors,"
                  "energy_profile,h2_threshold,driving_force", "--ionic-strength", "0.7",
                  "--temperature", "160", "--pressure", "10", "--out", str(out)]) == 0
     err = capsys.readouterr().err

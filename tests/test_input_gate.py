@@ -25,7 +25,7 @@ from tfa.util import numbers
 from tfa.water import SATURATION, liquid_at, saturation_pressure
 
 EQUATION = "H2 + CO2tot <=> formate + H2O"
-NOTHING = ["coverage", "feasibility", "census", "h2_scan", "h2_threshold", "gradient",
+NOTHING = ["coverage", "feasibility", "precursors", "census", "h2_scan", "h2_threshold", "gradient",
            "driving_force", "energy_profile", "ranges", "robustness"]
 
 

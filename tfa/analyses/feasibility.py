@@ -112,7 +112,7 @@ class FeasibilityResult(AnalysisResult):
 
 def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
                 diagnose: bool = True, alternatives: int = 1, canonical: bool = True,
-                count_limit: int = 0) -> FeasibilityResult:
+                count_limit: int = 0, progress=None) -> FeasibilityResult:
     """Is there a steady state meeting the demand with every reaction carrying flux downhill?
 
     Parameters
@@ -170,7 +170,7 @@ def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
     try:
         diagnosis = minimal_uphill_set(tm, options, alternatives=alternatives,
                                        try_downhill_first=False, canonical=canonical,
-                                       count_limit=count_limit)
+                                       count_limit=count_limit, progress=progress)
     except ImpossibleDemandError as err:
         result.demand_impossible = True
         result.message = f"infeasible: {err}"

@@ -171,7 +171,8 @@ def precursor_verdicts(tm: ThermoModel, options: ProblemOptions | None = None,
     count_limit : int
         Minimal uphill sets counted per compound.
     progress : callable, optional
-        ``progress(done, total)`` before each compound.
+        ``progress(done, total, text)`` before each compound (text "") and while its minimal
+        sets are put in order (text the detail).
 
     Returns
     -------
@@ -197,14 +198,17 @@ def precursor_verdicts(tm: ThermoModel, options: ProblemOptions | None = None,
     required = max(demand.lower_bound, 0.0)
     statuses = []
     for k, (compound, coefficient) in enumerate(wanted):
+        tell = None
         if progress is not None:
-            progress(k, len(wanted))
+            progress(k, len(wanted), compound)
+            tell = (lambda text, k=k, compound=compound:
+                    progress(k, len(wanted), f"{compound}, {text}"))
         need = required * coefficient
         with model:
             demand.subtract_metabolites(dict(demand.metabolites))
             demand.add_metabolites({model.metabolites.get_by_id(compound): -1.0})
             demand.bounds = (need, max(demand.upper_bound * coefficient, need))
-            verdict = _one(copy, options, compound, coefficient, need, count_limit)
+            verdict = _one(copy, options, compound, coefficient, need, count_limit, tell)
         result.verdicts.append(verdict)
         result.certificates.extend(verdict.verification.pop("certificates", []))
         statuses.append(verdict.verification)
@@ -215,7 +219,7 @@ def precursor_verdicts(tm: ThermoModel, options: ProblemOptions | None = None,
 
 
 def _one(tm: ThermoModel, options: ProblemOptions, compound: str, coefficient: float, need: float,
-         count_limit: int) -> PrecursorVerdict:
+         count_limit: int, progress=None) -> PrecursorVerdict:
     """The three questions for one compound whose own demand is in place: the flux-balance
     capacity, then the minimal uphill set on one build (:func:`minimal_uphill_set` first asks
     with every step downhill: a certified point there is the "downhill" verdict)."""
@@ -235,7 +239,7 @@ def _one(tm: ThermoModel, options: ProblemOptions, compound: str, coefficient: f
         return verdict
     try:
         d = minimal_uphill_set(tm, options, alternatives=1, try_downhill_first=True,
-                               count_limit=count_limit)
+                               count_limit=count_limit, progress=progress)
     except ImpossibleDemandError as err:      # beyond the flux reach of the problem
         verdict.verdict, verdict.feasible = "stoichiometric gap", False
         verdict.message = str(err)

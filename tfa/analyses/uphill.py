@@ -478,7 +478,8 @@ def _energy_to_supply(problem: ThermoProblem, members: list[str], sol: Solution,
 
 def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                        alternatives: int = 1, try_downhill_first: bool = True,
-                       canonical: bool = True, count_limit: int = 0) -> UphillResult:
+                       canonical: bool = True, count_limit: int = 0,
+                       progress=None) -> UphillResult:
     """Fewest reactions that must run against their gradient for the demand to be met.
 
     What is known is used before the search (measured on genome-scale instances with
@@ -501,6 +502,8 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
     count_limit : int
         Count the minimal sets up to this many in all (:data:`tfa.analyses.set_order.COUNT_LIMIT`
         is the assessment's); at most ``alternatives`` are listed. 0: count only those listed.
+    progress : callable, optional
+        ``progress(text)`` while the sets are put in order and counted (a progress display).
     try_downhill_first : bool
         First solve with every u_j fixed at 0 (the plain feasibility problem, on the same build):
         when that is feasible the minimal set is empty and proven so at once; the minimisation
@@ -566,7 +569,7 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                 result.exhausted, result.count = True, 1
             elif canonical and status == "proven":
                 list_in_order(result, problem, size, alternatives, count_limit, checks, _record,
-                              first=sol)
+                              first=sol, progress=progress)
             else:
                 list_as_found(result, problem, sol, alternatives, checks, _record)
             words = [f"each set's steady state passed the independent numpy check ({len(result.certificates)} points)",

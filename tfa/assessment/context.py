@@ -286,7 +286,8 @@ class RunContext:
             tm = self.thermo_model(mode)
             try:
                 result = feasibility(tm, self.options, alternatives=self.settings.alternatives,
-                                     count_limit=COUNT_LIMIT)
+                                     count_limit=COUNT_LIMIT,
+                                     progress=lambda text: self.detail(f"{mode}: {text}"))
             except UndeterminedError as err:
                 result = FeasibilityResult(conditions=tm.conditions, mode=mode, feasible=False,
                                            message=f"undetermined: {err}")
@@ -356,6 +357,12 @@ class RunContext:
         """Progress inside the current step: ``done`` of ``total`` ``unit`` (e.g. levels)."""
         if self.progress is not None:
             self.progress(f"{self.current_label}: {done}/{total} {unit}", self.steps_done,
+                          max(self.steps_total, 1))
+
+    def detail(self, text: str) -> None:
+        """Progress inside the current step in words (``text`` after the step's label)."""
+        if self.progress is not None:
+            self.progress(f"{self.current_label}: {text}", self.steps_done,
                           max(self.steps_total, 1))
 
     def ticker(self, unit: str) -> Callable[[int, int], None]:

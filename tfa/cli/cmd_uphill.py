@@ -1,7 +1,8 @@
 """``tfa uphill``: the minimal uphill sets, the fewest reactions that must be driven against their
-gradient for the network to meet its demand, per mode, with alternatives of the same size and how
-far uphill each member runs (kJ/mol). The same step as ``tfa feasible`` (so the two always give
-the same first set and the same count), printed as the sets. ``--out DIR`` writes
+gradient for the network to meet its demand, per mode, listed in the order of reaction ids and
+counted, with how far uphill each member runs (kJ/mol) and the energy to supply to it per mol of
+demand (flux-weighted). The same step as ``tfa feasible`` (so the two always give the same first
+set and the same count), printed as the sets. ``--out DIR`` writes
 ``feasibility.csv/.json`` and ``uphill_sets.csv/.json``.
 """
 
@@ -19,8 +20,10 @@ def register(subparsers) -> None:
         "uphill",
         help="minimal uphill sets: the fewest steps that must be driven uphill (and alternatives)",
         description="The smallest set of reactions that must run against their gradient "
-        "(coupled to an energy source) for the demand to be met, per mode, with alternative sets "
-        "of the same size and each member's uphill energy at the best concentrations.",
+        "(coupled to an energy source) for the demand to be met, per mode: the sets of that size "
+        "in the order of reaction ids (--alternatives of them listed) and how many there are, "
+        "each member's uphill energy per mole at the best concentrations and the energy to "
+        "supply to it per mol of demand.",
         epilog="example: tfa uphill --modes no_atp_bare --alternatives 3",
     )
     add_network_options(parser)

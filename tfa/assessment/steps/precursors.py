@@ -29,7 +29,10 @@ class PrecursorStep(Step):
             if reason:
                 result.verdicts += _not_applicable(ctx, mode, reason)
                 continue
-            tick = ctx.ticker(f"compounds ({mode}, mode {k + 1} of {len(modes)})")
+
+            def tick(done, total, text, mode=mode, k=k):
+                ctx.tick(done, total, f"compounds ({mode}, mode {k + 1} of {len(modes)}: {text})")
+
             answer = ctx.attempt(f"precursors ({mode})",
                                  lambda: precursor_verdicts(ctx.thermo_model(mode), ctx.options,
                                                             progress=tick))
