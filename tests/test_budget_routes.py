@@ -16,7 +16,7 @@ import pytest
 
 from tfa.analyses.budget import (atp_synthesis_energy, energy_budget, energy_per_proton,
                                  gradient_atp_coupling)
-from tfa.analyses.carbon_paths import (carbon_routes, main_path, steps_share_carbon,
+from tfa.analyses.carbon_paths import (carbon_routes, steps_share_carbon,
                                        transferable_carbon)
 from tfa.analyses.route import connect_steps, delta_g_at, energy_profile
 from tfa.analyses.steady_state import least_flux_state

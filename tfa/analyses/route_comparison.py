@@ -148,6 +148,6 @@ def comparison_words(answer: RouteAnswer) -> str:
         verdict = "infeasible alone: " + answer.message
     h2 = (f"; runs from H2 = {answer.h2_threshold:.3g} {answer.h2_unit}"
           if math.isfinite(answer.h2_threshold) else
-          (f"; no H2 level in the range lets it run" if answer.h2_message.startswith("infeasible")
+          ("; no H2 level in the range lets it run" if answer.h2_message.startswith("infeasible")
            else ""))
     return f"{answer.route.name}: {verdict}{h2}"

@@ -37,12 +37,10 @@ References
 from __future__ import annotations
 
 import logging
-import math
-from dataclasses import dataclass, field, replace
-from typing import Mapping, Sequence
+from dataclasses import replace
+from typing import Mapping
 
 import numpy as np
-import pandas as pd
 
 from ..errors import InputError
 from ..network.compound_space import (COMPOUND_BASED_SOURCES, EnergyCovariance,  # noqa: F401

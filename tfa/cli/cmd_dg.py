@@ -105,7 +105,7 @@ def _text(result: "ReactionEnergyResult", defaulted: list[str], database=None) -
         f"ΔrG'°       {result.standard:9.2f} ± {result.uncertainty:.2f} kJ/mol  (standard transformed)",
         f"ΔrG'        {result.actual:9.2f} ± {result.uncertainty:.2f} kJ/mol  (at the activities below)",
         "activities  " + (", ".join(f"{k}={v:g}" for k, v in result.activities.items()) or "none"),
-    ] + ([f"standard    " + "; ".join(f"{', '.join(keys)} {state}" for state, keys in states.items())
+    ] + (["standard    " + "; ".join(f"{', '.join(keys)} {state}" for state, keys in states.items())
           + " (ΔrG'° refers to these states)"] if states else []) + [
         f"balance     {result.balance.message}",
         f"status      {result.status}",

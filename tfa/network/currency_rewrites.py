@@ -43,7 +43,7 @@ from ..thermo.compounds import normalise_name
 from .checks import is_boundary_reaction as is_boundary
 from .rewrite_batch import RewriteBatch, RewriteSummary, exact_context, note_rewrite
 from .rewrites import (_finish, _implicit_protons, _is_empty, bare_stoichiometry,
-                       hydrolysis_words, nucleotide_metabolites)
+                       hydrolysis_words, nucleotide_metabolites, phosphate_chemistry)
 from .roles import single_with_role
 
 logger = logging.getLogger(__name__)
@@ -189,11 +189,7 @@ def currency_substitution(model: cobra.Model, currency_id: str) -> Iterator[Rewr
                              f"{missing_currency(model, currency_id)} in the network; add the "
                              "compound to the compounds table")
         donor, products = found
-        nucleotides = nucleotide_metabolites(model)
-        water = single_with_role(model, "water", ("h2o", "h2o_c"))
-        phosphate = single_with_role(model, "phosphate", ("pi", "pi_c"))
-        proton = single_with_role(model, "proton", ("h", "h_c"))
-        inert = {m.id for m in (proton, water) if m is not None}
+        nucleotides, water, phosphate, proton, inert = phosphate_chemistry(model)
         adenine = {m for role, m in nucleotides.items() if role != "pyrophosphate"}
         remove: list[cobra.Reaction] = []
         for reaction in list(model.reactions):
@@ -283,7 +279,7 @@ def coupling_choices(model: cobra.Model) -> Iterator[RewriteSummary]:
     False
     """
     summary = RewriteSummary("atp_coupling_optional")
-    with exact_context(model) as context:
+    with exact_context(model):
         twins = []
         for rid, (terms, bonds) in coupled_steps(model).items():
             original = model.reactions.get_by_id(rid)

@@ -295,6 +295,18 @@ def hydrolysis_words(amounts: dict[str, float]) -> str:
                      for k, x in amounts.items() if abs(x) > _TOL)
 
 
+def phosphate_chemistry(model: cobra.Model):
+    """What a rewrite of ATP-coupled steps works with: the adenine nucleotides (and PPi) by role
+    (:func:`nucleotide_metabolites`), water, phosphate and H+ (None when absent), and the ids of
+    H+ and water (no activity term)."""
+    nucleotides = nucleotide_metabolites(model)
+    water = single_with_role(model, "water", ("h2o", "h2o_c"))
+    phosphate = single_with_role(model, "phosphate", ("pi", "pi_c"))
+    proton = single_with_role(model, "proton", ("h", "h_c"))
+    inert = {m.id for m in (proton, water) if m is not None}
+    return nucleotides, water, phosphate, proton, inert
+
+
 def bare_stoichiometry(reaction: cobra.Reaction, nucleotides: dict[str, cobra.Metabolite],
                        water: cobra.Metabolite | None, phosphate: cobra.Metabolite | None,
                        proton: cobra.Metabolite | None
@@ -377,12 +389,8 @@ def no_atp_bare_chemistry(model: cobra.Model) -> Iterator[RewriteSummary]:
     summary = RewriteSummary("no_atp_bare")
     with exact_context(model) as context:
         batch = RewriteBatch(model, context)
-        nucleotides = nucleotide_metabolites(model)
+        nucleotides, water, phosphate, proton, inert = phosphate_chemistry(model)
         role_of = {met: role for role, met in nucleotides.items()}
-        water = single_with_role(model, "water", ("h2o", "h2o_c"))
-        phosphate = single_with_role(model, "phosphate", ("pi", "pi_c"))
-        proton = single_with_role(model, "proton", ("h", "h_c"))
-        inert = {m.id for m in (proton, water) if m is not None}
         remove: list[cobra.Reaction] = []
         for reaction in list(model.reactions):
             stoich = reaction.metabolites
