@@ -16,13 +16,13 @@ Sensitivities and their units:
 
 - H2 answers: s = d ln[H2] / d ln(bound) (dimensionless): the H2 level scales as bound^s, so
   s = 1 reads "halving the bound halves the threshold"; for a reaction energy,
-  d ln[H2] / d Delta_r G'deg [per kJ/mol];
+  d ln[H2] / d ΔrG'° [per kJ/mol];
 - driving force: d B / d ln(bound) [kJ/mol per unit ln c]; for A <=> B at a fixed A and B at its
-  lower bound, -RT (hand-derived from B = -(Delta_r G'deg + RT ln(b/a)));
-  d B / d Delta_r G'deg [dimensionless].
+  lower bound, -RT (hand-derived from B = -(ΔrG'° + RT ln(b/a)));
+  d B / d ΔrG'° [dimensionless].
 
 Example (hand-derived; R = 8.314462618 J/(mol K), CODATA 2018): H2 + X <=> XH2 with
-Delta_r G'deg = -10 kJ/mol, delta = 0.1 kJ/mol: [H2]_min = [XH2]_min / ([X]_max K),
+ΔrG'° = -10 kJ/mol, delta = 0.1 kJ/mol: [H2]_min = [XH2]_min / ([X]_max K),
 K = exp(9.9/RT), so d ln[H2]_min / d ln[XH2]_min = 1 and d ln[H2]_min / d ln[X]_max = -1
 (tests/test_binding.py).
 """

@@ -1,10 +1,10 @@
-"""Census of reaction energies: per reaction, Delta_r G'deg at the environment, Delta_r G' with
-every reactant at 1 mM, and Delta_r G' at a substrate:product ratio; counts and fractions
+"""Census of reaction energies: per reaction, ΔrG'° at the environment, ΔrG' with
+every reactant at 1 mM, and ΔrG' at a substrate:product ratio; counts and fractions
 exergonic, per mode. No optimisation (hence no certificate).
 
-    Delta_r G' = Delta_r G'deg + RT sum_i nu_i ln a_i          (Alberty 2003, eq. 4.1-4)
+    ΔrG' = ΔrG'° + RT sum_i nu_i ln a_i          (Alberty 2003, eq. 4.1-4)
 
-At 1 mM of every reactant (gases at 1e-3 bar) this is the "Delta_r G'm" of Flamholz et al.
+At 1 mM of every reactant (gases at 1e-3 bar) this is the "ΔrG'm" of Flamholz et al.
 (2012, Nucleic Acids Res. 40:D770). At a substrate:product ratio r every substrate stands at
 1 mM * sqrt(r) and every product at 1 mM / sqrt(r) (geometric mean 1 mM, each substrate/product
 pair at ratio r). H+ and water never enter the activity term: each compartment's H+ stands at
@@ -36,12 +36,12 @@ CENSUS_COLUMNS = ["reaction", "equation", "delta_g_standard_kJ_per_mol", "sigma_
 
 def energy_at_activities(standard: float, stoichiometry: dict[str, float],
                          log_activity: dict[str, float], rt: float) -> float:
-    """Delta_r G' = Delta_r G'deg + RT sum_i nu_i ln a_i, kJ/mol.
+    """ΔrG' = ΔrG'° + RT sum_i nu_i ln a_i, kJ/mol.
 
     Parameters
     ----------
     standard : float
-        Delta_r G'deg, kJ/mol.
+        ΔrG'°, kJ/mol.
     stoichiometry : dict
         compound -> nu (negative for substrates); compounds absent from ``log_activity`` are
         skipped (H+, water).
@@ -53,7 +53,7 @@ def energy_at_activities(standard: float, stoichiometry: dict[str, float],
     Examples
     --------
     A -> B + C with all three at 1 mM at 298.15 K: one more product than substrate, so
-    Delta_r G'm = Delta_r G'deg + RT ln(1e-3) = Delta_r G'deg - 17.12 kJ/mol (the 1 mM standard of
+    ΔrG'm = ΔrG'° + RT ln(1e-3) = ΔrG'° - 17.12 kJ/mol (the 1 mM standard of
     Flamholz et al. 2012, Nucleic Acids Res. 40:D770).
 
     >>> rt = 8.314462618e-3 * 298.15

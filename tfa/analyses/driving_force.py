@@ -1,8 +1,8 @@
 """Max-min driving force (MDF): the largest B such that every reaction carrying flux has
--Delta_r G' >= B in its direction (Noor et al. 2014, PLoS Comput. Biol. 10:e1003483).
+-ΔrG' >= B in its direction (Noor et al. 2014, PLoS Comput. Biol. 10:e1003483).
 
 - fixed pathway (directions given): a linear program over ln c (and eps within k sigma),
-  maximise B subject to d_j (Delta_r G'deg_j + eps_j + RT sum_i S_ij x_i) + B <= 0;
+  maximise B subject to d_j (ΔrG'°_j + eps_j + RT sum_i S_ij x_i) + B <= 0;
 - network: the network chooses its flux pattern; a MILP on the thermodynamic flux problem with
   delta replaced by the variable B (the direction constraints of thermodynamics-based flux
   analysis, Henry, Broadbelt & Hatzimanikatis 2007, Biophys. J. 92:1792).

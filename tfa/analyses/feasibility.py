@@ -1,5 +1,5 @@
 """Feasibility: does a steady state exist that meets the demand from the feed, with every
-reaction that carries flux running downhill (Delta_r G' <= -delta in its direction)?
+reaction that carries flux running downhill (ΔrG' <= -delta in its direction)?
 
 The thermodynamics-based flux problem of Henry, Broadbelt & Hatzimanikatis (2007, Biophys. J.
 92:1792) with the direction binaries of loopless flux balance (Schellenberger, Lewis & Palsson
@@ -66,7 +66,7 @@ class FeasibilityResult(AnalysisResult):
     analysis: str = "feasibility"
 
     def to_frame(self) -> pd.DataFrame:
-        """Per reaction: flux, Delta_r G'deg, recomputed Delta_r G' and direction (feasible), or
+        """Per reaction: flux, ΔrG'°, recomputed ΔrG' and direction (feasible), or
         the minimal uphill set (infeasible)."""
         if self._reactions is not None:
             return self._reactions

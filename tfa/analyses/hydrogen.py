@@ -12,7 +12,7 @@ infeasible, the size of the minimal uphill set.
 Threshold: ln[H2] becomes a variable over the user's range and one MILP minimises it subject to
 feasibility (thermodynamics-based flux analysis, Henry, Broadbelt & Hatzimanikatis 2007,
 Biophys. J. 92:1792). For H2 + X <=> XH2 alone the answer is analytic:
-[H2]_min = [XH2]_min / ([X]_max K) with K = exp(-(Delta_r G'deg + delta)/RT).
+[H2]_min = [XH2]_min / ([X]_max K) with K = exp(-(ΔrG'° + delta)/RT).
 """
 
 from __future__ import annotations

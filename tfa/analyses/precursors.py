@@ -10,7 +10,7 @@ a_p v_min, and three questions are asked in turn:
    energy; Orth, Thiele & Palsson 2010, Nat. Biotechnol. 28:245). Below a_p v_min: a
    *stoichiometric gap* (no route from the feed, whatever the energies).
 2. **Producible downhill**: the feasibility question of :mod:`tfa.analyses.feasibility` (a steady
-   state with every reaction that carries flux downhill, Delta_r G' <= -delta in its direction).
+   state with every reaction that carries flux downhill, ΔrG' <= -delta in its direction).
 3. **Otherwise**: the minimal uphill set of :mod:`tfa.analyses.uphill` for p alone, the first in
    the order of reaction ids, with the number of sets of that size: a *thermodynamic bottleneck*.
 

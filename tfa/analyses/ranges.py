@@ -1,4 +1,4 @@
-"""Ranges: minimum and maximum of every reaction's Delta_r G' and every compound's concentration
+"""Ranges: minimum and maximum of every reaction's ΔrG' and every compound's concentration
 over the feasible set (thermodynamic variability analysis, Henry, Broadbelt & Hatzimanikatis
 2007, Biophys. J. 92:1792). Two MILPs per quantity on one problem built once; each optimum is
 certified. A MILP is skipped when an earlier certified solution already sits on the bound of

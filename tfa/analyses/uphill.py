@@ -60,7 +60,7 @@ class UphillResult(AnalysisResult):
     sets : list of list of str
         Alternative minimal sets (all of ``size``), at most the number asked for.
     uphill_by : list of dict
-        Per set: reaction -> how far it runs uphill, max(0, d_j * Delta_r G') (kJ/mol, never
+        Per set: reaction -> how far it runs uphill, max(0, d_j * ΔrG') (kJ/mol, never
         negative; d_j the flux direction, +1 or -1), at the concentrations that make the set's
         total uphill energy smallest.
     directions : list of dict
@@ -68,7 +68,7 @@ class UphillResult(AnalysisResult):
     exhausted : bool
         True when no further set of the same size exists.
     short_by : list of dict
-        Per set: reaction -> d_j * Delta_r G' + delta, by how much the step misses the least
+        Per set: reaction -> d_j * ΔrG' + delta, by how much the step misses the least
         driving force delta at those concentrations (kJ/mol; positive for every member of a
         proven minimal set, which is why it must be driven: a member can run slightly downhill,
         by less than delta).
@@ -105,7 +105,7 @@ class UphillResult(AnalysisResult):
 
     def energy_to_supply(self, k: int = 0) -> float:
         """Energy to supply to the uphill steps of set ``k``, kJ per mol of demand:
-        sum_j (|v_j| / v_demand) max(0, d_j Delta_r G'_j).
+        sum_j (|v_j| / v_demand) max(0, d_j ΔrG'_j).
 
         >>> r = UphillResult(conditions=None, sets=[["A"]], uphill_by=[{"A": 10.0}],
         ...                  flux_per_demand=[{"A": 2.0}])
@@ -228,7 +228,7 @@ def forced_uphill(problem: ThermoProblem) -> list[str]:
     """Steps uphill in every solution, known before any search: a direction that every steady
     state meeting the bounds uses (least flux along it > 0, one linear program each,
     :func:`tfa.problem.flux_ranges.least_signed_fluxes`) and that no concentration in the box
-    makes downhill by the least driving force (interval bounds of Delta_r G',
+    makes downhill by the least driving force (interval bounds of ΔrG',
     :mod:`tfa.problem.bigm`). Every uphill set contains them."""
     from ..problem.flux_ranges import least_signed_fluxes
 
@@ -432,8 +432,8 @@ def _energy_to_supply(problem: ThermoProblem, members: list[str], sol: Solution,
                       directions: dict[str, int]) -> tuple[dict[str, float], Solution]:
     """Flux of each member per unit of demand flux at the steady state of least energy to supply.
 
-    The energy to supply to the uphill steps is E = sum_{j in S} (|v_j| / v_demand) d_j Delta_r G'_j
-    (kJ per mol of demand; d_j the direction, Delta_r G'_j in kJ/mol; Henry, Broadbelt &
+    The energy to supply to the uphill steps is E = sum_{j in S} (|v_j| / v_demand) d_j ΔrG'_j
+    (kJ per mol of demand; d_j the direction, ΔrG'_j in kJ/mol; Henry, Broadbelt &
     Hatzimanikatis 2007 for the problem). It is bilinear in fluxes and concentrations; here the
     concentrations (and energy slacks) are held at those of least per-mole uphill energy
     (``best``) and a linear program over the fluxes with the set's flux pattern minimises E: an

@@ -29,7 +29,7 @@ class ReactionEnergy:
     reaction_id : str
         The cobra reaction id.
     standard : float
-        Delta_r G'deg, kJ/mol, for the reaction as written (forward direction).
+        ΔrG'°, kJ/mol, for the reaction as written (forward direction).
     uncertainty : float
         Standard uncertainty sigma of ``standard``, kJ/mol (> 0 unless exact by construction).
     source : str

@@ -1,11 +1,11 @@
 """Interval bounds of reaction energies and the big-M constants derived from them.
 
-For reaction j, g_j = Delta_r G'deg_j + eps_j + RT sum_i S_ij x_i with x_i in [lo_i, hi_i] and
+For reaction j, g_j = ΔrG'°_j + eps_j + RT sum_i S_ij x_i with x_i in [lo_i, hi_i] and
 |eps_j| <= k sigma_j. Interval arithmetic (R. E. Moore, Interval Analysis, Prentice-Hall, 1966)
 gives the exact range of this linear form over the box:
 
-    g_lo_j = Delta_r G'deg_j - k sigma_j + RT sum_i min(S_ij lo_i, S_ij hi_i)
-    g_hi_j = Delta_r G'deg_j + k sigma_j + RT sum_i max(S_ij lo_i, S_ij hi_i)
+    g_lo_j = ΔrG'°_j - k sigma_j + RT sum_i min(S_ij lo_i, S_ij hi_i)
+    g_hi_j = ΔrG'°_j + k sigma_j + RT sum_i max(S_ij lo_i, S_ij hi_i)
 
 The direction constraints of thermodynamics-based flux analysis (Henry, Broadbelt &
 Hatzimanikatis 2007, Biophys. J. 92:1792) are g_j <= -delta + M_f (1 - f_j) and
@@ -30,7 +30,7 @@ def energy_intervals(standard: np.ndarray, slack: np.ndarray, rows: np.ndarray, 
     Parameters
     ----------
     standard : ndarray
-        Delta_r G'deg per reaction, kJ/mol.
+        ΔrG'° per reaction, kJ/mol.
     slack : ndarray
         Half-width k sigma of the uncertainty slack per reaction, kJ/mol.
     rows, cols, values : ndarray
@@ -46,7 +46,7 @@ def energy_intervals(standard: np.ndarray, slack: np.ndarray, rows: np.ndarray, 
 
     Examples
     --------
-    A <=> B with Delta_r G'deg = -5 kJ/mol at 298.15 K and both compounds between 1 uM and 10 mM:
+    A <=> B with ΔrG'° = -5 kJ/mol at 298.15 K and both compounds between 1 uM and 10 mM:
     RT ln(1e4) = 22.83 kJ/mol, so g ranges over -5 -/+ 22.83 (interval arithmetic, Moore 1966).
 
     >>> import numpy as np

@@ -6,7 +6,7 @@ Schellenberger, Lewis & Palsson 2011, Biophys. J. 100:544). Units: kJ/mol, ln(mo
 
 - x_i = ln c_i for every compound with an activity term, within its log bounds (fed compounds
   have lower == upper);
-- g_j = Delta_r G'deg_j + eps_j + RT sum_i S_ij x_i for every internal reaction with an energy;
+- g_j = ΔrG'°_j + eps_j + RT sum_i S_ij x_i for every internal reaction with an energy;
   the slack lives in compound space, eps = A z with ||z||_1 <= k (A the factor of the energies
   over their named sources, :mod:`tfa.network.compound_space`), so it moves formation energies,
   never one reaction alone;
@@ -173,10 +173,10 @@ class ThermoProblem(PointSearch):
         reach = float(np.max(np.maximum(-self.g_lower, self.g_upper))) if len(self.energy_ids) else 0.0
         if len(self.energy_ids) and not opts.driving_force and opts.min_driving_force > reach:
             raise InputError(f"the least driving force {opts.min_driving_force:g} kJ/mol is larger than "
-                             f"any |Delta_r G'| the reactions can reach within their concentration "
+                             f"any |ΔrG'| the reactions can reach within their concentration "
                              f"bounds (at most {reach:.4g} kJ/mol), so no reaction could run; choose a "
                              "smaller --min-driving-force")
-        #: Energy scale of the certificate's tolerance: the largest |Delta_r G'| in the box, kJ/mol.
+        #: Energy scale of the certificate's tolerance: the largest |ΔrG'| in the box, kJ/mol.
         self.energy_scale = max(1.0, reach)
 
     def _compound_slack(self, tm: ThermoModel, opts: ProblemOptions) -> None:

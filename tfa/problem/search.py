@@ -208,7 +208,7 @@ class PointSearch:
 
         Only these directions constrain the energies; a direction binary at 1 on a reaction
         without flux is an arbitrary choice of the solver, and fixing it would ask for a sign of
-        Delta_r G' that nothing needs (measured on iJO1366 with synthetic energies: fixing every
+        ΔrG' that nothing needs (measured on iJO1366 with synthetic energies: fixing every
         binary of one H2 level failed at each next level, fixing only the carried directions
         did not).
         """

@@ -8,8 +8,8 @@ An objective on x or B (the H2 threshold, the ends of the H2 window, the max-min
 sees only the energy block, so its linear program is, for each reaction k carrying flux in
 direction d_k (+1 forward, -1 backward)::
 
-    d_k (Delta_r G'deg_k + eps_k + RT sum_i S_ik x_i) <= -delta        (feasibility form)
-    d_k (Delta_r G'deg_k + eps_k + RT sum_i S_ik x_i) + B <= 0         (driving-force form)
+    d_k (ΔrG'°_k + eps_k + RT sum_i S_ik x_i) <= -delta        (feasibility form)
+    d_k (ΔrG'°_k + eps_k + RT sum_i S_ik x_i) + B <= 0         (driving-force form)
     ln c_lo,i <= x_i <= ln c_hi,i,   |eps_k| <= k sigma_k
 
 (thermodynamics-based flux analysis, Henry, Broadbelt & Hatzimanikatis 2007, Biophys. J.
@@ -19,7 +19,7 @@ optimum's own: the optimal point satisfies it, and the pattern LP is a restricti
 
 Dual values (shadow prices) of this LP say how the optimum moves with each bound: for a
 concentration bound, d(objective)/d(ln bound) [objective units per unit ln c]; for a reaction's
-standard energy, d(objective)/d(Delta_r G'deg) [objective units per kJ/mol]; for the least
+standard energy, d(objective)/d(ΔrG'°) [objective units per kJ/mol]; for the least
 driving force, d(objective)/d(delta). They are read from HiGHS through
 :func:`scipy.optimize.linprog` (``ineqlin``, ``lower``, ``upper`` marginals) and checked by
 re-solving with the bound moved both ways (:func:`finite_difference`): the dual of a linear
@@ -53,7 +53,7 @@ class PatternLP:
     reaction_ids : reactions carrying flux, each with an energy
     direction : +1 (forward) or -1 (backward) per reaction
     metabolite_ids : compounds with an activity term in those reactions
-    standard : Delta_r G'deg per reaction [kJ/mol]
+    standard : ΔrG'° per reaction [kJ/mol]
     allowance : k sigma per reaction [kJ/mol]
     rows, cols, values : the stoichiometry of the activity terms (reaction row, compound column)
     lower, upper : ln bounds of each compound [ln(mol/L) or ln(bar)]
@@ -173,7 +173,7 @@ class LPOptimum:
     value : the optimum (ln activity for a compound objective; kJ/mol for the driving force)
     log_conc : ln c of each compound at the optimum
     lower_duals, upper_duals : d(value)/d(ln lower bound), d(value)/d(ln upper bound) per compound
-    energy_duals : d(value)/d(Delta_r G'deg) per reaction [value units per kJ/mol]
+    energy_duals : d(value)/d(ΔrG'°) per reaction [value units per kJ/mol]
     delta_dual : d(value)/d(delta) (feasibility form; 0 in the driving-force form)
     state_duals : per carrier-state row of the LP, (d(value)/d(its lower), d(value)/d(its upper))
     """
@@ -203,7 +203,7 @@ def solve_pattern(lp: PatternLP, objective: tuple[str, str | None], sense: str) 
 
     Examples
     --------
-    A <=> B forward, Delta_r G'deg = 5 kJ/mol, A in [1 mM, 1 mM], B in [1 uM, 10 mM], at
+    A <=> B forward, ΔrG'° = 5 kJ/mol, A in [1 mM, 1 mM], B in [1 uM, 10 mM], at
     RT = 2.478957 kJ/mol (298.15 K). The max-min driving force is -(5 + RT ln(1e-6/1e-3))
     = 12.124 kJ/mol, and it moves by RT per unit ln of the lower bound of B (hand-derived):
 

@@ -6,10 +6,10 @@ figures know nothing of the analyses, so they can be drawn from any table with t
 
 Figures
 -------
-- :func:`energy_profile_figure`: Delta_r G' of each step of a path, horizontal bars with σ whiskers.
+- :func:`energy_profile_figure`: ΔrG' of each step of a path, horizontal bars with σ whiskers.
 - :func:`h2_scan_figure`: feasibility, uphill-set size and driving force against dissolved H2.
-- :func:`census_figure`: distribution of Delta_r G' per mode, with counts of exergonic steps.
-- :func:`ranges_figure`: the feasible interval of Delta_r G' per reaction.
+- :func:`census_figure`: distribution of ΔrG' per mode, with counts of exergonic steps.
+- :func:`ranges_figure`: the feasible interval of ΔrG' per reaction.
 
 Colours, fonts and writing: :mod:`tfa.report.figure_style`. Energies are in kJ/mol,
 concentrations in mol/L (gases: bar).
@@ -417,7 +417,7 @@ def select_ranges(frame: pd.DataFrame, max_reactions: int = MAX_RANGE_ROWS
 
 def ranges_figure(frame: pd.DataFrame, title: str | None = None,
                   max_reactions: int = MAX_RANGE_ROWS) -> Figure:
-    """The range of Delta_r G' each reaction can take over the feasible set, one bar each.
+    """The range of ΔrG' each reaction can take over the feasible set, one bar each.
 
     Rows as chosen by :func:`select_ranges`; an interval entirely below zero (the reaction must
     run forward) is drawn in the downhill colour, one entirely above zero (must run backward)

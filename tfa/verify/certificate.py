@@ -5,7 +5,7 @@ matrix, the flux bounds, the concentration bounds, the standard reaction energie
 returned fluxes, log concentrations and energy slacks. The check recomputes each reaction's
 transformed Gibbs energy from the returned concentrations
 
-    g_j = Delta_r G'deg_j + eps_j + RT * sum_i S_ij * ln c_i          (kJ/mol)
+    g_j = ΔrG'°_j + eps_j + RT * sum_i S_ij * ln c_i          (kJ/mol)
 
 (Alberty 2003, eq. 4.1-4; the form used by Henry, Broadbelt & Hatzimanikatis 2007,
 Biophys. J. 92:1792) and verifies, within stated tolerances:
@@ -20,7 +20,7 @@ Biophys. J. 92:1792) and verifies, within stated tolerances:
 
 Every tolerance is relative to a scale handed over with the arrays: the flux scale s (the
 largest required flux, :mod:`tfa.problem.scaling`), so that a demand of 1e-6 is checked as
-strictly as one of 10, and the energy scale E (the largest |Delta_r G'| the concentration box
+strictly as one of 10, and the energy scale E (the largest |ΔrG'| the concentration box
 allows, at least 1 kJ/mol), the size of the numbers the solver balanced. A flux above 1e-9 s
 counts as carried: the points checked come from linear programs whose closed directions are
 fixed at zero flux, so a flux through a closed direction is an error, not noise.
@@ -69,7 +69,7 @@ class CertificateInput:
     energy_reaction_index : ndarray of int
         For each reaction with an energy, its column in ``reaction_ids``.
     standard, sigma, slack : ndarray
-        Delta_r G'deg (kJ/mol), its standard uncertainty, and the returned slack eps.
+        ΔrG'° (kJ/mol), its standard uncertainty, and the returned slack eps.
     uncertainty_k : float
         Allowed slack in multiples of sigma.
     thermo_rows, thermo_cols, thermo_values : ndarray
@@ -174,14 +174,14 @@ class Certificate:
 
 
 def recompute_energies(data: CertificateInput) -> np.ndarray:
-    """Transformed reaction energies g = Delta_r G'deg + eps + RT * S^T x, kJ/mol.
+    """Transformed reaction energies g = ΔrG'° + eps + RT * S^T x, kJ/mol.
 
-    Equation: Delta_r G' = Delta_r G'deg + RT sum_i nu_i ln a_i (Alberty 2003, eq. 4.1-4).
+    Equation: ΔrG' = ΔrG'° + RT sum_i nu_i ln a_i (Alberty 2003, eq. 4.1-4).
 
     Examples
     --------
-    ATP hydrolysis, Delta_r G'deg = -32.5 kJ/mol at 298.15 K, pH 7 (Alberty 2003, table 8.2, from
-    memory), with ATP at 3 mM, ADP at 0.3 mM and phosphate at 10 mM: Delta_r G' = -32.5 +
+    ATP hydrolysis, ΔrG'° = -32.5 kJ/mol at 298.15 K, pH 7 (Alberty 2003, table 8.2, from
+    memory), with ATP at 3 mM, ADP at 0.3 mM and phosphate at 10 mM: ΔrG' = -32.5 +
     RT ln(0.3e-3 * 10e-3 / 3e-3) = -32.5 - 17.1 = -49.6 kJ/mol.
 
     >>> import numpy as np
@@ -306,10 +306,10 @@ def check_solution(data: CertificateInput) -> Certificate:
     if law_violation > energy_tol:
         bad = np.flatnonzero(excess_g > energy_tol)
         worst = bad[np.argsort(-excess_g[bad])][:5]
-        listed = ", ".join(f"{ids[j]} (flux {v_energy[j]:.4g}, Delta_r G' = {g[j]:.3f} kJ/mol)"
+        listed = ", ".join(f"{ids[j]} (flux {v_energy[j]:.4g}, ΔrG' = {g[j]:.3f} kJ/mol)"
                            for j in worst)
         failures.append(f"second law: {len(bad)} reaction(s) carry flux up their gradient "
-                        f"(required |Delta_r G'| >= {delta:.3g} kJ/mol downhill): {listed}")
+                        f"(required |ΔrG'| >= {delta:.3g} kJ/mol downhill): {listed}")
 
     if failures:
         raise CertificateError("the solution failed its independent check, so it is not reported: "
