@@ -241,11 +241,8 @@ def test_robustness_map_and_h2_threshold_report_the_same_threshold(tmp_path, cap
 
 
 @pytest.mark.slow
-def test_assess_writes_binding_constraints_and_the_report_shows_them(tmp_path):
-    import tfa
-
-    out = tmp_path / "run"
-    result = tfa.assess(out=out, draws=0, skip=["ranges", "census", "h2_scan", "energy_profile"])
+def test_assess_writes_binding_constraints_and_the_report_shows_them(bundled_run):
+    out, result = bundled_run.out, bundled_run.result
     for suffix in ("csv", "json"):
         assert (out / f"binding_constraints.{suffix}").is_file()
         assert (out / f"h2_window.{suffix}").is_file()
@@ -254,8 +251,12 @@ def test_assess_writes_binding_constraints_and_the_report_shows_them(tmp_path):
     table = result.binding_constraints.table
     assert set(table["answer"]) >= {"feasible", "h2_threshold", "driving_force"}
     # the H2 answer names its binding constraint, in the summary as well
+    # with the environment's physiological carrier states it is the least NADH/NAD+ ratio they
+    # allow (a carrier-state row, not a loose per-form bound): the threshold is proportional to
+    # it, so the dual is 1 in d ln[H2] per unit ln of the ratio (H2 + NAD+ -> NADH + H+)
     top = result.binding_constraints.top("native", "h2_threshold")
-    assert top["kind"] == "concentration bound" and abs(top["sensitivity"]) == pytest.approx(1.0)
+    assert top["kind"] == "carrier state" and "nadh" in top["compound"]
+    assert abs(top["sensitivity"]) == pytest.approx(1.0)
     assert any(line.startswith("what binds the H2 threshold (native)") for line in result.summary_lines())
     assert table.loc[table["sensitivity"].abs() > 1e-7, "dual_confirmed"].all()
 

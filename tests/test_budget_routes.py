@@ -252,17 +252,10 @@ def test_named_route_breaks_and_idle_steps_are_said():
 # the bundled network: a connected profile, the files and the words
 # ---------------------------------------------------------------------------------------------
 
-SKIP = ["h2_scan", "h2_threshold", "ranges", "robustness", "census"]
-
-
 @pytest.fixture(scope="module")
-def bundled(tmp_path_factory):
-    """``tfa assess --out DIR`` on the bundled network (the slow steps skipped): the folder."""
-    from tfa.cli import main
-
-    out = tmp_path_factory.mktemp("budget") / "out"
-    assert main(["assess", "--out", str(out), "--skip", ",".join(SKIP), "-q"]) == 0
-    return out
+def bundled(bundled_run):
+    """The folder of the session's ``tfa assess`` on the bundled network (conftest.py)."""
+    return bundled_run.out
 
 
 def _native_model():
@@ -363,7 +356,11 @@ def test_a_named_route_says_which_steps_carry_no_flux():
     import tfa
     from tfa.report.figures import energy_profile_figure
 
-    result = tfa.assess(route="HDCR,FTHFS,MTHFC,MTHFD,MTHFR,ACS", skip=SKIP + ["energy_budget"])
+    from tfa.assessment.registry import step_ids
+
+    needed = ("coverage", "feasibility", "driving_force", "energy_profile")
+    result = tfa.assess(route="HDCR,FTHFS,MTHFC,MTHFD,MTHFR,ACS",
+                        skip=[s for s in step_ids() if s not in needed])
     table = result.energy_profile.table
     assert list(table["reaction"]) == ["HDCR", "FTHFS", "MTHFC", "MTHFD", "MTHFR", "ACS"]
     idle = list(table.loc[table["flux"] == 0, "reaction"])

@@ -86,7 +86,8 @@ def test_model_range_warnings_reach_summary_and_report(mini_folder, tmp_path, ca
     """Range warnings never reached report.html or summary.json."""
     out = tmp_path / "results"
     assert main(["assess", str(mini_folder), "--skip", "ranges,robustness,h2_scan,census,precursors,"
-                 "energy_profile,h2_threshold,driving_force", "--ionic-strength", "0.7",
+                 "energy_profile,h2_threshold,driving_force,gradient,binding_constraints,"
+                 "verdict_margins,couplings,currencies,route_comparison", "--ionic-strength", "0.7",
                  "--temperature", "160", "--pressure", "10", "--out", str(out)]) == 0
     err = capsys.readouterr().err
     summary = json.loads((out / "summary.json").read_text())

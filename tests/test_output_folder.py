@@ -21,7 +21,8 @@ from tfa.util import outdir
 from tfa.util.outdir import MARKER, OutputError, OutputFolder, check_output_folder, output_lock
 
 #: Steps left out to keep a run of ``tfa assess`` on the mini network to about a second.
-SKIP_SLOW = "ranges,robustness,h2_scan,census,energy_profile,precursors"
+SKIP_SLOW = ("ranges,robustness,h2_scan,census,energy_profile,precursors,gradient,binding_constraints,"
+             "verdict_margins,couplings,currencies,route_comparison")
 
 
 def snapshot(folder: Path) -> dict[str, bytes]:
