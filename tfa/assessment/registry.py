@@ -66,6 +66,7 @@ def step_ids() -> list[str]:
     return [s.id for s in STEPS]
 
 
-for _step in (CoverageStep(), FeasibilityStep(), EnergyBudgetStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
-              DrivingForceStep(), EnergyProfileStep(), RangesStep(), RobustnessStep()):
+for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
+              DrivingForceStep(), EnergyBudgetStep(), EnergyProfileStep(), RangesStep(),
+              RobustnessStep()):
     register_step(_step)

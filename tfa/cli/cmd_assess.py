@@ -13,8 +13,8 @@ from .step_command import run_step_command
 
 #: The steps of ``tfa assess``, named in its help (the registry is the source; this list is
 #: checked against it by the tests, so that the help can stay free of heavy imports).
-STEP_IDS = ("coverage", "feasibility", "energy_budget", "census", "h2_scan", "h2_threshold", "driving_force",
-            "energy_profile", "ranges", "robustness")
+STEP_IDS = ("coverage", "feasibility", "census", "h2_scan", "h2_threshold", "driving_force",
+            "energy_budget", "energy_profile", "ranges", "robustness")
 
 
 def register(subparsers) -> None:
@@ -22,8 +22,8 @@ def register(subparsers) -> None:
         "assess",
         help="the whole assessment: tables, figures, an HTML report and the answer in words",
         description="Assess a network at a setting: data coverage, feasibility and minimal "
-        "uphill sets per mode, energy budget and carbon routes per mode, census, H2 scan and "
-        "threshold, driving force, energy profile along the widest carbon path that ran, ranges "
+        "uphill sets per mode, census, H2 scan and threshold, driving force, energy budget and "
+        "carbon routes per mode, energy profile along the widest carbon path that ran, ranges "
         "and a small robustness run. Without NETWORK the "
         "bundled network is assessed at its own environment.",
         epilog="example: tfa assess models/ancestral_core --environment my_vent.toml --out results",
