@@ -28,6 +28,40 @@ class TerminalRecorder(io.StringIO):
         return super().write(text)
 
 
+class SolveCounter:
+    """Marks, while active, every solve of the thermodynamic problem (the searches of
+    :class:`tfa.problem.search.PointSearch`) in a :class:`TerminalRecorder`'s record: the number
+    of writes made before it, so a test can count the solves behind each progress line (the work
+    a line stands for, measured without a clock)."""
+
+    METHODS = ("solve", "solve_with_pattern", "solve_fixed")
+
+    def __init__(self, terminal: TerminalRecorder) -> None:
+        self.terminal = terminal
+        self.marks: list[int] = []
+        self._saved: dict = {}
+
+    def __enter__(self) -> "SolveCounter":
+        from tfa.problem.search import PointSearch
+
+        for name in self.METHODS:
+            original = getattr(PointSearch, name)
+            self._saved[name] = original
+
+            def counted(problem, *args, _original=original, **kwargs):
+                self.marks.append(len(self.terminal.writes))
+                return _original(problem, *args, **kwargs)
+
+            setattr(PointSearch, name, counted)
+        return self
+
+    def __exit__(self, *exc) -> None:
+        from tfa.problem.search import PointSearch
+
+        for name, original in self._saved.items():
+            setattr(PointSearch, name, original)
+
+
 @dataclass
 class BundledRun:
     """The default assessment of the bundled network: the result object, its output folder and
@@ -36,6 +70,7 @@ class BundledRun:
     result: object
     out: Path
     terminal: TerminalRecorder
+    solves: SolveCounter
     seconds: float
     files: list[Path] = field(default_factory=list)
 
@@ -50,9 +85,10 @@ def bundled_run(tmp_path_factory) -> BundledRun:
     out = tmp_path_factory.mktemp("bundled") / "tfa-results"
     terminal = TerminalRecorder()
     started = time.monotonic()
-    with Progress(stream=terminal) as bar:
+    with SolveCounter(terminal) as solves, Progress(stream=terminal) as bar:
         result = tfa.assess(out=out, progress=bar)
-    return BundledRun(result, out, terminal, time.monotonic() - started, sorted(out.iterdir()))
+    return BundledRun(result, out, terminal, solves, time.monotonic() - started,
+                      sorted(out.iterdir()))
 
 
 #: A setting for tests/data/mini_network (textbook reactions; invented demo values): the small

@@ -40,6 +40,16 @@ def environment() -> dict:
     return tomllib.loads(bundled_environment_path().read_text())
 
 
+def fixed_co2() -> float:
+    """The CO2(aq) activity the bundled environment fixes: its dissolved inorganic carbon
+    speciated at its conditions (mol/L; tests/test_fluid.py checks the speciation)."""
+    from tfa.network.environment import Environment
+    from tfa.network.inputs import resolve_inputs
+
+    inputs = resolve_inputs()
+    return Environment.from_toml(bundled_environment_path()).feed_metabolites(inputs.model)["co2"]
+
+
 @pytest.fixture(scope="module")
 def census_json():
     run = tfa("census", "--modes", "native", "--json", "-q")
@@ -48,17 +58,22 @@ def census_json():
 
 
 def test_census_energy_at_1mM_recomputed(census_json, tmp_path):
-    """Alberty 2003 eq. 4.1-4 at 1 mM (Flamholz et al. 2012): recomputed for every reaction."""
+    """Alberty 2003 eq. 4.1-4 at 1 mM (Flamholz et al. 2012): recomputed for every reaction; fed
+    compounds stay at their feed values, and H+ of either compartment (h, h_out) and water have
+    no activity term."""
     from tfa.network.bundled import load_bundled_network
 
     model = load_bundled_network()
-    t = environment()["conditions"]["temperature_C"] + 273.15
+    env = environment()
+    t = env["conditions"]["temperature_C"] + 273.15
+    fed = env["feed"]
     rows = census_json["tables"]["census"]
     assert len(rows) > 100
     for row in rows:
         reaction = model.reactions.get_by_id(row["reaction"])
-        n = sum(c for m, c in reaction.metabolites.items() if m.id not in ("h", "h2o"))
-        expected = row["delta_g_standard_kJ_per_mol"] + R * t * n * math.log(1e-3)
+        total = sum(c * math.log(fed.get(m.id, 1e-3)) for m, c in reaction.metabolites.items()
+                    if m.id not in ("h", "h_out", "h2o"))
+        expected = row["delta_g_standard_kJ_per_mol"] + R * t * total
         assert row["delta_g_1mM_kJ_per_mol"] == pytest.approx(expected, abs=1e-6), row["reaction"]
     counts = census_json["tables"]["census_counts"][0]
     assert counts["exergonic_1mM"] == sum(r["delta_g_1mM_kJ_per_mol"] < 0 for r in rows)
@@ -71,7 +86,7 @@ def test_driving_force_of_one_reaction_is_analytic(census_json, tmp_path):
                if r["reaction"] == "HDCR")
     t = env["conditions"]["temperature_C"] + 273.15
     low = env["bounds"]["default"][0]
-    expected = -(dg0 + R * t * math.log(low / (env["feed"]["h2"] * env["feed"]["co2"])))
+    expected = -(dg0 + R * t * math.log(low / (env["feed"]["h2"] * fixed_co2())))
     run = tfa("driving-force", "--route", "HDCR", "--json", "-q", "--out", str(tmp_path))
     assert run.returncode == 0, run.stderr
     out = json.loads(run.stdout)
@@ -128,7 +143,7 @@ def test_ranges_inside_the_concentration_box(census_json, tmp_path):
     dg0 = next(r["delta_g_standard_kJ_per_mol"] for r in census_json["tables"]["census"]
                if r["reaction"] == "HDCR")
     t = env["conditions"]["temperature_C"] + 273.15
-    fed = math.log(env["feed"]["h2"] * env["feed"]["co2"])
+    fed = math.log(env["feed"]["h2"] * fixed_co2())
     low, high = (dg0 + R * t * (math.log(b) - fed) for b in env["bounds"]["default"])
     run = tfa("ranges", "--reactions", "HDCR", "--json", "-q", "--out", str(tmp_path))
     assert run.returncode == 0, run.stderr

@@ -174,6 +174,9 @@ def test_random_tiny_networks_agree_with_enumeration(solver, chunk):
         assert uphill.size == truth["size"], (i, demand, truth, uphill.sets)
         assert uphill.exhausted and uphill.verification["status"] in ("proven", "certified")
         assert {tuple(s) for s in uphill.sets} == truth["sets"], (i, demand)
+        # listed in the order of reaction ids (sorted ids compared one by one), and counted
+        assert [tuple(s) for s in uphill.sets] == sorted(truth["sets"]), (i, demand)
+        assert uphill.count == len(truth["sets"]), (i, demand)
         for amounts in uphill.uphill_by:
             assert all(v >= 0.0 for v in amounts.values())
     # each chunk meets every kind of answer (the seed is fixed: this guards the generator)

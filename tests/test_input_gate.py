@@ -25,8 +25,8 @@ from tfa.util import numbers
 from tfa.water import SATURATION, liquid_at, saturation_pressure
 
 EQUATION = "H2 + CO2tot <=> formate + H2O"
-NOTHING = ["coverage", "feasibility", "census", "h2_scan", "h2_threshold", "driving_force",
-           "energy_profile", "ranges", "robustness"]
+NOTHING = ["coverage", "feasibility", "census", "h2_scan", "h2_threshold", "gradient",
+           "driving_force", "energy_profile", "ranges", "robustness"]
 
 
 def one_line_error(capsys, argv: list[str]) -> str:

@@ -188,3 +188,20 @@ def test_heatmaps_are_written_as_png_and_svg(tmp_path):
     assert texts.count("yes") == int((feasible == True).sum())  # noqa: E712
     with pytest.raises(InputError, match="mode"):
         map_figure(result.to_frame(), "temperature_C", "h2_activity", "h2_only")
+
+
+def test_map_reports_a_threshold_at_the_bottom_of_the_range_searched():
+    # the hand network's threshold is 1e-4 exp((10 + delta)/RT) >= 5.9e-3 mol/L on this grid:
+    # searched from 0.1 mol/L, every point is feasible already at the bottom of the range
+    result = condition_map({}, ENV, X, Y, modes=["native"], executor="serial",
+                           prepare=hand_prepare, driving_force=False, h2_range=(0.1, 1.0))
+    frame = result.to_frame()
+    assert list(frame["h2_threshold"]) == pytest.approx([0.1] * len(frame))
+    assert frame["h2_at_range_floor"].all()
+    assert f"bottom of the range searched at {len(frame)} point(s)" in result.summary()
+    from tfa.report.maps import map_figure
+
+    fig = map_figure(frame, "temperature_C", "h2_activity", "native")
+    texts = [t.get_text() for ax in fig.axes for t in ax.texts]
+    assert texts.count("≤-1.0") == len(frame)   # log10(0.1), marked as the range's floor
+    assert any("bottom of the range searched" in ax.get_title() for ax in fig.axes)

@@ -146,7 +146,7 @@ def test_textbook_sbml_without_environment_says_so_and_what_does_not_apply(textb
                              "constrained: 63 of 74 reactions; the rest unconstrained)")
     assert "without an energy (unconstrained in every mode): 11 of 74 reactions" in captured.out
     # warnings once, as one short table, one line each, no file paths; -q prints none
-    assert "compartment pH and membrane potential are not modelled" in captured.err
+    assert "compartment(s) e have no stated pH" in captured.err
     assert "Traceback" not in captured.err and ".py:" not in captured.err
     assert main(["feasible", str(textbook_sbml), "--modes", "native", "-q"]) == 0
     assert capsys.readouterr().err == ""

@@ -406,9 +406,15 @@ def test_numbers_in_words():
 
 
 def test_summary_sentences():
-    assert (mode_line("runs without ATP", False, [["fdh", "mtr", "acs"], ["fdh", "mtr", "pfor"]])
-            == "runs without ATP: no; three steps must be driven uphill: fdh, mtr, acs "
-               "(or, as an alternative set of the same size: fdh, mtr, pfor)")
+    assert (mode_line("runs without ATP", False, [["acs", "fdh", "mtr"], ["fdh", "mtr", "pfor"]])
+            == "runs without ATP: no; three steps must be driven uphill: acs, fdh, mtr "
+               "(the first of at least two sets of this size in the order of reaction ids)")
+    assert (mode_line("runs without ATP", False, [["acs", "fdh", "mtr"]], count=4)
+            == "runs without ATP: no; three steps must be driven uphill: acs, fdh, mtr "
+               "(the first of four sets of this size in the order of reaction ids)")
+    assert (mode_line("runs without ATP", False, [["acs"]], count=1)
+            == "runs without ATP: no; one step must be driven uphill: acs (the only set of this "
+               "size)")
     assert (mode_line("runs as bare chemistry (ATP coupling stripped)", False, [["acs"]])
             == "runs as bare chemistry (ATP coupling stripped): no; one step must be driven "
                "uphill: acs")

@@ -129,3 +129,19 @@ def test_bad_arguments_are_refused():
         robustness(None, None, n_draws=1, sigma_scale=-1, prepare=hand_prepare)
     assert [p["id"] for p in robustness_points(1, 0, ["native", "h2_only"])] == [
         "native/mean", "native/d00000", "h2_only/mean", "h2_only/d00000"]
+
+
+def test_threshold_at_the_bottom_of_the_range_searched_is_reported_as_such():
+    # the hand network's threshold is 5.881e-3 mol/L (above); searched from 1e-2 it is feasible
+    # already at the bottom, so the answer is the range's floor and says so
+    result = robustness(None, None, n_draws=1, seed=0, modes=["native"], executor="serial",
+                        prepare=hand_prepare, sigma_scale=0.0, h2_range=(1e-2, 1e-1))
+    row = result.threshold_frame().iloc[0]
+    assert row["h2_threshold"] == pytest.approx(1e-2)
+    assert row["h2_at_range_floor"] == True and row["at_range_floor_draws"] == 1  # noqa: E712
+    assert "bottom of the range searched in 1 of 1 draws and with the mean" in result.summary()
+    # the default range finds the threshold itself, not at the floor
+    inside = robustness(None, None, n_draws=1, seed=0, modes=["native"], executor="serial",
+                        prepare=hand_prepare, sigma_scale=0.0)
+    assert inside.threshold_frame().iloc[0]["h2_at_range_floor"] == False  # noqa: E712
+    assert "bottom of the range" not in inside.summary()

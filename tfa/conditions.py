@@ -250,3 +250,81 @@ def condition_overrides(given, where: str = "conditions") -> dict:
         except InputError as err:
             raise ConditionsError(str(err)) from None
     return out
+
+
+@dataclass(frozen=True)
+class Compartment:
+    """The conditions of one compartment other than the cell: its pH, and optionally
+    its ionic strength and pMg (the cell's when not given), and the membrane potential between
+    the cell and it.
+
+    Sign convention (the bioenergeticist's, Mitchell 1961, Nature 191:144,
+    doi:10.1038/191144a0; Nicholls & Ferguson, Bioenergetics): ``membrane_potential_mV`` is
+    Δψ = ψ(cell) − ψ(this compartment), in mV; a cell negative inside has Δψ < 0 (about −150 mV
+    in growing bacteria, from memory). The cell itself is the compartment the environment's
+    ``[conditions]`` describe, at ψ = 0.
+
+    Parameters
+    ----------
+    id : str
+        The compartment id of the network (``out``, ``e``, ``p`` ...).
+    ph : float
+        pH of the compartment.
+    ionic_strength : float or None
+        mol/L; None: the cell's.
+    pmg : float or None
+        None: the cell's.
+    membrane_potential_mV : float
+        Δψ = ψ(cell) − ψ(compartment), mV.
+
+    Examples
+    --------
+    >>> out = Compartment("out", ph=5.5, membrane_potential_mV=-150)
+    >>> cell = Conditions.from_celsius(70, ph=7.5, ionic_strength=0.25)
+    >>> at = out.conditions(cell)
+    >>> at.ph, at.ionic_strength, round(at.celsius, 1)
+    (5.5, 0.25, 70.0)
+    """
+
+    id: str
+    ph: float
+    ionic_strength: float | None = None
+    pmg: float | None = None
+    membrane_potential_mV: float = 0.0
+    name: str = ""
+
+    def __post_init__(self) -> None:
+        where = f"compartment {self.id}"
+        try:
+            ph = read_number(self.ph, f"{where} pH")
+            psi = read_number(self.membrane_potential_mV, f"{where} membrane_potential_mV",
+                              minimum=-1000.0, maximum=1000.0, unit="mV")
+        except InputError as err:
+            raise ConditionsError(str(err)) from None
+        if not 0.0 <= ph <= 14.0:
+            raise ConditionsError(f"{where}: pH {ph} is outside 0-14; give a pH between 0 and 14")
+        object.__setattr__(self, "ph", ph)
+        object.__setattr__(self, "membrane_potential_mV", psi)
+
+    @property
+    def membrane_potential_V(self) -> float:  # noqa: N802
+        """Δψ = ψ(cell) − ψ(compartment), V."""
+        return self.membrane_potential_mV / 1000.0
+
+    def conditions(self, cell: Conditions) -> Conditions:
+        """The compartment's conditions: the cell's temperature and pressure, its own pH (and
+        ionic strength and pMg where given)."""
+        return cell.with_(ph=self.ph,
+                          ionic_strength=(cell.ionic_strength if self.ionic_strength is None
+                                          else self.ionic_strength),
+                          pmg=cell.pmg if self.pmg is None else self.pmg)
+
+    def describe(self, cell: Conditions | None = None) -> str:
+        """One line, e.g. ``out: pH 5.50, Δψ = -150 mV (ψ cell − ψ out)``."""
+        text = f"{self.id}: pH {self.ph:.2f}"
+        if self.ionic_strength is not None:
+            text += f", I = {self.ionic_strength:.2f} mol/L"
+        if self.pmg is not None:
+            text += f", pMg {self.pmg:.2f}"
+        text += f", Δψ = {self.membrane_potential_mV:g} mV (ψ cell − ψ {self.id})"
+        return text

@@ -14,6 +14,15 @@ The rewrites (see :mod:`tfa.network.rewrites` for what each does to a network):
   is blocked.
 - ``atp_to_bare_chemistry``: each ATP-, ADP- or pyrophosphate-coupled reaction becomes its bare
   chemistry (the coupling to the hydrolysis is subtracted).
+- ``currency_acetyl_phosphate``, ``currency_thioester``, ``currency_pyrophosphate``,
+  ``currency_polyphosphate``: each ATP-coupled step is coupled to the hydrolysis of another donor
+  instead (acetyl phosphate -> acetate, acetyl-CoA -> acetate + CoA, PPi -> 2 Pi, one
+  phosphoanhydride of polyphosphate), see :mod:`tfa.network.currency_rewrites`.
+- ``atp_coupling_optional``: each ATP-coupled step may run coupled or as its bare chemistry
+  (a twin reaction); the fewest-couplings analysis chooses.
+
+Modes combine: ``parse_modes("h2_only+acetyl_phosphate")`` registers (once) the mode whose
+rewrites are those of both parts; combinations that make no sense are refused with the reason.
 
 This module imports nothing heavy (no cobra), so that the command line can list the modes fast.
 
@@ -25,6 +34,12 @@ Examples
 ['native', 'no_atp_bare']
 >>> parse_modes("all") == list(STANDARD_MODES)
 True
+>>> get_mode(parse_modes("h2_only+acetyl_phosphate")[0]).rewrites
+('carriers_to_h2', 'currency_acetyl_phosphate')
+>>> parse_modes("no_atp_strict+thioester")
+Traceback (most recent call last):
+...
+tfa.errors.InputError: mode no_atp_strict+thioester: ATP is treated two ways (atp_removed, currency_thioester); choose one of removing it, stripping it to bare chemistry, a currency substitution or the coupling choice
 """
 
 from __future__ import annotations
@@ -34,7 +49,14 @@ from dataclasses import dataclass
 from .errors import InputError
 
 #: Names of the network rewrites a mode can be made of, in the order they may be combined.
-REWRITES = ("cofactors_internal", "carriers_to_h2", "atp_removed", "atp_to_bare_chemistry")
+REWRITES = ("cofactors_internal", "carriers_to_h2", "atp_removed", "atp_to_bare_chemistry",
+            "currency_acetyl_phosphate", "currency_thioester", "currency_pyrophosphate",
+            "currency_polyphosphate", "atp_coupling_optional")
+#: The energy currencies that can take the place of ATP (rewrite ``currency_<id>``).
+CURRENCY_IDS = ("acetyl_phosphate", "thioester", "pyrophosphate", "polyphosphate")
+#: Rewrites that each decide what ATP is; at most one of them per mode.
+ATP_TREATMENTS = frozenset({"atp_removed", "atp_to_bare_chemistry", "atp_coupling_optional"}
+                           | {f"currency_{c}" for c in CURRENCY_IDS})
 
 #: Rewrites that cannot be combined in one mode, with the reason.
 EXCLUSIVE_REWRITES = {
@@ -87,6 +109,13 @@ class Mode:
         for pair, why in EXCLUSIVE_REWRITES.items():
             if pair <= set(self.rewrites):
                 raise InputError(f"mode {self.id}: {why}")
+        treatments = [r for r in self.rewrites if r in ATP_TREATMENTS]
+        if len(treatments) > 1:
+            raise InputError(f"mode {self.id}: ATP is treated two ways ({', '.join(treatments)}); "
+                             "choose one of removing it, stripping it to bare chemistry, a currency "
+                             "substitution or the coupling choice")
+        if len(set(self.rewrites)) != len(self.rewrites):
+            raise InputError(f"mode {self.id}: a rewrite is named twice")
 
 
 #: Okabe-Ito colours used for modes (M. Okabe, K. Ito, "Color Universal Design", 2008).
@@ -136,6 +165,36 @@ register_mode(Mode(
     needs=("h2", "carriers", "atp"),
     description="The geochemical analogue: H2 in place of every carrier and no ATP coupling."))
 
+register_mode(Mode(
+    "h2_no_atp", ("carriers_to_h2", "atp_removed"),
+    "runs on H2 alone without ATP (H2 for the carriers, every ATP step blocked)",
+    "H2, without ATP", "H2 in place of carriers and without ATP", "#D55E00",
+    needs=("h2", "carriers", "atp"),
+    description="H2 in place of every carrier and every reaction with ATP, ADP, AMP or "
+                "pyrophosphate blocked."))
+
+#: Colours of the currency modes (Okabe-Ito yellow, vermillion, grey, black; Tol's teal).
+_CURRENCY_COLOURS = {"acetyl_phosphate": "#F0E442", "thioester": "#882255",
+                     "pyrophosphate": "#999999", "polyphosphate": "#44AA99"}
+_CURRENCY_WORDS = {"acetyl_phosphate": ("acetyl phosphate", "acetyl phosphate -> acetate + Pi"),
+                   "thioester": ("thioester", "acetyl-CoA -> acetate + CoA"),
+                   "pyrophosphate": ("pyrophosphate", "PPi -> 2 Pi"),
+                   "polyphosphate": ("polyphosphate", "one phosphoanhydride of polyphosphate -> Pi")}
+for _currency in CURRENCY_IDS:
+    _word, _hydrolysis = _CURRENCY_WORDS[_currency]
+    register_mode(Mode(
+        _currency, ("cofactors_internal", f"currency_{_currency}"),
+        f"runs on {_word} in place of ATP", f"{_word} for ATP", f"{_word} in place of ATP",
+        _CURRENCY_COLOURS[_currency], needs=("atp", f"currency:{_currency}"),
+        description=f"Every ATP-coupled step is coupled to {_hydrolysis} instead; ATP, ADP and "
+                    "AMP leave the network."))
+register_mode(Mode(
+    "coupling_choice", ("cofactors_internal", "atp_coupling_optional"),
+    "runs when each ATP-coupled step may drop its coupling", "coupling optional",
+    "each ATP coupling optional", "#332288", needs=("atp",),
+    description="Every ATP-coupled step may run coupled or as its bare chemistry (the "
+                "fewest-couplings analysis counts the couplings kept)."))
+
 #: The modes an assessment asks about by default, in order.
 STANDARD_MODES = ("native", "h2_only", "no_atp_strict", "no_atp_bare")
 #: The mode of the single-mode analyses (H2 scan and threshold, driving force, ranges, profile).
@@ -143,26 +202,65 @@ DEFAULT_MODE = "native"
 
 
 def get_mode(mode_id: str) -> Mode:
-    """The registered mode with this id.
+    """The registered mode with this id (a combined id ``a+b`` is registered on first use).
+
+    >>> get_mode("h2_only+pyrophosphate").rewrites
+    ('carriers_to_h2', 'currency_pyrophosphate')
 
     Raises
     ------
     InputError
         For an unknown id, listing the known ones.
     """
+    if mode_id not in MODES and "+" in str(mode_id):
+        # a combined mode named in another process (a worker) is registered here on first use
+        return combine_modes([p.strip() for p in str(mode_id).split("+") if p.strip()])
     try:
         return MODES[mode_id]
     except KeyError:
         raise InputError(f"mode '{mode_id}' is not known; use one of {', '.join(MODES)}") from None
 
 
+def combine_modes(parts: list[str]) -> Mode:
+    """The mode made of several registered modes (registered under ``a+b`` the first time).
+
+    Its rewrites are those of the parts, in the order of :data:`REWRITES`; the carriers are kept
+    internal (``cofactors_internal``, the base of ``native`` and the currency modes) unless one
+    part replaces them by H2 and ``native`` itself is not named. A combination that makes no
+    sense is refused with the reason (:class:`Mode` checks it).
+
+    >>> combine_modes(["h2_only", "no_atp_bare"]).rewrites
+    ('carriers_to_h2', 'atp_to_bare_chemistry')
+    """
+    unknown = [p for p in parts if p not in MODES]
+    if unknown:
+        raise InputError(f"modes '{'+'.join(parts)}': unknown mode(s) {', '.join(unknown)}; "
+                         f"combine registered modes: {', '.join(MODES)}")
+    mode_id = "+".join(parts)
+    if mode_id in MODES:
+        return MODES[mode_id]
+    rewrites = {r for p in parts for r in MODES[p].rewrites}
+    if "carriers_to_h2" in rewrites and "native" not in parts:
+        rewrites.discard("cofactors_internal")
+    ordered = tuple(r for r in REWRITES if r in rewrites)
+    defined = [MODES[p] for p in parts]
+    mode = Mode(mode_id, ordered, " and ".join(m.question for m in defined),
+                " + ".join(m.label for m in defined), " + ".join(m.title for m in defined),
+                defined[-1].colour, tuple(dict.fromkeys(n for m in defined for n in m.needs)),
+                " ".join(m.description for m in defined))
+    if len(parts) == 1:
+        return mode
+    return register_mode(mode)
+
+
 def parse_modes(text: str | list[str] | tuple[str, ...]) -> list[str]:
-    """A comma-separated list of mode ids (or ``all`` for :data:`STANDARD_MODES`) -> ids.
+    """A comma-separated list of mode ids (or ``all`` for :data:`STANDARD_MODES`) -> ids; an
+    item ``a+b`` combines registered modes (:func:`combine_modes`).
 
     Raises
     ------
     InputError
-        For an empty list or an unknown mode.
+        For an empty list, an unknown mode or a combination that makes no sense.
     """
     if isinstance(text, str):
         if text.strip().lower() == "all":
@@ -170,6 +268,9 @@ def parse_modes(text: str | list[str] | tuple[str, ...]) -> list[str]:
         items = [m.strip() for m in text.split(",") if m.strip()]
     else:
         items = [str(m).strip() for m in text]
+    for item in items:
+        if "+" in item and item not in MODES:
+            combine_modes([p.strip() for p in item.split("+") if p.strip()])
     bad = [m for m in items if m not in MODES]
     if bad or not items:
         raise InputError(f"modes '{text if isinstance(text, str) else ','.join(items)}': unknown "

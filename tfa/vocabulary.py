@@ -152,6 +152,36 @@ COLUMNS: dict[str, Term] = _terms(
     ("h2_threshold_q50", "median of the H2 threshold over the draws", ""),
     ("h2_threshold_q75", "75 % quantile of the H2 threshold over the draws", ""),
     ("h2_threshold_q95", "95 % quantile of the H2 threshold over the draws", ""),
+    # what binds, and the H2 answer as a window
+    ("answer", "the answer a binding constraint belongs to: feasible, h2_threshold, "
+               "h2_window_low, h2_window_high, driving_force", ""),
+    ("rank", "order of a row within its answer (1 = the constraint named first)", ""),
+    ("bound", "which bound of a compound: lower, upper, or fixed (a fed compound)", ""),
+    ("sensitivity", "dual value of the linear program with the flux pattern fixed: change of the "
+                    "answer per unit change of the constraint (unit in sensitivity_unit)", ""),
+    ("sensitivity_unit", "unit of sensitivity: d ln[H2] per unit ln c, kJ/mol per unit ln c, "
+                         "per kJ/mol ...", ""),
+    ("sensitivity_left", "the same derivative by re-solving with the datum moved down by 1e-3",
+     ""),
+    ("sensitivity_right", "the same derivative by re-solving with the datum moved up by 1e-3",
+     ""),
+    ("dual_confirmed", "whether the dual value lies between the left and right derivatives", ""),
+    ("h2_at_range_floor", "the network is feasible already at the bottom of the H2 range "
+                          "searched (the true threshold, if any, lies lower)", ""),
+    ("h2_partial_pressure_bar", "H2 partial pressure in equilibrium with the level (Henry's law "
+                                "at the setting's temperature and pressure)", "bar"),
+    ("h2_partial_pressure_Pa", "the same partial pressure in pascal", "Pa"),
+    ("h2_mmol_per_kg", "dissolved H2 of the level, in mmol per kg of water", "mmol/kg"),
+    ("h2_window", "number of a window of H2 levels at which the network is feasible (1 = lowest)",
+     ""),
+    ("window_end", "which end of an H2 window: low or high", ""),
+    ("at_range_end", "the end lies at the end of the H2 range searched (the window may go on)",
+     ""),
+    ("found_by", "how the value was found: an MILP optimum, or bisection to a stated precision",
+     ""),
+    ("binding_constraint", "the constraint that sets the value, in words", ""),
+    ("at_range_floor_draws", "draws whose H2 threshold lies at the bottom of the range searched",
+     ""),
     # energy budget, carbon routes, energy profile (the steady state that ran)
     ("solution", "which steady state a row describes, in words", ""),
     ("net_reaction", "the net reaction over the internal reactions per unit of demand (one "
@@ -191,7 +221,7 @@ COLUMNS: dict[str, Term] = _terms(
     ("steps", "the reactions along a path in the direction they run, joined by ', '", ""),
     ("fixation_step", "the reaction that takes a path's carbon from the feed, with its pathway tag",
      ""),
-    ("route", "the pathway tags along a path, joined by ' → '", ""),
+    ("pathway_tags", "the pathway tags along a path, joined by ' → '", ""),
     ("carbon_flux_per_demand", "carbon a path carries (or a cycle circulates)",
      "mol C per unit of demand"),
     ("carbon_share", "a path's part of the carbon taken from the feed", ""),
@@ -200,13 +230,110 @@ COLUMNS: dict[str, Term] = _terms(
     ("near_equilibrium", "|ΔrG'| < RT ln 10: the backward flux is more than a tenth of the forward "
                          "(flux-force relation, Beard & Qian 2007)", ""),
     # conditions (map axes and summaries)
+    # issue-19b block: the setting's fluids
+    ("vent_fraction", "share of vent fluid in a mixture with seawater (0: seawater, 1: vent fluid)", ""),
+    ("dissolved_inorganic_carbon_mol_per_L", "dissolved inorganic carbon, CO2(aq) + HCO3- + CO3--",
+     "mol/L"),
+    ("h2_margin_decades", "log10 of the mixture's H2 over the H2 threshold (> 0: H2 to spare)", ""),
     ("temperature_C", "temperature", "degC"),
     ("temperature_K", "temperature", "K"),
     ("pH", "pH", ""),
     ("ionic_strength_mol_per_L", "ionic strength", "mol/L"),
     ("pressure_bar", "pressure", "bar"),
     ("pMg", "-log10 of the free Mg2+ activity", ""),
+    # compound-space uncertainty, verdict margins, intervals, scenario draws
+    ("margin_sigma", "least total change of the energies' sources (L1 norm, in units of each "
+                     "source's σ) that flips the verdict", "σ"),
+    ("margin_status", "how the margin was found: proven (exact minimum), best found (a verified "
+                      "flip), or none within the cap", ""),
+    ("carried_by", "the sources carrying most of the change, with their shares", ""),
+    ("rounds", "linear programs of cuts the search of a margin took", ""),
+    ("label", "a source of uncertainty in plain words", ""),
+    ("deviation_sigma", "deviation of one source, in units of its σ", "σ"),
+    ("share", "fraction of the total change carried by one source", ""),
+    ("interval_low", "lower end of the Wilson score interval of the probability", ""),
+    ("interval_high", "upper end of the Wilson score interval of the probability", ""),
+    ("confidence", "confidence level of the intervals", ""),
+    ("stopped_by", "why the draws stopped: the interval width reached, or the draw budget", ""),
+    ("assumption", "an assumption of the setting drawn in a scenario run", ""),
+    ("probability_held_central", "probability with this assumption held at its central value", ""),
+    ("probability_change", "probability minus the probability with the assumption held central",
+     ""),
+    ("scenario", "what was drawn: energies, assumptions, or both", ""),
+    # compartments, the proton-motive force, thresholds with and without the gradient
+    ("compartment", "compartment id of a compound ('' or the cell's id: the cell, whose "
+                    "conditions the environment's [conditions] give)", ""),
+    ("gradient", "with or without the environment's gradient across the membrane (every "
+                 "compartment's pH and membrane potential, or the cell's pH and 0 mV)", ""),
+    ("gradient_scale", "fraction of the environment's gradient (ΔpH and Δψ of every compartment "
+                       "scaled together; 0 none, 1 the environment's)", ""),
+    ("delta_ph", "ΔpH = pH(cell) − pH(compartment)", ""),
+    ("membrane_potential_mV", "Δψ = ψ(cell) − ψ(compartment); negative when the cell is negative "
+                              "inside", "mV"),
+    ("proton_inflow_kJ_per_mol", "ΔG of one H+ entering the cell from the compartment, "
+                                 "−RT ln10 ΔpH + F Δψ (Mitchell 1961)", "kJ/mol"),
+    ("proton_motive_force_mV", "Δp = Δψ − (RT ln10 / F) ΔpH; negative when it drives H+ in", "mV"),
+    ("ions_in", "ions a reaction takes into the cell per turnover (negative: out)", ""),
+    ("reduced_to_oxidised_max", "the highest reduced/oxidised ratio of a carrier that the "
+                                "reaction can reach running downhill at the given H2", ""),
+    ("carrier_potential_mV", "reduction potential E' of the carrier pair at that ratio", "mV"),
+    ("needed_per_ion_kJ_per_mol", "energy each entering ion must bring for the reaction to reach "
+                                  "the most reduced carrier state the bounds allow (0: none "
+                                  "needed)", "kJ/mol"),
+    ("standard_state", "what ΔrG'° refers to: every compound at 1 mol/L (gases 1 bar) at the "
+                       "environment's pH; for a reaction across a membrane, each compound at its "
+                       "compartment's pH and electric potential", ""),
 )
+
+# per-precursor verdicts; the order and count of minimal sets; the energy to supply
+COLUMNS.update(_terms(
+    ("flux_per_demand", "flux of a reaction over the flux of the demand reaction, at the steady "
+                        "state of least energy to supply to the uphill steps", ""),
+    ("energy_to_supply_kJ_per_mol_demand", "energy to supply to an uphill step per unit of demand: "
+                                           "flux_per_demand times how far uphill it runs "
+                                           "(ΔrG' in its direction); summed over a set, "
+                                           "Σ flux × ΔrG' over the uphill steps per mol of demand",
+     "kJ/mol"),
+    ("sets_found", "minimal uphill sets of the least size found in all (listed and counted)", ""),
+    ("all_sets_found", "whether every minimal uphill set of the least size was found (else "
+                       "sets_found is a lower bound)", ""),
+    ("demand_coefficient", "moles of the compound per mole of the demand reaction", ""),
+    ("verdict", "the answer for a demanded compound: downhill (made with every step downhill), "
+                "uphill (made only with the steps of a minimal uphill set driven), stoichiometric "
+                "gap (cannot be made from the feed whatever the energies), not applicable, "
+                "undetermined", ""),
+    ("producible", "the compound can be made from the feed by the stoichiometry and flux bounds, "
+                   "ignoring energies", ""),
+    ("max_flux", "largest flux of the compound's own demand allowed by the stoichiometry and flux "
+                 "bounds, ignoring energies", "flux unit"),
+    ("energy_to_supply_total_kJ_per_mol_demand", "energy to supply to the steps of the first "
+                                                 "minimal uphill set, per mol of demand", "kJ/mol"),
+))
+# fewest couplings, energy currencies, carbon-fixation routes
+COLUMNS.update(_terms(
+    ("precursor", "a compound of the demand asked alone ('(whole demand)' for the demand)", ""),
+    ("coupling_role", "what an ATP-coupled step did: spends ATP (a coupling kept) or makes ATP "
+                      "(energy conservation, not counted)", ""),
+    ("bonds", "phosphoanhydride bonds the step spends per unit of flux in its direction "
+              "(negative: it makes them)", ""),
+    ("coupling_energy_kJ_per_mol", "ΔrG'° the ATP coupling adds to a step in its direction "
+                                   "(ΔrG'° of the bare chemistry minus that of the coupled step)",
+     "kJ/mol"),
+    ("couplings_kept", "fewest ATP couplings kept (steps spending ATP) with every step downhill",
+     ""),
+    ("exhausted", "every optimal set is listed", ""),
+    ("coupling_sets", "the optimal sets of kept couplings, sets separated by '; '", ""),
+    ("currency", "what pays for the ATP-coupled steps: ATP, acetyl_phosphate, thioester, "
+                 "pyrophosphate, polyphosphate, or none (ATP removed or bare chemistry)", ""),
+    ("carriers", "electron carriers kept, or H2 in their place", ""),
+    ("precursors_made", "precursors the mode makes alone with every step downhill, joined by ', '",
+     ""),
+    ("precursors_not_made", "precursors the mode cannot make alone with every step downhill", ""),
+    ("route", "id of a carbon-fixation route (route file or pathway tag)", ""),
+    ("name", "words for a route, as tables and figures show it", ""),
+    ("closed_entries", "carbon-fixing reactions outside the route closed while it is asked", ""),
+    ("routes_feasible", "per route, whether it meets the demand as the only carbon entry", ""),
+))
 
 #: Keys of ``summary.json`` besides table columns.
 SUMMARY_KEYS: dict[str, Term] = _terms(
@@ -214,6 +341,14 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("environment", "the setting in one line", ""),
     ("coverage", "reactions with an energy, estimated and missing", ""),
     ("uphill", "per mode, the minimal uphill sets found", ""),
+    ("uphill_sets_found", "per mode, how many minimal uphill sets of the least size were found "
+                          "(sets_found, all_sets_found), whether they are listed in the order of "
+                          "reaction ids (in_order_of_ids) and the energy to supply to the first "
+                          "(energy_to_supply_total_kJ_per_mol_demand)", ""),
+    ("in_order_of_ids", "whether the minimal uphill sets are listed in the order of reaction ids "
+                        "(sorted ids compared one by one), each proven so", ""),
+    ("precursors", "per mode, the demanded compounds by verdict (downhill, uphill, stoichiometric "
+                   "gap)", ""),
     ("bottlenecks", "reactions at the max-min driving force", ""),
     ("h2_range", "the H2 range searched, [low, high] (unit: h2_unit)", ""),
     ("robustness", "feasibility over the draws of the energies, per mode", ""),
@@ -227,6 +362,8 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("timings_s", "seconds per step", "s"),
     ("steps", "the steps that ran, in order", ""),
     ("verifications", "per step (and mode): how each answer was checked, status and check", ""),
+    ("h2_windows", "the feasible H2 window(s), [[low, high], ...] (unit: h2_unit)", ""),
+    ("binding", "per mode and answer, the constraint named first (binding_constraints)", ""),
     ("route_driving_force_kJ_per_mol", "max-min driving force of the named route", "kJ/mol"),
     ("route_bottlenecks", "reactions at the named route's max-min driving force", ""),
     ("command", "the command that printed the JSON", ""),
@@ -234,6 +371,7 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
     ("carbon_fixation", "per mode, the share of the feed's carbon per fixation step", ""),
     ("profile_path", "the steps of the energy profile and what they follow", ""),
     ("tables", "every table of the answer: file stem -> rows", ""),
+    ("verdict_margins", "per mode, the distance to a flipped verdict", ""),
 )
 
 #: Symbols used in text: key -> (Unicode, ASCII fallback).
@@ -310,8 +448,9 @@ OPTIONS: dict[str, Option] = {
                        f"{DEFAULT_H2_RANGE[0]:g}:{DEFAULT_H2_RANGE[1]:g}", "LOW:HIGH"),
     "h2_levels": Option(("--h2-levels",), "levels of the H2 scan, log-spaced over --h2-range "
                         "(default %(default)s)", DEFAULT_H2_LEVELS, "N"),
-    "alternatives": Option(("--alternatives",), "alternative minimal uphill sets per mode "
-                           "(default %(default)s)", DEFAULT_ALTERNATIVES, "N"),
+    "alternatives": Option(("--alternatives",), "minimal uphill sets listed per mode, in the "
+                           "order of reaction ids; they are counted further (default "
+                           "%(default)s)", DEFAULT_ALTERNATIVES, "N"),
     "workers": Option(("--workers",), "worker processes for many independent solves (draws, map "
                       "points, ranges); 'auto': one per core (default %(default)s: in this process)",
                       "1", "N"),
@@ -319,6 +458,9 @@ OPTIONS: dict[str, Option] = {
                   "no files)", None, "DIR"),
     "seed": Option(("--seed",), "seed of the draws of the energies (default %(default)s)", 0, "S"),
     "draws": Option(("--draws",), "draws of the energies per mode (default %(default)s)", 100, "N"),
+    "interval_width": Option(("--interval-width",), "draw until every 95 %% Wilson interval of a "
+                             "probability is at most W wide, or --draws are made (0: exactly "
+                             "--draws; default %(default)s)", 0.1, "W"),
     "network_data": Option(("--network",), "a network (reactions table or folder, SBML or cobra "
                            "JSON) whose own data and compound names are used instead of the "
                            "library's (species data, its reaction_values.tsv, estimates)", None,
@@ -328,6 +470,13 @@ OPTIONS: dict[str, Option] = {
     "demand": Option(("--demand",), "the demand reaction (reaction id), over the environment's "
                      "(default: the environment's [demand]; without an environment, the model's "
                      "objective)", None, "ID"),
+    # issue-19b block: pH changes and the gradient
+    "fixed_outer_ph": Option(("--fixed-outer-ph",), "keep the outer fluid's pH when the pH changes "
+                             "(a pH axis, a mixing line), so the gradient ΔpH changes with it "
+                             "(default: the outer pH moves with the pH, ΔpH kept)", False, None),
+    "loose_cofactors": Option(("--loose-cofactors",), "ignore the environment's [cofactors] carrier "
+                              "states (pool totals, ratios, phosphorylation floor): every carrier "
+                              "form free within [bounds], the earlier behaviour", False, None),
     "identifiers": Option(("--identifiers",), "your table of identifiers (compound, thermo_key): "
                           "which compound of the thermodynamic data each metabolite is, over the "
                           "matches made from annotations (default: identifiers.tsv beside the "

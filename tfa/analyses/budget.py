@@ -149,10 +149,14 @@ def gradient_atp_coupling(tm: ThermoModel) -> tuple[float, float, str] | None:
     protons = gradient_protons(tm)
     atp = [m.id for m in tm.model.metabolites if _role(m) == "atp"]
     for proton in protons:
+        compartment = _compartment_of(tm, proton)
         low, high = tm.log_bounds.get(proton, (math.nan, math.nan))
-        if not (math.isfinite(low) and abs(high - low) < 1e-9):
+        if compartment is not None:
+            ph_out = compartment.ph
+        elif math.isfinite(low) and abs(high - low) < 1e-9:
+            ph_out = -low / math.log(10.0)
+        else:
             continue
-        ph_out = -low / math.log(10.0)
         for reaction in tm.model.reactions:
             coef = {m.id: c for m, c in reaction.metabolites.items()}
             n_h, n_atp = coef.get(proton, 0.0), sum(coef.get(a, 0.0) for a in atp)
@@ -161,13 +165,24 @@ def gradient_atp_coupling(tm: ThermoModel) -> tuple[float, float, str] | None:
     return None
 
 
+def _compartment_of(tm: ThermoModel, met_id: str):
+    """The environment's :class:`~tfa.conditions.Compartment` of a compound outside the cell, or
+    None (a compound of the cell, or of a compartment the environment does not describe)."""
+    compartments = getattr(tm.compound_table, "compartments", None) or {}
+    met = tm.model.metabolites.get_by_id(met_id)
+    return compartments.get(met.compartment) if met.compartment else None
+
+
 def energy_per_proton(tm: ThermoModel, ln_activity: Mapping[str, float], proton: str) -> float:
     """Free energy released by one outer proton entering, kJ/mol:
-    e = μ'(H⁺ in) − μ'(H⁺ out) = −RT (ln 10 · pH + ln a_out).
+    e = μ'(H⁺ in) − μ'(H⁺ out).
 
-    The inner proton is fixed by the pH (μ' = 0 after the Legendre transform, Alberty 2003); the
-    outer one has the species data of H⁺ (ΔfG'° = RT ln 10 · pH) and its own activity. The
-    membrane potential is not in the model (0).
+    For a proton of a compartment the environment describes (pH_out, Δψ = ψ_cell − ψ_out):
+    e = −RT ln 10 (pH − pH_out) + F Δψ (Mitchell 1961,
+    :func:`tfa.thermo.membrane.proton_inflow_energy`). For a fed outer proton with its own
+    activity: e = −RT (ln 10 · pH + ln a_out); the inner proton is fixed by the pH (μ' = 0 after
+    the Legendre transform, Alberty 2003), the outer one has the species data of H⁺
+    (ΔfG'° = RT ln 10 · pH) and its activity, and no membrane potential. NaN when neither applies.
 
     >>> from tfa.conditions import Conditions
     >>> class T:  # 70 degC, pH 7.5, outer pH 5.5: -RT ln10 * 2 (the bundled setting)
@@ -175,6 +190,14 @@ def energy_per_proton(tm: ThermoModel, ln_activity: Mapping[str, float], proton:
     >>> round(energy_per_proton(T, {"h_out": math.log(10 ** -5.5)}, "h_out"), 2)
     -13.14
     """
+    compartment = _compartment_of(tm, proton) if hasattr(tm, "model") else None
+    if compartment is not None:
+        from ..thermo.membrane import proton_inflow_energy
+
+        return proton_inflow_energy(tm.conditions.ph - compartment.ph,
+                                    compartment.membrane_potential_V, tm.conditions.temperature)
+    if proton not in ln_activity:
+        return math.nan
     rt = tm.conditions.RT
     return -rt * (math.log(10.0) * tm.conditions.ph + float(ln_activity[proton]))
 
@@ -264,8 +287,7 @@ def energy_budget(tm: ThermoModel, fluxes: Mapping[str, float], delta_g: Mapping
     net = {m: c for m, c in net.items() if abs(c) > NET_TOLERANCE}
     protons = gradient_protons(tm)
     n_h = sum(-net.get(p, 0.0) for p in protons)
-    e_h = (energy_per_proton(tm, ln_activity, protons[0])
-           if protons and protons[0] in ln_activity else math.nan)
+    e_h = energy_per_proton(tm, ln_activity, protons[0]) if protons else math.nan
     gradient = n_h * e_h if n_h else 0.0
     h2 = [m.id for m in tm.model.metabolites if _role(m) == "h2"]
     h2_used = sum(-net.get(m, 0.0) for m in h2)

@@ -52,7 +52,7 @@ FLOW_TOLERANCE = 1e-9
 SOURCE, SINK = "(feed)", "(demand or outlet)"
 #: Columns of the ``carbon_routes`` table.
 CARBON_ROUTE_COLUMNS = ["mode", "path", "kind", "source_compound", "sink_compound", "compounds",
-                        "steps", "fixation_step", "route", "carbon_flux_per_demand",
+                        "steps", "fixation_step", "pathway_tags", "carbon_flux_per_demand",
                         "carbon_share"]
 
 
@@ -136,7 +136,7 @@ class CarbonRoutes:
                  "sink_compound": p.steps[-1].compound_out,
                  "compounds": " → ".join(p.compounds),
                  "steps": ", ".join(s.label for s in p.steps),
-                 "fixation_step": fixation_words(p), "route": p.route,
+                 "fixation_step": fixation_words(p), "pathway_tags": p.route,
                  "carbon_flux_per_demand": p.carbon_flux, "carbon_share": p.share}
                 for k, (kind, p) in enumerate([("path", p) for p in self.paths]
                                               + [("cycle", c) for c in self.cycles]) if p.steps]

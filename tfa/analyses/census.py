@@ -7,7 +7,11 @@ exergonic, per mode. No optimisation (hence no certificate).
 At 1 mM of every reactant (gases at 1e-3 bar) this is the "Delta_r G'm" of Flamholz et al.
 (2012, Nucleic Acids Res. 40:D770). At a substrate:product ratio r every substrate stands at
 1 mM * sqrt(r) and every product at 1 mM / sqrt(r) (geometric mean 1 mM, each substrate/product
-pair at ratio r). H+ and water never enter the activity term.
+pair at ratio r). H+ and water never enter the activity term: each compartment's H+ stands at
+that compartment's pH (its energy is in ΔrG'°). Fed compounds stay at their feed values in both
+reference states (they are fixed by the environment). ΔrG'° of a reaction across a
+membrane refers to each compound in its own compartment, and the column ``standard_state`` says
+so (:func:`tfa.network.energies.standard_state_words`).
 """
 
 from __future__ import annotations
@@ -27,7 +31,7 @@ DEFAULT_RATIO = 100.0
 #: Columns of the census table (per reaction), without the mode.
 CENSUS_COLUMNS = ["reaction", "equation", "delta_g_standard_kJ_per_mol", "sigma_kJ_per_mol",
                   "delta_g_1mM_kJ_per_mol", "delta_g_at_ratio_kJ_per_mol", "source",
-                  "exergonic_1mM"]
+                  "standard_state", "exergonic_1mM"]
 
 
 def energy_at_activities(standard: float, stoichiometry: dict[str, float],
@@ -98,7 +102,7 @@ class CensusResult(AnalysisResult):
 
 def census(tm: ThermoModel, ratio: float = DEFAULT_RATIO) -> CensusResult:
     """ΔrG'°, ΔrG' at 1 mM and ΔrG' at substrate:product ``ratio`` for every reaction with an
-    energy (kJ/mol).
+    energy (kJ/mol); fed compounds at their feed values.
 
     Parameters
     ----------
@@ -113,20 +117,21 @@ def census(tm: ThermoModel, ratio: float = DEFAULT_RATIO) -> CensusResult:
     no_activity = set(tm.no_activity)
     ln_mm = math.log(MILLIMOLAR)
     half = 0.5 * math.log(ratio)
+    fed = {m: lo for m, (lo, hi) in tm.log_bounds.items() if abs(hi - lo) < 1e-12}
     rows = []
     for r in tm.internal_reactions():
         e = tm.energies.get(r.id)
         if e is None:
             continue
         stoich = {m.id: float(c) for m, c in r.metabolites.items() if m.id not in no_activity}
-        at_mm = {m: ln_mm for m in stoich}
-        at_ratio = {m: ln_mm + (half if nu < 0 else -half) for m, nu in stoich.items()}
+        at_mm = {m: fed.get(m, ln_mm) for m in stoich}
+        at_ratio = {m: fed.get(m, ln_mm + (half if nu < 0 else -half)) for m, nu in stoich.items()}
         rows.append({"reaction": r.id, "equation": r.build_reaction_string(),
                      "delta_g_standard_kJ_per_mol": e.standard, "sigma_kJ_per_mol": e.uncertainty,
                      "delta_g_1mM_kJ_per_mol": energy_at_activities(e.standard, stoich, at_mm, rt),
                      "delta_g_at_ratio_kJ_per_mol": energy_at_activities(e.standard, stoich,
                                                                          at_ratio, rt),
-                     "source": e.source})
+                     "source": e.source, "standard_state": e.standard_state})
     table = pd.DataFrame(rows, columns=CENSUS_COLUMNS[:-1])
     table["exergonic_1mM"] = table["delta_g_1mM_kJ_per_mol"] < 0
     result = CensusResult(conditions=tm.conditions, mode=tm.mode, ratio=ratio, table=table)

@@ -22,7 +22,7 @@ from ..problem.builder import ProblemOptions, Solution, ThermoProblem
 from ..problem.solvers import InfeasibleProblem
 from .results import (AnalysisResult, certificate_words, certify, concentration_table,
                       confirm_infeasible, provenance_of, reaction_table, verification)
-from .uphill import ImpossibleDemandError, UphillResult, minimal_uphill_set
+from .uphill import UPHILL_TABLE_COLUMNS, ImpossibleDemandError, UphillResult, minimal_uphill_set
 
 log = logging.getLogger(__name__)
 
@@ -31,8 +31,7 @@ log = logging.getLogger(__name__)
 FEASIBILITY_COLUMNS = ["mode", "feasible", "uphill_set_size", "demand_impossible", "message",
                        "verification", "checked_by"]
 #: Columns of the ``uphill_sets`` table (one row per member of a set, per mode).
-UPHILL_SET_COLUMNS = ["mode", "set", "reaction", "direction", "uphill_by_kJ_per_mol",
-                      "short_by_kJ_per_mol"]
+UPHILL_SET_COLUMNS = ["mode", *UPHILL_TABLE_COLUMNS]
 
 
 @dataclass(kw_only=True)
@@ -112,7 +111,8 @@ class FeasibilityResult(AnalysisResult):
 
 
 def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
-                diagnose: bool = True, alternatives: int = 1) -> FeasibilityResult:
+                diagnose: bool = True, alternatives: int = 1, canonical: bool = True,
+                count_limit: int = 0) -> FeasibilityResult:
     """Is there a steady state meeting the demand with every reaction carrying flux downhill?
 
     Parameters
@@ -169,7 +169,8 @@ def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
         return result
     try:
         diagnosis = minimal_uphill_set(tm, options, alternatives=alternatives,
-                                       try_downhill_first=False)
+                                       try_downhill_first=False, canonical=canonical,
+                                       count_limit=count_limit)
     except ImpossibleDemandError as err:
         result.demand_impossible = True
         result.message = f"infeasible: {err}"
@@ -185,8 +186,8 @@ def feasibility(tm: ThermoModel, options: ProblemOptions | None = None,
     result.message = (f"infeasible: no steady state meets the demand with every reaction "
                       f"downhill; {'at most' if best else 'at least'} {diagnosis.size} "
                       f"reaction(s) must be driven uphill (coupled to an energy source): {listed}"
-                      + (f"; {len(diagnosis.sets)} alternative minimal sets"
-                         if len(diagnosis.sets) > 1 else ""))
+                      f"; energy to supply {diagnosis.energy_to_supply(0):.3g} kJ per mol of "
+                      f"demand; {sets_words(diagnosis)}")
     if best:
         bound = diagnosis.verification.get("bound")
         result.message += (" (the best set found within the time limit; at least "
@@ -212,6 +213,16 @@ def _feasible(result: FeasibilityResult, problem: ThermoProblem, sol: Solution, 
                          if free else ""))
     result.verification = verification("certified", certificate_words(cert)
                                        + f" ({sol.solver}, {sol.confirmed_by})")
+
+
+def sets_words(diagnosis: UphillResult) -> str:
+    """Which set is shown and how many there are: "the first of 4 sets of this size in the order
+    of reaction ids", "the only set of this size", "the first of at least 20 ..."."""
+    words = diagnosis.count_words()
+    if words.startswith("the only"):
+        return words
+    order = "in the order of reaction ids" if diagnosis.ordered else "in the order found"
+    return f"the first of {words} {order}"
 
 
 def _uphill_words(reaction: str, uphill_by: float, short_by: float | None) -> str:

@@ -31,8 +31,13 @@ from ..modes import get_mode
 from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions
 from ..util.points import worker_cache
+from ..vocabulary import DEFAULT_H2_RANGE
 
 log = logging.getLogger(__name__)
+
+#: Options of a job that are not problem options: the outer fluid's pH held on a pH change, and
+#: the H2 range of the threshold search.
+JOB_ONLY_OPTIONS = ("fixed_outer_ph", "h2_range")
 
 #: Condition axes a point may change, with their units at the interface.
 CONDITION_AXES = {
@@ -41,6 +46,7 @@ CONDITION_AXES = {
     "ionic_strength": "mol/L",
     "pressure": "bar",
     "h2": "mol/L (gas feed: bar)",
+    "mixing": "share of vent fluid on the environment's [mixing] line, 0-1",
 }
 #: What an outcome can hold.
 OUTCOME_PARTS = ("uphill", "threshold", "driving_force")
@@ -83,11 +89,14 @@ class NetworkJob:
         unknown = [p for p in parts if p not in OUTCOME_PARTS]
         if unknown:
             raise InputError(f"unknown outcome part(s) {', '.join(unknown)}; use {', '.join(OUTCOME_PARTS)}")
-        allowed = {"min_driving_force", "solver", "time_limit", "unknown_energy", "uncertainty_k"}
+        allowed = {"min_driving_force", "solver", "time_limit", "unknown_energy", "uncertainty_k",
+                   "fixed_outer_ph", "h2_range"}
         bad = sorted(set(options) - allowed)
         if bad:
             raise InputError(f"unknown option(s) {', '.join(bad)}; use {', '.join(sorted(allowed))}")
-        ProblemOptions(**options)  # validate now, not in every worker
+        if "h2_range" in options:
+            options["h2_range"] = [float(v) for v in options["h2_range"]]
+        ProblemOptions(**{k: v for k, v in options.items() if k not in JOB_ONLY_OPTIONS})  # validate now
         if hasattr(model, "metabolites") and hasattr(environment, "check_network"):
             environment.check_network(model)  # a key naming nothing is an error, not ignored
         payload = pickle.dumps((model, environment, prepare), protocol=pickle.HIGHEST_PROTOCOL)
@@ -104,8 +113,18 @@ class NetworkJob:
         return worker_cache(("network-job", self.token), lambda: pickle.loads(self.payload))
 
     def problem_options(self) -> ProblemOptions:
-        opts = {k: v for k, v in self.options.items() if k != "parts"}
+        opts = {k: v for k, v in self.options.items() if k not in ("parts",) + JOB_ONLY_OPTIONS}
         return ProblemOptions(**opts)
+
+    def h2_range(self) -> tuple[float, float]:
+        """The H2 range the threshold is searched over (the one default of
+        :data:`tfa.vocabulary.DEFAULT_H2_RANGE` unless the run names another)."""
+        return tuple(self.options.get("h2_range", DEFAULT_H2_RANGE))
+
+    def scenario_model(self, mode: str, changes: Mapping[str, float]) -> ThermoModel:
+        """The prepared model of ``mode`` with a scenario's drawn assumptions
+        (:func:`_scenario_model`)."""
+        return _scenario_model(self, mode, changes)
 
     def thermo_model(self, mode: str, changes: Mapping[str, float] | None = None) -> ThermoModel:
         """The prepared model of ``mode`` at the environment with ``changes`` (see
@@ -117,13 +136,56 @@ class NetworkJob:
             from ..network.energies import prepare
 
             model, environment, custom = self.objects()
-            env = changed_environment(model, environment, changes or {})
+            env = changed_environment(model, environment, changes or {},
+                                      hold_gradient=not self.options.get("fixed_outer_ph", False))
             tm = (custom or prepare)(model, env, mode)
             cache[key] = (tm, pickle.dumps(tm.model, protocol=pickle.HIGHEST_PROTOCOL))
             while len(cache) > PREPARED_CACHE_SIZE:
                 cache.popitem(last=False)
         cache.move_to_end(key)
         return fresh_copy(*cache[key])
+
+
+def _scenario_model(job: "NetworkJob", mode: str, changes: Mapping[str, float]) -> ThermoModel:
+    """The prepared model of ``mode`` with a scenario's drawn assumptions
+    (:mod:`tfa.network.scenario`): a change of the conditions prepares the network again
+    (cached per worker); a change of fed activities only replaces those compounds' fixed
+    log-activities on the prepared model (the energies do not depend on them)."""
+    from ..network.scenario import CONDITION_KEYS, apply_changes
+
+    model, environment, custom = job.objects()
+    conditions = {k: v for k, v in changes.items() if k in CONDITION_KEYS}
+    feeds = {k: v for k, v in changes.items() if k not in CONDITION_KEYS}
+    if conditions:
+        key = (mode, "scenario", tuple(sorted(conditions.items())))
+        cache: OrderedDict = worker_cache(("prepared", job.token), OrderedDict)
+        if key not in cache:
+            from ..network.energies import prepare
+
+            env = apply_changes(environment, conditions)
+            tm = (custom or prepare)(model, env, mode)
+            cache[key] = (tm, pickle.dumps(tm.model, protocol=pickle.HIGHEST_PROTOCOL))
+            while len(cache) > PREPARED_CACHE_SIZE:
+                cache.popitem(last=False)
+        cache.move_to_end(key)
+        tm = fresh_copy(*cache[key])
+    else:
+        tm = job.thermo_model(mode)
+    if feeds:
+        env = apply_changes(environment, feeds)
+        bounds = dict(tm.log_bounds)
+        for name in feeds:
+            compound = name.split(".", 1)[1]
+            met = env.resolve(tm.model, compound)
+            if met.id in bounds:
+                value = math.log(env.feed[compound])
+                bounds[met.id] = (value, value)
+        copy = replace(tm, log_bounds=bounds)
+        for extra in ("compound_table", "all_energies"):
+            if hasattr(tm, extra):
+                setattr(copy, extra, getattr(tm, extra))
+        tm = copy
+    return tm
 
 
 def fresh_copy(tm: ThermoModel, model_bytes: bytes) -> ThermoModel:
@@ -181,19 +243,30 @@ def h2_feed_key(model, environment) -> str:
                      "[feed] section")
 
 
-def changed_environment(model, environment, changes: Mapping[str, float]):
+def changed_environment(model, environment, changes: Mapping[str, float], hold_gradient: bool = True):
     """A copy of ``environment`` with conditions or H2 supply changed.
 
     ``changes`` keys: ``temperature`` (degC), ``ph``, ``ionic_strength`` (mol/L), ``pressure``
-    (bar), ``h2`` (the fed H2 activity: mol/L, or bar when H2 is fed as a gas).
+    (bar), ``h2`` (the fed H2 activity: mol/L, or bar when H2 is fed as a gas), ``mixing`` (the
+    share of vent fluid on the environment's mixing line, applied first:
+    :func:`tfa.network.mixing_line.mixed_environment`). A pH change moves the gradient's outer
+    protons with it (ΔpH kept) unless ``hold_gradient`` is False.
     """
+    from ..network.mixing_line import environment_with_ph, mixed_environment
+
     unknown = sorted(set(changes) - set(CONDITION_AXES))
     if unknown:
         raise InputError(f"cannot change {', '.join(unknown)}; use {', '.join(CONDITION_AXES)}")
     env = environment
+    if "mixing" in changes:
+        env, _ = mixed_environment(env, model, float(changes["mixing"]), hold_gradient)
+    skip = {"h2", "mixing"}
+    if "ph" in changes and hasattr(model, "metabolites") and hasattr(env, "resolve"):
+        env = environment_with_ph(env, model, float(changes["ph"]), hold_gradient)
+        skip.add("ph")
     conditions = {}
     for name, value in changes.items():
-        if name == "h2":
+        if name in skip:
             continue
         conditions["celsius" if name == "temperature" else name] = float(value)
     if conditions:
@@ -210,13 +283,16 @@ def _number(value) -> float | None:
     return value if math.isfinite(value) else None
 
 
-def outcome(tm: ThermoModel, options: ProblemOptions, parts=("uphill", "threshold")) -> dict:
+def outcome(tm: ThermoModel, options: ProblemOptions, parts=("uphill", "threshold"),
+            h2_range: tuple[float, float] = DEFAULT_H2_RANGE) -> dict:
     """Answers of the analyses for one prepared model, as a JSON-able dict.
 
     Keys (:mod:`tfa.vocabulary`): ``feasible`` (bool), ``demand_impossible`` (bool),
     ``uphill_set_size`` and ``uphill_set`` (a minimal uphill set, sorted; size 0 when feasible),
     ``h2_threshold`` (least H2 at which the network is feasible, mol/L or bar; None when not asked
-    or never feasible) and ``driving_force_kJ_per_mol`` (max-min driving force of the network;
+    or never feasible; the same MILP as ``tfa h2-threshold`` over ``h2_range``),
+    ``h2_at_range_floor`` (feasible already at the bottom of the range searched) and
+    ``driving_force_kJ_per_mol`` (max-min driving force of the network;
     None when not asked).
     """
     from .feasibility import feasibility
@@ -235,17 +311,20 @@ def outcome(tm: ThermoModel, options: ProblemOptions, parts=("uphill", "threshol
         else:
             out["uphill_set_size"], out["uphill_set"] = None, None
     if "threshold" in parts:
-        out["h2_threshold"] = _h2_threshold(tm, options)
+        out["h2_threshold"], out["h2_at_range_floor"] = _h2_threshold(tm, options, h2_range)
     if "driving_force" in parts:
         out["driving_force_kJ_per_mol"] = _driving_force(tm, options)
     return out
 
 
-def _h2_threshold(tm: ThermoModel, options: ProblemOptions) -> float | None:
-    """Least H2 (NaN -> None when no H2 level in the default range makes the network feasible)."""
+def _h2_threshold(tm: ThermoModel, options: ProblemOptions,
+                  h2_range: tuple[float, float]) -> tuple[float | None, bool | None]:
+    """Least H2 (NaN -> None when no H2 level in the range makes the network feasible) and
+    whether it lies at the bottom of the range searched."""
     from .hydrogen import h2_threshold
 
-    return _number(h2_threshold(tm, options).threshold)
+    result = h2_threshold(tm, options, h2_range=tuple(h2_range))
+    return _number(result.threshold), (result.at_range_floor if result.feasible else None)
 
 
 def _driving_force(tm: ThermoModel, options: ProblemOptions) -> float | None:

@@ -1,5 +1,9 @@
 """Condition maps: the answers of the analyses over a grid of two of temperature, pH, ionic
-strength, H2 supply and pressure.
+strength, H2 supply and pressure, or along one axis (a mixing line of two fluids: ``mixing``, the
+share of vent fluid, :mod:`tfa.network.mixing_line`; at each point the mixture's temperature, pH,
+ionic strength, H2 and dissolved inorganic carbon are recorded, and the H2 margin
+log10(H2 of the mixture / H2 threshold)). A pH change (an axis or a mixing line) moves the
+gradient's outer protons with it, ΔpH kept, unless ``fixed_outer_ph`` is asked.
 
 At each grid point and mode the environment is copied with the two conditions changed
 (:func:`tfa.analyses.jobs.changed_environment`), the network's energies are prepared there
@@ -32,22 +36,46 @@ from ..errors import InputError
 from ..modes import parse_modes
 from ..util.numbers import MAX_AXIS_VALUES, MAX_GRID_POINTS, read_count, read_number
 from ..util.points import RunSummary, run_and_read
+from ..vocabulary import DEFAULT_H2_RANGE
 from .jobs import CONDITION_AXES, NetworkJob, changed_environment, outcome, points_verification
 
 log = logging.getLogger(__name__)
 
 #: Columns of a map table besides the axes.
-MAP_COLUMNS = ("feasible", "uphill_set_size", "driving_force_kJ_per_mol", "h2_threshold")
+MAP_COLUMNS = ("feasible", "uphill_set_size", "driving_force_kJ_per_mol", "h2_threshold",
+               "h2_at_range_floor")
 #: Column name of each axis in the tables (:mod:`tfa.vocabulary`).
 AXIS_COLUMNS = {"temperature": "temperature_C", "ph": "pH", "ionic_strength": "ionic_strength_mol_per_L",
-                "pressure": "pressure_bar", "h2": "h2_activity"}
+                "pressure": "pressure_bar", "h2": "h2_activity", "mixing": "vent_fraction"}
+#: Columns of the mixture at each point of a mixing line, in order.
+MIXTURE_COLUMNS = ("temperature_C", "pH", "ionic_strength_mol_per_L", "h2_activity",
+                   "dissolved_inorganic_carbon_mol_per_L", "h2_margin_decades")
 
 
 def map_point(job: NetworkJob, point: dict) -> dict:
     """Outcome at one grid point in one mode; runs in a worker."""
-    changes = {point["x_name"]: point["x"], point["y_name"]: point["y"]}
+    changes = {point["x_name"]: point["x"]}
+    if point.get("y_name"):
+        changes[point["y_name"]] = point["y"]
     tm = job.thermo_model(point["mode"], changes)
-    return outcome(tm, job.problem_options(), job.options.get("parts", ("uphill", "threshold", "driving_force")))
+    result = outcome(tm, job.problem_options(),
+                     job.options.get("parts", ("uphill", "threshold", "driving_force")), job.h2_range())
+    if "mixing" in changes:
+        result.update(_mixture(job, changes, result.get("h2_threshold")))
+    return result
+
+
+def _mixture(job: NetworkJob, changes: dict, threshold: float | None) -> dict:
+    """The mixture's conditions at a point of a mixing line, and the H2 margin (decades)."""
+    from ..network.mixing_line import mixed_environment
+
+    model, environment, _ = job.objects()
+    _, fluid = mixed_environment(environment, model, float(changes["mixing"]),
+                                 not job.options.get("fixed_outer_ph", False))
+    margin = math.log10(fluid.h2 / threshold) if threshold else None
+    return {"temperature_C": fluid.celsius, "pH": fluid.ph,
+            "ionic_strength_mol_per_L": fluid.ionic_strength, "h2_activity": fluid.h2,
+            "dissolved_inorganic_carbon_mol_per_L": fluid.dic, "h2_margin_decades": margin}
 
 
 def axis_values(text: str) -> tuple[str, list[float]]:
@@ -63,6 +91,7 @@ def axis_values(text: str) -> tuple[str, list[float]]:
     """
     name, sep, spec = text.partition("=")
     name = name.strip().lower().replace("-", "_")
+    name = {"vent_fraction": "mixing", "mix": "mixing"}.get(name, name)
     name = {"t": "temperature", "i": "ionic_strength", "p": "pressure"}.get(name, name)
     if not sep or name not in CONDITION_AXES:
         raise InputError(f"axis '{text}': write NAME=START:STOP:COUNT[:log] or NAME=V1,V2,... with "
@@ -94,8 +123,8 @@ def axis_values(text: str) -> tuple[str, list[float]]:
     return name, values
 
 
-def check_grid(model, environment, x: tuple[str, Sequence[float]], y: tuple[str, Sequence[float]],
-               modes: Sequence[str]) -> list[str]:
+def check_grid(model, environment, x: tuple[str, Sequence[float]],
+               y: tuple[str, Sequence[float]] | None, modes: Sequence[str]) -> list[str]:
     """Refuse a grid before anything runs: too many points (:data:`MAX_GRID_POINTS`), or any
     value that makes impossible conditions (outside 0-300 degC, boiling water, a pH outside
     0-14, an H2 supply that is no concentration ...), named with its axis. Returns the
@@ -103,7 +132,7 @@ def check_grid(model, environment, x: tuple[str, Sequence[float]], y: tuple[str,
     """
     from ..conditions import ModelRangeWarning
 
-    (x_name, x_vals), (y_name, y_vals) = x, y
+    (x_name, x_vals), (y_name, y_vals) = x, (y or (None, [None]))
     for name, vals in ((x_name, x_vals), (y_name, y_vals)):
         if len(vals) > MAX_AXIS_VALUES:
             raise InputError(f"map axis {name}: {len(vals)} values; give at most {MAX_AXIS_VALUES}")
@@ -114,26 +143,34 @@ def check_grid(model, environment, x: tuple[str, Sequence[float]], y: tuple[str,
     seen: list[str] = []
     for xv in x_vals:
         for yv in y_vals:
+            changes = {x_name: xv} if y_name is None else {x_name: xv, y_name: yv}
+            where = ", ".join(f"{k}={v:g}" for k, v in changes.items())
             with warnings.catch_warnings(record=True) as caught:
                 warnings.simplefilter("always", ModelRangeWarning)
                 try:
-                    changed_environment(model, environment, {x_name: xv, y_name: yv})
+                    changed_environment(model, environment, changes)
                 except InputError as err:
-                    raise type(err)(f"map point {x_name}={xv:g}, {y_name}={yv:g}: {err}") from None
+                    raise type(err)(f"map point {where}: {err}") from None
             seen += [str(w.message) for w in caught
                      if issubclass(w.category, ModelRangeWarning) and str(w.message) not in seen]
     return seen
 
 
-def map_points(x: tuple[str, Sequence[float]], y: tuple[str, Sequence[float]],
+def map_points(x: tuple[str, Sequence[float]], y: tuple[str, Sequence[float]] | None,
                modes: Sequence[str]) -> list[dict]:
-    """Grid points, ids ``<mode>/<ix>-<iy>``.
+    """Grid points, ids ``<mode>/<ix>-<iy>`` (``<mode>/<ix>`` along one axis).
 
     >>> [p["id"] for p in map_points(("ph", [7, 8]), ("temperature", [50]), ["native"])]
     ['native/0-0', 'native/1-0']
+    >>> [p["id"] for p in map_points(("mixing", [0, 0.5]), None, ["native"])]
+    ['native/0', 'native/1']
     """
     points = []
     for mode in modes:
+        if y is None:
+            points += [{"id": f"{mode}/{ix}", "mode": mode, "x_name": x[0], "x": float(xv),
+                        "y_name": None, "y": None} for ix, xv in enumerate(x[1])]
+            continue
         for ix, xv in enumerate(x[1]):
             for iy, yv in enumerate(y[1]):
                 points.append({"id": f"{mode}/{ix}-{iy}", "mode": mode, "x_name": x[0], "x": float(xv),
@@ -157,7 +194,7 @@ class MapResult:
 
     x_name: str
     x_values: list[float]
-    y_name: str
+    y_name: str | None
     y_values: list[float]
     modes: list[str]
     records: list[dict]
@@ -171,11 +208,16 @@ class MapResult:
         feasible, uphill_set_size, driving_force_kJ_per_mol, h2_threshold, uphill_set (members of
         a minimal set, ', '-joined), error."""
         rows = []
+        line = self.y_name is None
         for r in self.records:
-            row = {"mode": r["mode"], AXIS_COLUMNS[self.x_name]: r["x"],
-                   AXIS_COLUMNS[self.y_name]: r["y"]}
+            row = {"mode": r["mode"], AXIS_COLUMNS[self.x_name]: r["x"]}
+            if not line:
+                row[AXIS_COLUMNS[self.y_name]] = r["y"]
             for c in MAP_COLUMNS:
                 row[c] = r.get(c)
+            if line and self.x_name == "mixing":
+                for c in MIXTURE_COLUMNS:
+                    row[c] = r.get(c)
             row["uphill_set"] = (", ".join(r["uphill_set"]) if isinstance(r.get("uphill_set"), list)
                                  else None)
             row["error"] = r.get("error")
@@ -189,7 +231,11 @@ class MapResult:
             rec = [r for r in self.records if r["mode"] == mode]
             solved = [r for r in rec if r.get("error") is None]
             k = sum(1 for r in solved if r.get("feasible"))
+            floor = sum(1 for r in solved if r.get("h2_at_range_floor"))
             lines.append(f"{mode}: feasible at {k} of {len(solved)} points"
+                         + (f"; H2 threshold at the bottom of the range searched at {floor} "
+                            "point(s) (feasible already there: the true threshold, if any, is "
+                            "lower)" if floor else "")
                          + (f"; {len(rec) - len(solved)} point(s) failed or not computed"
                             if len(rec) > len(solved) else ""))
         return "\n".join(lines)
@@ -198,16 +244,17 @@ class MapResult:
         """Plain dictionary for JSON output."""
         return {"analysis": self.analysis, "summary": self.summary(),
                 "x": {"name": self.x_name, "values": self.x_values},
-                "y": {"name": self.y_name, "values": self.y_values}, "modes": self.modes,
+                "y": ({"name": self.y_name, "values": self.y_values} if self.y_name else None),
+                "modes": self.modes,
                 "provenance": self.provenance, "warnings": list(self.warnings),
                 "verification": points_verification(self.records),
                 "table": self.to_frame().to_dict(orient="records")}
 
 
 def _record(point: dict, line: dict | None) -> dict:
-    base = {"mode": point["mode"], "x": point["x"], "y": point["y"], "feasible": None,
+    base = {"mode": point["mode"], "x": point["x"], "y": point.get("y"), "feasible": None,
             "uphill_set_size": None, "uphill_set": None, "driving_force_kJ_per_mol": None,
-            "h2_threshold": None,
+            "h2_threshold": None, "h2_at_range_floor": None,
             "error": None}
     if line is None:
         base["error"] = "not computed (run interrupted)"
@@ -219,11 +266,12 @@ def _record(point: dict, line: dict | None) -> dict:
 
 
 def condition_map(model, environment, x: tuple[str, Sequence[float]] = ("temperature", (40.0, 70.0, 100.0)),
-                  y: tuple[str, Sequence[float]] = ("ph", (6.0, 7.0, 8.0)),
+                  y: tuple[str, Sequence[float]] | None = ("ph", (6.0, 7.0, 8.0)),
                   modes: Sequence[str] = ("native",), *, executor: str = "pool",
                   workers: int | None = None, scheduler: str | None = None,
                   results_path: str | Path | None = None, resume: bool = False,
                   overwrite: bool = False, threshold: bool = True, driving_force: bool = True,
+                  h2_range: tuple[float, float] = DEFAULT_H2_RANGE,
                   prepare: Callable | None = None, progress: Callable | None = None,
                   **problem_options: Any) -> MapResult:
     """Feasibility, uphill-set size, driving force and H2 threshold over a grid of two conditions.
@@ -231,43 +279,52 @@ def condition_map(model, environment, x: tuple[str, Sequence[float]] = ("tempera
     Parameters
     ----------
     model, environment : the network (cobra.Model) and the setting (Environment)
-    x, y : (axis name, values); names from :data:`tfa.analyses.jobs.CONDITION_AXES`
+    x, y : (axis name, values); names from :data:`tfa.analyses.jobs.CONDITION_AXES`; ``y`` None
+        for a line along ``x`` (e.g. ``("mixing", [0, 0.1, ..., 1])``)
     modes : modes to solve at every point
     executor, workers, scheduler : see :func:`tfa.util.points.run_points`
     results_path : JSON-lines file (default: temporary); give one to ``resume``
     threshold, driving_force : compute these two at every point (each is one more MILP)
+    h2_range : (low, high) the threshold is searched over [mol/L; gas: bar] (the one default of
+        :data:`tfa.vocabulary.DEFAULT_H2_RANGE`, as ``tfa h2-threshold``)
     prepare : replaces :func:`tfa.network.energies.prepare` (module-level function)
-    problem_options : ``min_driving_force``, ``solver``, ``time_limit``, ``unknown_energy``
+    problem_options : ``min_driving_force``, ``solver``, ``time_limit``, ``unknown_energy``, and
+        ``fixed_outer_ph`` (True: a pH change leaves the outer fluid's pH, so ΔpH changes)
 
     Returns
     -------
     MapResult
     """
-    (x_name, x_vals), (y_name, y_vals) = x, y
+    (x_name, x_vals), (y_name, y_vals) = x, (y or (None, [0.0]))
     for name in (x_name, y_name):
-        if name not in CONDITION_AXES:
+        if name is not None and name not in CONDITION_AXES:
             raise InputError(f"unknown map axis {name!r}; use two of {', '.join(CONDITION_AXES)}")
     if x_name == y_name:
         raise InputError(f"the two map axes must differ (both are {x_name})")
+    if "mixing" in (x_name, y_name) and ({x_name, y_name} & {"temperature", "ph", "h2", "ionic_strength"}):
+        raise InputError("a mixing line sets temperature, pH, ionic strength and H2 itself; pair it "
+                         "with pressure or give it alone")
     x_vals = [read_number(v, "value", f"map axis {x_name}") for v in x_vals]
     y_vals = [read_number(v, "value", f"map axis {y_name}") for v in y_vals]
     if not x_vals or not y_vals:
         raise InputError("each map axis needs at least one value")
     modes = parse_modes(list(modes))
-    range_warnings = check_grid(model, environment, (x_name, x_vals), (y_name, y_vals), modes)
+    y = None if y_name is None else (y_name, y_vals)
+    range_warnings = check_grid(model, environment, (x_name, x_vals), y, modes)
     for text in range_warnings:
         warnings.warn(text, ModelRangeWarning, stacklevel=2)
     parts = ["uphill"] + (["threshold"] if threshold else []) + (["driving_force"] if driving_force else [])
-    job = NetworkJob.create(model, environment, parts=parts, prepare=prepare, **problem_options)
-    points = map_points((x_name, x_vals), (y_name, y_vals), modes)
-    header = {"analysis": "map", "x": [x_name, x_vals], "y": [y_name, y_vals], "modes": modes,
+    job = NetworkJob.create(model, environment, parts=parts, prepare=prepare,
+                            h2_range=tuple(h2_range), **problem_options)
+    points = map_points((x_name, x_vals), y, modes)
+    header = {"analysis": "map", "x": [x_name, x_vals], "y": list(y) if y else None, "modes": modes,
               **job.describe()}
     function = functools.partial(map_point, job)
     summary, lines = run_and_read(points, function, results_path, "map.jsonl", executor=executor,
                                   workers=workers, scheduler=scheduler, resume=resume,
                                   overwrite=overwrite, header=header, progress=progress)
     records = [_record(p, lines.get(p["id"])) for p in points]
-    return MapResult(x_name, x_vals, y_name, y_vals, modes, records, run=summary,
+    return MapResult(x_name, x_vals, y_name, y_vals if y else [], modes, records, run=summary,
                      warnings=range_warnings,
                      provenance={"executor": summary.executor, "seconds": summary.seconds,
                                  "points_per_second": summary.points_per_second,

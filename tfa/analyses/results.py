@@ -115,8 +115,10 @@ def weakest(entries: list[dict], labels: list[str]) -> dict:
 def certificate_words(certificate: Certificate, what: str = "the steady state") -> str:
     """What the independent check of one point verified, in plain words."""
     return (f"{what} passed the independent numpy check: mass balance {certificate.mass_balance_residual:.1e}"
-            f" (tolerance {certificate.flux_tolerance:.1e}), flux and concentration bounds, and the "
-            f"second law on {certificate.n_flux_carrying} reaction(s) carrying flux (tolerance "
+            f" (tolerance {certificate.flux_tolerance:.1e}), flux and concentration bounds, "
+            + (f"{certificate.carrier_checks} carrier state(s) ([cofactors]: ratios, pool totals, "
+               "phosphorylation floor), " if certificate.carrier_checks else "")
+            + f"and the second law on {certificate.n_flux_carrying} reaction(s) carrying flux (tolerance "
             f"{certificate.energy_tolerance:.1e} kJ/mol)")
 
 

@@ -1,22 +1,22 @@
 """Correlated uncertainty of reaction energies and reproducible draws of them.
 
-Reactions that share a compound share that compound's error, so their ΔrG'° vary together. With
-every reaction written over thermodynamic compounds (``ReactionEnergy.compound_terms``: compound
-id -> net coefficient ν), and standard uncertainties σ_k of the compounds' ΔfG'° taken as
-independent, the reaction energies g = N f have the covariance
+Every reaction is written over thermodynamic compounds (``ReactionEnergy.compound_terms``:
+compound id -> net coefficient ν), and every source of energy contributes to one factor F over
+those compounds (:mod:`tfa.network.compound_space`: species data, the reconciliation of reaction
+values, group-contribution estimates correlated through their groups). The reaction energies
+g = ḡ + N F z then have the covariance
 
-    Σ = N C Nᵀ + D,     C = diag(σ_k²),   D = diag(s_j²),
+    Σ = N F Fᵀ Nᵀ + R Rᵀ,
 
-where N (reactions × compounds) holds the coefficients and D carries, per reaction, the part of
-its stated variance that is not compound based (literature or reconciled values, whose own
-correlations are not handed over): s_j² = max(0, σ_j² − Σ_k N_jk² σ_k²). So the diagonal of Σ
-equals each reaction's stated σ_j² and only the compound-based part is shared. This is the law of
-propagation of uncertainty for linear functions of correlated inputs (JCGM 100:2008, "GUM",
-section 5.2) applied to ΔrG'° = Σ ν ΔfG'°.
+N (reactions × compounds) the coefficients, R the reaction-level terms of values that stand
+alone (a term per restated conversion, shared by every reaction restating it). Every identity of
+the stoichiometry (yᵀN = 0) holds in every draw. This is the law of propagation of uncertainty
+for linear functions of correlated inputs (JCGM 100:2008, "GUM", section 5.2) applied to
+ΔrG'° = Σ ν ΔfG'°. Without a compound table (a hand-made model) or with explicit compound σ_k,
+the older rule applies: F = diag(σ_k) and R = diag(s_j), s_j² = max(0, σ_j² − Σ_k N_jk² σ_k²).
 
-Draws: g = ḡ + F z with the factor F = [N·diag(σ_k) | diag(s_j)] (so F Fᵀ = Σ exactly and is
-positive semi-definite by construction; no decomposition, hence the same numbers on every
-machine). Draw i takes its seed sequence from ``numpy.random.SeedSequence(seed).spawn``'s i-th
+Draws: g = ḡ + [N F | R] z (so the factor's square is Σ exactly and positive semi-definite by
+construction). Draw i takes its seed sequence from ``numpy.random.SeedSequence(seed).spawn``'s i-th
 child, and within it one standard normal number per *name* (a compound key, or
 ``reaction:<id>`` for an independent part), from that child's child numbered by a stable hash of
 the name. So draw i depends only on (seed, i) — never on which process computes it or in which
@@ -36,192 +36,21 @@ References
 
 from __future__ import annotations
 
-import hashlib
 import logging
 import math
-from dataclasses import dataclass, replace
+from dataclasses import dataclass, field, replace
 from typing import Mapping, Sequence
 
 import numpy as np
 import pandas as pd
 
 from ..errors import InputError
+from ..network.compound_space import (COMPOUND_BASED_SOURCES, EnergyCovariance,  # noqa: F401
+                                      compound_sigmas, energy_covariance)
 from ..network.thermo_model import ThermoModel
+from ..util.keyed_random import _name_key, keyed_normals  # noqa: F401
 
 log = logging.getLogger(__name__)
-
-#: Compound sources whose σ is an independent per-compound uncertainty (reconciled compounds
-#: carry correlations of their own fit and stay reaction-level).
-COMPOUND_BASED_SOURCES = ("species", "estimated")
-
-
-@dataclass
-class EnergyCovariance:
-    """Mean, covariance and draw factor of the ΔrG'° of a set of reactions (kJ/mol).
-
-    Attributes
-    ----------
-    reaction_ids : reactions, in the order of every array
-    mean : ΔrG'° as prepared
-    sigma : stated standard uncertainty of each reaction
-    compound_ids, compound_sigma : compounds with an independent σ_k and their σ_k
-    loadings : N, reactions × compounds, net coefficients
-    independent_sigma : s_j, the reaction-level part not shared with any other reaction
-    """
-
-    reaction_ids: list[str]
-    mean: np.ndarray
-    sigma: np.ndarray
-    compound_ids: list[str]
-    compound_sigma: np.ndarray
-    loadings: np.ndarray
-    independent_sigma: np.ndarray
-
-    @property
-    def factor(self) -> np.ndarray:
-        """F = [N diag(σ_k) | diag(s_j)], reactions × (compounds + reactions); F Fᵀ = Σ."""
-        return np.hstack([self.loadings * self.compound_sigma[None, :], np.diag(self.independent_sigma)])
-
-    @property
-    def covariance(self) -> np.ndarray:
-        """Σ = N C Nᵀ + D, kJ²/mol²."""
-        f = self.factor
-        return f @ f.T
-
-    def correlation(self) -> np.ndarray:
-        """Correlation matrix (0 where a reaction has σ = 0, 1 on its diagonal)."""
-        cov = self.covariance
-        s = np.sqrt(np.diag(cov))
-        with np.errstate(divide="ignore", invalid="ignore"):
-            corr = cov / np.outer(s, s)
-        corr[~np.isfinite(corr)] = 0.0
-        np.fill_diagonal(corr, 1.0)
-        return corr
-
-    @property
-    def factor_names(self) -> list[str]:
-        """Name of each column of :attr:`factor`: compound keys, then ``reaction:<id>``."""
-        return list(self.compound_ids) + [f"reaction:{r}" for r in self.reaction_ids]
-
-    def draw(self, seed: int, index: int) -> np.ndarray:
-        """Draw number ``index`` of the run seeded ``seed``: ḡ + F z, kJ/mol."""
-        return self.mean + self.factor @ keyed_normals(seed, index, self.factor_names)
-
-    def to_frame(self) -> pd.DataFrame:
-        """One row per reaction: ΔrG'°, stated σ, σ from Σ, shared and independent parts."""
-        cov = self.covariance
-        shared = np.sqrt(np.maximum(np.diag(cov) - self.independent_sigma ** 2, 0.0))
-        return pd.DataFrame({
-            "reaction": self.reaction_ids,
-            "delta_g_standard_kJ_per_mol": self.mean,
-            "sigma_kJ_per_mol": self.sigma,
-            "sigma_from_covariance_kJ_per_mol": np.sqrt(np.diag(cov)),
-            "shared_sigma_kJ_per_mol": shared,
-            "independent_sigma_kJ_per_mol": self.independent_sigma,
-        })
-
-
-def _name_key(name: str) -> int:
-    """A stable 63-bit number for a name (the same in every process and on every machine)."""
-    return int.from_bytes(hashlib.sha256(name.encode("utf-8")).digest()[:8], "big") >> 1
-
-
-def keyed_normals(seed: int, index: int, names: Sequence[str]) -> np.ndarray:
-    """One standard normal number per name for draw ``index`` of the run seeded ``seed``.
-
-    The number of a name does not depend on the other names asked for:
-
-    >>> a = keyed_normals(3, 0, ["H2", "CO2tot", "formate"])
-    >>> b = keyed_normals(3, 0, ["formate", "H2"])
-    >>> bool(a[2] == b[0] and a[0] == b[1])
-    True
-    """
-    if seed is None or int(seed) < 0:
-        raise InputError(f"the seed must be a whole number >= 0, got {seed!r}")
-    out = np.empty(len(names))
-    for k, name in enumerate(names):
-        sequence = np.random.SeedSequence(int(seed), spawn_key=(int(index), _name_key(str(name))))
-        out[k] = np.random.default_rng(sequence).standard_normal()
-    return out
-
-
-def compound_sigmas(thermo_model: ThermoModel) -> dict[str, float]:
-    """σ of ΔfG'° (kJ/mol) of every compound whose error is independent per compound, keyed as in
-    ``ReactionEnergy.compound_terms`` (read from the model's compound energy table, when the
-    network layer attached one; empty otherwise, and then every reaction varies on its own)."""
-    table = getattr(thermo_model, "compound_table", None)
-    out: dict[str, float] = {}
-    if table is None:
-        return out
-    for ce in table.compounds.values():
-        if ce.source in COMPOUND_BASED_SOURCES and ce.key and math.isfinite(ce.uncertainty):
-            out[ce.key] = float(ce.uncertainty)
-    return out
-
-
-def energy_covariance(thermo_model: ThermoModel, compound_sigma: Mapping[str, float] | None = None,
-                      reaction_ids: Sequence[str] | None = None, tolerance: float = 1e-9) -> EnergyCovariance:
-    """Covariance Σ = N C Nᵀ + D of the reactions' ΔrG'° (see the module docstring).
-
-    Parameters
-    ----------
-    thermo_model : ThermoModel
-        Energies with ``uncertainty`` and ``compound_terms``.
-    compound_sigma : mapping, optional
-        σ_k per compound (kJ/mol); default :func:`compound_sigmas` of the model.
-    reaction_ids : reactions to include (default: every reaction with an energy, sorted).
-    tolerance : float
-        Relative tolerance, kJ²/mol², by which a reaction's compound part may exceed its stated
-        variance (rounding) before it is an error.
-
-    Returns
-    -------
-    EnergyCovariance
-
-    Examples
-    --------
-    Two reactions that share compound B (A -> B and B -> C) with σ_A = 1, σ_B = 2, σ_C = 3
-    kJ/mol: Var = 1 + 4 = 5 and 4 + 9 = 13, Cov = (+1)(−1)σ_B² = −4 (GUM section 5.2):
-
-    >>> from tfa.network.thermo_model import ReactionEnergy
-    >>> e = {"R1": ReactionEnergy("R1", -10.0, 5 ** 0.5, "species", "", {"A": -1, "B": 1}),
-    ...      "R2": ReactionEnergy("R2", 3.0, 13 ** 0.5, "species", "", {"B": -1, "C": 1})}
-    >>> class Stub: energies = e
-    >>> cov = energy_covariance(Stub(), {"A": 1.0, "B": 2.0, "C": 3.0})
-    >>> cov.covariance.round(6).tolist()
-    [[5.0, -4.0], [-4.0, 13.0]]
-    """
-    energies = thermo_model.energies
-    ids = sorted(energies) if reaction_ids is None else list(reaction_ids)
-    missing = [r for r in ids if r not in energies]
-    if missing:
-        raise InputError(f"reaction(s) {', '.join(missing[:5])} have no energy; leave them out of "
-                         "the covariance")
-    sigmas = dict(compound_sigmas(thermo_model) if compound_sigma is None else compound_sigma)
-    used = sorted({k for r in ids for k in energies[r].compound_terms if k in sigmas})
-    index = {k: i for i, k in enumerate(used)}
-    n = np.zeros((len(ids), len(used)))
-    mean = np.zeros(len(ids))
-    sigma = np.zeros(len(ids))
-    for j, rid in enumerate(ids):
-        e = energies[rid]
-        mean[j] = float(e.standard)
-        s = 0.0 if e.uncertainty is None or not math.isfinite(e.uncertainty) else abs(float(e.uncertainty))
-        sigma[j] = s
-        for k, coef in e.compound_terms.items():
-            if k in index:
-                n[j, index[k]] += float(coef)
-    c_sigma = np.array([abs(float(sigmas[k])) for k in used])
-    shared_var = (n ** 2) @ (c_sigma ** 2)
-    residual = sigma ** 2 - shared_var
-    too_big = residual < -tolerance * np.maximum(1.0, sigma ** 2)
-    if np.any(too_big):
-        j = int(np.flatnonzero(too_big)[0])
-        log.warning("reaction %s: its compounds' σ give %.3g kJ/mol, more than its stated σ %.3g; "
-                    "the compound part is used as is", ids[j], math.sqrt(shared_var[j]), sigma[j])
-    independent = np.sqrt(np.maximum(residual, 0.0))
-    return EnergyCovariance(ids, mean, sigma, used, c_sigma, n, independent)
-
 
 def psd_factor(covariance: np.ndarray, tolerance: float = 1e-10) -> np.ndarray:
     """A factor F with F Fᵀ ≈ Σ for a symmetric matrix Σ, negative eigenvalues clipped to 0.

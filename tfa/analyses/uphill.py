@@ -26,6 +26,7 @@ from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions, Solution, ThermoProblem
 from ..problem.solvers import InfeasibleProblem, optimize
 from ..problem.scaling import FLUX_REACH
+from .set_order import list_as_found, list_in_order
 from .results import (AnalysisResult, certificate_words, certify, concentration_table,
                       optimum_words, provenance_of, reaction_table, verification)
 
@@ -40,6 +41,12 @@ class ImpossibleDemandError(ComputationError):
     def __init__(self, message: str, verification: dict | None = None) -> None:
         super().__init__(message)
         self.verification = verification or {}
+
+
+#: Columns of a table of minimal uphill sets (one row per member of a set).
+UPHILL_TABLE_COLUMNS = ["set", "reaction", "direction", "uphill_by_kJ_per_mol",
+                        "short_by_kJ_per_mol", "flux_per_demand",
+                        "energy_to_supply_kJ_per_mol_demand"]
 
 
 @dataclass(kw_only=True)
@@ -71,6 +78,16 @@ class UphillResult(AnalysisResult):
     points : list of (DataFrame, DataFrame)
         Per set: the certified steady state behind it (per reaction: flux, ΔrG'° and the
         recomputed ΔrG'; per compound: activity), at the concentrations of ``uphill_by``.
+    count : int
+        Minimal sets found in all (the listed ones and those only counted); all of them when
+        ``exhausted``, else a lower bound.
+    ordered : bool
+        True when ``sets`` are the first in the order of reaction ids (sorted ids compared
+        lexicographically), each proven so; False for the solver's order.
+    flux_per_demand : list of dict
+        Per set: reaction -> |v_j| / v_demand at the steady state of least energy to supply
+        (:func:`_energy_to_supply`); times ``uphill_by`` it is the energy to supply to the step
+        per unit of demand (kJ per mol of demand).
     """
 
     size: int = 0
@@ -81,28 +98,59 @@ class UphillResult(AnalysisResult):
     short_by: list[dict[str, float]] = field(default_factory=list)
     lower_bound: int = 0
     points: list[tuple[pd.DataFrame, pd.DataFrame]] = field(default_factory=list)
+    count: int = 0
+    ordered: bool = True
+    flux_per_demand: list[dict[str, float]] = field(default_factory=list)
     analysis: str = "minimal uphill set"
+
+    def energy_to_supply(self, k: int = 0) -> float:
+        """Energy to supply to the uphill steps of set ``k``, kJ per mol of demand:
+        sum_j (|v_j| / v_demand) max(0, d_j Delta_r G'_j).
+
+        >>> r = UphillResult(conditions=None, sets=[["A"]], uphill_by=[{"A": 10.0}],
+        ...                  flux_per_demand=[{"A": 2.0}])
+        >>> r.energy_to_supply()      # hand example: 2 x 10 kJ/mol
+        20.0
+        """
+        if k >= len(self.sets):
+            return float("nan")
+        weights = self.flux_per_demand[k] if k < len(self.flux_per_demand) else {}
+        return float(sum(weights.get(r, float("nan")) * self.uphill_by[k].get(r, float("nan"))
+                         for r in self.sets[k]))
+
+    def count_words(self) -> str:
+        """How many minimal sets there are, in words ("4 sets of this size", "at least 20 ...")."""
+        from .set_order import count_words
+
+        return count_words(max(self.count, len(self.sets)), self.exhausted)
 
     def to_frame(self) -> pd.DataFrame:
         rows = []
         for k, members in enumerate(self.sets):
             for rid in members:
+                weight = (self.flux_per_demand[k].get(rid, float("nan"))
+                          if k < len(self.flux_per_demand) else float("nan"))
+                per_mole = self.uphill_by[k].get(rid, float("nan"))
                 rows.append({"set": k + 1, "reaction": rid,
                              "direction": "forward" if self.directions[k].get(rid, 1) > 0 else "backward",
-                             "uphill_by_kJ_per_mol": self.uphill_by[k].get(rid, float("nan")),
+                             "uphill_by_kJ_per_mol": per_mole,
                              "short_by_kJ_per_mol": (self.short_by[k].get(rid, float("nan"))
-                                                     if k < len(self.short_by) else float("nan"))})
-        return pd.DataFrame(rows, columns=["set", "reaction", "direction", "uphill_by_kJ_per_mol",
-                                           "short_by_kJ_per_mol"])
+                                                     if k < len(self.short_by) else float("nan")),
+                             "flux_per_demand": weight,
+                             "energy_to_supply_kJ_per_mol_demand": weight * per_mole})
+        return pd.DataFrame(rows, columns=UPHILL_TABLE_COLUMNS)
 
     def summary(self) -> str:
         if self.size == 0:
             return "no reaction needs to run uphill: the network is feasible as it stands"
         listed = "; ".join(", ".join(s) for s in self.sets)
         best = self.verification.get("status") == "best found"
+        order = "in the order of reaction ids" if self.ordered else "in the order found"
         return (f"{'at most' if best else 'at least'} {self.size} reaction(s) must run uphill "
-                f"(coupled to an energy source); {len(self.sets)} "
-                f"{'best set(s) found' if best else 'minimal set(s)'}: {listed}"
+                f"(coupled to an energy source); {self.count_words()}; "
+                f"{'best set(s) found' if best else 'the first ' + str(len(self.sets))} {order}: "
+                f"{listed}; energy to supply to the first: {self.energy_to_supply(0):.3g} kJ per "
+                "mol of demand"
                 + (f" (the solver proved at least {self.verification.get('bound')})" if best else ""))
 
 
@@ -318,8 +366,119 @@ def _fewest_violations(problem: ThermoProblem, forward: np.ndarray, backward: np
     return mask
 
 
+def _least_set(problem: ThermoProblem, start: Solution | None, forced: list[str], count: dict,
+               checks: list[str], started: bool) -> Solution:
+    """A set of the least size: the first set when it meets the lower bound, else the MILP
+    (started from the first set), keeping the first set when the search ends with a larger one.
+    ``sol.bound`` is the larger of the solver's bound and the steps uphill in every solution.
+
+    Raises InfeasibleProblem when no set exists (the demand is impossible) and UndeterminedError
+    when the time limit stops the search before any set is found."""
+    problem.set_objective(count, "min")
+    if start is not None and len(start.uphill) <= len(forced):
+        start.objective, start.bound, start.proven = float(len(start.uphill)), float(len(forced)), True
+        checks.append(f"set of {len(forced)} step(s) uphill in every solution, found by the "
+                      "least-flux pattern: lower and upper bound meet")
+        return start
+    if started:
+        checks.append(f"HiGHS started from a set of {len(start.uphill)}")
+    try:
+        sol = problem.solve("minimal uphill set", accept_best=True)
+    except UndeterminedError:
+        if start is None:
+            raise
+        sol = start      # nothing better found in time: the first set
+        sol.objective, sol.bound, sol.proven = float(len(start.uphill)), None, False
+    if start is not None and len(start.uphill) < len(sol.uphill):
+        # the first set is smaller: a search stopped early, or a wrong proof (the first set is a
+        # point of the problem): keep it, not proven
+        if sol.proven:
+            checks.append(f"{problem.solver_name} claimed a minimum of {len(sol.uphill)}, "
+                          f"contradicted by a set of {len(start.uphill)}")
+            log.warning("minimal uphill set: %s claimed %d, a certified set of %d exists",
+                        problem.solver_name, len(sol.uphill), len(start.uphill))
+        start.objective, start.proven = float(len(start.uphill)), False
+        start.bound = float(len(forced))
+        sol = start
+    sol.bound = float(len(forced)) if sol.bound is None else max(sol.bound, float(len(forced)))
+    return sol
+
+
+def _record(result: UphillResult, problem: ThermoProblem, members: list[str], sol: Solution) -> None:
+    """Add one set to the result: its certificate, how far each member runs uphill (per mole) and
+    the energy to supply to it per unit of demand."""
+    cert = certify(problem, sol, allowed_uphill=members)
+    result.certificates.append(cert)
+    amounts, short, directions, supply = {}, {}, {}, {}
+    point = sol
+    if members:
+        amounts, short, directions, best = _uphill_amounts(problem, members, sol)
+        cert = certify(problem, best, allowed_uphill=members)
+        result.certificates.append(cert)
+        supply, point = _energy_to_supply(problem, members, sol, best, directions)
+        if point is not best:
+            cert = certify(problem, point, allowed_uphill=members)
+            result.certificates.append(cert)
+    # the certified point behind the set (for its energy budget and carbon routes)
+    result.points.append((reaction_table(problem, point, cert), concentration_table(point)))
+    result.sets.append(list(members))
+    result.uphill_by.append(amounts)
+    result.short_by.append(short)
+    result.directions.append(directions)
+    result.flux_per_demand.append(supply)
+
+
+def _energy_to_supply(problem: ThermoProblem, members: list[str], sol: Solution, best: Solution,
+                      directions: dict[str, int]) -> tuple[dict[str, float], Solution]:
+    """Flux of each member per unit of demand flux at the steady state of least energy to supply.
+
+    The energy to supply to the uphill steps is E = sum_{j in S} (|v_j| / v_demand) d_j Delta_r G'_j
+    (kJ per mol of demand; d_j the direction, Delta_r G'_j in kJ/mol; Henry, Broadbelt &
+    Hatzimanikatis 2007 for the problem). It is bilinear in fluxes and concentrations; here the
+    concentrations (and energy slacks) are held at those of least per-mole uphill energy
+    (``best``) and a linear program over the fluxes with the set's flux pattern minimises E: an
+    upper bound of the least E over all steady states of the pattern. Hand example: one uphill
+    step at +10 kJ/mol carrying twice the demand flux costs 20 kJ per mol of demand.
+
+    Returns (member -> |v_j| / v_demand, the point); the fluxes of ``best`` when the linear
+    program finds no point (within the solver's tolerance of a fixed point)."""
+    index = {rid: j for j, rid in enumerate(problem.energy_ids)}
+    demand = problem.thermo_model.demand_id
+    cost = {}
+    for r in members:
+        reaction = problem.reactions[problem.energy_reaction_index[index[r]]]
+        column = reaction.forward_variable if directions[r] > 0 else reaction.reverse_variable
+        cost[column] = max(0.0, float(directions[r] * best.energies[index[r]]))
+    point = best
+    if any(c > 0 for c in cost.values()):
+        fixed = [(v, value) for v, value in zip(problem.x_vars, best.log_conc)]
+        fixed += [(v, value) for v, value in zip(problem.eps_vars, best.slack) if v is not None]
+        saved = [(v, v.lb, v.ub) for v, _ in fixed]
+        forward = np.array([directions.get(r, 0) > 0 for r in problem.energy_ids])
+        backward = np.array([directions.get(r, 0) < 0 for r in problem.energy_ids])
+        try:
+            for v, value in fixed:
+                v.set_bounds(min(max(float(value), v.lb), v.ub), min(max(float(value), v.lb), v.ub))
+            problem.set_objective(cost, "min")
+            point = problem.solve_fixed(sol.forward, sol.backward,
+                                        np.isin(problem.energy_ids, members),
+                                        "least energy to supply to the set",
+                                        uphill_open=(forward, backward))
+        except InfeasibleProblem:
+            log.info("least energy to supply: no point with the concentrations fixed; the "
+                     "fluxes of the least per-mole point are used")
+            point = best
+        finally:
+            for v, lb, ub in reversed(saved):
+                v.set_bounds(lb, ub)
+    v_demand = abs(point.flux(demand)) if demand in point.reaction_ids else float("nan")
+    return ({r: abs(point.flux(r)) / v_demand if v_demand > 0 else float("nan") for r in members},
+            point)
+
+
 def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
-                       alternatives: int = 1, try_downhill_first: bool = True) -> UphillResult:
+                       alternatives: int = 1, try_downhill_first: bool = True,
+                       canonical: bool = True, count_limit: int = 0) -> UphillResult:
     """Fewest reactions that must run against their gradient for the demand to be met.
 
     What is known is used before the search (measured on genome-scale instances with
@@ -335,7 +494,13 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
     tm : ThermoModel
     options : ProblemOptions
     alternatives : int
-        Up to this many alternative minimal sets (integer cuts).
+        Up to this many minimal sets listed (integer cuts).
+    canonical : bool
+        List the sets in the order of reaction ids (:mod:`tfa.analyses.set_order`; a few more
+        mixed-integer solves per set); False: in the order the solver finds them.
+    count_limit : int
+        Count the minimal sets up to this many in all (:data:`tfa.analyses.set_order.COUNT_LIMIT`
+        is the assessment's); at most ``alternatives`` are listed. 0: count only those listed.
     try_downhill_first : bool
         First solve with every u_j fixed at 0 (the plain feasibility problem, on the same build):
         when that is feasible the minimal set is empty and proven so at once; the minimisation
@@ -373,8 +538,8 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                 cert = certify(problem, sol)
                 result.certificates.append(cert)
                 result.sets, result.uphill_by, result.directions = [[]], [{}], [{}]
-                result.short_by = [{}]
-                result.exhausted = True
+                result.short_by, result.flux_per_demand = [{}], [{}]
+                result.exhausted, result.count = True, 1
                 result.verification = verification("certified", certificate_words(cert),
                                                    bound=0, gap=0.0)
                 return result
@@ -385,85 +550,29 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
         start = _start_set(problem, forced)
         # the point of the last solve is the first set's: HiGHS starts its search from it
         started = start is not None and problem.start_from_last_point()
-        size = None
-        checks = []
-        for k in range(max(1, alternatives)):
-            problem.set_objective(count, "min")
+        checks: list[str] = []
+        try:
+            sol = _least_set(problem, start, forced, count, checks, started)
+        except InfeasibleProblem:
             sol = None
-            if k == 0 and start is not None and len(start.uphill) <= len(forced):
-                sol = start          # the first set meets the lower bound: minimal, no search
-                sol.objective, sol.bound, sol.proven = float(len(start.uphill)), float(len(forced)), True
-                checks.append(f"set of {len(forced)} step(s) uphill in every solution, found by "
-                              "the least-flux pattern: lower and upper bound meet")
+            impossible = True
+        if sol is not None:
+            size = len(sol.uphill)
+            status, details = optimum_words(sol, "uphill steps", integral=True)
+            result.verification = verification(status, "", **details)
+            result.size = size
+            if size == 0:
+                _record(result, problem, [], sol)
+                result.exhausted, result.count = True, 1
+            elif canonical and status == "proven":
+                list_in_order(result, problem, size, alternatives, count_limit, checks, _record,
+                              first=sol)
             else:
-                if k == 0 and started:
-                    checks.append(f"HiGHS started from a set of {len(start.uphill)}")
-                try:
-                    sol = problem.solve("minimal uphill set", accept_best=True)
-                except InfeasibleProblem:
-                    if k == 0:
-                        impossible = True
-                    else:
-                        result.exhausted = True
-                        checks.append(f"no further set of {size}: {problem.solver_name} proved it")
-                    break
-                except UndeterminedError:
-                    if k > 0 or start is None:
-                        raise
-                    sol = start      # nothing better found in time: the first set
-                    sol.objective, sol.bound, sol.proven = float(len(start.uphill)), None, False
-                if k == 0 and start is not None and len(start.uphill) < len(sol.uphill):
-                    # the first set is smaller: a search stopped early, or a wrong proof (the
-                    # first set is a point of the problem): keep it, not proven
-                    if sol.proven:
-                        checks.append(f"{problem.solver_name} claimed a minimum of {len(sol.uphill)}, "
-                                      f"contradicted by a set of {len(start.uphill)}")
-                        log.warning("minimal uphill set: %s claimed %d, a certified set of %d exists",
-                                    problem.solver_name, len(sol.uphill), len(start.uphill))
-                    start.objective, start.proven = float(len(start.uphill)), False
-                    start.bound = float(len(forced))
-                    sol = start
-                if sol.bound is not None:
-                    sol.bound = max(sol.bound, float(len(forced)))
-                elif k == 0:
-                    sol.bound = float(len(forced))
-            members = sorted(sol.uphill)
-            if size is None:
-                size = len(members)
-                status, details = optimum_words(sol, "uphill steps", integral=True)
-                result.verification = verification(status, "", **details)
-            elif len(members) > size:
-                result.exhausted = True
-                checks.append(f"no further set of {size}: the next best has {len(members)}")
-                break
-            cert = certify(problem, sol, allowed_uphill=members)
-            result.certificates.append(cert)
-            point = (sol, cert)
-            if members:
-                amounts, short, directions, best = _uphill_amounts(problem, members, sol)
-                point = (best, certify(problem, best, allowed_uphill=members))
-                result.certificates.append(point[1])
-            else:
-                amounts, short, directions = {}, {}, {}
-            # the certified point behind the set (for its energy budget and carbon routes)
-            result.points.append((reaction_table(problem, *point), concentration_table(point[0])))
-            result.sets.append(members)
-            result.uphill_by.append(amounts)
-            result.short_by.append(short)
-            result.directions.append(directions)
-            if not members:
-                result.exhausted = True
-                break
-            if k + 1 < alternatives:
-                problem.add_constraint({problem.u_vars[index[r]]: 1.0 for r in members}, None,
-                                       len(members) - 1, f"tfa_cut_{k}")
-        result.size = size or 0
-        if not impossible:
-            status = result.verification["status"]
-            bound = result.verification.get("bound")
+                list_as_found(result, problem, sol, alternatives, checks, _record)
             words = [f"each set's steady state passed the independent numpy check ({len(result.certificates)} points)",
                      f"{result.lower_bound} step(s) uphill in every solution (flux ranges)"]
             words += checks
+            bound = result.verification.get("bound")
             words.append(f"minimality {'proven' if status == 'proven' else 'not proven'}: "
                          f"bound {bound} (the larger of {problem.solver_name}'s and the steps "
                          "uphill in every solution)")

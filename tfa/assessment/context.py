@@ -39,7 +39,9 @@ ProgressCallback = Callable[[str, int, int], None]
 NOT_APPLICABLE = "not applicable"
 #: Draws per mode of the robustness step of an assessment (a small run; about 1.5 s per draw on
 #: the bundled network; ``tfa robustness`` runs large ones).
-ASSESSMENT_DRAWS = 4
+ASSESSMENT_DRAWS = 20
+#: Width at which the assessment's draws stop (sequential stopping).
+ASSESSMENT_INTERVAL_WIDTH = 0.3
 
 
 @dataclass
@@ -69,7 +71,10 @@ class Settings:
     ratio : float
         Substrate:product ratio of the census's third reference state.
     draws : int
-        Draws of the energies per mode for the robustness step (0: skip it).
+        Draws of the energies per mode for the robustness step, at most (0: skip it).
+    interval_width : float
+        The draws stop once every 95 % Wilson interval is at most this wide (0: exactly
+        ``draws``).
     seed : int
         Seed of the draws.
     workers : int
@@ -78,6 +83,12 @@ class Settings:
         Use data from sources that are not peer reviewed too.
     scan_uphill : bool
         The size of the minimal uphill set at infeasible H2 levels.
+    route_file : str, optional
+        Route file of the route comparison (default ``routes.toml`` beside the network, else one
+        route per carbon-fixing pathway tag).
+    coupling_objective : str
+        Objective of the fewest-couplings step: ``count`` or ``energy``
+        (:data:`tfa.analyses.couplings.COUPLING_OBJECTIVES`).
     """
 
     modes: list[str] = field(default_factory=lambda: list(STANDARD_MODES))
@@ -91,10 +102,13 @@ class Settings:
     ranges_compounds: bool = False
     ratio: float = 100.0
     draws: int = ASSESSMENT_DRAWS
+    interval_width: float = ASSESSMENT_INTERVAL_WIDTH
     seed: int = 0
     workers: int = 1
     include_unreviewed: bool = False
     scan_uphill: bool = True
+    coupling_objective: str = "count"
+    route_file: str | None = None
 
     def __post_init__(self) -> None:
         self.modes = parse_modes(self.modes)
@@ -117,8 +131,12 @@ class Settings:
             self.h2_values = values
         self.ratio = read_number(self.ratio, "substrate:product ratio", above=0.0)
         self.draws = read_count(self.draws, "draws", minimum=0, maximum=MAX_DRAWS, text=False)
+        self.interval_width = read_number(self.interval_width, "interval width", minimum=0.0,
+                                          maximum=1.0)
         self.seed = read_count(self.seed, "seed", minimum=0, maximum=MAX_SEED, text=False)
         self.workers = read_count(self.workers, "workers", maximum=MAX_WORKERS, text=False)
+        if self.coupling_objective not in ("count", "energy"):
+            raise InputError(f"coupling objective {self.coupling_objective!r}: use count or energy")
         if self.route is not None and not isinstance(self.route, list):
             raise InputError(f"route {self.route!r}: give a list of (reaction id, +1 or -1)")
         if self.ranges_reactions is not None and (
@@ -257,6 +275,7 @@ class RunContext:
         applicable" and why (nothing is solved)."""
         if mode not in self._feasibility:
             from ..analyses.feasibility import FeasibilityResult, feasibility
+            from ..analyses.set_order import COUNT_LIMIT
 
             reason = self.not_applicable(mode)
             if reason:
@@ -266,7 +285,8 @@ class RunContext:
                 return self._feasibility[mode]
             tm = self.thermo_model(mode)
             try:
-                result = feasibility(tm, self.options, alternatives=self.settings.alternatives)
+                result = feasibility(tm, self.options, alternatives=self.settings.alternatives,
+                                     count_limit=COUNT_LIMIT)
             except UndeterminedError as err:
                 result = FeasibilityResult(conditions=tm.conditions, mode=mode, feasible=False,
                                            message=f"undetermined: {err}")

@@ -9,12 +9,19 @@ from __future__ import annotations
 
 from ..errors import InputError
 from .step import Step
+from .steps.binding import BindingStep
 from .steps.budget import EnergyBudgetStep
 from .steps.census import CensusStep
 from .steps.coverage import CoverageStep
+from .steps.couplings import FewestCouplingsStep
+from .steps.currencies import CurrenciesStep
+from .steps.route_comparison import RouteComparisonStep
 from .steps.driving_force import DrivingForceStep
 from .steps.feasibility import FeasibilityStep
+from .steps.gradient import GradientStep
 from .steps.hydrogen import H2ScanStep, H2ThresholdStep
+from .steps.precursors import PrecursorStep
+from .steps.margins import VerdictMarginStep
 from .steps.profile import EnergyProfileStep
 from .steps.ranges import RangesStep
 from .steps.robustness import RobustnessStep
@@ -70,3 +77,10 @@ for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2T
               DrivingForceStep(), EnergyBudgetStep(), EnergyProfileStep(), RangesStep(),
               RobustnessStep()):
     register_step(_step)
+register_step(GradientStep(), before="driving_force")
+register_step(BindingStep(), before="energy_profile")   # after the answers it reads
+register_step(PrecursorStep(), before="census")  # each precursor alone
+register_step(VerdictMarginStep(), before="robustness")   # the distance to a flipped verdict
+register_step(FewestCouplingsStep())   # energy coupling and routes
+register_step(CurrenciesStep())        # energy coupling and routes
+register_step(RouteComparisonStep())   # energy coupling and routes

@@ -65,9 +65,24 @@ def _environment(assessment: "Assessment") -> ReportSection:
     bounds = pd.DataFrame([{"compound": m, "lower": math.exp(lo), "upper": math.exp(hi)}
                            for m, (lo, hi) in sorted(tm.log_bounds.items())],
                           columns=["compound", "lower", "upper"])
+    from ..network.compartments import describe_compartments
+
     text = (f"{env.description}\n\nNetwork: {ctx.inputs.network_source}. Environment file: "
-            f"{ctx.inputs.environment_source}.").strip()
-    return environment_section(env.conditions, env.feed, bounds, name=env.name, text=text)
+            f"{ctx.inputs.environment_source}."
+            + (f"\n\nCompartments besides the cell: {describe_compartments(env)}."
+               if env.compartments else "")
+            + ("\n\nIons moved across the membrane per turnover: "
+               + ", ".join(f"{rid} {n:g}" for rid, n in sorted(env.ion_stoichiometry.items())) + "."
+               if env.ion_stoichiometry else "")).strip()
+    feed = dict(env.feed)
+    for met_id, (key, value) in env.fluid_feed(ctx.model).items():   # the speciated [fluid] totals
+        feed[f"{met_id} ({key}, speciated from [fluid])"] = value
+    states = [r.text for r in tm.log_rows] + [p.text for p in tm.pools]
+    if states:
+        text += "\n\nCarrier states ([cofactors]): " + "; ".join(states) + "."
+    elif env.cofactors is None:
+        text += "\n\nCarrier states: none (every carrier form only within its bounds)."
+    return environment_section(env.conditions, feed, bounds, name=env.name, text=text)
 
 
 def _sources(assessment: "Assessment") -> tuple[pd.DataFrame, list[str]]:

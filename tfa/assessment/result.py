@@ -82,7 +82,10 @@ class Assessment:
         from ..network.default_environment import NEUTRAL_NAME
 
         env = self.environment
-        line = f"network {self.network.id} at {env.name} ({env.conditions.describe()})"
+        from ..network.compartments import describe_compartments
+
+        line = (f"network {self.network.id} at {env.name} ({env.conditions.describe()}"
+                f"{describe_compartments(env, '; ')})")
         return f"{line}\n{env.description}" if env.name == NEUTRAL_NAME else line
 
     def summary_lines(self) -> list[str]:

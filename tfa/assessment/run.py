@@ -18,7 +18,7 @@ from ..errors import InputError
 from ..modes import DEFAULT_MODE, STANDARD_MODES
 from ..util.outdir import check_output_folder, output_lock
 from ..vocabulary import DEFAULT_ALTERNATIVES, DEFAULT_H2_LEVELS, DEFAULT_H2_RANGE
-from .context import ASSESSMENT_DRAWS, ProgressCallback, RunContext, Settings
+from .context import ASSESSMENT_DRAWS, ASSESSMENT_INTERVAL_WIDTH, ProgressCallback, RunContext, Settings
 from .registry import STEPS, get_step
 from .result import Assessment
 from .step import Step
@@ -109,6 +109,7 @@ def assess(network: Any = None, environment: Any = None, out: str | Path | None 
            h2_levels: int | Sequence[float] = DEFAULT_H2_LEVELS,
            alternatives: int = DEFAULT_ALTERNATIVES, ranges_compounds: bool = False,
            draws: int = ASSESSMENT_DRAWS, seed: int = 0, workers: int = 1,
+           interval_width: float = ASSESSMENT_INTERVAL_WIDTH,
            compounds: str | Path | None = None, include_unreviewed: bool = False,
            conditions: dict[str, float | None] | None = None, skip: Sequence[str] = (),
            progress: ProgressCallback | None = None, **deprecated: Any) -> Assessment:
@@ -140,7 +141,9 @@ def assess(network: Any = None, environment: Any = None, out: str | Path | None 
     ranges_compounds : bool
         Also range every concentration (slower).
     draws, seed : int
-        Draws per mode of the robustness step (0: skip it) and their seed.
+        Draws per mode of the robustness step, at most (0: skip it), and their seed.
+    interval_width : float
+        The draws stop once every 95 % Wilson interval is at most this wide (0: exactly draws).
     workers : int
         Worker processes for the draws and the ranges (1: in this process).
     compounds : path, optional
@@ -194,7 +197,7 @@ def assess(network: Any = None, environment: Any = None, out: str | Path | None 
     settings = Settings(modes=modes, mode=mode, alternatives=alternatives,
                         h2_range=tuple(h2_range), h2_levels=level_count, h2_values=level_values,
                         route=parse_route(route), ranges_compounds=bool(ranges_compounds),
-                        draws=draws, seed=seed, workers=workers,
+                        draws=draws, seed=seed, workers=workers, interval_width=interval_width,
                         include_unreviewed=bool(include_unreviewed))
     steps = select_steps(skip)
     inputs = resolve_inputs(network, environment, compounds, **(conditions or {}))

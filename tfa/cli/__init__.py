@@ -23,15 +23,20 @@ COMMANDS: dict[str, str] = {
     "inspect": "cmd_inspect",
     "feasible": "cmd_feasible",
     "uphill": "cmd_uphill",
+    "precursors": "cmd_precursors",
     "h2-scan": "cmd_h2_scan",
     "h2-threshold": "cmd_h2_threshold",
     "ranges": "cmd_ranges",
     "driving-force": "cmd_driving_force",
     "census": "cmd_census",
+    "gradient": "cmd_gradient",
     "estimate": "cmd_estimate",
     "new-network": "cmd_new_network",
     "robustness": "cmd_robustness",
     "map": "cmd_map",
+    "couplings": "cmd_couplings",
+    "currencies": "cmd_currencies",
+    "compare": "cmd_compare",
 }
 
 

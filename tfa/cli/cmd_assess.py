@@ -13,8 +13,10 @@ from .step_command import run_step_command
 
 #: The steps of ``tfa assess``, named in its help (the registry is the source; this list is
 #: checked against it by the tests, so that the help can stay free of heavy imports).
-STEP_IDS = ("coverage", "feasibility", "census", "h2_scan", "h2_threshold", "driving_force",
-            "energy_budget", "energy_profile", "ranges", "robustness")
+STEP_IDS = ("coverage", "feasibility", "precursors", "census", "h2_scan", "h2_threshold",
+            "gradient", "driving_force", "energy_budget", "binding_constraints", "energy_profile",
+            "ranges", "verdict_margins", "robustness", "couplings", "currencies",
+            "route_comparison")
 
 
 def register(subparsers) -> None:
@@ -44,6 +46,7 @@ def register(subparsers) -> None:
                         help="comma-separated steps not to run: " + ", ".join(STEP_IDS))
     group = parser.add_argument_group("robustness")
     add_option(group, "draws", "assess", type=int)
+    add_option(group, "interval_width", "assess")
     add_option(group, "seed", "assess", type=int)
     add_option(group, "workers", "assess")
     add_deprecated(parser, "--robustness-draws", "--draws", "draws",

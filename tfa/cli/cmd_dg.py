@@ -133,7 +133,8 @@ def run(args: argparse.Namespace) -> int:
         from .step_command import load_inputs
 
         inputs = load_inputs(argparse.Namespace(network=args.network_data), require_balanced=False)
-        result = network_reaction_energy(inputs.model, conditions, args.equation, activities, db)
+        result = network_reaction_energy(inputs.model, conditions, args.equation, activities, db,
+                                         compartments=inputs.environment.compartments)
     else:
         from ..thermo.library import ReactionLibrary
 

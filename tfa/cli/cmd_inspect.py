@@ -135,6 +135,10 @@ def _text(args, inputs, report, balance, unbalanced, check) -> int:
     if environment.name == NEUTRAL_NAME:
         out.write(f"             {environment.description}\n")
     out.write(f"conditions   {report.conditions.describe()}\n")
+    from ..network.compartments import describe_compartments
+
+    if environment.compartments:
+        out.write(f"compartments {describe_compartments(environment)}\n")
     out.write(f"literature   {literature or 'the library of tfa/data (reaction_values.csv)'}\n")
     _identifiers(out, inputs, args.verbose)
     if unbalanced.empty:

@@ -1,11 +1,13 @@
 """``tfa robustness``: how sure are the conclusions, given the uncertainty of the energies?
 
-Draws the reactions' ΔrG'° N times from their correlated distribution (reactions that share a
-compound vary together) and solves each mode again for every draw: the probability that the
-network is feasible (with its binomial standard error), how often each reaction is in the minimal
+Draws the reactions' ΔrG'° from their distribution in compound space (every identity of the
+stoichiometry holds in every draw) and solves each mode again for every draw, in batches, until
+every probability's 95 % Wilson interval is at most ``--interval-width`` wide or ``--draws`` are
+made (it says which): the probability that the network is feasible (with its Wilson interval), how often each reaction is in the minimal
 uphill set, and the distribution of the H2 threshold. The same ``--seed`` gives the same draws
 serially, on the local process pool (default) or on Dask. With ``--out DIR`` every finished draw
-is appended to ``DIR/robustness.jsonl`` at once, so ``--resume`` continues an interrupted run.
+is appended to ``DIR/robustness.jsonl`` at once, so ``--resume`` continues an interrupted run,
+or extends a finished one to more ``--draws`` (draw k is the same draw whatever the total).
 """
 
 from __future__ import annotations
@@ -19,7 +21,7 @@ from ..util.numbers import MAX_SIGMA_SCALE
 from ..util.points import HASH_SEED
 from .options import (add_deprecated, add_modes_option, add_network_options, add_option,
                       add_output_options, add_problem_options, add_threshold_switch, gated,
-                      parse_workers, report_deprecations)
+                      parse_h2_range, parse_workers, report_deprecations)
 from .output import print_json, print_table, solver_output_silenced
 from .step_command import progress_for
 
@@ -131,13 +133,21 @@ def register(subparsers) -> None:
     )
     add_network_options(parser)
     add_option(parser, "draws", "robustness", type=int)
+    add_option(parser, "interval_width", "robustness")
     add_option(parser, "seed", "robustness", type=int)
     add_modes_option(parser, "robustness")
     parser.add_argument("--sigma-scale", type=gated(minimum=0.0, maximum=MAX_SIGMA_SCALE),
                         default=1.0, metavar="F",
                         help="multiply every uncertainty by F (0: every draw is the deterministic "
                         "answer; default 1)")
+    parser.add_argument("--scenario", choices=("energies", "assumptions", "both"),
+                        default="energies",
+                        help="what to draw: the energies (default), the ranges of the setting's "
+                        "assumptions given in the environment's [scenario] section, or both "
+                        "jointly; with assumptions, each is also held at its central value and "
+                        "the change of the probability is reported")
     add_threshold_switch(parser)
+    add_option(parser, "h2_range", "robustness")
     add_problem_options(parser)
     add_execution_options(parser, "robustness")
     add_output_options(parser)
@@ -166,6 +176,9 @@ def run(args: argparse.Namespace) -> int:
             result = robustness(model, environment, n_draws=args.draws, seed=args.seed,
                                 modes=modes, sigma_scale=args.sigma_scale,
                                 threshold=not args.no_threshold,
+                                h2_range=parse_h2_range(args.h2_range),
+                                interval_width=args.interval_width or None,
+                                scenario=args.scenario,
                                 results_path=out / "robustness.jsonl" if out else None,
                                 progress=point_progress(bar, "draws"),
                                 **dict(execution, overwrite=True), **problem_kwargs(args))
@@ -181,7 +194,8 @@ def run(args: argparse.Namespace) -> int:
         return 0
     write = sys.stdout.write
     write(f"robustness of {model.id} at {environment.name} ({environment.conditions.describe()})\n")
-    write(f"{args.draws} draws per mode, seed {args.seed}, σ × {args.sigma_scale:g}; "
+    write(f"{result.n_draws} draws per mode (at most {args.draws}), seed {args.seed}, "
+          f"σ × {args.sigma_scale:g}; "
           f"{result.run.executor}, {result.run.seconds:.1f} s\n\n")
     write(result.summary() + "\n\n")
     print_table(result.feasibility_frame(), "{:.3f}")
@@ -189,8 +203,12 @@ def run(args: argparse.Namespace) -> int:
     if not uphill.empty:
         write("\nminimal uphill set: how often each reaction is in it\n")
         print_table(uphill, "{:.3f}")
+    if result.assumptions:
+        write("\nassumptions of the setting: the probability with each drawn and held central\n")
+        print_table(result.assumption_frame(), "{:.3f}")
     if not args.no_threshold:
-        write("\nH2 threshold (mol/L; gases bar) over the draws where it exists\n")
+        write(f"\nH2 threshold (mol/L; gases bar) over the draws where it exists; range searched "
+              f"{args.h2_range} (h2_at_range_floor: feasible already at its bottom)\n")
         print_table(result.threshold_frame(), "{:.3g}")
     if args.out is not None:
         write(f"\nfiles in {args.out}\n")

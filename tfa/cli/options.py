@@ -47,6 +47,7 @@ def gated(**bounds: Any) -> Callable[[str], float]:
 OPTION_TYPES: dict[str, Callable[[str], Any]] = {
     "alternatives": gated(count=True, maximum=numbers.MAX_ALTERNATIVES),
     "draws": gated(count=True, minimum=0, maximum=numbers.MAX_DRAWS),
+    "interval_width": gated(minimum=0.0, maximum=1.0),
     "seed": gated(count=True, minimum=0, maximum=numbers.MAX_SEED),
     "h2_levels": gated(count=True, maximum=numbers.MAX_H2_LEVELS),
 }
@@ -56,7 +57,9 @@ COMMAND_DEFAULTS: dict[str, dict[str, Any]] = {
     # the assessment writes its files by default; the single analyses only print
     "out": {"assess": "tfa-results"},
     # the assessment runs a small robustness check; tfa robustness a real one
-    "draws": {"assess": 4, "robustness": 100},
+    "draws": {"assess": 20, "robustness": 100},
+    # the assessment stops at a wider interval (its draws are a first look)
+    "interval_width": {"assess": 0.3},
 }
 
 
@@ -82,7 +85,9 @@ def add_option(parser: argparse.ArgumentParser | Any, name: str, command: str = 
 #: Help of a shared option where its default differs by command (see COMMAND_DEFAULTS).
 COMMAND_SPECIFIC_HELP = {
     "out": "folder for the tables (CSV and JSON), figures and report (default %(default)s)",
-    "draws": "draws of the energies per mode (default %(default)s; 0 skips)",
+    "draws": "draws of the energies per mode, at most (default %(default)s; 0 skips)",
+    "interval_width": "draw until every 95 %% Wilson interval of a probability is at most W wide, "
+                      "or --draws are made (0: exactly --draws; default %(default)s)",
 }
 
 
@@ -141,6 +146,14 @@ def add_conditions_options(parser: argparse.ArgumentParser) -> None:
     group.add_argument("--pressure", type=number, metavar="BAR",
                        help="pressure, bar (1-5000; above 100 degC at least the boiling pressure)")
     group.add_argument("--pmg", type=number, metavar="X", help="pMg (free Mg2+); default: no Mg2+ binding")
+    add_switch(group, "loose_cofactors")
+
+
+def add_switch(parser: argparse.ArgumentParser | Any, name: str) -> None:
+    """Add the shared on/off option ``name`` of :data:`tfa.vocabulary.OPTIONS` (store_true)."""
+    spec = OPTIONS[name]
+    parser.add_argument(*spec.flags, dest=name, action="store_true", default=bool(spec.default),
+                        help=spec.help)
 
 
 def add_network_options(parser: argparse.ArgumentParser) -> None:
@@ -180,8 +193,10 @@ def add_problem_options(parser: argparse.ArgumentParser) -> None:
                        help="MILP solver (default: the measured best available)")
     group.add_argument("--k-sigma", type=gated(minimum=0.0, maximum=numbers.MAX_K_SIGMA),
                        default=0.0, metavar="K",
-                       help="let each reaction energy move by K standard uncertainties (0-"
-                       f"{numbers.MAX_K_SIGMA:g}; default 0)")
+                       help="let the energies move by K standard uncertainties in total, in "
+                       "compound space: the formation energies' sources (species data, reaction "
+                       "values, groups) together by at most K of their σ, so identities and loops "
+                       f"stay consistent (0-{numbers.MAX_K_SIGMA:g}; default 0)")
     group.add_argument("--min-driving-force", metavar="KJ",
                        type=gated(minimum=0.0, maximum=numbers.MAX_DRIVING_FORCE),
                        help="least driving force of a reaction carrying flux, kJ/mol (default 0.1)")

@@ -27,7 +27,8 @@ def settings_from_args(args: argparse.Namespace) -> "Settings":
     from ..assessment.context import Settings
 
     given: dict = {}
-    for name in ("modes", "mode", "alternatives", "seed", "ratio", "draws"):
+    for name in ("modes", "mode", "alternatives", "seed", "ratio", "draws", "interval_width",
+                 "coupling_objective"):
         if getattr(args, name, None) is not None:
             given[name] = getattr(args, name)
     if getattr(args, "h2_range", None) is not None:
@@ -36,6 +37,8 @@ def settings_from_args(args: argparse.Namespace) -> "Settings":
         given["h2_levels"] = args.h2_levels
     if getattr(args, "h2_values", None):
         given["h2_values"] = args.h2_values
+    if getattr(args, "route_file", None):
+        given["route_file"] = args.route_file
     if getattr(args, "route", None):
         given["route"] = parse_route(args.route)
     if getattr(args, "workers", None) is not None:
@@ -71,11 +74,15 @@ def load_inputs(args: argparse.Namespace, require_balanced: bool = True):
     (:func:`tfa.network.inputs.resolve_inputs`)."""
     from ..network.inputs import resolve_inputs
 
-    return resolve_inputs(getattr(args, "network", None), getattr(args, "environment", None),
-                          getattr(args, "compounds", None), require_balanced=require_balanced,
-                          h2=getattr(args, "h2", None), demand=getattr(args, "demand", None),
-                          identifiers=getattr(args, "identifiers", None),
-                          **condition_overrides(args))
+    inputs = resolve_inputs(getattr(args, "network", None), getattr(args, "environment", None),
+                            getattr(args, "compounds", None), require_balanced=require_balanced,
+                            h2=getattr(args, "h2", None), demand=getattr(args, "demand", None),
+                            identifiers=getattr(args, "identifiers", None),
+                            **condition_overrides(args))
+    if getattr(args, "loose_cofactors", False):
+        import dataclasses
+        inputs = dataclasses.replace(inputs, environment=inputs.environment.with_loose_cofactors())
+    return inputs
 
 
 def check_out(args: argparse.Namespace) -> None:

@@ -1,7 +1,7 @@
 """What a network as read still needs before it can be assessed, filled in once on reading:
 the compound of our data each metabolite is (:mod:`tfa.network.identifiers`), the roles its
 compounds play (:mod:`tfa.network.role_inference`), the H2 compound named on the command line,
-and the warnings that go with it (compartments whose pH is not modelled, matches left open).
+and the warnings that go with it (matches left open).
 """
 
 from __future__ import annotations
@@ -55,11 +55,9 @@ def complete_network(model: cobra.Model, database, from_table: bool,
     roles = infer_roles(model, database)
     check_energy_sources(model, database)
     warnings = []
-    compartments = sorted({m.compartment for m in model.metabolites if m.compartment})
-    if len(compartments) > 1:
-        warnings.append(f"network {model.id} has compartments {', '.join(compartments)}: "
-                        "compartment pH and membrane potential are not modelled; every compound is "
-                        "taken at the environment's pH")
+    # compartments: the environment states each one's pH and membrane potential; one it does
+    # not describe is warned about where the environment is known
+    # (tfa.network.compartments.compartment_warnings, called by tfa.network.inputs)
     ambiguous = [m.metabolite for m in mapping.matches if m.status == AMBIGUOUS]
     if ambiguous:
         warnings.append(f"{len(ambiguous)} compound(s) whose identifiers name two compounds of our "

@@ -52,6 +52,12 @@ class CompoundEnergy:
     status: str = ""
     audit_flags: tuple[str, ...] = ()
     group_counts: dict[str, int] = field(default_factory=dict)
+    #: Its compartment ("" or the cell's: the environment's conditions), the conditions of that
+    #: compartment (None: the cell's) and the electrochemical offset added to ``standard``
+    #: (:func:`tfa.thermo.membrane.electrochemical_offset`, kJ/mol; 0 in the cell).
+    compartment: str = ""
+    at: Conditions | None = None
+    offset: float = 0.0
 
 
 @dataclass
@@ -68,6 +74,8 @@ class CompoundEnergyTable:
     reconciliation: Reconciliation | None = None
     literature: tuple[LiteratureValue, ...] = ()
     skipped_values: dict[str, str] = field(default_factory=dict)
+    #: Compartment id -> :class:`tfa.conditions.Compartment` of the environment.
+    compartments: dict = field(default_factory=dict)
 
     # ----------------------------------------------------------------------------------------
     def reaction_energy(self, reaction_id: str, stoichiometry: Mapping[str, float],
@@ -90,20 +98,25 @@ class CompoundEnergyTable:
         sources: list[str] = []
         parts: list[str] = []
         # species part, netted per database compound (as the database does for a reaction)
-        by_key: dict[str, float] = {}
+        # (a compound in two compartments is two terms of value, one of error: its σ cancels)
+        by_key: dict[tuple, float] = {}
         for m, n in known.items():
-            by_key[self.compounds[m].key] = by_key.get(self.compounds[m].key, 0.0) + n
-        key_energy = {self.compounds[m].key: self.compounds[m] for m in known}
+            place = (self.compounds[m].key, self.compounds[m].compartment)
+            by_key[place] = by_key.get(place, 0.0) + n
+        key_energy = {(self.compounds[m].key, self.compounds[m].compartment): self.compounds[m]
+                      for m in known}
         statuses: list[str] = []
-        for key, n in by_key.items():
+        for place, n in by_key.items():
             if abs(n) < 1e-12:
                 continue
-            ce = key_energy[key]
+            ce = key_energy[place]
             value += n * ce.standard
-            variance += (n * ce.uncertainty) ** 2
-            terms[key] = terms.get(key, 0.0) + n
+            terms[place[0]] = terms.get(place[0], 0.0) + n
             extend_unique(sources, ce.sources)
             statuses.append(ce.status)
+        for key, n in terms.items():
+            sigma_key = next(ce.uncertainty for (k, _), ce in key_energy.items() if k == key)
+            variance += (n * sigma_key) ** 2
         if known:
             parts.append("species data: " + ", ".join(sorted({self.compounds[m].key for m in known})))
             held = [f for m in known for f in self.compounds[m].flags if f.startswith("E'°")
@@ -156,7 +169,7 @@ class CompoundEnergyTable:
             t_sigma = rec.temperature_sigma(reconciled, self.conditions.temperature)
             for m, n in reconciled.items():
                 value += n * self.compounds[m].standard
-                terms[self.compounds[m].key] = n
+                terms[self.compounds[m].key] = terms.get(self.compounds[m].key, 0.0) + n
             variance += s_ref ** 2 + t_sigma ** 2
             ids = rec.value_ids(reconciled)
             extend_unique(sources, rec.source_keys(reconciled))
@@ -188,11 +201,12 @@ class CompoundEnergyTable:
     def _estimated_sum(self, stoich: Mapping[str, float]):
         value, variance, terms, sources = 0.0, 0.0, {}, []
         for m, n in stoich.items():
-            key = self.compounds[m].estimate_key
-            fe = self.database.formation_energy(key, self.conditions)
-            value += n * fe.value
+            ce = self.compounds[m]
+            key = ce.estimate_key
+            fe = self.database.formation_energy(key, ce.at or self.conditions)
+            value += n * (fe.value + ce.offset)
             variance += (n * fe.uncertainty) ** 2
-            terms[key] = n
+            terms[key] = terms.get(key, 0.0) + n
             extend_unique(sources, fe.sources)
         return value, variance, terms, sources
 

@@ -222,11 +222,17 @@ def coverage(model: cobra.Model, environment, db=None, literature=None,
     estimate : bool
         Use group-contribution estimates for compounds still without data.
     """
-    table = compound_energies(model, environment, db, literature, estimate=estimate)
-    demand = getattr(environment, "demand_reaction", None)
-    energies = reaction_energies(model, table, demand)
-    name = "" if isinstance(environment, Conditions) else str(getattr(environment, "name", "") or "")
-    report = coverage_from_energies(model, energies, table.conditions, name, table, demand)
+    ions = getattr(environment, "ion_stoichiometry", None)
+    with model:   # the reactions as the environment sets their ion stoichiometry (undone after)
+        if ions:
+            from .compartments import set_ion_stoichiometry
+
+            set_ion_stoichiometry(model, ions, getattr(environment, "source", "") or "environment")
+        table = compound_energies(model, environment, db, literature, estimate=estimate)
+        demand = getattr(environment, "demand_reaction", None)
+        energies = reaction_energies(model, table, demand)
+        name = "" if isinstance(environment, Conditions) else str(getattr(environment, "name", "") or "")
+        report = coverage_from_energies(model, energies, table.conditions, name, table, demand)
     report.sources = network_sources(model)
     return report
 

@@ -79,6 +79,7 @@ from ..thermo.species import Species
 from ..thermo.status import ESTIMATED, combined_value_status
 from .compound_table import CompoundEnergy, CompoundEnergyTable, extend_unique
 from .environment import Environment, apply_environment
+from .compartments import compartment_places, offset_words, standard_state_words
 from .roles import without_activity
 from .thermo_model import ReactionEnergy, ThermoModel
 
@@ -295,25 +296,30 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
     network_audit = [e for e in reconciliation_audit(rec) if e.flagged] if rec is not None else []
     basis = {v.id: v.basis for v in usable}
     table: dict[str, CompoundEnergy] = {}
+    places = compartment_places(model, environment, conditions)
     for met in model.metabolites:
         m = met.id
         smiles = _note(met, "smiles")
+        compartment, at, offset = places.get(m, ("", conditions, 0.0))
         if m in keyed:
-            fe = db.formation_energy(keyed[m], conditions)
-            table[m] = CompoundEnergy(m, "species", fe.value, fe.uncertainty, fe.provenance, keyed[m],
+            fe = db.formation_energy(keyed[m], at)
+            table[m] = CompoundEnergy(m, "species", fe.value + offset, fe.uncertainty,
+                                      fe.provenance + offset_words(compartment, offset), keyed[m],
                                       None, tuple(fe.sources), tuple(fe.flags), True, smiles,
-                                      fe.status, library_audit.flags_for([keyed[m]]))
+                                      fe.status, library_audit.flags_for([keyed[m]]),
+                                      compartment=compartment, at=at, offset=offset)
             continue
         est_key = estimated_key.get(m)
         if rec is not None and m in rec.unknowns:
             identified = rec.compound_identified(m)
-            t_sigma = rec.temperature_sigma({m: 1.0}, conditions.temperature) if identified else math.nan
+            t_sigma = rec.temperature_sigma({m: 1.0}, at.temperature) if identified else math.nan
             sigma = math.hypot(rec.compound_sigma(m), t_sigma) if identified else math.nan
             if m in reconciled_key:
-                fe = ext.formation_energy(reconciled_key[m], conditions)
-                value, flags = fe.value, tuple(fe.flags)
+                fe = ext.formation_energy(reconciled_key[m], at)
+                value, flags = fe.value + offset, tuple(fe.flags)
             else:  # no formula: ΔfG'° independent of pH and I, constant ΔrS'° = 0 approximation
-                value = rec.species_gibbs(m, conditions.temperature) + legendre_offset(rec.species[m], conditions)
+                value = (rec.species_gibbs(m, at.temperature) + legendre_offset(rec.species[m], at)
+                         + offset)
                 flags = (f"{m}: no formula, Legendre transform not applied",)
             ids = rec.value_ids({m: 1.0}) if identified else [v.id for v in rec.values if m in v.stoichiometry]
             status = combined_value_status(basis.get(i, "checked") for i in ids)
@@ -324,14 +330,15 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
                                       est_key, tuple(rec.source_keys({m: 1.0})), flags, identified, smiles,
                                       status, tuple(e.flag_text() for e in network_audit
                                                     if m in e.compounds),
-                                      group_counts.get(m, {}))
+                                      group_counts.get(m, {}), compartment, at, offset)
             continue
         if est_key:
-            fe = ext.formation_energy(est_key, conditions)
-            table[m] = CompoundEnergy(m, "estimated", fe.value, fe.uncertainty,
-                                      f"{m}: group-contribution estimate from SMILES", est_key, est_key,
+            fe = ext.formation_energy(est_key, at)
+            table[m] = CompoundEnergy(m, "estimated", fe.value + offset, fe.uncertainty,
+                                      f"{m}: group-contribution estimate from SMILES"
+                                      + offset_words(compartment, offset), est_key, est_key,
                                       tuple(fe.sources), tuple(fe.flags), True, smiles, ESTIMATED, (),
-                                      group_counts.get(m, {}))
+                                      group_counts.get(m, {}), compartment, at, offset)
             continue
         if smiles:
             why = estimate_errors.get(m) or "estimates were switched off"
@@ -342,7 +349,8 @@ def compound_energies(model: cobra.Model, environment, db: ThermoDatabase | None
             table[m] = CompoundEnergy(m, "none", math.nan, math.nan,
                                       "no species data, no literature value, no SMILES to estimate from",
                                       None, None, (), (), False, smiles)
-    return CompoundEnergyTable(conditions, table, ext, rec, tuple(usable), skipped)
+    return CompoundEnergyTable(conditions, table, ext, rec, tuple(usable), skipped,
+                               dict(getattr(environment, "compartments", None) or {}))
 
 
 # ------------------------------------------------------------------------ reaction energies
@@ -369,19 +377,27 @@ def reaction_energies(model: cobra.Model, table: CompoundEnergyTable,
                 f"reaction '{reaction.id}': energy_source '{source}' is not an id of the literature "
                 "values (reaction_values.tsv); write 'auto' or a value id")
         stoich = {m.id: c for m, c in reaction.metabolites.items()}
-        out[reaction.id] = checked_estimate(table.reaction_energy(reaction.id, stoich, source), table)
+        energy = checked_estimate(table.reaction_energy(reaction.id, stoich, source), table)
+        state = standard_state_words(table, stoich)
+        if state:
+            energy = dataclasses.replace(energy, standard_state=state,
+                                         provenance=f"{energy.provenance}; reference: {state}")
+        out[reaction.id] = energy
     return out
 
 
 def network_reaction_energy(model: cobra.Model, conditions: Conditions, equation: str,
                             activities: Mapping[str, float] | None = None,
                             db: ThermoDatabase | None = None, literature=None,
-                            estimate: bool = True):
+                            estimate: bool = True, compartments: Mapping | None = None):
     """ΔrG'° and ΔrG' of any reaction over a network's compounds, from the network's own data.
 
     The compounds are named by metabolite id, name, synonym or thermo key; their energies are
     those the network uses (:func:`compound_energies`: species data, its own reaction values
     reconciled, estimates), so this answers "what does this network take for this reaction".
+    ``compartments`` (compartment id -> :class:`tfa.conditions.Compartment`, the environment's)
+    put compounds outside the cell at their compartment's pH and potential; the flags state the
+    reference of a reaction across the membrane, or that a compartment has no stated pH.
 
     Returns
     -------
@@ -436,8 +452,12 @@ def network_reaction_energy(model: cobra.Model, conditions: Conditions, equation
                     int(met.charge or 0)) for m, met in mets.items()}
     balance = check_balance(net, formulas)
     require_balanced(balance, text, where=f"network {model.id}")
-    table = compound_energies(model, conditions, db, literature, estimate=estimate)
+    import types
+
+    setting = types.SimpleNamespace(conditions=conditions, compartments=dict(compartments or {}))
+    table = compound_energies(model, setting, db, literature, estimate=estimate)
     energy = checked_estimate(table.reaction_energy("equation", net), table)
+    state = standard_state_words(table, net)
     if not math.isfinite(energy.standard):
         raise MissingDataError(f"network {model.id} does not fix the energy of {text}: "
                                f"{energy.provenance}")
@@ -461,6 +481,17 @@ def network_reaction_energy(model: cobra.Model, conditions: Conditions, equation
     defaulted = [m for m in used if m not in given]
     if defaulted:
         flags.append("activity 1 (standard state) used for " + ", ".join(defaulted))
+    if state:
+        flags.append(f"reference of the standard energy: {state}")
+    from .compartments import cell_compartment
+
+    cell = cell_compartment(model)
+    unstated = sorted({mets[m].compartment for m in net if mets[m].compartment
+                       and mets[m].compartment != cell} - set(setting.compartments))
+    if unstated:
+        flags.append(f"compartment(s) {', '.join(unstated)} have no stated pH: taken at the "
+                     f"cell's pH {conditions.ph:g} with membrane potential 0 (give the network's "
+                     "environment with [compartments.ID])")
     sources: list[str] = []
     for m in net:
         extend_unique(sources, table.compounds[m].sources)
@@ -517,9 +548,39 @@ def _thermo_model(model: cobra.Model, environment: Environment, mode: str, db: T
                      log_bounds=applied.log_bounds, no_activity=set(applied.no_activity), mode=mode,
                      environment_name=environment.name, demand_id=applied.demand_id,
                      feed_ids=applied.feed_ids)
+    tm.log_rows, tm.pools = _cofactor_constraints(model, environment, table)
     tm.compound_table = table
     tm.all_energies = energies
     return tm
+
+
+def _cofactor_constraints(model: cobra.Model, environment: Environment, table) -> tuple[list, list]:
+    """The environment's carrier states on this network's metabolite ids (none when it has no
+    ``[cofactors]``; a form the mode removed is left out)."""
+    from .cofactors import PHOSPHORYLATION, resolved_constraints
+
+    states = environment.cofactors
+    if states is None:
+        return [], []
+
+    def resolve(key: str) -> str | None:
+        try:
+            met = environment.resolve(model, key)
+        except InputError:
+            return None
+        return met.id if met.reactions else None
+
+    def phosphorylation():
+        ids = {key: resolve(key) for key in PHOSPHORYLATION}
+        if any(v is None for v in ids.values()) or any(v not in table.compounds for v in ids.values()):
+            return None
+        energy = table.reaction_energy("phosphorylation potential",
+                                       {ids[k]: n for k, n in PHOSPHORYLATION.items()})
+        if not math.isfinite(energy.standard):
+            return None
+        return energy.standard, table.conditions.RT, (ids["ATP"], ids["ADP"], ids["phosphate"])
+
+    return resolved_constraints(states, resolve, phosphorylation)
 
 
 @contextlib.contextmanager
@@ -540,6 +601,11 @@ def prepared(model: cobra.Model, environment: Environment, mode: str = "native",
         literature = _default_literature(model, db)
     with model:
         with apply_mode(model, mode):
+            ions = getattr(environment, "ion_stoichiometry", None)
+            if ions:
+                from .compartments import set_ion_stoichiometry
+
+                set_ion_stoichiometry(model, ions, environment.source or environment.name)
             yield _thermo_model(model, environment, mode, db, literature)
 
 

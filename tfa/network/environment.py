@@ -22,6 +22,8 @@ File format (units: degC at the interface, mol/L for solutes, bar for gases)::
     flux = 0.01                   # > 0, in the network's flux unit
     [outlets]
     allowed = ["ac", "for"]
+    [compartments.out]            # optional: see tfa.network.compartments; also
+    pH = 5.5                      # [ion_stoichiometry] (reaction id = ions per turnover)
 
 Without a demand the zero-flux state meets every question, so a file must name one; to ask
 explicitly whether the network can run at all with nothing required, write ``[demand]`` with
@@ -51,8 +53,12 @@ import cobra
 from ..conditions import Conditions
 from ..errors import ConditionsError, InputError, NetworkFileError
 from ..util.files import read_input_text
-from ..util.numbers import MAX_FLUX, read_activity, read_number
+
 from .checks import is_boundary_reaction
+from .cofactors import CofactorStates
+from .environment_fields import _demand, _pair, _positive, _real, _unknown
+from .fluid import fluid_activities, ionic_strength_warning, read_fluid
+from .mixing_line import MixingLine, read_mixing
 from .locations import located, toml_line, with_toml_line
 from .roles import without_activity
 
@@ -71,6 +77,12 @@ SECTIONS: dict[str, tuple[str, ...] | None] = {
     "bounds": None,
     "demand": ("reaction", "flux", "none"),
     "outlets": ("allowed",),
+    "compartments": None,          # [compartments.ID] pH, ionic_strength_M, pMg, membrane_potential_mV
+    "ion_stoichiometry": None,     # reaction id -> ions moved across the membrane per turnover
+    "cofactors": None,   # checked by tfa.network.cofactors
+    "fluid": None,       # checked by tfa.network.fluid
+    "mixing": None,      # checked by tfa.network.mixing_line
+    "scenario": None,   # ranges of the assumptions (tfa.network.scenario)
 }
 REQUIRED_CONDITIONS = ("temperature_C", "pH", "ionic_strength_M")
 #: Default concentration bounds, mol/L, when a file gives none (common practice in
@@ -104,10 +116,30 @@ class Environment:
         The file read, or empty.
     no_demand : bool
         True when the file asks explicitly for no demand (``[demand] none = true``).
+    scenario : dict
+        Assumption key -> :class:`tfa.network.scenario.Assumption`: the ranges of the setting's
+        assumptions that robustness may draw (``[scenario]``).
     network_exchanges : bool
         Keep the flux bounds the network file gives its boundary reactions (every exchange open
         within them; the neutral default of :mod:`tfa.network.default_environment`) instead of
         opening only fed compounds, water, H+ and outlets.
+    compartments : dict
+        Compartment id -> :class:`~tfa.conditions.Compartment` (pH, ionic strength, pMg,
+        membrane potential Δψ = ψ(cell) − ψ(compartment), mV) of every compartment besides the
+        cell; the cell is described by ``conditions``.
+    ion_stoichiometry : dict
+        Reaction id -> ions it moves across the membrane per turnover
+        (:func:`tfa.network.compartments.set_ion_stoichiometry`).
+    cofactors : CofactorStates or None
+        The carrier states of the ``[cofactors]`` section (:mod:`tfa.network.cofactors`): per-form
+        bounds, pool totals, ratio bounds, a phosphorylation-potential floor. None: none (the
+        loose behaviour, :meth:`with_loose_cofactors`).
+    fluid : dict
+        Totals of the ``[fluid]`` section (:mod:`tfa.network.fluid`): total name
+        (``dissolved_inorganic_carbon``, ``total_sulfide``, ``total_ammonia``) -> mol/L, speciated
+        at the conditions into the fixed activities of the compounds they name.
+    mixing : MixingLine or None
+        The two fluids of ``[mixing]`` (:mod:`tfa.network.mixing_line`), for a mixing-line map.
     """
 
     name: str
@@ -122,6 +154,12 @@ class Environment:
     source: str = ""
     no_demand: bool = False
     network_exchanges: bool = False
+    compartments: dict = field(default_factory=dict)
+    ion_stoichiometry: dict = field(default_factory=dict)
+    cofactors: CofactorStates | None = None
+    fluid: dict[str, float] = field(default_factory=dict)
+    mixing: MixingLine | None = None
+    scenario: dict = field(default_factory=dict)
 
     # ---------------------------------------------------------------- reading
 
@@ -203,6 +241,20 @@ class Environment:
                                        "give it in one section only")
 
         demand_reaction, demand_flux, no_demand = _demand(where, data.get("demand"))
+        fluid = read_fluid(data.get("fluid", {}), where, _positive)
+        message = ionic_strength_warning(fluid, conditions)
+        if message:
+            from .fluid import FluidWarning
+            import warnings
+            warnings.warn(f"{where} [conditions]: {message}", FluidWarning, stacklevel=2)
+        mixing = read_mixing(data["mixing"], where, _real, _positive) if "mixing" in data else None
+        cofactors = None
+        if "cofactors" in data:
+            cofactors = CofactorStates.from_dict(data["cofactors"], where, _pair, _positive, _real)
+            for key in cofactors.bounds:
+                if key in feed:
+                    raise NetworkFileError(f"{where} [cofactors.bounds] {key}: '{key}' is also fed "
+                                           "(fixed) in [feed]; give it in one section only")
 
         outlets = data.get("outlets", {}).get("allowed", [])
         if not isinstance(outlets, list) or not all(isinstance(x, str) and x for x in outlets):
@@ -210,10 +262,20 @@ class Environment:
         overlap = sorted(set(outlets) & set(feed))
         if overlap:
             logger.info("%s: %s both fed and allowed as outlets", where, ", ".join(overlap))
+        from .compartments import read_compartments
+        compartments, ions = read_compartments(where, data, _real)
+        from .scenario import parse_scenario
+
+        scenario = parse_scenario(data.get("scenario"), where)
+        missing = [k.split(".", 1)[1] for k in scenario if "." in k and k.split(".", 1)[1] not in feed]
+        if missing:
+            raise NetworkFileError(f"{where} [scenario]: {', '.join(missing)} is not fed in [feed]; a "
+                                   "scenario changes the activity of a fed compound only")
         return cls(name=name.strip(), conditions=conditions, feed=feed, default_bounds=default_bounds,
                    bounds=bounds, demand_reaction=demand_reaction, demand_flux=demand_flux,
                    outlets=tuple(outlets), description=description, source=source,
-                   no_demand=no_demand)
+                   no_demand=no_demand, compartments=compartments, ion_stoichiometry=ions,
+                   cofactors=cofactors, fluid=fluid, mixing=mixing, scenario=scenario)
 
     # ---------------------------------------------------------------- copies for scans
 
@@ -247,6 +309,11 @@ class Environment:
         for key, value in {**(changes or {}), **more}.items():
             feed[key] = _positive("with_feed", "feed", key, value)
         return replace(self, feed=feed)
+
+    def with_loose_cofactors(self) -> "Environment":
+        """A copy without the ``[cofactors]`` section: every carrier form only within ``[bounds]``
+        (no pool total, ratio or phosphorylation floor), the earlier behaviour."""
+        return replace(self, cofactors=None)
 
     def without_feed(self, *keys: str) -> "Environment":
         """A copy in which the given compounds are not fed (e.g. ``without_feed("H2")``)."""
@@ -303,25 +370,48 @@ class Environment:
         NetworkFileError
         """
         where = self.source or self.name
-        for section, keys in (("feed", self.feed), ("bounds", self.bounds),
-                              ("outlets", self.outlets)):
-            for key in keys:
+        cofactor_keys = self.cofactors.keys() if self.cofactors is not None else []
+        for section, keys in (("feed", [(None, k) for k in self.feed]),
+                              ("bounds", [(None, k) for k in self.bounds]),
+                              ("outlets", [(None, k) for k in self.outlets]),
+                              ("cofactors", cofactor_keys)):
+            for table, key in keys:
                 try:
                     self.resolve(model, key)
                 except NetworkFileError as exc:
-                    located_message = self._at(section, key, str(exc))
+                    name = table or section
+                    located_message = self._at(name, key, str(exc))
                     if located_message == str(exc):      # no line known: name the section
-                        located_message = str(exc).replace(f"{where}: ", f"{where} [{section}]: ", 1)
+                        located_message = str(exc).replace(f"{where}: ", f"{where} [{name}]: ", 1)
                     raise NetworkFileError(located_message) from None
+        self.feed_metabolites(model)   # a [fluid] total that names nothing, or a compound fed twice
         if self.demand_reaction is not None and self.demand_reaction not in model.reactions:
             close = difflib.get_close_matches(self.demand_reaction, [r.id for r in model.reactions], n=3)
             hint = f"did you mean {', '.join(repr(c) for c in close)}?" if close else "add it to the network"
             raise NetworkFileError(self._at("demand", "reaction", f"{where}: '{self.demand_reaction}' "
                                             f"is not a reaction of network {model.id}; {hint}"))
 
+    def fluid_feed(self, model: cobra.Model) -> dict[str, tuple[str, float]]:
+        """Metabolite id -> (thermo key, activity mol/L) of the compounds the ``[fluid]`` totals
+        fix, speciated at this environment's conditions (:mod:`tfa.network.fluid`)."""
+        if not self.fluid:
+            return {}
+
+        def resolve(key: str) -> str | None:
+            exact = [m for m in model.metabolites if (m.notes or {}).get("thermo_key") == key]
+            return exact[0].id if len(exact) == 1 else None
+
+        try:
+            return fluid_activities(self.fluid, self.conditions, resolve)
+        except NetworkFileError as exc:
+            raise NetworkFileError(f"{self.source or self.name} {exc}") from None
+
     def feed_metabolites(self, model: cobra.Model) -> dict[str, float]:
-        """Metabolite id -> fixed activity for every fed compound."""
+        """Metabolite id -> fixed activity for every fed compound (``[feed]`` and the compounds
+        the ``[fluid]`` totals fix)."""
         fed: dict[str, float] = {}
+        for met_id, (key, value) in self.fluid_feed(model).items():
+            fed[met_id] = value
         for key, value in self.feed.items():
             try:
                 met = self.resolve(model, key)
@@ -329,7 +419,8 @@ class Environment:
                 raise NetworkFileError(self._at("feed", key, str(exc))) from exc
             if met.id in fed:
                 raise NetworkFileError(self._at("feed", key, f"{self.source or self.name}: '{key}' and "
-                                                f"another key both name compound {met.id}; keep one"))
+                                                f"another key (or a [fluid] total) both name compound "
+                                                f"{met.id}; keep one"))
             fed[met.id] = value
         return fed
 
@@ -355,7 +446,10 @@ class Environment:
         if no_activity is None:
             no_activity = without_activity(model)
         own: dict[str, tuple[float, float]] = {}
-        for key, pair in self.bounds.items():
+        given = dict(self.bounds)
+        if self.cofactors is not None:
+            given.update(self.cofactors.bounds)
+        for key, pair in given.items():
             try:
                 own[self.resolve(model, key).id] = pair
             except NetworkFileError:
@@ -460,8 +554,13 @@ class Environment:
 
     def describe(self) -> str:
         """One line for reports."""
+        from .compartments import describe_compartments
         feed = ", ".join(f"{k} {v:g}" for k, v in self.feed.items())
-        return f"{self.name}: {self.conditions.describe()}; feed {feed or 'none'}"
+        names = {"dissolved_inorganic_carbon": "DIC", "total_sulfide": "total sulfide",
+                 "total_ammonia": "total ammonia"}
+        fluid = "".join(f"; {names[k]} {v:g} mol/L" for k, v in self.fluid.items())
+        return (f"{self.name}: {self.conditions.describe()}{describe_compartments(self, '; ')}; "
+                f"feed {feed or 'none'}{fluid}")
 
 
 @dataclass(frozen=True)
@@ -508,76 +607,11 @@ def apply_environment(model: cobra.Model, environment: Environment,
     concentration = environment.metabolite_bounds(model, no_activity)
     bounds = {m: (math.log(lo), math.log(hi)) for m, (lo, hi) in concentration.items()}
     feed_ids = {str(key): environment.resolve(model, key).id for key in environment.feed}
+    feed_ids.update({key: met_id for met_id, (key, _) in environment.fluid_feed(model).items()})
     environment.apply_exchange_bounds(model, no_activity)
     return AppliedEnvironment(bounds, feed_ids, environment.demand_reaction, frozenset(no_activity))
 
 
-def _unknown(where: str, what: str, key: str, allowed: list[str]) -> str:
-    same_case = [a for a in allowed if a.lower() == key.lower()]
-    close = same_case or difflib.get_close_matches(key, allowed, n=1)
-    hint = f"did you mean '{close[0]}'? " if close else ""
-    return f"{where}: unknown {what}; {hint}allowed: {', '.join(allowed)}"
-
-
-def _real(where: str, section: str, key: str, value: Any, **bounds: float) -> float:
-    if isinstance(value, str):  # a number in quotes is text in TOML
-        raise NetworkFileError(f"{where} [{section}] {key}: {value!r} is not a number; write e.g. "
-                               f"{key} = 1.0")
-    try:
-        return float(read_number(value, f"[{section}] {key}", where, **bounds))
-    except InputError as exc:
-        raise NetworkFileError(str(exc)) from None
-
-
-def _positive(where: str, section: str, key: str, value: Any) -> float:
-    if isinstance(value, (int, float)) and not isinstance(value, bool) and value <= 0:
-        raise NetworkFileError(
-            f"{where} [{section}] {key}: {value!r} is not a concentration; give a value > 0 "
-            "(mol/L; gases bar), or remove the entry"
-        )
-    if isinstance(value, str):
-        _real(where, section, key, value)
-    try:
-        return read_activity(value, f"[{section}] {key}", where)
-    except InputError as exc:
-        raise NetworkFileError(str(exc)) from None
-
-
-def _demand(where: str, section: Any) -> tuple[str | None, float, bool]:
-    """(reaction, flux, no demand) of the ``[demand]`` section, which must be there."""
-    if section is None:
-        raise NetworkFileError(
-            f"{where}: no [demand] section; name what the network must make, e.g. [demand] "
-            "reaction = \"DM_precursors\" and flux = 0.01 (without a demand the zero-flux state "
-            "meets every question), or write [demand] none = true to ask whether it can run at all")
-    if "none" in section:
-        if section["none"] is not True or set(section) != {"none"}:
-            raise NetworkFileError(f"{where} [demand]: none = true stands alone (no reaction, no "
-                                   "flux); or remove it and name the demand reaction and flux")
-        return None, 0.0, True
-    reaction = section.get("reaction")
-    if not isinstance(reaction, str) or not reaction.strip():
-        raise NetworkFileError(f"{where} [demand] reaction: give a reaction id as text, e.g. "
-                               "reaction = \"DM_precursors\"")
-    if "flux" not in section:
-        raise NetworkFileError(f"{where} [demand] flux: missing; give the least flux of "
-                               f"{reaction} (> 0, in the network's flux unit), e.g. flux = 0.01")
-    flux = _real(where, "demand", "flux", section["flux"], maximum=MAX_FLUX)
-    if flux <= 0:
-        raise NetworkFileError(f"{where} [demand] flux: {flux:g} must be > 0 (a demand of 0 is met "
-                               "by the zero-flux state); or write [demand] none = true")
-    return reaction.strip(), flux, False
-
-
-def _pair(where: str, key: str, value: Any) -> tuple[float, float]:
-    if not isinstance(value, list) or len(value) != 2:
-        raise NetworkFileError(f"{where} [bounds] {key}: give two numbers [lower, upper] in mol/L, e.g. "
-                               f"{key} = [1.0e-6, 1.0e-2]")
-    lower = _positive(where, "bounds", key, value[0])
-    upper = _positive(where, "bounds", key, value[1])
-    if lower > upper:
-        raise NetworkFileError(f"{where} [bounds] {key}: lower {lower:g} is above upper {upper:g}; swap them")
-    return lower, upper
 
 
 def bundled_environment() -> Environment:

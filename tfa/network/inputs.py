@@ -12,6 +12,7 @@ network is completed once on reading (:func:`tfa.network.completion.complete_net
 
 from __future__ import annotations
 
+import logging
 import warnings
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -29,6 +30,8 @@ from .environment import Environment
 from .io_sbml import TABLE_SUFFIXES
 from .io_sbml import load_network as read_any
 from .io_table import reaction_values_beside
+
+logger = logging.getLogger(__name__)
 
 #: File name of a network's own table of data sources, beside its reactions table.
 SOURCES_FILES = (("sources.tsv", "\t"), ("sources.csv", ","))
@@ -185,10 +188,19 @@ def _resolve(network: Any = None, environment: Any = None,
     if demand is not None and env.demand_reaction != demand:
         env = with_demand(env, model, demand)
     changes = condition_overrides(conditions)
+    if "ph" in changes:   # the gradient's outer protons move with the pH (dpH kept)
+        from .mixing_line import environment_with_ph
+        env = environment_with_ph(env, model, changes.pop("ph"))
     if changes:
         env = env.with_conditions(**changes)
-    return Inputs(model, env, network_source, env_source, literature, folder,
-                  completion=completion)
+    inputs = Inputs(model, env, network_source, env_source, literature, folder,
+                    completion=completion)
+    from .compartments import compartment_warnings
+
+    for text in compartment_warnings(model, env):   # a compartment without a stated pH: say so
+        logger.warning("%s", text)
+        inputs.warnings.append(text)
+    return inputs
 
 
 def _complete(model: cobra.Model, network: Any, identifiers: str | Path | None, h2: str | None):

@@ -8,14 +8,16 @@ Files
 
 ``compounds.tsv`` columns::
 
-    id  name  synonyms  formula  charge  thermo_key  conc_min  conc_max  role  smiles  notes
+    id  name  synonyms  formula  charge  thermo_key  conc_min  conc_max  role  smiles  compartment  notes
 
 Tab-separated for ``.tsv``/``.tab``/``.txt``, comma-separated for ``.csv``. Lines whose first
 non-blank character is ``#`` are comments; blank lines are skipped; line numbers in messages are
 those of the file. Equations use the grammar of :mod:`tfa.equation` (``<=>`` reversible, ``->``
 irreversible, one empty side for boundary reactions), over compound ids.
 
-Where each column goes in the :class:`cobra.Model` (single compartment ``c``):
+Where each column goes in the :class:`cobra.Model` (compartment ``c``, the cell, unless the
+optional ``compartment`` column names another: e.g. ``out`` for the fluid outside the cell,
+whose pH and membrane potential the environment gives):
 
 - compound: ``id``, ``name``, ``formula`` (without a charge suffix), ``charge``; ``notes`` keys
   ``synonyms``, ``thermo_key``, ``conc_min``, ``conc_max``, ``role``, ``smiles``, ``notes``
@@ -53,7 +55,7 @@ logger = logging.getLogger(__name__)
 REACTION_COLUMNS = ("id", "equation", "name", "ec", "pathway", "energy_source", "lower_bound",
                     "upper_bound", "notes")
 COMPOUND_COLUMNS = ("id", "name", "synonyms", "formula", "charge", "thermo_key", "conc_min",
-                    "conc_max", "role", "smiles", "notes")
+                    "conc_max", "role", "smiles", "compartment", "notes")
 REQUIRED_REACTION_COLUMNS = ("id", "equation")
 REQUIRED_COMPOUND_COLUMNS = ("id", "formula", "charge")
 #: Compound notes kept from the compounds table, in column order.
@@ -243,8 +245,14 @@ def read_compounds(path: str | Path) -> list[cobra.Metabolite]:
             parse_role(cells.get("role", ""), where=f"{where}, column 'role'")
         except InputError as exc:
             raise NetworkFileError(str(exc)) from exc
+        compartment = cells.get("compartment", "") or COMPARTMENT
+        if not _ID_RE.match(compartment):
+            raise NetworkFileError(
+                f"{where}, column 'compartment': '{compartment}' is not a compartment id; use "
+                f"letters, digits and '_' (e.g. 'c' for the cell, 'out' for the outer fluid) or "
+                "leave it empty for the cell")
         met = cobra.Metabolite(cid, formula=plain_formula, name=cells.get("name", "") or cid,
-                               charge=int(charge_value), compartment=COMPARTMENT)
+                               charge=int(charge_value), compartment=compartment)
         notes = {key: cells[key] for key in COMPOUND_NOTE_KEYS if cells.get(key)}
         notes.update({k: v for k, v in cells.items() if k not in COMPOUND_COLUMNS and v})
         met.notes = notes
@@ -395,7 +403,8 @@ def read_network(reactions_path: str | Path, compounds_path: str | Path | None =
     if not reactions:
         raise NetworkFileError(f"{reactions_path}: no reactions; give one row per reaction")
     model = cobra.Model(model_id or _safe_id(reactions_path.resolve().parent.name or "network"))
-    model.compartments = {COMPARTMENT: "cell"}
+    model.compartments = {COMPARTMENT: "cell", **{m.compartment: m.compartment for m in metabolites
+                                                   if m.compartment != COMPARTMENT}}
     model.add_metabolites(metabolites)
     model.add_reactions(reactions)
     model.notes["reactions_path"] = str(reactions_path)   # where errors found later point to
@@ -462,9 +471,8 @@ def write_network(model: cobra.Model, folder: str | Path, fmt: str = "tsv") -> t
         raise InputError(f"table format '{fmt}' is not known; use 'tsv' or 'csv'")
     folder = Path(folder)
     delimiter = "\t" if fmt == "tsv" else ","
-    compartments = {m.compartment for m in model.metabolites}
-    if len(compartments) > 1:
-        logger.warning("model %s has compartments %s; the table keeps ids only", model.id, sorted(compartments))
+    cell = next((c for c in ("c",) if any(m.compartment == c for m in model.metabolites)),
+                None)
 
     extra_met = _extra_keys((m.notes for m in model.metabolites), COMPOUND_COLUMNS)
     met_rows = [list(COMPOUND_COLUMNS) + extra_met]
@@ -474,6 +482,7 @@ def write_network(model: cobra.Model, folder: str | Path, fmt: str = "tsv") -> t
                "formula": met.formula or "", "charge": "" if met.charge is None else _format_bound(float(met.charge))}
         for key in COMPOUND_NOTE_KEYS:
             row[key] = notes.get(key, "")
+        row["compartment"] = "" if met.compartment in (None, "", cell) else met.compartment
         for key in extra_met:
             row[key] = notes.get(key, "")
         met_rows.append([_clean_cell(row.get(c, "")) for c in met_rows[0]])

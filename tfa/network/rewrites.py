@@ -289,6 +289,63 @@ def hydrolysis_amounts(atp: float, adp: float, amp: float, ppi: float) -> dict[s
     return {k: float(v) + 0.0 for k, v in solution(best).items()}
 
 
+def hydrolysis_words(amounts: dict[str, float]) -> str:
+    """The hydrolyses subtracted from a reaction, in words ("minus 1 x (ATP -> ADP + Pi)")."""
+    return ", ".join(f"{'minus' if x > 0 else 'plus'} {abs(x):g} x ({_HYDROLYSIS_TEXT[k]})"
+                     for k, x in amounts.items() if abs(x) > _TOL)
+
+
+def bare_stoichiometry(reaction: cobra.Reaction, nucleotides: dict[str, cobra.Metabolite],
+                       water: cobra.Metabolite | None, phosphate: cobra.Metabolite | None,
+                       proton: cobra.Metabolite | None
+                       ) -> tuple[dict[cobra.Metabolite, float], dict[str, float]] | None:
+    """The bare chemistry of one reaction: its terms minus x1 H1 + x2 H2 + x3 H3 + x4 H4 (see the
+    module text and :func:`hydrolysis_amounts`), with H+ set so the implicit protons stay those of
+    the original reaction [1]; and the amounts x. None when the reaction makes or uses up the
+    adenine moiety (it has no bare chemistry).
+
+    ``nucleotides`` maps roles (``atp``, ``adp``, ``amp``, ``pyrophosphate``) to the compounds
+    that are stripped; the sum of the amounts is the number of phosphoanhydride bonds the
+    reaction spends (negative: it makes them).
+
+    Raises
+    ------
+    InputError
+        When a needed water or phosphate compound is missing.
+    """
+    stoich = reaction.metabolites
+    role_of = {met: role for role, met in nucleotides.items()}
+    a = {role: stoich.get(met, 0.0) for role, met in nucleotides.items()}
+    try:
+        amounts = hydrolysis_amounts(a.get("atp", 0.0), a.get("adp", 0.0), a.get("amp", 0.0),
+                                     a.get("pyrophosphate", 0.0))
+    except InputError:
+        return None
+    for role, met in (("water", water), ("phosphate", phosphate)):
+        if met is None:
+            raise InputError(
+                f"reaction '{reaction.id}': stripping ATP coupling needs a compound with role "
+                f"'{role}'; add it to the compounds table"
+            )
+    new = {m: c for m, c in stoich.items() if m not in role_of}
+    for name, x in amounts.items():
+        if abs(x) <= _TOL:
+            continue
+        for role, coefficient in _HYDROLYSES[name].items():
+            if role in ("water", "phosphate"):
+                met = water if role == "water" else phosphate
+                new[met] = new.get(met, 0.0) - x * coefficient
+    new = {m: round(c, 12) for m, c in new.items() if abs(c) > _TOL}
+    if proton is not None:
+        before = _implicit_protons(stoich)
+        after = _implicit_protons(new) if new else 0.0
+        change = after - before
+        if abs(change) > _TOL:
+            new[proton] = round(new.get(proton, 0.0) + change, 12)
+            new = {m: c for m, c in new.items() if abs(c) > _TOL}
+    return new, amounts
+
+
 @contextlib.contextmanager
 def no_atp_bare_chemistry(model: cobra.Model) -> Iterator[RewriteSummary]:
     """Strip ATP, ADP and pyrophosphate coupling: each reaction becomes its bare chemistry.
@@ -331,39 +388,14 @@ def no_atp_bare_chemistry(model: cobra.Model) -> Iterator[RewriteSummary]:
             stoich = reaction.metabolites
             if is_boundary(reaction) or not any(m in role_of for m in stoich):
                 continue
-            a = {role: stoich.get(met, 0.0) for role, met in nucleotides.items()}
-            try:
-                amounts = hydrolysis_amounts(a.get("atp", 0.0), a.get("adp", 0.0), a.get("amp", 0.0),
-                                             a.get("pyrophosphate", 0.0))
-            except InputError:
+            bare = bare_stoichiometry(reaction, nucleotides, water, phosphate, proton)
+            if bare is None:
                 remove.append(reaction)
                 note_rewrite(context, reaction, "no_atp_bare: removed, it makes or uses up adenine nucleotides",
                       summary)
                 continue
-            for role, met in (("water", water), ("phosphate", phosphate)):
-                if met is None:
-                    raise InputError(
-                        f"reaction '{reaction.id}': stripping ATP coupling needs a compound with role "
-                        f"'{role}'; add it to the compounds table"
-                    )
-            new = {m: c for m, c in stoich.items() if m not in role_of}
-            for name, x in amounts.items():
-                if abs(x) <= _TOL:
-                    continue
-                for role, coefficient in _HYDROLYSES[name].items():
-                    if role in ("water", "phosphate"):
-                        met = water if role == "water" else phosphate
-                        new[met] = new.get(met, 0.0) - x * coefficient
-            new = {m: round(c, 12) for m, c in new.items() if abs(c) > _TOL}
-            used = ", ".join(f"{'minus' if x > 0 else 'plus'} {abs(x):g} x ({_HYDROLYSIS_TEXT[k]})"
-                             for k, x in amounts.items() if abs(x) > _TOL)
-            if proton is not None:
-                before = _implicit_protons(stoich)
-                after = _implicit_protons(new) if new else 0.0
-                change = after - before
-                if abs(change) > _TOL:
-                    new[proton] = round(new.get(proton, 0.0) + change, 12)
-                    new = {m: c for m, c in new.items() if abs(c) > _TOL}
+            new, amounts = bare
+            used = hydrolysis_words(amounts)
             if _is_empty(new, inert):
                 remove.append(reaction)
                 note_rewrite(context, reaction, f"no_atp_bare: removed, a nucleotide interconversion ({used} "
@@ -396,12 +428,32 @@ def native(model: cobra.Model) -> Iterator[RewriteSummary]:
         yield summary
 
 
+def _currency(currency_id: str):
+    """The context manager of the rewrite ``currency_<currency_id>`` (imported when used)."""
+    def manager(model: cobra.Model):
+        from .currency_rewrites import currency_substitution
+
+        return currency_substitution(model, currency_id)
+    return manager
+
+
+def _coupling_choices(model: cobra.Model):
+    from .currency_rewrites import coupling_choices
+
+    return coupling_choices(model)
+
+
 #: The context manager of each rewrite named in :data:`tfa.modes.REWRITES`.
 REWRITE_MANAGERS = {
     "cofactors_internal": native,
     "carriers_to_h2": h2_only,
     "atp_removed": no_atp_strict,
     "atp_to_bare_chemistry": no_atp_bare_chemistry,
+    "currency_acetyl_phosphate": _currency("acetyl_phosphate"),
+    "currency_thioester": _currency("thioester"),
+    "currency_pyrophosphate": _currency("pyrophosphate"),
+    "currency_polyphosphate": _currency("polyphosphate"),
+    "atp_coupling_optional": _coupling_choices,
 }
 
 

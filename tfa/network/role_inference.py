@@ -208,7 +208,17 @@ def missing_needs(model: cobra.Model, needs: tuple[str, ...]) -> list[str]:
     have = {r for r in roles if isinstance(r, str)}
     if any(isinstance(r, CarrierRole) for r in roles):
         have.add("carriers")
-    return [n for n in needs if n not in have]
+    missing = []
+    for n in needs:
+        if n.startswith("currency:"):
+            from .currency_rewrites import missing_currency
+
+            lack = missing_currency(model, n.split(":", 1)[1])
+            if lack:
+                missing.append(lack)
+        elif n not in have:
+            missing.append(n)
+    return missing
 
 
 def not_applicable_reason(missing: list[str]) -> str:

@@ -56,6 +56,10 @@ class ReactionEnergy:
     compound_terms: dict[str, float] = field(default_factory=dict)
     status: str = ""
     audit_flags: tuple[str, ...] = ()
+    #: What ``standard`` refers to when the reaction crosses a membrane: each compound at its
+    #: compartment's pH and electric potential (stated; "" for a reaction within the cell, whose
+    #: reference is the usual one: 1 mol/L, gases 1 bar, at the environment's pH).
+    standard_state: str = ""
 
     def __post_init__(self) -> None:
         if self.source not in ENERGY_SOURCES:
@@ -95,6 +99,11 @@ class ThermoModel:
     all_energies : dict[str, ReactionEnergy]
         Every internal reaction's energy record, including those without a value (source
         "placeholder" or "none", standard NaN), for reports.
+    log_rows : list of LogLinearBound
+        Linear bounds on sums of ln c (carrier ratios, the phosphorylation-potential floor) of the
+        environment's ``[cofactors]`` (:mod:`tfa.network.cofactors`).
+    pools : list of PoolTotal
+        Carrier pool totals (sum of the forms' concentrations below a total, mol/L).
     """
 
     model: cobra.Model
@@ -108,6 +117,8 @@ class ThermoModel:
     feed_ids: dict[str, str] = field(default_factory=dict)
     compound_table: object | None = None
     all_energies: dict[str, ReactionEnergy] = field(default_factory=dict)
+    log_rows: list = field(default_factory=list)
+    pools: list = field(default_factory=list)
 
     @property
     def RT(self) -> float:  # noqa: N802

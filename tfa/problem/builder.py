@@ -6,8 +6,10 @@ Schellenberger, Lewis & Palsson 2011, Biophys. J. 100:544). Units: kJ/mol, ln(mo
 
 - x_i = ln c_i for every compound with an activity term, within its log bounds (fed compounds
   have lower == upper);
-- g_j = Delta_r G'deg_j + eps_j + RT sum_i S_ij x_i for every internal reaction with an energy,
-  |eps_j| <= k sigma_j (an explicit variable per reaction, bounded by its interval bounds);
+- g_j = Delta_r G'deg_j + eps_j + RT sum_i S_ij x_i for every internal reaction with an energy;
+  the slack lives in compound space, eps = A z with ||z||_1 <= k (A the factor of the energies
+  over their named sources, :mod:`tfa.network.compound_space`), so it moves formation energies,
+  never one reaction alone;
 - binaries f_j, b_j: v_fwd_j <= U_j f_j, v_rev_j <= L_j b_j, f_j + b_j <= 1;
 - g_j <= -delta + M_f,j (1 - f_j) and -g_j <= -delta + M_b,j (1 - b_j), M from interval bounds
   (:mod:`tfa.problem.bigm`), never a blanket constant;
@@ -32,6 +34,7 @@ from ..errors import InputError, MissingDataError
 from ..network.thermo_model import ThermoModel
 from ..verify.certificate import CertificateInput
 from .bigm import direction_big_m, energy_intervals
+from .concentration_rows import concentration_rows
 from .bulk import remove_rows_and_columns, set_rows
 from .flux_ranges import flux_caps, steady_state_flux_ranges
 from .scaling import flux_scale, scaled_bounds
@@ -162,7 +165,7 @@ class ThermoProblem(PointSearch):
             hi.append(max(a, b))
         self.envelope_lower = np.array(lo, float)
         self.envelope_upper = np.array(hi, float)
-        self.slack_width = opts.uncertainty_k * self.sigma
+        self._compound_slack(tm, opts)
         self.g_lower, self.g_upper = energy_intervals(
             self.standard, self.slack_width, *self.thermo, self.envelope_lower,
             self.envelope_upper, tm.RT)
@@ -176,6 +179,35 @@ class ThermoProblem(PointSearch):
         #: Energy scale of the certificate's tolerance: the largest |Delta_r G'| in the box, kJ/mol.
         self.energy_scale = max(1.0, reach)
 
+    def _compound_slack(self, tm: ThermoModel, opts: ProblemOptions) -> None:
+        """The uncertainty slack in compound space: eps = A z with ‖z‖₁ <= k.
+
+        A = [N F | R] is the factor of the reaction energies over their named sources
+        (:func:`tfa.network.compound_space.energy_covariance`), z the sources' deviations in units
+        of their σ. Every allowed eps is a change of the compounds' formation energies (and of
+        values that stand alone), so the slack can never make a set of reactions with zero net
+        stoichiometry (a loop) all downhill: Σ eps over the loop is 0 like Σ ΔrG'°. The L1 ball
+        keeps the problem a MILP; a single source can move by k σ, and eps_j stays within
+        k·max_s |A_js| (the half-width used for the big-M bounds).
+        """
+        self.slack_factor = np.zeros((len(self.energy_ids), 0))
+        self.slack_names: list[str] = []
+        self.slack_labels: list[str] = []
+        if opts.uncertainty_k <= 0 or not self.energy_ids:
+            self.slack_width = np.zeros(len(self.energy_ids))
+            return
+        from ..network.compound_space import energy_covariance
+
+        cov = energy_covariance(tm, reaction_ids=self.energy_ids)
+        factor = cov.factor
+        keep = np.flatnonzero(np.any(np.abs(factor) > 0.0, axis=0))
+        self.slack_factor = factor[:, keep]
+        self.slack_names = [cov.factor_names[i] for i in keep]
+        labels = cov.factor_labels
+        self.slack_labels = [labels[i] for i in keep]
+        self.slack_width = (opts.uncertainty_k * np.max(np.abs(self.slack_factor), axis=1)
+                            if keep.size else np.zeros(len(self.energy_ids)))
+
     # ------------------------------------------------------------------ build
     def _build(self) -> None:
         opts, solver, rt = self.options, self.solver, self.thermo_model.RT
@@ -188,6 +220,10 @@ class ThermoProblem(PointSearch):
                        for j in range(n_e)]
         self.eps_vars = [var(f"tfa_e_{j}", lb=-float(w), ub=float(w)) if w > 0 else None
                          for j, w in enumerate(self.slack_width)]
+        k = float(opts.uncertainty_k)
+        n_z = self.slack_factor.shape[1]
+        self.z_plus = [var(f"tfa_zp_{s}", lb=0.0, ub=k) for s in range(n_z)]
+        self.z_minus = [var(f"tfa_zn_{s}", lb=0.0, ub=k) for s in range(n_z)]
         flux_lower, flux_upper = self.scaled_lower, self.scaled_upper   # in units of the flux scale
         bound_fwd = np.maximum(flux_upper[self.energy_reaction_index], 0.0)
         bound_bwd = np.maximum(-flux_lower[self.energy_reaction_index], 0.0)
@@ -212,9 +248,11 @@ class ThermoProblem(PointSearch):
             g_abs = float(np.max(np.maximum(-self.g_lower, self.g_upper))) if n_e else 1.0
             self.driving_force_upper = max(g_abs, opts.min_driving_force)
             self.b_var = var("tfa_B", lb=-self.driving_force_upper - 1.0, ub=self.driving_force_upper)
+        share_vars, carrier_rows, self.concentration_checks = concentration_rows(self, var)
         new_vars = (self.x_vars + self.g_vars + [v for v in self.eps_vars if v is not None]
+                    + self.z_plus + self.z_minus
                     + self.f_vars + self.b_vars + self.u_vars
-                    + ([self.b_var] if self.b_var is not None else []))
+                    + ([self.b_var] if self.b_var is not None else []) + share_vars)
         solver.add(new_vars)
         self._variables = new_vars
         if self.solver_name == "highs":
@@ -234,7 +272,7 @@ class ThermoProblem(PointSearch):
                 log.debug("solver %s has no %s tolerance", self.solver_name, name)
 
         con = iface.Constraint
-        rows: list[tuple] = []   # (name, lb, ub, coefficients)
+        rows: list[tuple] = list(carrier_rows)   # (name, lb, ub, coefficients)
         t_rows, t_cols, t_vals = self.thermo
         per_reaction: list[dict] = [dict() for _ in range(n_e)]
         for k, i, s in zip(t_rows, t_cols, t_vals):
@@ -284,6 +322,17 @@ class ThermoProblem(PointSearch):
                 if bwd_ok[j] and m_b > 0:
                     rows.append((f"tfa_gb_{j}", None, m_b - delta, {self.g_vars[j]: -1.0, self.b_vars[j]: m_b}))
             del rid
+        if self.z_plus:
+            for j, e in enumerate(self.eps_vars):
+                if e is None:
+                    continue
+                c = {e: 1.0}
+                for s_ in np.flatnonzero(self.slack_factor[j]):
+                    c[self.z_plus[s_]] = -float(self.slack_factor[j, s_])
+                    c[self.z_minus[s_]] = float(self.slack_factor[j, s_])
+                rows.append((f"tfa_slack_{j}", 0.0, 0.0, c))
+            rows.append(("tfa_slack_norm", None, float(opts.uncertainty_k),
+                         {v: 1.0 for v in self.z_plus + self.z_minus}))
         constraints = [con(Zero, lb=lb, ub=ub, name=name, sloppy=True) for name, lb, ub, _ in rows]
         solver.add(constraints, sloppy=True)
         solver.update()
@@ -332,6 +381,24 @@ class ThermoProblem(PointSearch):
             raise InputError(f"compound {metabolite_id}: lower bound above upper bound")
         xv = self.x_vars[i]
         xv.set_bounds(float(lower), float(upper))
+
+    def fix_slack(self, z: np.ndarray | None) -> None:
+        """Fix the sources' deviations at ``z`` (σ units; None frees them again), so one built
+        problem answers for the energies ḡ + A z: ‖z‖₁ must stay within the k it was built with
+        (the big-M bounds cover that ball)."""
+        if z is None:
+            for v in self.z_plus + self.z_minus:
+                v.set_bounds(0.0, float(self.options.uncertainty_k))
+            return
+        z = np.asarray(z, float)
+        if z.shape != (len(self.z_plus),):
+            raise InputError(f"fix_slack: {len(self.z_plus)} deviations expected, got {z.shape}")
+        if float(np.sum(np.abs(z))) > self.options.uncertainty_k + 1e-9:
+            raise InputError(f"fix_slack: ‖z‖₁ = {np.sum(np.abs(z)):.4g} exceeds the k = "
+                             f"{self.options.uncertainty_k:g} the problem was built for")
+        for p, m, value in zip(self.z_plus, self.z_minus, z):
+            p.set_bounds(max(float(value), 0.0), max(float(value), 0.0))
+            m.set_bounds(max(-float(value), 0.0), max(-float(value), 0.0))
 
     def log_bounds_of(self, metabolite_id: str) -> tuple[float, float]:
         """Current (ln lo, ln hi) of one compound."""
@@ -413,10 +480,12 @@ class ThermoProblem(PointSearch):
             metabolite_ids=list(self.metabolite_ids), log_conc=solution.log_conc, log_lower=x_lo,
             log_upper=x_hi, energy_reaction_index=self.energy_reaction_index,
             standard=self.standard, sigma=self.sigma, slack=solution.slack,
-            uncertainty_k=self.options.uncertainty_k, thermo_rows=self.thermo[0],
+            uncertainty_k=self.options.uncertainty_k, slack_factor=self.slack_factor,
+            slack_coordinates=solution.slack_coordinates, thermo_rows=self.thermo[0],
             thermo_cols=self.thermo[1], thermo_values=self.thermo[2], rt=self.thermo_model.RT,
             min_driving_force=delta, allowed_uphill=list(allowed_uphill or []),
-            flux_scale=self.flux_scale, energy_scale=self.energy_scale)
+            flux_scale=self.flux_scale, energy_scale=self.energy_scale,
+            log_rows=self.concentration_checks.rows, pools=self.concentration_checks.pools)
 
     # ------------------------------------------------------------------ cleanup
     def remove(self) -> None:

@@ -75,7 +75,8 @@ class ProblemOptions:
     min_driving_force : float
         delta, kJ/mol: a reaction that carries flux must have -g >= delta in its direction.
     uncertainty_k : float
-        Allowed slack eps_j in multiples of sigma_j (0: energies taken as exact).
+        Size of the uncertainty slack: the energies' sources may deviate by k standard units in
+        total (L1 norm in whitened compound space; 0: energies taken as exact).
     unknown_energy : str
         "free" (reactions without an energy carry flux without a thermodynamic constraint; they
         are reported) or "block" (they carry no flux).
@@ -163,6 +164,8 @@ class Solution:
     proven : False when a limit stopped the search and this is the best point found
     confirmed_by : how the point was obtained as a point of the problem: "linear program with the
         directions fixed" for every point returned by :meth:`ThermoProblem.solve`
+    slack_coordinates : z, the deviations of the energies' sources in units of their σ (the
+        slack is eps = A z, ‖z‖₁ <= k); empty without slack
     """
 
     reaction_ids: list[str]
@@ -182,6 +185,7 @@ class Solution:
     bound: float | None = None
     proven: bool = True
     confirmed_by: str = ""
+    slack_coordinates: np.ndarray | None = None
 
     def flux(self, reaction_id: str) -> float:
         """Net flux of one reaction."""

@@ -293,6 +293,8 @@ class PointSearch:
         x = np.array([primal[v.name] for v in self.x_vars], float)
         g = np.array([primal[v.name] for v in self.g_vars], float)
         eps = np.array([primal[v.name] if v is not None else 0.0 for v in self.eps_vars], float)
+        z = np.array([primal[p.name] - primal[m.name] for p, m in
+                      zip(getattr(self, "z_plus", []), getattr(self, "z_minus", []))], float)
         f = np.array([primal[v.name] > 0.5 for v in self.f_vars], bool)
         b = np.array([primal[v.name] > 0.5 for v in self.b_vars], bool)
         uphill = [self.energy_ids[j] for j, v in enumerate(self.u_vars) if primal[v.name] > 0.5]
@@ -300,4 +302,4 @@ class PointSearch:
         objective = None if self._objective_is_zero else float(self.solver.objective.value)
         return Solution(list(self.reaction_ids), fluxes, list(self.metabolite_ids), x,
                         list(self.energy_ids), g, eps, f, b, uphill, b_value, objective,
-                        self.solver_name, seconds)
+                        self.solver_name, seconds, slack_coordinates=z)

@@ -19,6 +19,7 @@ from __future__ import annotations
 
 import logging
 import math
+from typing import Sequence
 
 import numpy as np  # noqa: E402
 import pandas as pd  # noqa: E402
@@ -162,11 +163,14 @@ _H2_AXIS_LABELS = {
 
 
 def h2_scan_figure(frame: pd.DataFrame, unit: str = "mol/L", threshold: float | None = None,
-                   title: str | None = None) -> Figure:
+                   title: str | None = None,
+                   windows: Sequence[tuple[float, float]] = ()) -> Figure:
     """Feasibility, size of the minimal uphill set and driving force against the H2 supply.
 
     Three stacked panels on a shared logarithmic H2 axis; the H2 threshold (the smallest H2 at
-    which the network runs) as a vertical line when given.
+    which the network runs) as a vertical line when given, and the feasible H2 windows
+    ``windows`` ((low, high) in ``unit``, found exactly rather than at the scanned levels) as a
+    shaded band on the feasibility panel.
 
     Parameters
     ----------
@@ -245,6 +249,8 @@ def h2_scan_figure(frame: pd.DataFrame, unit: str = "mol/L", threshold: float | 
         ax_f.annotate(f"threshold {scientific(threshold)} {unit}", (threshold, 1.0),
                       xytext=(4, 6), textcoords="offset points", ha="left", va="bottom",
                       fontsize=MIN_FONT_PT + 1, color=THRESHOLD_COLOUR)
+    for a, b in windows:
+        ax_f.axvspan(a, b, color=DOWNHILL_COLOUR, alpha=0.12, lw=0, zorder=0)
     lo, hi = h2.min(), h2.max()
     if threshold is not None and math.isfinite(threshold) and threshold > 0:
         lo, hi = min(lo, threshold), max(hi, threshold)

@@ -1,4 +1,5 @@
-"""Heatmaps of a condition map: feasibility, uphill-set size, driving force and H2 threshold over
+"""Heatmaps of a condition map (and, for a map along one axis such as a mixing line, a figure of
+feasibility and margins along it: :func:`line_figure`): feasibility, uphill-set size, driving force and H2 threshold over
 two condition axes, one figure per mode (matplotlib, Agg backend), written as PNG and SVG through
 :func:`tfa.report.figures.save_figure` (atomic).
 
@@ -49,6 +50,7 @@ AXIS_LABELS = {
     "ionic_strength_mol_per_L": "ionic strength, mol/L",
     "h2_activity": "H2 supply, mol/L (gas feed: bar)",
     "pressure_bar": "pressure, bar",
+    "vent_fraction": "share of vent fluid (0: seawater, 1: vent fluid)",
 }
 #: Largest grid whose cells get their value written in.
 ANNOTATE_MAX_CELLS = 144
@@ -86,6 +88,9 @@ def map_figure(frame: pd.DataFrame, x_column: str, y_column: str, mode: str,
     xs = sorted(rows[x_column].unique())
     ys = sorted(rows[y_column].unique())
     annotate = len(xs) * len(ys) <= ANNOTATE_MAX_CELLS
+    floor = (_grid(rows.assign(h2_at_range_floor=rows["h2_at_range_floor"].astype(float)),
+                   "h2_at_range_floor", x_column, y_column, xs, ys) > 0.5
+             if "h2_at_range_floor" in rows.columns else np.zeros((len(ys), len(xs)), bool))
     with plt.rc_context(STYLE):
         fig, axes = plt.subplots(2, 2, figsize=(FIGURE_WIDTH_IN, FIGURE_WIDTH_IN * 0.78),
                                  layout="constrained")
@@ -119,8 +124,12 @@ def map_figure(frame: pd.DataFrame, x_column: str, y_column: str, mode: str,
                         continue
                     text = {"binary": "yes" if v > 0.5 else "no", "integer": f"{v:.0f}",
                             "float": f"{v:.1f}", "log": f"{v:.1f}"}[kind]
+                    if kind == "log" and floor[iy, ix]:
+                        text = "≤" + text   # feasible already at the bottom of the range
                     colour = "white" if (kind == "binary" or v < middle) else "black"
                     ax.text(ix, iy, text, ha="center", va="center", fontsize=8, color=colour)
+            if kind == "log" and floor.any():
+                label += "\n(≤: at the bottom of the range searched)"
             ax.set_title(label)
             ax.set_xticks(range(len(xs)), _ticks(xs), rotation=45 if len(xs) > 6 else 0)
             ax.set_yticks(range(len(ys)), _ticks(ys))
@@ -138,4 +147,80 @@ def write_map_figures(frame: pd.DataFrame, x_column: str, y_column: str, folder:
     for mode in sorted(frame["mode"].unique()):
         fig = map_figure(frame, x_column, y_column, mode)
         paths.extend(save_figure(fig, Path(folder) / f"{stem}_{mode}"))
+    return paths
+
+
+def line_figure(frame: pd.DataFrame, x_column: str, mode: str, title: str | None = None) -> Figure:
+    """Answers along one axis (a mixing line: ``x_column`` = ``vent_fraction``) of one mode, in
+    three stacked panels sharing the axis: feasibility (blue dot: feasible, vermillion cross: not,
+    with the size of the minimal uphill set beside it); the margins, the max-min driving force
+    (kJ/mol, zero line dashed) and the H2 margin log10(H2 of the mixture / H2 threshold) on a
+    second scale; and, when the table has them, the mixture's temperature (°C) and pH."""
+    if x_column not in frame.columns or "feasible" not in frame.columns:
+        raise InputError(f"line figure: the table lacks {x_column} or feasible")
+    rows = frame[frame["mode"] == mode].sort_values(x_column)
+    if rows.empty:
+        raise InputError(f"line figure: no rows for mode {mode!r}")
+    x = rows[x_column].astype(float).to_numpy()
+    mixture = "pH" in rows.columns and "temperature_C" in rows.columns
+    with plt.rc_context(STYLE):
+        fig, axes = plt.subplots(3 if mixture else 2, 1, sharex=True, layout="constrained",
+                                 figsize=(FIGURE_WIDTH_IN, FIGURE_WIDTH_IN * (0.95 if mixture else 0.7)))
+        ax = axes[0]
+        feasible = rows["feasible"].map(lambda v: None if v is None or (isinstance(v, float) and math.isnan(v))
+                                        else bool(v))
+        yes = feasible.to_numpy() == True  # noqa: E712 - None stays neither
+        no = feasible.to_numpy() == False  # noqa: E712
+        ax.scatter(x[yes], np.ones(yes.sum()), marker="o", s=40, color=OKABE_ITO["blue"], label="feasible")
+        ax.scatter(x[no], np.zeros(no.sum()), marker="x", s=40, color=OKABE_ITO["vermillion"],
+                   label="infeasible")
+        missing = ~(yes | no)
+        if missing.any():
+            ax.scatter(x[missing], np.full(missing.sum(), 0.5), marker="s", s=30, color=_MISSING,
+                       label="failed")
+        if "uphill_set_size" in rows.columns:
+            for xv, flag, size in zip(x, no, rows["uphill_set_size"]):
+                if flag and size is not None and not (isinstance(size, float) and math.isnan(size)):
+                    ax.annotate(f"{int(size)} uphill", (xv, 0.0), textcoords="offset points",
+                                xytext=(0, 8), ha="center", fontsize=7)
+        ax.set_yticks([0, 1], ["no", "yes"])
+        ax.set_ylim(-0.5, 1.6)
+        ax.set_title("feasible (label: size of the minimal uphill set)")
+        ax = axes[1]
+        force = pd.to_numeric(rows.get("driving_force_kJ_per_mol"), errors="coerce")
+        ax.plot(x, force, marker="o", color=OKABE_ITO["blue"], label="max-min driving force")
+        ax.axhline(0.0, color="0.4", linestyle="--", linewidth=0.8)
+        ax.set_ylabel("driving force, kJ/mol")
+        ax.set_title("margins")
+        if "h2_margin_decades" in rows.columns:
+            twin = ax.twinx()
+            margin = pd.to_numeric(rows["h2_margin_decades"], errors="coerce")
+            twin.plot(x, margin, marker="s", color=OKABE_ITO["orange"], label="H2 margin")
+            twin.set_ylabel("H2 margin, log10(H2 / threshold)")
+            lines = ax.get_lines()[:1] + twin.get_lines()
+            ax.legend(lines, [ln.get_label() for ln in lines], loc="best", fontsize=7)
+        if mixture:
+            ax = axes[2]
+            ax.plot(x, rows["temperature_C"].astype(float), marker="o", color=OKABE_ITO["vermillion"],
+                    label="temperature")
+            ax.set_ylabel("temperature, °C")
+            twin = ax.twinx()
+            twin.plot(x, rows["pH"].astype(float), marker="s", color=OKABE_ITO["bluish_green"], label="pH")
+            twin.set_ylabel("pH")
+            lines = ax.get_lines() + twin.get_lines()
+            ax.legend(lines, [ln.get_label() for ln in lines], loc="best", fontsize=7)
+            ax.set_title("the mixture")
+        axes[-1].set_xlabel(AXIS_LABELS.get(x_column, x_column))
+        label = MODES[mode].title if mode in MODES else mode
+        kind = "mixing line" if x_column == "vent_fraction" else "condition line"
+        fig.suptitle(title or f"{kind}, {label} (grey: failed or not computed)")
+    return fig
+
+
+def write_line_figures(frame: pd.DataFrame, x_column: str, folder: str | Path,
+                       stem: str = "map") -> list[Path]:
+    """One PNG + SVG per mode of a one-axis map, ``<folder>/<stem>_<mode>.png|svg``."""
+    paths: list[Path] = []
+    for mode in sorted(frame["mode"].unique()):
+        paths.extend(save_figure(line_figure(frame, x_column, mode), Path(folder) / f"{stem}_{mode}"))
     return paths

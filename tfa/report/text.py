@@ -90,7 +90,8 @@ def constrained_words(with_energy: int, total: int) -> str:
 
 def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]] | None = None,
               demand_impossible: bool = False, undetermined: str = "", not_applicable: str = "",
-              constrained: str = "", status: str = "") -> str:
+              constrained: str = "", status: str = "", count: int | None = None,
+              complete: bool = True, ordered: bool = True) -> str:
     """The answer of one mode in a sentence.
 
     Parameters
@@ -100,7 +101,11 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
     feasible : bool or None
         The answer (None: undetermined).
     sets : list of list of str
-        Minimal uphill sets found (alternatives of the same size).
+        Minimal uphill sets listed (of the same size, the first shown).
+    count, complete, ordered
+        How many sets of that size were found, whether that is all of them (else "at least"),
+        and whether they are in the order of reaction ids. Without a count, more than one set
+        listed is said as "at least" that many, one set alone is not qualified.
     demand_impossible : bool
         The demand cannot be met even ignoring thermodynamics.
     not_applicable : str
@@ -112,8 +117,13 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
 
     Examples
     --------
-    >>> mode_line("runs without ATP", False, [["fdh", "mtr", "acs"], ["fdh", "mtr", "pfor"]])
-    'runs without ATP: no; three steps must be driven uphill: fdh, mtr, acs (or, as an alternative set of the same size: fdh, mtr, pfor)'
+    >>> mode_line("runs without ATP", False, [["acs", "fdh", "mtr"], ["fdh", "mtr", "pfor"]],
+    ...           count=4)
+    'runs without ATP: no; three steps must be driven uphill: acs, fdh, mtr (the first of four sets of this size in the order of reaction ids)'
+    >>> mode_line("runs without ATP", False, [["acs", "fdh"]], count=2)
+    'runs without ATP: no; two steps must be driven uphill: acs, fdh (the first of two sets of this size in the order of reaction ids)'
+    >>> mode_line("runs without ATP", False, [["fdh"]], count=20, complete=False)
+    'runs without ATP: no; one step must be driven uphill: fdh (the first of at least 20 sets of this size in the order of reaction ids)'
     >>> mode_line("runs without ATP", False, demand_impossible=True)
     'runs without ATP: no (the demand cannot be met even ignoring thermodynamics)'
     >>> mode_line("runs without ATP", None, not_applicable="no ATP in this network")
@@ -123,7 +133,8 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
         return f"{question}: not applicable ({not_applicable})"
     if constrained:
         return mode_line(question, feasible, sets, demand_impossible, undetermined,
-                         status=status) + f" ({constrained})"
+                         status=status, count=count, complete=complete,
+                         ordered=ordered) + f" ({constrained})"
     if feasible is None:
         return f"{question}: undetermined (the solver gave no proven answer)" + (
             f"; {undetermined}" if undetermined else "")
@@ -136,11 +147,29 @@ def mode_line(question: str, feasible: bool | None, sets: Sequence[Sequence[str]
     if sets:
         first = sets[0]
         line += f"; {counted(len(first), 'step')} must be driven uphill: {names(first)}"
-        if len(sets) == 2:
-            line += f" (or, as an alternative set of the same size: {names(sets[1])})"
-        elif len(sets) > 2:
-            line += f" ({number_in_words(len(sets))} alternative sets of this size; the first shown)"
+        if count is not None:
+            line += f" ({set_count_words(count, complete, ordered)})"
+        elif len(sets) > 1:     # not counted: the sets listed are a lower bound
+            line += f" ({set_count_words(len(sets), False, ordered)})"
     return line + checked(status)
+
+
+def set_count_words(count: int, complete: bool = True, ordered: bool = True) -> str:
+    """Which minimal set is shown and how many there are, in words (the same words however many
+    sets are listed).
+
+    >>> set_count_words(1)
+    'the only set of this size'
+    >>> set_count_words(12, ordered=False)
+    'the first found of 12 sets of this size'
+    """
+    if count <= 1 and complete:
+        return "the only set of this size"
+    how_many = f"{'' if complete else 'at least '}{number_in_words(count)}"
+    sets = "set" if count == 1 else "sets"
+    if ordered:
+        return f"the first of {how_many} {sets} of this size in the order of reaction ids"
+    return f"the first found of {how_many} {sets} of this size"
 
 
 def h2_line(threshold: float | None, h2_range: Sequence[float] | None, unit: str = "mol/L",

@@ -13,7 +13,8 @@ Biophys. J. 92:1792) and verifies, within stated tolerances:
 1. mass balance: |S v|_inf <= 1e-6 s (steady state);
 2. flux bounds: lower - 1e-6 s <= v <= upper + 1e-6 s;
 3. concentration bounds: ln c_min <= x <= ln c_max (to 1e-6);
-4. uncertainty slack: |eps_j| <= k sigma_j (to 1e-6 E);
+4. uncertainty slack: eps = A z with ||z||_1 <= k in compound space (or |eps_j| <= k sigma_j
+   when no factor is given) (to 1e-6 E);
 5. second law: a reaction carrying flux (|v| > 1e-9 s) forward has g_j <= -delta, backward
    g_j >= +delta (to 1e-6 E), except the reactions listed as allowed uphill (minimal uphill sets).
 
@@ -86,6 +87,14 @@ class CertificateInput:
         The flux scale s (units of the fluxes): flux tolerances are relative to it.
     energy_scale : float
         The energy scale E, kJ/mol: energy tolerances are relative to it.
+    log_rows : list of (columns, coefficients, lower or None, upper or None, text)
+        Linear rows on ln c beyond the bounds (carrier ratios, the phosphorylation floor):
+        lower <= sum a_i x_i <= upper, checked to 1e-6.
+    pools : list of (columns, total, allowed relative excess, text)
+        Pool totals: sum_i exp(x_i) <= total (1 + excess), checked on the concentrations.
+    slack_factor, slack_coordinates : ndarray or None
+        A (reactions with an energy × sources) and z: with a factor, the slack must be
+        eps = A z with ‖z‖₁ <= k (slack in compound space) instead of |eps_j| <= k sigma_j.
     """
 
     reaction_ids: list[str]
@@ -114,6 +123,10 @@ class CertificateInput:
     check_mass_balance: bool = True
     flux_scale: float = 1.0
     energy_scale: float = 1.0
+    log_rows: list = field(default_factory=list)
+    pools: list = field(default_factory=list)
+    slack_factor: np.ndarray | None = None
+    slack_coordinates: np.ndarray | None = None
 
 
 @dataclass
@@ -132,6 +145,7 @@ class Certificate:
     uphill_reactions: list[str]
     flux_tolerance: float = 0.0
     energy_tolerance: float = 0.0
+    carrier_checks: int = 0
 
     def summary(self) -> str:
         """One line for reports."""
@@ -154,6 +168,7 @@ class Certificate:
             "flux_tolerance": self.flux_tolerance,
             "energy_tolerance_kJ": self.energy_tolerance,
             "n_flux_carrying": self.n_flux_carrying,
+            "carrier_checks": self.carrier_checks,
             "uphill_reactions": list(self.uphill_reactions),
         }
 
@@ -236,12 +251,40 @@ def check_solution(data: CertificateInput) -> Certificate:
         failures.append(f"concentration bounds: {data.metabolite_ids[i]} has ln c = {x[i]:.6g} outside "
                         f"[{data.log_lower[i]:.6g}, {data.log_upper[i]:.6g}]")
 
+    # 3b. carrier states: linear rows on ln c and pool totals (on the concentrations themselves)
+    for cols, coefs, lo, hi, text in data.log_rows:
+        value = float(np.dot(np.asarray(coefs, float), x[np.asarray(cols, int)]))
+        if (lo is not None and value < lo - LOG_TOLERANCE) or (hi is not None and value > hi + LOG_TOLERANCE):
+            failures.append(f"carrier state: {text} fails (value {value:.6g})")
+    for cols, total, excess, text in data.pools:
+        value = float(np.sum(np.exp(x[np.asarray(cols, int)])))
+        if value > total * (1.0 + excess):
+            failures.append(f"carrier pool: {text} fails (the forms add up to {value:.6g} mol/L)")
+
     # 4. uncertainty slack
     slack = np.asarray(data.slack, float)
-    allowed = data.uncertainty_k * np.asarray(data.sigma, float)
-    slack_excess = np.abs(slack) - allowed
-    slack_violation = float(max(0.0, np.max(slack_excess))) if slack.size else 0.0
-    if slack_violation > energy_tol:
+    factor = data.slack_factor
+    if factor is not None and np.asarray(factor).size:
+        z = np.asarray(data.slack_coordinates if data.slack_coordinates is not None else [], float)
+        if z.shape != (np.asarray(factor).shape[1],):
+            z = np.zeros(np.asarray(factor).shape[1])
+        norm_excess = float(np.sum(np.abs(z)) - data.uncertainty_k)
+        mismatch = np.abs(slack - np.asarray(factor, float) @ z) if slack.size else np.zeros(0)
+        slack_violation = max(0.0, norm_excess, float(np.max(mismatch)) if mismatch.size else 0.0)
+        if norm_excess > LOG_TOLERANCE:
+            failures.append(f"uncertainty slack: the sources move by {np.sum(np.abs(z)):.6g} "
+                            f"standard units in total, more than k = {data.uncertainty_k:g}")
+        elif mismatch.size and float(np.max(mismatch)) > energy_tol:
+            j = int(np.argmax(mismatch))
+            rid = data.reaction_ids[int(data.energy_reaction_index[j])]
+            failures.append(f"uncertainty slack: reaction {rid} uses {slack[j]:.4g} kJ/mol, not "
+                            "the change its compounds' deviations give")
+        slack_excess = np.zeros(0)
+    else:
+        allowed = data.uncertainty_k * np.asarray(data.sigma, float)
+        slack_excess = np.abs(slack) - allowed
+        slack_violation = float(max(0.0, np.max(slack_excess))) if slack.size else 0.0
+    if slack_excess.size and slack_violation > energy_tol:
         j = int(np.argmax(slack_excess))
         rid = data.reaction_ids[int(data.energy_reaction_index[j])]
         failures.append(f"uncertainty slack: reaction {rid} uses {slack[j]:.4g} kJ/mol, more than "
@@ -273,4 +316,5 @@ def check_solution(data: CertificateInput) -> Certificate:
                                + "; ".join(failures))
     n_carrying = int(np.sum(np.abs(v_energy) > carrying)) if len(g) else 0
     return Certificate(True, residual, flux_violation, conc_violation, slack_violation,
-                       law_violation, carrying, n_carrying, g, sorted(uphill), flux_tol, energy_tol)
+                       law_violation, carrying, n_carrying, g, sorted(uphill), flux_tol, energy_tol,
+                       len(data.log_rows) + len(data.pools))

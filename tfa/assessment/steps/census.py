@@ -47,7 +47,10 @@ class CensusStep(Step):
 
     def sections(self, result: dict[str, CensusResult], ctx: RunContext) -> list[Section]:
         return [Section(self.title, "ΔrG' of every reaction with all reactants at 1 mM (gases "
-                        "1e-3 bar) and ΔrG'°, per mode.",
+                        "1e-3 bar) but the fed ones, which stay at their feed values, and ΔrG'°, "
+                        "per mode; H+ at its compartment's pH. ΔrG'° of a reaction across the "
+                        "membrane refers to each compound in its own compartment (column "
+                        "standard_state).",
                         tables=[("census_counts", "Reactions exergonic per mode"),
                                 ("census", "Every reaction per mode (kJ/mol)")],
                         figures=[("census", "Distribution of reaction energies per mode (kJ/mol)")])]

@@ -50,9 +50,13 @@ class FeasibilityStep(Step):
             undetermined = r.message.startswith("undetermined")
             sets = r.diagnosis.sets if r.diagnosis is not None else []
             constrained = "" if r.demand_impossible else constrained_words(*ctx.constrained(mode))
+            d = r.diagnosis
             lines.append(mode_line(question_for(mode, ctx), None if undetermined else r.feasible,
                                    sets, r.demand_impossible, constrained=constrained,
-                                   status=r.verification.get("status", "")))
+                                   status=r.verification.get("status", ""),
+                                   count=d.count if d is not None else None,
+                                   complete=d.exhausted if d is not None else True,
+                                   ordered=d.ordered if d is not None else True))
         return lines
 
     def summary_data(self, result: dict[str, FeasibilityResult], ctx: RunContext) -> dict:
@@ -60,6 +64,12 @@ class FeasibilityStep(Step):
         return {"feasible": {m: (None if reasons[m] else r.feasible) for m, r in result.items()},
                 "uphill": {m: (r.diagnosis.sets if r.diagnosis is not None else [])
                            for m, r in result.items()},
+                "uphill_sets_found": {m: {"sets_found": r.diagnosis.count,
+                                          "all_sets_found": r.diagnosis.exhausted,
+                                          "in_order_of_ids": r.diagnosis.ordered,
+                                          "energy_to_supply_total_kJ_per_mol_demand":
+                                              r.diagnosis.energy_to_supply(0)}
+                                      for m, r in result.items() if r.diagnosis is not None},
                 "demand_impossible": [m for m, r in result.items() if r.demand_impossible],
                 "not_applicable": {m: why for m, why in reasons.items() if why},
                 "constrained": {m: dict(zip(("with_energy", "reactions"), ctx.constrained(m)))
@@ -72,9 +82,15 @@ class FeasibilityStep(Step):
         return [Section(self.title, modes, tables=[("feasibility", "Feasibility per mode")]),
                 Section("Minimal uphill sets",
                         "The fewest reactions that must run against their gradient (coupled to an "
-                        "energy source) for the demand to be met; uphill_by_kJ_per_mol is how far "
-                        "uphill each runs at the concentrations that make the set's total "
-                        "smallest.", tables=[("uphill_sets", "Minimal uphill sets per mode")])]
+                        "energy source) for the demand to be met, listed in the order of reaction "
+                        "ids (sorted ids compared one by one) and counted (exactly, or 'at least "
+                        "N' when the count stopped); uphill_by_kJ_per_mol is how far uphill each "
+                        "runs per mole of reaction at the concentrations that make the set's total "
+                        "smallest; energy_to_supply_kJ_per_mol_demand is that times the step's "
+                        "flux per unit of demand flux (flux_per_demand), at the fluxes of least "
+                        "energy to supply with those concentrations: summed over a set, the "
+                        "energy the coupled sources must supply per mol of demand.",
+                        tables=[("uphill_sets", "Minimal uphill sets per mode")])]
 
     def text(self, result: dict[str, FeasibilityResult], ctx: RunContext) -> str:
         from ...report.text import table_text

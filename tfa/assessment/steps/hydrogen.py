@@ -45,14 +45,17 @@ class H2ScanStep(Step):
             return {}
         threshold = ctx.results.get("h2_threshold")
         at = threshold.threshold if threshold is not None and threshold.feasible else None
+        windows = list(threshold.windows) if threshold is not None else []
         caption = (f"Feasibility, size of the minimal uphill set and max-min driving force "
-                   f"against the H2 supply ({result.unit})")
+                   f"against the H2 supply ({result.unit})"
+                   + ("; shaded: the H2 window(s) in which the network is feasible" if windows
+                      else ""))
 
         def make():
             from ...report.figures import h2_scan_figure
 
             return h2_scan_figure(result.table, unit=result.unit, threshold=at,
-                                  title=f"H2 supply, {ctx.settings.mode} mode")
+                                  title=f"H2 supply, {ctx.settings.mode} mode", windows=windows)
 
         return {"h2_scan": FigureSpec(make, caption)}
 
@@ -87,33 +90,45 @@ class H2ThresholdStep(Step):
             return None
         tm = ctx.thermo_model(ctx.settings.mode)
         return ctx.attempt("H2 threshold", lambda: h2_threshold(
-            tm, ctx.options, h2_id=h2, h2_range=ctx.settings.h2_range))
+            tm, ctx.options, h2_id=h2, h2_range=ctx.settings.h2_range, window=True,
+            mode=ctx.settings.mode, progress=ctx.ticker("solves of the H2 window")))
 
     def tables(self, result: H2ThresholdResult | None, ctx: RunContext) -> dict:
-        return {} if result is None else {"h2_threshold": result.to_frame()}
+        return {} if result is None else result.tables()
 
     def summary_lines(self, result: H2ThresholdResult | None, ctx: RunContext) -> list[str]:
-        from ...report.text import h2_line
+        from ...report.text import checked, h2_line
 
         if result is None:
             return []
+        status = result.verification.get("status", "")
+        if result.feasible and result.windows:
+            return [f"H2 ({ctx.settings.mode}): {result.window_words()}{checked(status)}"]
         return [h2_line(result.threshold if result.feasible else None, result.search_range,
-                        result.unit, result.verification.get("status", ""))]
+                        result.unit, status)]
 
     def summary_data(self, result: H2ThresholdResult | None, ctx: RunContext) -> dict:
         if result is None:
             return {}
         return {"h2_threshold": result.threshold if result.feasible else None,
+                "h2_at_range_floor": result.at_range_floor,
+                "h2_windows": [list(w) for w in result.windows],
                 "h2_range": list(result.search_range), "h2_unit": result.unit}
 
     def sections(self, result: H2ThresholdResult | None, ctx: RunContext) -> list[Section]:
         if result is None:
             return []
-        return [Section(self.title, result.message, tables=[("h2_threshold", "H2 threshold")])]
+        return [Section(self.title, result.message,
+                        tables=[("h2_threshold", "H2 threshold"),
+                                ("h2_window", "H2 levels at which the network is feasible: each "
+                                 "end, its partial pressure by Henry's law and what binds it")])]
 
     def text(self, result: H2ThresholdResult | None, ctx: RunContext) -> str:
         from ...report.text import table_text
 
         if result is None:
             return ""
-        return result.message + "\n\n" + table_text(result.to_frame()) + "\n"
+        window = result.window_frame()
+        return (result.message + "\n\n" + table_text(result.to_frame()) + "\n"
+                + ("\n" + table_text(window.drop(columns=["binding_constraint"]), "{:.3g}") + "\n"
+                   if len(window) else ""))

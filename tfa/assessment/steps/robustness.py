@@ -39,7 +39,8 @@ class RobustnessStep(Step):
                               workers=settings.workers, threshold=False, solver=options.solver,
                               time_limit=options.time_limit,
                               min_driving_force=options.min_driving_force,
-                              unknown_energy=options.unknown_energy, progress=show)
+                              unknown_energy=options.unknown_energy, progress=show,
+                              interval_width=settings.interval_width or None)
         except InputError:
             raise
         except TfaError as err:
@@ -52,8 +53,12 @@ class RobustnessStep(Step):
     def summary_lines(self, result: RobustnessResult | None, ctx: RunContext) -> list[str]:
         if result is None:
             return []
-        return [f"robustness ({row.mode}): feasible in {row.feasible_draws} of {row.draws} draws "
-                "of the energies" for row in result.feasibility_frame().itertuples() if row.draws]
+        lines = [f"robustness ({row.mode}): feasible in {row.feasible_draws} of {row.draws} draws "
+                 f"of the energies (95 % interval {row.interval_low:.2f}-{row.interval_high:.2f})"
+                 for row in result.feasibility_frame().itertuples() if row.draws]
+        if lines and result.stopped_by:
+            lines.append(f"robustness: draws stopped by {result.stopped_by}")
+        return lines
 
     def summary_data(self, result: RobustnessResult | None, ctx: RunContext) -> dict:
         if result is None:
@@ -69,9 +74,10 @@ class RobustnessStep(Step):
         if result is None:
             return []
         return [Section(self.title,
-                        f"{result.n_draws} draws per mode of the reaction energies from their "
-                        f"correlated uncertainty (seed {result.seed}); a small run, enlarge it with "
-                        "--draws or tfa robustness.\n" + result.summary(),
+                        f"Up to {ctx.settings.draws} draws per mode of the reaction energies in "
+                        f"compound space (seed {result.seed}), each probability with its 95 % "
+                        "Wilson interval (Wilson 1927); a first look, enlarge it with --draws, "
+                        "--interval-width or tfa robustness.\n" + result.summary(),
                         tables=[("robustness_feasibility", "Feasibility over the draws"),
                                 ("robustness_uphill", "How often each reaction is in the minimal "
                                                       "uphill set")])]
