@@ -327,7 +327,10 @@ def test_budget_of_the_bundled_network_adds_up(bundled):
                 == pytest.approx(total))
     native = table.loc["native"]
     assert native["uphill_supplied_kJ_per_demand"] == 0.0    # feasible: every step downhill
-    assert table.loc["h2_only", "uphill_supplied_kJ_per_demand"] > 0   # DHODH driven uphill
+    # a member of a minimal uphill set runs uphill, or downhill by less than the least driving
+    # force (then it supplies nothing); bare chemistry drives eleven steps uphill
+    assert (table["uphill_supplied_kJ_per_demand"] >= 0).all()
+    assert table.loc["no_atp_bare", "uphill_supplied_kJ_per_demand"] > 0
     # ATP is made by 4 outer protons (ATPS_GRAD, downhill in this steady state), so the
     # phosphorylation potential lies below what they release: 4 RT ln10 (7.5 - 5.5) = 52.6
     # kJ/mol at 70 degC (hand-derived); and above 40 kJ/mol, the low end of phosphorylation
