@@ -253,7 +253,7 @@ def energy_budget(tm: ThermoModel, fluxes: Mapping[str, float], delta_g: Mapping
     Examples
     --------
     Two-step chain A -> B -> C at flux 2 with a demand of 2 on C; ΔrG' = -10 and -4 kJ/mol. By
-    hand, per unit demand: ΔG_net = (2 (-10) + 2 (-4)) / 2 = -14 kJ (tests/test_budget.py).
+    hand, per unit demand: ΔG_net = (2 (-10) + 2 (-4)) / 2 = -14 kJ (tests/test_budget_routes.py).
     """
     demand = float(fluxes.get(tm.demand_id, 0.0)) if tm.demand_id else 0.0
     if abs(demand) <= 1e-12:

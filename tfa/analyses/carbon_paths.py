@@ -157,7 +157,9 @@ def pathway_of(reaction) -> str:
 
 
 def _contains(big: dict, small: dict) -> bool:
-    return big != small and all(big.get(e, 0) >= n for e, n in small.items())
+    """``big`` holds every heavy atom of ``small`` (hydrogen aside: 5,10-methenyl-THF has one H
+    fewer than THF itself, yet carries it whole)."""
+    return big != small and all(big.get(e, 0) >= n for e, n in small.items() if e != "H")
 
 
 def _loaded(big: dict, small: dict) -> bool:
@@ -165,7 +167,7 @@ def _loaded(big: dict, small: dict) -> bool:
     O and N only (a formyl, methyl, acetyl or succinyl group; not a phosphate or a thiol)."""
     if not _contains(big, small) or big.get("C", 0) <= small.get("C", 0):
         return False
-    return all(e in ("C", "H", "O", "N") for e, n in big.items() if n > small.get(e, 0))
+    return all(e in ("C", "H", "O", "N") for e, n in big.items() if n > small.get(e, 0) and e != "H")
 
 
 def transferable_carbon(model) -> dict[str, float]:

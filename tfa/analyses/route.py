@@ -110,8 +110,8 @@ def delta_g_at(tm: ThermoModel, reaction_id: str, log_conc: Mapping[str, float])
     ΔrG' = ΔrG'° + RT Σ_i ν_i ln a_i (Alberty 2003, eq. 4.1-4); H⁺ and water carry no activity
     term. NaN when the reaction has no energy or a compound has no concentration given.
 
-    Example (hand-derived): ΔrG'° = -10 kJ/mol for A -> B with [B]/[A] = 10 at 25 degC gives
-    -10 + 2.479 ln 10 = -4.29 kJ/mol (tests/test_budget.py).
+    Example (hand-derived): ΔrG'° = -3 kJ/mol for A -> B with [B]/[A] = 10 at 25 degC gives
+    -3 + 2.479 ln 10 = +2.71 kJ/mol (tests/test_budget_routes.py).
     """
     e = tm.energies.get(reaction_id)
     if e is None:

@@ -73,8 +73,9 @@ def step_ids() -> list[str]:
     return [s.id for s in STEPS]
 
 
-for _step in (CoverageStep(), FeasibilityStep(), EnergyBudgetStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
-              DrivingForceStep(), EnergyProfileStep(), RangesStep(), RobustnessStep()):
+for _step in (CoverageStep(), FeasibilityStep(), CensusStep(), H2ScanStep(), H2ThresholdStep(),
+              DrivingForceStep(), EnergyBudgetStep(), EnergyProfileStep(), RangesStep(),
+              RobustnessStep()):
     register_step(_step)
 register_step(GradientStep(), before="driving_force")
 register_step(BindingStep(), before="energy_profile")   # after the answers it reads

@@ -13,8 +13,8 @@ from .step_command import run_step_command
 
 #: The steps of ``tfa assess``, named in its help (the registry is the source; this list is
 #: checked against it by the tests, so that the help can stay free of heavy imports).
-STEP_IDS = ("coverage", "feasibility", "energy_budget", "precursors", "census", "h2_scan",
-            "h2_threshold", "gradient", "driving_force", "binding_constraints", "energy_profile",
+STEP_IDS = ("coverage", "feasibility", "precursors", "census", "h2_scan", "h2_threshold",
+            "gradient", "driving_force", "energy_budget", "binding_constraints", "energy_profile",
             "ranges", "verdict_margins", "robustness", "couplings", "currencies",
             "route_comparison")
 
@@ -24,8 +24,8 @@ def register(subparsers) -> None:
         "assess",
         help="the whole assessment: tables, figures, an HTML report and the answer in words",
         description="Assess a network at a setting: data coverage, feasibility and minimal "
-        "uphill sets per mode, energy budget and carbon routes per mode, census, H2 scan and "
-        "threshold, driving force, energy profile along the widest carbon path that ran, ranges "
+        "uphill sets per mode, census, H2 scan and threshold, driving force, energy budget and "
+        "carbon routes per mode, energy profile along the widest carbon path that ran, ranges "
         "and a small robustness run. Without NETWORK the "
         "bundled network is assessed at its own environment.",
         epilog="example: tfa assess models/ancestral_core --environment my_vent.toml --out results",
