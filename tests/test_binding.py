@@ -251,12 +251,14 @@ def test_assess_writes_binding_constraints_and_the_report_shows_them(bundled_run
     table = result.binding_constraints.table
     assert set(table["answer"]) >= {"feasible", "h2_threshold", "driving_force"}
     # the H2 answer names its binding constraint, in the summary as well
-    # with the environment's physiological carrier states it is the least NADH/NAD+ ratio they
-    # allow (a carrier-state row, not a loose per-form bound): the threshold is proportional to
-    # it, so the dual is 1 in d ln[H2] per unit ln of the ratio (H2 + NAD+ -> NADH + H+)
+    # with the environment's physiological carrier states it is a bound of the ferredoxin pool
+    # (from [cofactors.bounds], not a loose per-form bound); two ferredoxins per H2, so the dual
+    # of the threshold's pattern LP is -2, confirmed by its re-solves with the pattern fixed
     top = result.binding_constraints.top("native", "h2_threshold")
-    assert top["kind"] == "carrier state" and "nadh" in top["compound"]
-    assert abs(top["sensitivity"]) == pytest.approx(1.0)
+    env = result.context.environment
+    assert top["compound"] in env.cofactors.bounds and top["bound"] == "upper"
+    assert top["activity"] == pytest.approx(env.cofactors.bounds[top["compound"]][1])
+    assert top["sensitivity"] == pytest.approx(-2.0) and top["dual_confirmed"]
     assert any(line.startswith("what binds the H2 threshold (native)") for line in result.summary_lines())
     assert table.loc[table["sensitivity"].abs() > 1e-7, "dual_confirmed"].all()
 

@@ -136,25 +136,22 @@ def test_cofactor_section_is_read_and_checked():
 
 
 @pytest.mark.slow
-def test_bundled_h2_threshold_is_set_by_the_nadh_ratio_bound():
-    """Hand derivation: at the H2 threshold H2 + NAD+ -> NADH + H+ (HYD_NAD) runs at exactly
-    -delta, so H2* = (NADH/NAD+)_least exp((ΔrG'° + δ)/RT): proportional to the least NADH/NAD+
-    the carrier states allow. Loose bounds allow 1 uM / 10 mM = 1e-4, the physiological
-    [cofactors] ratio NADH/NAD+ >= 1e-3 (the file's value), so the threshold rises tenfold and
-    the ratio row is what binds at the threshold point."""
+def test_bundled_h2_threshold_rests_on_the_physiological_carrier_states():
+    """With the energy-converting hydrogenase and Rnf in the network, H2 is needed as the donor
+    that reduces ferredoxin; the least H2 then rests on the carrier states of the environment's
+    [cofactors] (the ferredoxin pool), not on the loose per-form bounds: dropping the section
+    (--loose-cofactors) moves it, and the binding-constraint analysis (the LP of the threshold's
+    flux pattern, tests/test_binding.py) names a constraint of that section."""
     from tfa.analyses import h2_threshold
     from tfa.network.energies import prepare
     from tfa.network.inputs import resolve_inputs
 
     inputs = resolve_inputs()
     env = inputs.environment
-    ratio = next(r for r in env.cofactors.ratios if r.name == "nadh/nad")
     physiological = h2_threshold(prepare(inputs.model, env, "native"), ProblemOptions())
     loose = h2_threshold(prepare(inputs.model, env.with_loose_cofactors(), "native"), ProblemOptions())
-    assert physiological.threshold / loose.threshold == pytest.approx(ratio.lowest / 1e-4, rel=1e-6)
-    point = physiological.solution
-    assert point.concentration("nadh") / point.concentration("nad") == pytest.approx(ratio.lowest,
-                                                                                    rel=1e-6)
+    assert physiological.feasible and loose.feasible
+    assert physiological.threshold != pytest.approx(loose.threshold, rel=1e-3)
     assert physiological.certificates and physiological.certificates[0].carrier_checks >= 5
 
 
