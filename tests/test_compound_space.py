@@ -40,10 +40,18 @@ def _combination(ids, weights):
     return y
 
 
-def test_every_identity_of_the_stoichiometry_holds_in_every_one_of_500_draws(bundled_draws):
+def test_every_identity_of_the_stoichiometry_holds_in_every_one_of_500_draws(bundled_draws,
+                                                                              bundled_native):
     cov, draws = bundled_draws
-    # the left null space of the energies' map [N | E]: every identity of the stoichiometry
-    u, s, _ = np.linalg.svd(cov.energy_map)
+    # the left null space of the energies' map [N | E], with a column for each compound outside
+    # the cell (the outer H+: its energy is a fixed electrochemical offset, no column of its own
+    # in the map, so without it a sum that leaves only outer H+ would look like an identity):
+    # every identity of the stoichiometry
+    model = bundled_native.model
+    outside = [m for m in model.metabolites if m.compartment and m.compartment != "c"]
+    extra = np.array([[float(model.reactions.get_by_id(rid).metabolites.get(m, 0.0))
+                       for m in outside] for rid in cov.reaction_ids]).reshape(len(cov.reaction_ids), -1)
+    u, s, _ = np.linalg.svd(np.hstack([cov.energy_map, extra]))
     rank = int(np.sum(s > 1e-9 * s[0]))
     identities = u[:, rank:]
     assert identities.shape[1] >= 5           # the bundled network has many routes to one net
@@ -55,6 +63,7 @@ def test_every_identity_of_the_stoichiometry_holds_in_every_one_of_500_draws(bun
                     {"GAPDH": 1, "GAPDH2": -1, "THD": -1}):
         y = _combination(cov.reaction_ids, weights)
         assert np.linalg.norm(y @ cov.energy_map) < 1e-12, weights   # truly an identity
+        assert np.linalg.norm(y @ extra) < 1e-12, weights
         assert np.max(np.abs(draws @ y)) < 1e-9, weights
     # and the draws do vary (the check is not vacuous)
     assert draws[:, cov.reaction_ids.index("PTA")].std() > 1.0

@@ -155,12 +155,13 @@ def test_driving_force_of_pathway_and_network(solver):
 
 
 def test_census_one_reaction():
-    # A <=> B: at 1 mM both, dG' = dG'deg = 5; at A:B = 100:1 (A at 1mM*10, B at 1mM/10)
-    # dG' = 5 + RT ln(1/100) = 5 - 11.416 = -6.416 kJ/mol.
+    # A <=> B: at 1 mM both, dG' = dG'deg = 5; at substrate:product 100:1 a substrate stands at
+    # 1mM*10 and a product at 1mM/10, but A is fed and stays at its feed value (1 mM), so
+    # dG' = 5 + RT ln(0.1) = 5 - 5.708 = -0.708 kJ/mol (Flamholz et al. 2012 reference states).
     res = census(one_step(1e-4, "glpk"), ratio=100.0)
     row = res.to_frame().set_index("reaction").loc["R1"]
     assert row["delta_g_1mM_kJ_per_mol"] == pytest.approx(5.0)
-    assert row["delta_g_at_ratio_kJ_per_mol"] == pytest.approx(5.0 - RT * math.log(100.0), abs=1e-9)
+    assert row["delta_g_at_ratio_kJ_per_mol"] == pytest.approx(5.0 + RT * math.log(0.1), abs=1e-9)
     counts = res.counts()
     assert counts["exergonic_1mM"] == 0 and counts["exergonic_at_ratio"] == 1
 

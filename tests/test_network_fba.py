@@ -72,7 +72,13 @@ def test_native_network_makes_precursors_from_feed_alone(bundled):
 
 @pytest.mark.parametrize("withheld", ["H2", "CO2"])
 def test_no_precursors_without_h2_or_co2(bundled, withheld):
+    import dataclasses
+
     model, env = bundled
-    starved = env.without_feed(_feed_key(env, model, withheld))
+    if withheld == "CO2":      # carbon comes as the [fluid] total (dissolved inorganic carbon)
+        fluid = {k: v for k, v in env.fluid.items() if k != "dissolved_inorganic_carbon"}
+        starved = dataclasses.replace(env, fluid=fluid)
+    else:
+        starved = env.without_feed(_feed_key(env, model, withheld))
     value, _ = _max_demand(model, starved)
     assert math.isnan(value) or value < starved.demand_flux

@@ -47,7 +47,7 @@ def outer_ph_run():
     from tfa.network.environment import bundled_environment
 
     env = bundled_environment()
-    env = dataclasses.replace(env, scenario=parse_scenario({"pH_feed.h_out": [5.0, 6.0]}))
+    env = dataclasses.replace(env, scenario=parse_scenario({"pH_compartment.out": [5.0, 6.0]}))
     return env, robustness(load_bundled_network(), env, n_draws=10, seed=18, modes=["native"],
                            executor="serial", threshold=False, scenario="assumptions",
                            time_limit=120)
@@ -57,15 +57,15 @@ def test_outer_ph_drawn_on_the_bundled_network_reports_what_it_carries(outer_ph_
     env, result = outer_ph_run
     draws = [r for r in result.records if r.get("variant") == "assumptions" and r["error"] is None]
     assert len(draws) == 10
-    ph = {r["draw"]: draw_changes(env.scenario, 18, r["draw"])["pH_feed.h_out"] for r in draws}
+    ph = {r["draw"]: draw_changes(env.scenario, 18, r["draw"])["pH_compartment.out"] for r in draws}
     feasible = [ph[r["draw"]] for r in draws if r["feasible"]]
     infeasible = [ph[r["draw"]] for r in draws if not r["feasible"]]
     assert feasible and infeasible, "pH_out in [5, 6] should cross the threshold (5.5 runs, 6.0 not)"
     assert max(feasible) < min(infeasible)                  # a lower outer pH only helps
     frame = result.assumption_frame()
-    row = frame[frame["assumption"] == "pH_feed.h_out"].iloc[0]
+    row = frame[frame["assumption"] == "pH_compartment.out"].iloc[0]
     assert row["probability_held_central"] == 1.0           # pH_out 5.5: the deterministic answer
     assert row["probability"] == pytest.approx(len(feasible) / 10)
     assert row["probability_change"] < 0
-    assert "pH_feed.h_out carries" in result.summary()
+    assert "pH_compartment.out carries" in result.summary()
     assert math.isfinite(result.feasibility_frame().iloc[0]["interval_low"])

@@ -154,8 +154,10 @@ def _scenario_model(job: "NetworkJob", mode: str, changes: Mapping[str, float]) 
     from ..network.scenario import CONDITION_KEYS, apply_changes
 
     model, environment, custom = job.objects()
-    conditions = {k: v for k, v in changes.items() if k in CONDITION_KEYS}
-    feeds = {k: v for k, v in changes.items() if k not in CONDITION_KEYS}
+    # a compartment's pH changes energies (its compounds' offsets): prepared again, as a condition
+    conditions = {k: v for k, v in changes.items()
+                  if k in CONDITION_KEYS or k.startswith("pH_compartment.")}
+    feeds = {k: v for k, v in changes.items() if k not in conditions}
     if conditions:
         key = (mode, "scenario", tuple(sorted(conditions.items())))
         cache: OrderedDict = worker_cache(("prepared", job.token), OrderedDict)

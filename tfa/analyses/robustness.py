@@ -414,7 +414,7 @@ def robustness(model, environment, n_draws: int = 100, seed: int = 0,
     assumptions = sorted(getattr(environment, "scenario", {}) or {})
     if scenario != "energies" and not assumptions:
         raise InputError(f"scenario {scenario}: the environment gives no ranges; add a [scenario] "
-                         "section, e.g. \"pH_feed.h_out\" = [5.0, 6.0]")
+                         "section, e.g. \"pH_compartment.out\" = [5.0, 6.0]")
     parts = ("uphill", "threshold") if threshold else ("uphill",)
     job = NetworkJob.create(model, environment, parts=parts, prepare=prepare,
                             h2_range=tuple(h2_range), **problem_options)

@@ -266,7 +266,8 @@ class Environment:
         from .scenario import parse_scenario
 
         scenario = parse_scenario(data.get("scenario"), where)
-        missing = [k.split(".", 1)[1] for k in scenario if "." in k and k.split(".", 1)[1] not in feed]
+        missing = [k.split(".", 1)[1] for k in scenario if k.split(".", 1)[0] in ("feed", "pH_feed")
+                   and k.split(".", 1)[1] not in feed]
         if missing:
             raise NetworkFileError(f"{where} [scenario]: {', '.join(missing)} is not fed in [feed]; a "
                                    "scenario changes the activity of a fed compound only")

@@ -25,7 +25,7 @@ File format::
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 
 from ..errors import NetworkFileError
 from ..thermo.mixing import TEMPERATURE_RULES, Fluid
@@ -102,8 +102,9 @@ def environment_with_ph(environment, model, ph: float, hold_gradient: bool = Tru
     if not hold_gradient:
         return moved
     shift = ph - environment.conditions.ph
-    for cid, compartment in environment.compartments.items():
-        moved = moved.with_compartment(cid, ph=compartment.ph + shift)
+    if environment.compartments:
+        moved = replace(moved, compartments={cid: replace(c, ph=c.ph + shift)
+                                             for cid, c in environment.compartments.items()})
     changes = {}
     for key, value in environment.feed.items():
         met = environment.resolve(model, key)
@@ -120,7 +121,6 @@ def mixed_environment(environment, model, fraction: float, hold_gradient: bool =
     NetworkFileError
         The environment has no ``[mixing]`` section, or no fed H2 to replace.
     """
-    from dataclasses import replace
 
     from ..thermo.mixing import mix
     from .roles import single_with_role

@@ -21,7 +21,7 @@ setting goes with draw i of the energies, whichever is drawn alone or both toget
 Example file section (the Kestrel Ridge demo)::
 
     [scenario]
-    "pH_feed.h_out" = [5.0, 6.0]         # the outer fluid between pH 5 and 6
+    "pH_compartment.out" = [5.0, 6.0]    # the outer fluid between pH 5 and 6
     temperature_C = { normal = [70.0, 5.0] }
 
 Units: as in the environment file (degC, mol/L, bar).
@@ -30,7 +30,7 @@ Units: as in the environment file (degC, mol/L, bar).
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from statistics import NormalDist
 from typing import Any, Mapping
 
@@ -82,10 +82,10 @@ def parse_scenario(section: Mapping[str, Any] | None, where: str = "environment"
     out: dict[str, Assumption] = {}
     for key, value in (section or {}).items():
         prefix = key.split(".", 1)[0] if "." in key else ""
-        if key not in CONDITION_KEYS and prefix not in ("feed", "pH_feed"):
+        if key not in CONDITION_KEYS and prefix not in ("feed", "pH_feed", "pH_compartment"):
             raise NetworkFileError(
                 f"{where} [scenario] '{key}': unknown assumption; use {', '.join(CONDITION_KEYS)}, "
-                "\"feed.<compound>\" or \"pH_feed.<compound>\"")
+                "\"feed.<compound>\", \"pH_feed.<compound>\" or \"pH_compartment.<id>\"")
         if prefix and not key.split(".", 1)[1]:
             raise NetworkFileError(f"{where} [scenario] '{key}': name the fed compound after the dot")
         if isinstance(value, dict):
@@ -145,6 +145,14 @@ def apply_changes(environment, changes: Mapping[str, float]):
             feed[key[8:]] = 10.0 ** (-float(value))
     if conditions:
         env = env.with_conditions(**conditions)
+    for key, value in changes.items():
+        if key.startswith("pH_compartment."):
+            cid = key[len("pH_compartment."):]
+            if cid not in env.compartments:
+                raise NetworkFileError(f"[scenario] '{key}': {cid} is not a compartment of the "
+                                       "environment; give it with [compartments.ID]")
+            env = replace(env, compartments={**env.compartments,
+                                             cid: replace(env.compartments[cid], ph=float(value))})
     if feed:
         unknown = [k for k in feed if k not in env.feed]
         if unknown:
