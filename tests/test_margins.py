@@ -5,7 +5,9 @@ forward; it runs downhill when ΔrG'° <= −δ, δ = 0.1 kJ/mol. Its only error
 σ = 2 kJ/mol. By hand: with ΔrG'° = −10 the verdict (feasible) flips when ΔrG'° rises to −0.1,
 a change of 9.9 kJ/mol = 4.95σ; with ΔrG'° = +5 (infeasible) it flips at −0.1, 5.1 kJ/mol =
 2.55σ. Two reactions in series, A -> B -> C, each with its own source: the network fails as soon
-as either fails, so the distance is the smaller of the two margins.
+as either fails, so the distance is the smaller of the two margins. Hand derivations on
+ΔrG' = ΔrG'° + RT Σ ν ln a (Alberty 2003, eq. 4.1-4) and the max-min driving force of Noor et
+al. 2014 (doi:10.1371/journal.pcbi.1003483).
 """
 
 from __future__ import annotations

@@ -3,9 +3,10 @@ assumptions drawn from the ranges an environment file gives.
 
 Hand-derived check on the bundled network: ATP is made from the proton gradient
 (ATPS_GRAD, 4 H+ per ATP); each H+ entering from the outer fluid gains RT ln10 (pH_in − pH_out),
-so a lower outer pH can only help (the bundled environment.toml's own comment: at pH_out 5.5 the
+so a lower outer pH can only help (Mitchell 1961, doi:10.1038/191144a0; the bundled
+environment.toml's own comment: at pH_out 5.5 the
 4 H+ bring 52.6 kJ/mol and ATP is made, at 6.0 only 39.4 kJ/mol and none is). Drawing pH_out
-uniform in [5, 6]: every feasible draw must have a lower outer pH than every infeasible one, and
+uniform in [5, 6] (the outer compartment's pH): every feasible draw must have a lower outer pH than every infeasible one, and
 holding pH_out at its central 5.5 (feasible) must give a probability at least as high.
 """
 
