@@ -72,10 +72,11 @@ def test_the_new_command_writes_the_example_and_it_runs(tmp_path, capsys):
     assert "already holds" in capsys.readouterr().err
     assert main(["inspect", str(folder)]) == 0
     out = capsys.readouterr().out
-    # the roles table: found (declared here) and missing, with the modes that need them
-    assert re.search(r"^\s*h2\s+h2\s+declared\s+h2_only, h2_bare, h2_no_atp$", out, re.M)
+    # the roles table: found (declared here) and missing, with the modes that need them (combined
+    # modes another test asked for, "a+b", may follow in the same process)
+    assert re.search(r"^\s*h2\s+h2\s+declared\s+h2_only, h2_bare, h2_no_atp\b", out, re.M)
     assert re.search(r"^\s*atp\s+none\s+missing\s+no_atp_strict, no_atp_bare, h2_bare, h2_no_atp, "
-                     r"acetyl_phosphate, thioester, pyrophosphate, polyphosphate, coupling_choice$", out, re.M)
+                     r"acetyl_phosphate, thioester, pyrophosphate, polyphosphate, coupling_choice\b", out, re.M)
     assert main(["feasible", str(folder), "-q"]) == 0
     out = capsys.readouterr().out
     assert _lines_of(out, "runs as given") == "runs as given: yes [certified]"
