@@ -312,6 +312,16 @@ def outcome(tm: ThermoModel, options: ProblemOptions, parts=("uphill", "threshol
             out["uphill_set_size"], out["uphill_set"] = int(result.diagnosis.size), members
         else:
             out["uphill_set_size"], out["uphill_set"] = None, None
+    out.update(answers_beyond_the_verdict(tm, options, parts, h2_range))
+    return out
+
+
+def answers_beyond_the_verdict(tm: ThermoModel, options: ProblemOptions, parts,
+                               h2_range: tuple[float, float] = DEFAULT_H2_RANGE) -> dict:
+    """The parts of :func:`outcome` other than the verdict and its uphill set: ``h2_threshold``
+    with ``h2_at_range_floor`` ("threshold") and ``driving_force_kJ_per_mol``
+    ("driving_force"), each its own certified analysis."""
+    out: dict[str, Any] = {}
     if "threshold" in parts:
         out["h2_threshold"], out["h2_at_range_floor"] = _h2_threshold(tm, options, h2_range)
     if "driving_force" in parts:
