@@ -148,15 +148,15 @@ class NetworkJob:
 
 def _scenario_model(job: "NetworkJob", mode: str, changes: Mapping[str, float]) -> ThermoModel:
     """The prepared model of ``mode`` with a scenario's drawn assumptions
-    (:mod:`tfa.network.scenario`): a change of the conditions prepares the network again
-    (cached per worker); a change of fed activities only replaces those compounds' fixed
-    log-activities on the prepared model (the energies do not depend on them)."""
-    from ..network.scenario import CONDITION_KEYS, apply_changes
+    (:mod:`tfa.network.scenario`): a change of the conditions, a compartment's pH, an ion
+    stoichiometry or a carrier state prepares the network again (cached per worker); a change
+    of fed activities only replaces those compounds' fixed log-activities on the prepared model
+    (the energies do not depend on them)."""
+    from ..network.scenario import apply_changes, changes_the_energies
 
     model, environment, custom = job.objects()
-    # a compartment's pH changes energies (its compounds' offsets): prepared again, as a condition
-    conditions = {k: v for k, v in changes.items()
-                  if k in CONDITION_KEYS or k.startswith("pH_compartment.")}
+    # a condition, a compartment's pH, an ion stoichiometry or a carrier state: prepared again
+    conditions = {k: v for k, v in changes.items() if changes_the_energies(k)}
     feeds = {k: v for k, v in changes.items() if k not in conditions}
     if conditions:
         key = (mode, "scenario", tuple(sorted(conditions.items())))
