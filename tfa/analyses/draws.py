@@ -35,6 +35,7 @@ that of the mean energies, the same in every worker.
 from __future__ import annotations
 
 import logging
+from contextlib import contextmanager
 from dataclasses import replace
 
 import numpy as np
@@ -56,6 +57,20 @@ SPREAD_SIGMAS = 6.0
 #: confirmation 90 % of the run's time; a draw it cannot confirm within this limit keeps the
 #: first solver's proof and says so ("solver proof" in its verification).
 DRAW_CONFIRM_TIME_LIMIT = 2.0
+
+
+@contextmanager
+def _downhill_only(problem: ThermoProblem):
+    """The uphill binaries held at 0 (the plain feasibility problem on the uphill-set build),
+    restored afterwards."""
+    saved = [(v, v.lb, v.ub) for v in problem.u_vars]
+    try:
+        for v in problem.u_vars:
+            v.set_bounds(0, 0)
+        yield problem
+    finally:
+        for v, lb, ub in saved:
+            v.set_bounds(lb, ub)
 
 
 class DrawSolver:
@@ -87,7 +102,6 @@ class DrawSolver:
         self.mean_standard = self.problem.standard.copy()
         self._mean_pattern = self._pattern_of_mean()
         self._other: ThermoProblem | None = None
-        self._other_name = ""
 
     def _standard_of(self, values: np.ndarray) -> np.ndarray:
         out = self.mean_standard.copy()
@@ -99,18 +113,13 @@ class DrawSolver:
         """The flux pattern of a certified steady state at the mean energies (None when there is
         none: the first route is then skipped)."""
         problem = self.problem
-        saved = [(v, v.lb, v.ub) for v in problem.u_vars]
         try:
-            for v in problem.u_vars:
-                v.set_bounds(0, 0)
-            solution = problem.solve(f"feasibility at the mean energies ({self.tm.mode})")
+            with _downhill_only(problem):
+                solution = problem.solve(f"feasibility at the mean energies ({self.tm.mode})")
             certify(problem, solution)
             return problem.flux_pattern(solution)
         except (InfeasibleProblem, UndeterminedError):
             return None
-        finally:
-            for v, lb, ub in saved:
-                v.set_bounds(lb, ub)
 
     def covers(self, values: np.ndarray) -> bool:
         """Whether a draw lies within the spread the problem was built for."""
@@ -127,26 +136,16 @@ class DrawSolver:
             raise InputError("the draw lies beyond the spread the reused problem was built for")
         problem.set_standard(self._standard_of(values))
         out: dict = {"demand_impossible": False}
-        saved = [(v, v.lb, v.ub) for v in problem.u_vars]
-        try:
-            for v in problem.u_vars:
-                v.set_bounds(0, 0)
+        feasible = dict(out, feasible=True, verification="certified",
+                        **({"uphill_set_size": 0, "uphill_set": []} if diagnose else {}))
+        with _downhill_only(problem):
             solution = self._point(f"feasibility of a draw ({self.tm.mode})")
-        finally:
-            for v, lb, ub in saved:
-                v.set_bounds(lb, ub)
         if solution is not None:
             certify(problem, solution)
-            out.update(feasible=True, verification="certified")
-            if diagnose:
-                out["uphill_set_size"], out["uphill_set"] = 0, []
-            return out
+            return feasible
         confirmation = self.confirm_no_point(problem.standard)
         if confirmation == "point":
-            out.update(feasible=True, verification="certified")
-            if diagnose:
-                out["uphill_set_size"], out["uphill_set"] = 0, []
-            return out
+            return feasible
         out.update(feasible=False,
                    verification="proven" if confirmation == "confirmed" else "solver proof")
         if diagnose:
