@@ -51,12 +51,14 @@ log = logging.getLogger(__name__)
 
 #: Half-width of the energies a reused problem is built for, in σ of the draws per reaction.
 SPREAD_SIGMAS = 6.0
-#: Seconds the other solver gets to confirm a draw's "no point" (s). Measured on the bundled
-#: network, native mode, 30 draws: GLPK confirmed 9 of 12 "no" draws in 0.02-0.2 s (their linear
-#: relaxation has no point) and needed 3-35 s of branch and bound for the other 3, which made the
-#: confirmation 90 % of the run's time; a draw it cannot confirm within this limit keeps the
-#: first solver's proof and says so ("solver proof" in its verification).
-DRAW_CONFIRM_TIME_LIMIT = 2.0
+#: Seconds the other solver gets to confirm a draw's "no point" (s; the solvers' timers count
+#: whole seconds). Measured on the bundled network, native mode, 30 draws: GLPK confirmed 9 of
+#: 12 "no" draws in 0.02-0.2 s (their linear relaxation has no point) and needed 3-35 s of
+#: branch and bound for the other 3, which made the confirmation 90 % of the run's time; with a
+#: 2 s limit, 1,000 draws spent 300 of 698 s waiting on unconfirmed ones. A draw the other
+#: solver cannot confirm within this limit keeps the first solver's proof and says so
+#: ("solver proof" in its verification).
+DRAW_CONFIRM_TIME_LIMIT = 1.0
 
 
 @contextmanager
