@@ -27,7 +27,11 @@ taken at its least total flux over the same directions and concentrations
   re-solving with the datum moved both ways (:mod:`tfa.analyses.binding`; the first two named);
 - the **distance to a flipped verdict** (:mod:`tfa.analyses.margins`): the least change of the
   energies, in σ of their sources (L1), that flips the route's verdict, and the sources carrying
-  it. Not asked of a route whose demand cannot be met at all (nothing to flip).
+  it. Not asked of a route whose demand cannot be met at all (nothing to flip). A feasible
+  verdict's distance is a verified flip, an upper bound; closing the other carbon entries only
+  removes steady states, so a change that leaves the whole network no steady state leaves the
+  route none either, and the whole network's flip is taken when it is the smaller
+  (:func:`compare_routes` asks it once, or reads it from the assessment).
 
 Example (hand-derived, tests/test_route_comparison.py): CO2 reduced to D by two H2 (route P),
 or carboxylated with one ATP (made back from pyrophosphate) and reduced by one H2 (route Q):
@@ -77,7 +81,7 @@ class RouteAnswer:
     impossible, undetermined, or not asked); ``entries`` reaction -> share of the carbon taken
     from the carbon source through it; ``binding`` answer ("h2_threshold", "driving_force") ->
     the constraints named first (words, dual value, its unit); ``margin`` the distance to a flipped verdict; ``not_asked``
-    what was left out for this route and why.
+    what was not asked or not computed for this route, and why.
     """
 
     route: Route
@@ -131,8 +135,12 @@ class RouteAnswer:
     def row(self) -> dict:
         checks = "; ".join(f"{k}: {v}" for k, v in self.verification.items())
         b = self.budget
-        notes = "; ".join(self.not_asked)
         margin = self.margin
+        notes = "; ".join(self.not_asked)
+        if margin is not None and margin.verification.get("check", "").startswith("the whole "
+                                                                                "network's flip"):
+            notes = "; ".join([n for n in (notes, "margin: the whole network's flip, smaller than "
+                                           "the route's own") if n])
         return {"route": self.route.id, "name": self.route.name,
                 "reactions": len(self.route.reactions), "closed_entries": ", ".join(self.closed),
                 "feasible": self.feasible, "driving_force_kJ_per_mol": self.driving_force,
@@ -152,17 +160,19 @@ class RouteAnswer:
                 "margin_status": margin.status if margin is not None else "",
                 "carried_by": ", ".join(margin.carried_by()) if margin is not None else "",
                 "solution": self.solution,
-                "message": self.message + (f" (not asked: {notes})" if notes else ""),
+                "message": self.message + (f" ({notes})" if notes else ""),
                 "verification": checks}
 
 
 def compare_route(tm: ThermoModel, route: Route, carbon, options: ProblemOptions | None = None,
                   h2_range: tuple[float, float] = DEFAULT_H2_RANGE, stage=None,
-                  budget: bool = True, binding: bool = True, margins: bool = True) -> RouteAnswer:
+                  budget: bool = True, binding: bool = True, margins: bool = True,
+                  network_margin: MarginResult | None = None) -> RouteAnswer:
     """The questions of the module text for one route (the model is restored afterwards);
     ``stage(words)`` is told before each question. ``budget``, ``binding`` and ``margins`` ask
     the energy budget with the carbon entries, the binding constraints and the distance to a
-    flipped verdict (each may be left out, e.g. to measure what it costs)."""
+    flipped verdict (each may be left out, e.g. to measure what it costs); ``network_margin``
+    is the whole network's distance to a flipped verdict in the same mode (module text)."""
     from .driving_force import network_driving_force
     from .feasibility import feasibility
     from .hydrogen import h2_threshold
@@ -229,16 +239,34 @@ def compare_route(tm: ThermoModel, route: Route, carbon, options: ProblemOptions
             stage("binding constraints")
             _fill_binding(tm, answer, options, mode, mdf, threshold, h2_range)
         if margins and verdict.demand_impossible:
-            answer.not_asked.append("distance to a flipped verdict (the demand cannot be met at "
-                                    "all, whatever the energies)")
+            answer.not_asked.append("not asked: distance to a flipped verdict (the demand "
+                                    "cannot be met at all, whatever the energies)")
         elif margins:
             stage("distance to a flipped verdict")
             try:
-                answer.margin = verdict_margin(tm, options, verdict.feasible)
+                answer.margin = _smaller_flip(verdict_margin(tm, options, verdict.feasible),
+                                              network_margin)
                 answer.verification["margin"] = answer.margin.verification.get("status", "")
             except ComputationError as err:
-                answer.not_asked.append(f"distance to a flipped verdict ({err})")
+                answer.not_asked.append(f"not computed: distance to a flipped verdict ({err})")
     return answer
+
+
+def _smaller_flip(own: MarginResult, network: MarginResult | None) -> MarginResult:
+    """The route's own flip, or the whole network's when the route is feasible and that one is
+    smaller (it flips the route too: module text)."""
+    if (network is None or not own.feasible or not network.feasible
+            or not math.isfinite(network.distance)
+            or (math.isfinite(own.distance) and own.distance <= network.distance)):
+        return own
+    found = (f"{own.distance:.3g}σ" if math.isfinite(own.distance) else own.status)
+    taken = replace(network, mode=own.mode)
+    taken.verification = dict(network.verification)
+    taken.verification["check"] = (
+        f"the whole network's flip ({network.verification.get('check', '')}): closing the other "
+        "carbon entries only removes steady states, so the route has none at those energies "
+        f"either; the route's own search found {found}")
+    return taken
 
 
 def _solution_point(tm: ThermoModel, solution, words: str, checked: dict):
@@ -284,8 +312,8 @@ def _fill_budget(tm: ThermoModel, answer: RouteAnswer, carbon, fluxes: dict, del
         words += ", at its least total flux over the same directions and concentrations"
         check = f"{least.check}; the point: {check}"
     except ComputationError as err:
-        answer.not_asked.append(f"least-flux form of the steady state ({err}; the budget uses "
-                                "the certified point as it is)")
+        answer.not_asked.append(f"not computed: least-flux form of the steady state ({err}; the "
+                                "budget uses the certified point as it is)")
     answer.solution = words
     status = checked.get("status", "certified") or "certified"
     try:
@@ -293,7 +321,7 @@ def _fill_budget(tm: ThermoModel, answer: RouteAnswer, carbon, fluxes: dict, del
                                       {"status": status, "check": check})
         edges, _, _ = carbon_graph(tm.model, fluxes, tm.demand_id)
     except InputError as err:
-        answer.not_asked.append(f"energy budget ({err})")
+        answer.not_asked.append(f"not computed: energy budget ({err})")
         return
     answer.verification["energy budget"] = status
     entries: dict[str, float] = {}
@@ -330,7 +358,8 @@ def _fill_binding(tm: ThermoModel, answer: RouteAnswer, options: ProblemOptions,
         try:
             rows, _ = ask()
         except (ComputationError, InputError) as err:
-            answer.not_asked.append(f"binding constraints of the {name.replace('_', ' ')} ({err})")
+            answer.not_asked.append(f"not computed: binding constraints of the "
+                                    f"{name.replace('_', ' ')} ({err})")
             continue
         table = BindingResult(conditions=tm.conditions, table=binding_frame(rows)).table
         moving = table[table["sensitivity"].abs() > ZERO_DUAL].sort_values("rank")
@@ -354,19 +383,28 @@ def compare_routes(tm: ThermoModel, routes: list[Route], carbon,
                    options: ProblemOptions | None = None,
                    h2_range: tuple[float, float] = DEFAULT_H2_RANGE,
                    progress=None, budget: bool = True, binding: bool = True,
-                   margins: bool = True) -> list[RouteAnswer]:
+                   margins: bool = True,
+                   network_margin: MarginResult | None = None) -> list[RouteAnswer]:
     """:func:`compare_route` for every route, in order (``progress(done, total, words)`` before
-    each question of each route)."""
+    each question of each route). With ``margins``, the whole network's distance to a flipped
+    verdict is asked once first unless given (``network_margin``, e.g. the assessment's)."""
     if not routes:
         raise InputError("no routes to compare: the network has no carbon-fixing pathway tag; "
                          "write a route file (routes.toml) beside it")
+    if margins and network_margin is None:
+        if progress is not None:
+            progress(0, len(routes), "the whole network: distance to a flipped verdict")
+        try:
+            network_margin = verdict_margin(tm, options)
+        except ComputationError as err:
+            log.info("whole network: distance to a flipped verdict not computed (%s)", err)
     out = []
     for k, route in enumerate(routes):
         def stage(words: str, k: int = k, route: Route = route) -> None:
             if progress is not None:
                 progress(k, len(routes), f"{route.id}: {words}")
         out.append(compare_route(tm, route, carbon, options, h2_range, stage, budget=budget,
-                                 binding=binding, margins=margins))
+                                 binding=binding, margins=margins, network_margin=network_margin))
     return out
 
 
@@ -395,8 +433,8 @@ def comparison_words(answer: RouteAnswer) -> str:
 
 
 def cost_words(answer: RouteAnswer) -> str:
-    """"; per carbon fixed 2.1 H2, 3.4 ATP made and 3.3 spent, 98 % of ΔrG' from the proton
-    gradient", or "" without a budget."""
+    """"; per carbon fixed 1.94 H2, 4.12 ATP made and 4.12 spent, the proton gradient pays 101 %
+    of the net ΔrG' (the feed chemistry alone is uphill)", or "" without a budget."""
     b = answer.budget
     if b is None or not b.carbon_taken_up > 0:
         return ""
@@ -404,7 +442,9 @@ def cost_words(answer: RouteAnswer) -> str:
              f"ATP made and {answer.per_carbon(b.atp_spent):.3g} spent")
     share = answer.gradient_share
     if math.isfinite(share) and b.protons_in:
-        words += f", {100 * share:.0f} % of the net ΔrG' from the proton gradient"
+        words += f", the proton gradient pays {100 * share:.0f} % of the net ΔrG'"
+        if b.feed_chemistry > 0:
+            words += " (the feed chemistry alone is uphill)"
     return words
 
 

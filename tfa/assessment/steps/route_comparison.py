@@ -29,9 +29,12 @@ class RouteComparisonStep(Step):
         tm = ctx.thermo_model(ctx.settings.mode)
         routes, carbon = network_routes(tm.model, ctx.settings.route_file,
                                         getattr(ctx.inputs, "network_folder", None))
+        # the whole network's distance to a flipped verdict, when the assessment has it
+        network_margin = (ctx.results.get("verdict_margins") or {}).get(ctx.settings.mode)
         return ctx.attempt("route comparison", lambda: compare_routes(
             tm, routes, carbon, ctx.options, ctx.settings.h2_range,
-            progress=lambda done, total, words: ctx.tick(done, total, f"routes ({words})"))) or []
+            progress=lambda done, total, words: ctx.tick(done, total, f"routes ({words})"),
+            network_margin=network_margin)) or []
 
     def tables(self, result: list[RouteAnswer], ctx: RunContext) -> dict:
         return {"route_comparison": comparison_table(result)} if result else {}
