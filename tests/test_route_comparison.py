@@ -190,6 +190,9 @@ def test_what_binds_each_routes_h2_threshold_by_hand():
     assert q_binds == {"the upper bound of C": pytest.approx(-1.0, abs=1e-6),
                        "the lower bound of D": pytest.approx(1.0, abs=1e-6)}
     assert comparison_words(q).endswith("the H2 threshold is set by the upper bound of C")
+    # each dual named is confirmed by re-solving with its datum moved both ways
+    assert p.verification["binding (h2 threshold)"] == "proven"
+    assert q.verification["binding (driving force)"] == "proven"
     assert "the lower bound of D (+0.5 d ln[H2] per unit ln c)" in comparison_table([p])[
         "h2_threshold_binding"].iloc[0]
 

@@ -23,8 +23,9 @@ taken at its least total flux over the same directions and concentrations
   share through the route's own reactions (route_carbon_share; the rest went through the shared
   entries), so a reader sees that the route was the only entry;
 - the **binding constraints** of the route's H2 threshold and max-min driving force: the dual
-  values of the linear program with the optimum's flux pattern fixed, each confirmed by
-  re-solving with the datum moved both ways (:mod:`tfa.analyses.binding`; the first two named);
+  values of the linear program with the optimum's flux pattern fixed (:mod:`tfa.analyses.binding`;
+  the first two named, each confirmed by re-solving with its datum moved both ways, "proven"
+  when both lie between the one-sided derivatives; the rows not named are not re-solved);
 - the **distance to a flipped verdict** (:mod:`tfa.analyses.margins`): the least change of the
   energies, in σ of their sources (L1), that flips the route's verdict, and the sources carrying
   it. Not asked of a route whose demand cannot be met at all (nothing to flip). A feasible
@@ -350,10 +351,11 @@ def _fill_binding(tm: ThermoModel, answer: RouteAnswer, options: ProblemOptions,
         opts = replace(options, log_bound_overrides=overrides, uphill=False, driving_force=False)
         asked.append(("h2_threshold", lambda: optimum_constraints(
             tm, threshold.solution, opts, mode, "h2_threshold", ("ln_activity", h2), "min",
-            range_compound=h2, unit=threshold.unit)))
+            range_compound=h2, unit=threshold.unit, confirm=BINDING_SHOWN)))
     if mdf is not None and mdf.solution is not None:
         asked.append(("driving_force", lambda: optimum_constraints(
-            tm, mdf.solution, options, mode, "driving_force", ("driving_force", None), "max")))
+            tm, mdf.solution, options, mode, "driving_force", ("driving_force", None), "max",
+            confirm=BINDING_SHOWN)))
     for name, ask in asked:
         try:
             rows, _ = ask()
@@ -363,9 +365,13 @@ def _fill_binding(tm: ThermoModel, answer: RouteAnswer, options: ProblemOptions,
             continue
         table = BindingResult(conditions=tm.conditions, table=binding_frame(rows)).table
         moving = table[table["sensitivity"].abs() > ZERO_DUAL].sort_values("rank")
+        named = moving.head(BINDING_SHOWN)
         answer.binding[name] = [(constraint_words(r), float(r["sensitivity"]),
-                                 str(r["sensitivity_unit"]))
-                                for _, r in moving.head(BINDING_SHOWN).iterrows()]
+                                 str(r["sensitivity_unit"])) for _, r in named.iterrows()]
+        # each dual named is re-solved with its datum moved both ways (tfa.analyses.binding)
+        confirmed = bool(len(named)) and all(named["dual_confirmed"] == True)  # noqa: E712
+        answer.verification[f"binding ({name.replace('_', ' ')})"] = (
+            "proven" if confirmed else "solver proof")
 
 
 def constraint_words(row) -> str:
