@@ -81,7 +81,8 @@ class RouteAnswer:
     ``budget`` is the energy budget of the route's steady state (None when it has none: demand
     impossible, undetermined, or not asked); ``entries`` reaction -> share of the carbon taken
     from the carbon source through it; ``binding`` answer ("h2_threshold", "driving_force") ->
-    the constraints named first (words, dual value, its unit); ``margin`` the distance to a flipped verdict; ``not_asked``
+    the constraints named first (words, dual value, its unit); ``margin`` the distance to a flipped verdict
+    (``margin_of_network``: the whole network's flip, the smaller); ``not_asked``
     what was not asked or not computed for this route, and why.
     """
 
@@ -103,6 +104,7 @@ class RouteAnswer:
     route_carbon_share: float = float("nan")
     binding: dict[str, list[tuple[str, float, str]]] = field(default_factory=dict)
     margin: MarginResult | None = None
+    margin_of_network: bool = False
     not_asked: list[str] = field(default_factory=list)
 
     def per_carbon(self, amount: float) -> float:
@@ -120,7 +122,7 @@ class RouteAnswer:
         b = self.budget
         if b is None or not b.delta_g_net < 0:
             return math.nan
-        return b.gradient / b.delta_g_net
+        return b.gradient / b.delta_g_net + 0.0   # + 0.0: no gradient gives 0, not -0
 
     def entry_words(self, shown: int = 3) -> str:
         """The carbon entries, largest first: "PFOR 60 %, PC 40 %"."""
@@ -137,11 +139,8 @@ class RouteAnswer:
         checks = "; ".join(f"{k}: {v}" for k, v in self.verification.items())
         b = self.budget
         margin = self.margin
-        notes = "; ".join(self.not_asked)
-        if margin is not None and margin.verification.get("check", "").startswith("the whole "
-                                                                                "network's flip"):
-            notes = "; ".join([n for n in (notes, "margin: the whole network's flip, smaller than "
-                                           "the route's own") if n])
+        notes = "; ".join(self.not_asked + (["margin: the whole network's flip, smaller than the "
+                                             "route's own"] if self.margin_of_network else []))
         return {"route": self.route.id, "name": self.route.name,
                 "reactions": len(self.route.reactions), "closed_entries": ", ".join(self.closed),
                 "feasible": self.feasible, "driving_force_kJ_per_mol": self.driving_force,
@@ -245,8 +244,9 @@ def compare_route(tm: ThermoModel, route: Route, carbon, options: ProblemOptions
         elif margins:
             stage("distance to a flipped verdict")
             try:
-                answer.margin = _smaller_flip(verdict_margin(tm, options, verdict.feasible),
-                                              network_margin)
+                own = verdict_margin(tm, options, verdict.feasible)
+                answer.margin = _smaller_flip(own, network_margin)
+                answer.margin_of_network = answer.margin is not own
                 answer.verification["margin"] = answer.margin.verification.get("status", "")
             except ComputationError as err:
                 answer.not_asked.append(f"not computed: distance to a flipped verdict ({err})")

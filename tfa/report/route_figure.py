@@ -102,12 +102,12 @@ def route_comparison_figure(frame: pd.DataFrame, h2_range: tuple[float, float],
     ax_h2.set_title("H2 window", loc="left")
 
     # 3. H2 per carbon fixed
-    _bars(ax_h2c, y, frame["h2_per_carbon"], DOWNHILL_COLOUR, "{:.2g}")
+    _bars(ax_h2c, y, frame["h2_per_carbon"], DOWNHILL_COLOUR, "{:.3g}")
     ax_h2c.set_xlabel("H2 per\nC fixed")
     ax_h2c.set_title("H2 (mol/mol)", loc="left")
 
     # 4. ATP made (wide) and spent (narrow) per carbon fixed
-    _bars(ax_atp, y, frame["atp_made_per_carbon"], "#BBBBBB", "{:.2g}")
+    _bars(ax_atp, y, frame["atp_made_per_carbon"], "#BBBBBB", "{:.3g}")
     _bars(ax_atp, y, frame["atp_spent_per_carbon"], REFERENCE_COLOUR, "", height=0.25)
     ax_atp.set_xlabel("ATP per C: made\n(light), spent (dark)")
     ax_atp.set_title("ATP (mol/mol)", loc="left")
@@ -118,7 +118,7 @@ def route_comparison_figure(frame: pd.DataFrame, h2_range: tuple[float, float],
         if not _missing(sigma):
             ax_margin.barh(yi, float(sigma), color=OKABE_ITO["bluish_green"], height=0.6)
             bound = "" if status == "proven" else "≤"
-            ax_margin.text(float(sigma), yi, f" {bound}{float(sigma):.2g}σ", va="center",
+            ax_margin.text(float(sigma), yi, f" {bound}{float(sigma):.3g}σ", va="center",
                            ha="left", fontsize=MIN_FONT_PT)
         elif status.startswith("none within"):
             ax_margin.text(0, yi, " > " + status.split("within ", 1)[1].replace(" ", ""),
