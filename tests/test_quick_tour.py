@@ -31,9 +31,9 @@ H2_THRESHOLD = 5.47e-12
 H2_RTOL = 0.01
 #: Max-min driving force in native mode, kJ/mol, to the two decimals of summary.json.
 DRIVING_FORCE = 2.90
-#: Robustness of the default run (at most 12 draws per mode, seed 0): feasible draws per mode.
-ROBUSTNESS = {"native": 8, "h2_only": 8, "no_atp_bare": 0}
-ROBUSTNESS_DRAWS = 12
+#: Robustness of the default run (at most 40 draws per mode, seed 0): feasible draws per mode.
+ROBUSTNESS = {"native": 25, "h2_only": 24, "no_atp_bare": 0}
+ROBUSTNESS_DRAWS = 40
 
 
 @pytest.fixture(scope="module")
