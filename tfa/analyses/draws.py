@@ -22,8 +22,8 @@ Per draw, in this order:
 3. a point from either is checked by the independent certificate against the draw's energies
    (:func:`tfa.analyses.results.certify`): "certified";
 4. "no point" is asked again of the other solver on its own reused problem
-   (:meth:`DrawSolver.confirm_no_point`, within :data:`DRAW_CONFIRM_TIME_LIMIT`): "proven" when
-   it agrees, "solver proof" when it cannot say within that time;
+   (:meth:`DrawSolver.confirm_no_point`, :data:`DRAW_CONFIRMATION`): "proven" when its linear
+   relaxation has no point either, "solver proof" when only a branch and bound would decide;
 5. for a "no", the minimal uphill set on the same problem (:func:`tfa.analyses.uphill.
    minimal_uphill_set`, the first minimal set found; its size is proven minimal).
 
@@ -51,14 +51,13 @@ log = logging.getLogger(__name__)
 
 #: Half-width of the energies a reused problem is built for, in σ of the draws per reaction.
 SPREAD_SIGMAS = 6.0
-#: Seconds the other solver gets to confirm a draw's "no point" (s; the solvers' timers count
-#: whole seconds). Measured on the bundled network, native mode, 30 draws: GLPK confirmed 9 of
-#: 12 "no" draws in 0.02-0.2 s (their linear relaxation has no point) and needed 3-35 s of
-#: branch and bound for the other 3, which made the confirmation 90 % of the run's time; with a
-#: 2 s limit, 1,000 draws spent 300 of 698 s waiting on unconfirmed ones. A draw the other
-#: solver cannot confirm within this limit keeps the first solver's proof and says so
-#: ("solver proof" in its verification).
-DRAW_CONFIRM_TIME_LIMIT = 1.0
+#: How the other solver confirms a draw's "no point": its linear relaxation (the least-flux
+#: linear program of the problem with the 0/1 variables continuous) has no point either, which
+#: proves there is none. Measured on the bundled network, native mode: GLPK's relaxation has no
+#: point in about 70 % of the "no" draws (0.02-0.2 s each); in the others only a branch and bound
+#: decides, which took GLPK 3-35 s per draw (90 % of a run's time when it was asked). Those draws
+#: keep the first solver's proof and say so ("solver proof"), whatever the machine's load.
+DRAW_CONFIRMATION = "the other solver's linear relaxation has no point either"
 
 
 @contextmanager
@@ -180,10 +179,11 @@ class DrawSolver:
 
     def confirm_no_point(self, standard: np.ndarray) -> str:
         """Ask the other solver, on its own problem reused like the first, whether these
-        energies have a point (the rule of :func:`tfa.analyses.results.confirm_infeasible`:
-        ``options.confirm_infeasible`` and its size rule). Returns "confirmed" (no point either),
-        "point" (it found one, certified: the first answer was wrong), "undetermined" (within
-        :data:`DRAW_CONFIRM_TIME_LIMIT`) or "skipped"."""
+        energies have a point (:data:`DRAW_CONFIRMATION`; the policy of
+        :func:`tfa.analyses.results.confirm_infeasible`: ``options.confirm_infeasible`` and its
+        size rule). Returns "confirmed" (its relaxation has no point), "point" (it found one,
+        certified: the first answer was wrong), "undetermined" (only a branch and bound would
+        decide) or "skipped"."""
         first = resolve_solver(self.options.solver)[0]
         other = "glpk" if first == "highs" else "highs"
         policy = self.options.confirm_infeasible
@@ -194,16 +194,18 @@ class DrawSolver:
             import pickle
 
             copy = replace(self.tm, model=pickle.loads(self._model_bytes))
-            limit = min(DRAW_CONFIRM_TIME_LIMIT, self.options.time_limit or CONFIRM_TIME_LIMIT)
+            limit = min(CONFIRM_TIME_LIMIT, self.options.time_limit or CONFIRM_TIME_LIMIT)
             second = replace(self.options, solver=other, time_limit=limit, uphill=False)
             spread = dict(zip(self.problem.energy_ids, self.problem.energy_spread.tolist()))
             self._other = ThermoProblem(copy, second, energy_spread=spread)
         self._other.set_standard(standard)
         try:
-            solution = self._other.solve(f"feasibility of a draw, asked of {other}")
+            solution = self._other.least_flux_point(f"feasibility of a draw, asked of {other}")
         except InfeasibleProblem:
             return "confirmed"
         except UndeterminedError:
+            return "undetermined"
+        if solution is None:
             return "undetermined"
         certify(self._other, solution)
         log.warning("a draw (%s): %s found no point but %s found a certified one, which is the "

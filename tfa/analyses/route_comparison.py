@@ -58,7 +58,7 @@ from .budget import EnergyBudget, energy_budget
 from .carbon_paths import carbon_graph
 from .margins import MarginResult, verdict_margin
 from .route import delta_g_at
-from .steady_state import least_flux_state
+from .steady_state import at_least_flux
 
 log = logging.getLogger(__name__)
 
@@ -306,15 +306,11 @@ def _frame_point(tm: ThermoModel, reactions: pd.DataFrame, concentrations: pd.Da
 def _fill_budget(tm: ThermoModel, answer: RouteAnswer, carbon, fluxes: dict, delta_g: dict,
                  ln_activity: dict, words: str, checked: dict) -> None:
     """The route's energy budget and carbon entries at the least total flux of its point."""
-    check = str(checked.get("check", ""))
-    try:
-        least = least_flux_state(tm.model, fluxes, set(delta_g))
-        fluxes = least.fluxes
-        words += ", at its least total flux over the same directions and concentrations"
-        check = f"{least.check}; the point: {check}"
-    except ComputationError as err:
-        answer.not_asked.append(f"not computed: least-flux form of the steady state ({err}; the "
-                                "budget uses the certified point as it is)")
+    fluxes, words, check, failed = at_least_flux(tm.model, fluxes, set(delta_g), words,
+                                                 str(checked.get("check", "")))
+    if failed:
+        answer.not_asked.append(f"not computed: least-flux form of the steady state ({failed}; "
+                                "the budget uses the certified point as it is)")
     answer.solution = words
     status = checked.get("status", "certified") or "certified"
     try:

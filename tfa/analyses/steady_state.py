@@ -131,3 +131,16 @@ def least_flux_state(model, fluxes: Mapping[str, float], energies: set[str] | fr
              "direction or not at all")
     return LeastFluxState(dict(zip(ids, map(float, v))), float(np.abs(v0).sum()),
                           float(np.abs(v).sum()), check)
+
+
+def at_least_flux(model, fluxes: Mapping[str, float], energies: set[str], words: str,
+                  check: str) -> tuple[dict, str, str, str | None]:
+    """A certified point in its least-flux form (:func:`least_flux_state`) with the words and
+    check that say so: (fluxes, words, check, None), or the point as it is with the reason when
+    the least-flux form fails its re-check: (fluxes, words, check, reason)."""
+    try:
+        least = least_flux_state(model, fluxes, energies)
+    except ComputationError as err:
+        return dict(fluxes), words, check, str(err)
+    return (least.fluxes, words + ", at its least total flux over the same directions and "
+            "concentrations", f"{least.check}; the point: {check}", None)

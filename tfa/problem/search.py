@@ -121,6 +121,13 @@ class PointSearch:
             ones += int(bool(on))
         return self.add_constraint(coefficients, 1.0 - ones, None, name)
 
+    def least_flux_point(self, what: str, time_limit: float | None = None) -> Solution | None:
+        """The first quick route of :meth:`solve` alone (:meth:`_least_flux_point`): a point of
+        the problem from the least-flux pattern, None when that pattern has none (nothing
+        proven), InfeasibleProblem when the linear relaxation has no point (which proves there
+        is none). For a cheap second opinion on "no point" (:mod:`tfa.analyses.draws`)."""
+        return self._least_flux_point(what, time_limit)
+
     def _least_flux_point(self, what: str, time_limit: float | None) -> Solution | None:
         """A point of the problem from the flux pattern of least total flux, or None.
 

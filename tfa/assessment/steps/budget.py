@@ -20,8 +20,7 @@ import pandas as pd
 from ...analyses.budget import BUDGET_COLUMNS, EnergyBudget, energy_budget
 from ...analyses.carbon_paths import CARBON_ROUTE_COLUMNS, CarbonRoutes, carbon_routes, main_path
 from ...analyses.route import delta_g_at
-from ...analyses.steady_state import least_flux_state
-from ...errors import ComputationError
+from ...analyses.steady_state import at_least_flux
 from ..context import RunContext
 from ..step import Section, Step
 
@@ -84,14 +83,10 @@ def account(ctx: RunContext, mode: str, reactions: pd.DataFrame, concentrations:
             g = delta_g_at(tm, rid, ln_activity)
             if math.isfinite(g):
                 delta_g[rid] = g
-    check = str(checked.get("check", ""))
-    try:
-        least = least_flux_state(tm.model, fluxes, set(delta_g))
-        fluxes = least.fluxes
-        words += ", at its least total flux over the same directions and concentrations"
-        check = f"{least.check}; the point: {check}"
-    except ComputationError as err:
-        ctx.note(f"{mode}: {err}; the budget and routes use the certified point as it is")
+    fluxes, words, check, failed = at_least_flux(tm.model, fluxes, set(delta_g), words,
+                                                 str(checked.get("check", "")))
+    if failed:
+        ctx.note(f"{mode}: {failed}; the budget and routes use the certified point as it is")
     verification = {"status": checked.get("status", "certified") or "certified", "check": check}
     out = SteadyStateAccount(mode, words, fluxes, delta_g, ln_activity)
     out.budget = energy_budget(tm, fluxes, delta_g, ln_activity, words, verification)
