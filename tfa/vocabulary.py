@@ -80,6 +80,9 @@ COLUMNS: dict[str, Term] = _terms(
                      "(a limit stopped the search), computed (no optimisation)", ""),
     ("checked_by", "the check behind the verification, in words", ""),
     ("uphill_set", "members of a minimal uphill set, joined by ', '", ""),
+    ("in_order_of_ids", "whether the minimal uphill set(s) listed are the first in the order of "
+                        "reaction ids (sorted ids compared one by one), each proven so; false: "
+                        "in the order found (a time limit stopped a proof)", ""),
     ("h2_compound", "the network's H2 compound", ""),
     ("h2_unit", "unit the H2 supply is given in: mol/L (dissolved) or bar (gas)", ""),
     ("has_energy", "whether the reaction has a transformed standard energy", ""),
@@ -345,8 +348,6 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
                           "(sets_found, all_sets_found), whether they are listed in the order of "
                           "reaction ids (in_order_of_ids) and the energy to supply to the first "
                           "(energy_to_supply_total_kJ_per_mol_demand)", ""),
-    ("in_order_of_ids", "whether the minimal uphill sets are listed in the order of reaction ids "
-                        "(sorted ids compared one by one), each proven so", ""),
     ("precursors", "per mode, the demanded compounds by verdict (downhill, uphill, stoichiometric "
                    "gap)", ""),
     ("bottlenecks", "reactions at the max-min driving force", ""),

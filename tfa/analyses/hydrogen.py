@@ -31,6 +31,7 @@ from ..problem.builder import ProblemOptions, Solution, ThermoProblem
 from ..problem.solvers import InfeasibleProblem
 from ..vocabulary import DEFAULT_H2_LEVELS, DEFAULT_H2_RANGE
 from .h2_levels import h2_equivalents, level_words
+from .set_order import OrderedSet, first_in_order
 from .results import (AnalysisResult, certificate_words, certify, confirm_infeasible, optimum_words,
                       provenance_of, verification)
 
@@ -96,7 +97,7 @@ def _check_range(levels: Sequence[float]) -> np.ndarray:
 
 #: Columns of the H2 scan table (one row per level).
 SCAN_COLUMNS = ["h2_activity", "ln_h2_activity", "h2_unit", "feasible", "driving_force_kJ_per_mol",
-                "uphill_set_size", "uphill_set"]
+                "uphill_set_size", "uphill_set", "in_order_of_ids"]
 #: Columns of the H2 threshold table (one row).
 THRESHOLD_COLUMNS = ["h2_compound", "feasible", "h2_threshold", "ln_h2_threshold", "h2_unit",
                      "h2_at_range_floor", "h2_partial_pressure_bar", "h2_partial_pressure_Pa",
@@ -201,33 +202,57 @@ def h2_scan(tm: ThermoModel, levels: Sequence[float], options: ProblemOptions | 
     table = pd.DataFrame(rows)
     table["uphill_set_size"] = np.where(table["feasible"], 0, -1)
     table["uphill_set"] = ""
+    table["in_order_of_ids"] = True
     infeasible = [i for i, r in enumerate(rows) if not r["feasible"]]
     if with_uphill and infeasible:
         up = replace(options, uphill=True, driving_force=False, log_bound_overrides=overrides)
         with ThermoProblem(tm, up) as problem:
-            problem.set_objective({v: 1.0 for v in problem.u_vars}, "min")
+            count = {v: 1.0 for v in problem.u_vars}
             for k, i in enumerate(infeasible):
                 tick(len(arr) + k)
                 x = rows[i]["ln_h2_activity"]
                 problem.set_log_bounds(h2, x, x)
+                what = f"minimal uphill set at H2 {rows[i]['h2_activity']:.3g}"
+                problem.set_objective(count, "min")
                 try:
-                    sol = problem.solve(f"minimal uphill set at H2 {rows[i]['h2_activity']:.3g}")
+                    sol = problem.solve(what)
                 except InfeasibleProblem:
                     continue  # demand impossible at this level whatever the energies
-                result.certificates.append(certify(problem, sol, allowed_uphill=sol.uphill))
-                table.loc[i, "uphill_set_size"] = len(sol.uphill)
-                table.loc[i, "uphill_set"] = ", ".join(sorted(sol.uphill))
+                item = _first_set_in_order(problem, count, sol, what)
+                result.certificates.append(certify(problem, item.solution,
+                                                   allowed_uphill=item.solution.uphill))
+                table.loc[i, "uphill_set_size"] = len(item.members)
+                table.loc[i, "uphill_set"] = ", ".join(item.members)
+                table.loc[i, "in_order_of_ids"] = item.ordered
     table.loc[table["uphill_set_size"] < 0, "uphill_set_size"] = np.nan
     table["h2_unit"] = result.unit
     result.table = table[SCAN_COLUMNS]
     tick(len(arr) + n_infeasible_max)
     n_no = len(infeasible)
+    in_order = bool(table["in_order_of_ids"].all())
     result.verification = verification(
         "certified" if n_no == 0 else "solver proof",
         f"{len(rows) - n_no} feasible level(s): each point passed the independent numpy check"
         + (f"; {n_no} infeasible level(s): no point, by {main.solver or 'the default solver'}'s "
-           "branch and bound (not re-asked of the other solver)" if n_no else ""))
+           "branch and bound (not re-asked of the other solver)" if n_no else "")
+        + ("; each level's minimal uphill set is the first of its size in the order of reaction "
+           "ids (each earlier candidate ruled out by a solver proof)" if with_uphill and n_no and in_order
+           else "; some levels' minimal uphill sets in the order found (a time limit stopped a "
+           "proof of the order: in_order_of_ids false)" if with_uphill and n_no else ""))
     return result
+
+
+def _first_set_in_order(problem: ThermoProblem, count: dict, least: Solution, what: str) -> OrderedSet:
+    """The first minimal uphill set of ``least``'s size in the order of reaction ids
+    (:func:`tfa.analyses.set_order.first_in_order`, the order the minimal-set answer lists its
+    sets in), ``least`` being a point of least size; the size row is removed on return."""
+    size = len(least.uphill)
+    row = problem.add_constraint(count, None, float(size), "tfa_size")
+    try:
+        item = first_in_order(problem, size, what, witness=least)
+    finally:
+        problem.remove_constraint(row)
+    return item if item is not None else OrderedSet(sorted(least.uphill), least, False)
 
 
 #: Relative precision to which the ends of an H2 window inside the range are found by
