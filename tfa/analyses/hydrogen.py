@@ -7,7 +7,8 @@ flux pattern certified at the previous level as a linear program (a solution pro
 feasibility) and solves the full problem (quick routes, then the exact MILP) only when that
 fails. At each level the result says whether the network is feasible, its max-min driving
 force B (Noor et al. 2014, PLoS Comput. Biol. 10:e1003483; feasible iff B >= delta) and, where
-infeasible, the size of the minimal uphill set.
+infeasible, the minimal uphill set: the first of the least size in the order of reaction ids
+(:mod:`tfa.analyses.set_order`, as the minimal-set answer lists its sets).
 
 Threshold: ln[H2] becomes a variable over the user's range and one MILP minimises it subject to
 feasibility (thermodynamics-based flux analysis, Henry, Broadbelt & Hatzimanikatis 2007,
@@ -31,7 +32,7 @@ from ..problem.builder import ProblemOptions, Solution, ThermoProblem
 from ..problem.solvers import InfeasibleProblem
 from ..vocabulary import DEFAULT_H2_LEVELS, DEFAULT_H2_RANGE
 from .h2_levels import h2_equivalents, level_words
-from .set_order import OrderedSet, first_in_order
+from .set_order import first_of_least_size
 from .results import (AnalysisResult, certificate_words, certify, confirm_infeasible, optimum_words,
                       provenance_of, verification)
 
@@ -207,18 +208,17 @@ def h2_scan(tm: ThermoModel, levels: Sequence[float], options: ProblemOptions | 
     if with_uphill and infeasible:
         up = replace(options, uphill=True, driving_force=False, log_bound_overrides=overrides)
         with ThermoProblem(tm, up) as problem:
-            count = {v: 1.0 for v in problem.u_vars}
             for k, i in enumerate(infeasible):
                 tick(len(arr) + k)
                 x = rows[i]["ln_h2_activity"]
                 problem.set_log_bounds(h2, x, x)
                 what = f"minimal uphill set at H2 {rows[i]['h2_activity']:.3g}"
-                problem.set_objective(count, "min")
+                problem.set_objective({v: 1.0 for v in problem.u_vars}, "min")
                 try:
                     sol = problem.solve(what)
                 except InfeasibleProblem:
                     continue  # demand impossible at this level whatever the energies
-                item = _first_set_in_order(problem, count, sol, what)
+                item = first_of_least_size(problem, sol, what)
                 result.certificates.append(certify(problem, item.solution,
                                                    allowed_uphill=item.solution.uphill))
                 table.loc[i, "uphill_set_size"] = len(item.members)
@@ -235,24 +235,9 @@ def h2_scan(tm: ThermoModel, levels: Sequence[float], options: ProblemOptions | 
         f"{len(rows) - n_no} feasible level(s): each point passed the independent numpy check"
         + (f"; {n_no} infeasible level(s): no point, by {main.solver or 'the default solver'}'s "
            "branch and bound (not re-asked of the other solver)" if n_no else "")
-        + ("; each level's minimal uphill set is the first of its size in the order of reaction "
-           "ids (each earlier candidate ruled out by a solver proof)" if with_uphill and n_no and in_order
-           else "; some levels' minimal uphill sets in the order found (a time limit stopped a "
-           "proof of the order: in_order_of_ids false)" if with_uphill and n_no else ""))
+        + ("" if not (with_uphill and n_no) else "; uphill sets the first in the order of reaction ids"
+           if in_order else "; some uphill sets in the order found (in_order_of_ids false)"))
     return result
-
-
-def _first_set_in_order(problem: ThermoProblem, count: dict, least: Solution, what: str) -> OrderedSet:
-    """The first minimal uphill set of ``least``'s size in the order of reaction ids
-    (:func:`tfa.analyses.set_order.first_in_order`, the order the minimal-set answer lists its
-    sets in), ``least`` being a point of least size; the size row is removed on return."""
-    size = len(least.uphill)
-    row = problem.add_constraint(count, None, float(size), "tfa_size")
-    try:
-        item = first_in_order(problem, size, what, witness=least)
-    finally:
-        problem.remove_constraint(row)
-    return item if item is not None else OrderedSet(sorted(least.uphill), least, False)
 
 
 #: Relative precision to which the ends of an H2 window inside the range are found by
