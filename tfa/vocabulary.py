@@ -169,6 +169,13 @@ COLUMNS: dict[str, Term] = _terms(
     ("sensitivity_right", "the same derivative by re-solving with the datum moved up by 1e-3",
      ""),
     ("dual_confirmed", "whether the dual value lies between the left and right derivatives", ""),
+    ("check_step", "how far a top binding datum was moved for the full re-solve (its own unit: ln "
+                   "of a concentration, or kJ/mol for the least driving force)", ""),
+    ("predicted_ln_h2_change", "change of ln of the H2 answer the flux pattern of the optimum "
+                               "predicts for check_step (sensitivity_left x check_step)", ""),
+    ("measured_ln_h2_change", "change of ln of the H2 answer when the full problem (the H2 "
+                              "threshold MILP) is solved again with the datum moved by "
+                              "check_step", ""),
     ("h2_at_range_floor", "the network is feasible already at the bottom of the H2 range "
                           "searched (the true threshold, if any, lies lower)", ""),
     ("h2_partial_pressure_bar", "H2 partial pressure in equilibrium with the level (Henry's law "

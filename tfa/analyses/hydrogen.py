@@ -444,7 +444,9 @@ def h2_threshold(tm: ThermoModel, options: ProblemOptions | None = None, h2_id: 
     result.threshold = math.exp(x)
     result.solution = sol
     if window:
-        _window_binding(tm, opts, result, mode or tm.mode)
+        from .binding import window_binding
+
+        window_binding(tm, opts, result, mode or tm.mode)
     at_floor = abs(x - math.log(lo)) < 1e-9
     result.message = (f"the least H2 at which the network is feasible is "
                       f"{level_words(result.threshold, result.unit, tm.conditions)}"
@@ -529,37 +531,6 @@ def _find_windows(problem: ThermoProblem, result: H2ThresholdResult, h2: str, lo
     result.windows, result.ends = windows, ends
     if progress is not None:
         progress(done, done)
-
-
-def _window_binding(tm: ThermoModel, opts: ProblemOptions, result: H2ThresholdResult,
-                    mode: str) -> None:
-    """The binding constraints at every end of every window (dual values of the pattern LP)."""
-    from ..errors import ComputationError
-    from .binding import optimum_constraints
-
-    from ..network.roles import carrier_pairs
-
-    h2 = result.h2_id
-    try:
-        result.carrier_pairs = {p.reduced.id: p.oxidised.id
-                                for p in carrier_pairs(tm.model).values()}
-    except InputError:
-        result.carrier_pairs = {}
-    for end in result.ends:
-        answer = result.answer_of(end)
-        try:
-            rows, _ = optimum_constraints(
-                tm, end["solution"], opts, mode, answer, ("ln_activity", h2),
-                "min" if end["window_end"] == "low" else "max", range_compound=h2, unit=result.unit)
-        except (ComputationError, InputError) as err:
-            log.warning("binding constraints at the %s end of H2 window %d: %s",
-                        end["window_end"], end["h2_window"], err)
-            continue
-        for row in rows:
-            row["h2_window"] = end["h2_window"]
-            if end["h2_window"] > 1:
-                row["message"] = f"(window {end['h2_window']}) " + row["message"]
-        result.binding.extend(rows)
 
 
 def h2_threshold_by_bisection(tm: ThermoModel, options: ProblemOptions | None = None,
