@@ -70,3 +70,47 @@ def test_outer_ph_drawn_on_the_bundled_network_reports_what_it_carries(outer_ph_
     assert row["probability_change"] < 0
     assert "pH_compartment.out carries" in result.summary()
     assert math.isfinite(result.feasibility_frame().iloc[0]["interval_low"])
+
+
+def test_h_per_atp_and_carrier_states_can_be_drawn():
+    """H⁺ per ATP, the phosphorylation floor and a carrier pool's total are assumptions a
+    scenario may draw (read, checked, applied)."""
+    from tfa.network.environment import bundled_environment
+    from tfa.network.scenario import apply_changes
+
+    spec = parse_scenario({"ion_stoichiometry.ATPS_GRAD": [3.0, 5.0],
+                           "phosphorylation_potential_min_kJ_per_mol": {"normal": [45.0, 3.0]},
+                           "pool_total.ferredoxin": [1e-5, 1e-4]})
+    assert spec["pool_total.ferredoxin"].kind == "log_uniform"
+    env = apply_changes(bundled_environment(), {"ion_stoichiometry.ATPS_GRAD": 3.5,
+                                                "phosphorylation_potential_min_kJ_per_mol": 40.0,
+                                                "pool_total.ferredoxin": 2e-5})
+    assert env.ion_stoichiometry["ATPS_GRAD"] == 3.5
+    assert env.cofactors.phosphorylation_floor == 40.0
+    assert {p.name: p.total for p in env.cofactors.pools}["ferredoxin"] == 2e-5
+    for bad, message in (({"pool_total.ferredoxin": {"normal": [5e-5, 1e-5]}}, "log-uniform"),
+                         ({"ion_stoichiometry.": [3, 5]}, "after the dot")):
+        with pytest.raises(NetworkFileError, match=message):
+            parse_scenario(bad)
+    for changes, message in (({"ion_stoichiometry.PTA": 3.0}, "PTA has no entry"),
+                             ({"pool_total.quinones": 1e-3}, "no pool of that name")):
+        with pytest.raises(NetworkFileError, match=message):
+            apply_changes(bundled_environment(), changes)
+
+
+def test_one_proton_less_per_atp_costs_the_gradient_of_one_proton():
+    """ATPS_GRAD with 3 instead of 4 H⁺ per ATP: ΔrG'° rises by RT ln10 (pH_in − pH_out) =
+    8.314462618e-3 × 343.15 × 2.302585 × 2.0 = 13.14 kJ/mol at 70 °C (Mitchell 1961,
+    doi:10.1038/191144a0; hand-derived, R from CODATA 2018), the energy one entering proton
+    brings; the drawn stoichiometry reaches the prepared network."""
+    from tfa.network.bundled import load_bundled_network
+    from tfa.network.energies import prepare
+    from tfa.network.environment import bundled_environment
+    from tfa.network.scenario import apply_changes
+
+    model, env = load_bundled_network(), bundled_environment()
+    four = prepare(model, env, "native").energies["ATPS_GRAD"].standard
+    three = prepare(model, apply_changes(env, {"ion_stoichiometry.ATPS_GRAD": 3.0}),
+                    "native").energies["ATPS_GRAD"].standard
+    expected = 8.314462618e-3 * 343.15 * math.log(10.0) * 2.0
+    assert three - four == pytest.approx(expected, abs=0.01)

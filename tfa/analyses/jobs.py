@@ -148,15 +148,15 @@ class NetworkJob:
 
 def _scenario_model(job: "NetworkJob", mode: str, changes: Mapping[str, float]) -> ThermoModel:
     """The prepared model of ``mode`` with a scenario's drawn assumptions
-    (:mod:`tfa.network.scenario`): a change of the conditions prepares the network again
-    (cached per worker); a change of fed activities only replaces those compounds' fixed
-    log-activities on the prepared model (the energies do not depend on them)."""
-    from ..network.scenario import CONDITION_KEYS, apply_changes
+    (:mod:`tfa.network.scenario`): a change of the conditions, a compartment's pH, an ion
+    stoichiometry or a carrier state prepares the network again (cached per worker); a change
+    of fed activities only replaces those compounds' fixed log-activities on the prepared model
+    (the energies do not depend on them)."""
+    from ..network.scenario import apply_changes, changes_the_energies
 
     model, environment, custom = job.objects()
-    # a compartment's pH changes energies (its compounds' offsets): prepared again, as a condition
-    conditions = {k: v for k, v in changes.items()
-                  if k in CONDITION_KEYS or k.startswith("pH_compartment.")}
+    # a condition, a compartment's pH, an ion stoichiometry or a carrier state: prepared again
+    conditions = {k: v for k, v in changes.items() if changes_the_energies(k)}
     feeds = {k: v for k, v in changes.items() if k not in conditions}
     if conditions:
         key = (mode, "scenario", tuple(sorted(conditions.items())))
@@ -312,6 +312,16 @@ def outcome(tm: ThermoModel, options: ProblemOptions, parts=("uphill", "threshol
             out["uphill_set_size"], out["uphill_set"] = int(result.diagnosis.size), members
         else:
             out["uphill_set_size"], out["uphill_set"] = None, None
+    out.update(answers_beyond_the_verdict(tm, options, parts, h2_range))
+    return out
+
+
+def answers_beyond_the_verdict(tm: ThermoModel, options: ProblemOptions, parts,
+                               h2_range: tuple[float, float] = DEFAULT_H2_RANGE) -> dict:
+    """The parts of :func:`outcome` other than the verdict and its uphill set: ``h2_threshold``
+    with ``h2_at_range_floor`` ("threshold") and ``driving_force_kJ_per_mol``
+    ("driving_force"), each its own certified analysis."""
+    out: dict[str, Any] = {}
     if "threshold" in parts:
         out["h2_threshold"], out["h2_at_range_floor"] = _h2_threshold(tm, options, h2_range)
     if "driving_force" in parts:

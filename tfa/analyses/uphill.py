@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import logging
 from collections.abc import Sequence
+from contextlib import contextmanager
 from dataclasses import dataclass, field, replace
 
 import numpy as np
@@ -476,10 +477,30 @@ def _energy_to_supply(problem: ThermoProblem, members: list[str], sol: Solution,
             point)
 
 
+@contextmanager
+def _uphill_problem(tm: ThermoModel, options: ProblemOptions, problem: ThermoProblem | None):
+    """The uphill-set problem: built here and removed afterwards, or the one given, left with
+    its u_j bounds and objective as they were."""
+    if problem is None:
+        with ThermoProblem(tm, options) as built:
+            yield built
+        return
+    if not problem.u_vars:
+        raise ComputationError("the problem given for the minimal uphill set has no uphill "
+                               "binaries; build it with ProblemOptions(uphill=True)")
+    saved = [(v, v.lb, v.ub) for v in problem.u_vars]
+    try:
+        yield problem
+    finally:
+        for v, lb, ub in saved:
+            v.set_bounds(lb, ub)
+        problem.set_objective({})
+
+
 def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
                        alternatives: int = 1, try_downhill_first: bool = True,
                        canonical: bool = True, count_limit: int = 0,
-                       progress=None) -> UphillResult:
+                       progress=None, problem: ThermoProblem | None = None) -> UphillResult:
     """Fewest reactions that must run against their gradient for the demand to be met.
 
     What is known is used before the search (measured on genome-scale instances with
@@ -508,6 +529,10 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
         First solve with every u_j fixed at 0 (the plain feasibility problem, on the same build):
         when that is feasible the minimal set is empty and proven so at once; the minimisation
         follows only when it is not (pass False when infeasibility is already known).
+    problem : ThermoProblem, optional
+        A problem already built for ``tm`` with the uphill binaries (``options.uphill``), e.g.
+        one reused over many draws of the energies (:mod:`tfa.analyses.draws`); it is left as
+        it was found (the u_j bounds and the objective restored), not removed.
 
     Raises
     ------
@@ -520,7 +545,7 @@ def minimal_uphill_set(tm: ThermoModel, options: ProblemOptions | None = None,
     options = replace(options or ProblemOptions(), uphill=True, driving_force=False)
     result = UphillResult(conditions=tm.conditions)
     impossible = False
-    with ThermoProblem(tm, options) as problem:
+    with _uphill_problem(tm, options, problem) as problem:
         result.provenance = provenance_of(tm, options, problem)
         count = {v: 1.0 for v in problem.u_vars}
         index = {rid: j for j, rid in enumerate(problem.energy_ids)}

@@ -147,6 +147,9 @@ def register(subparsers) -> None:
                         "jointly; with assumptions, each is also held at its central value and "
                         "the change of the probability is reported")
     add_threshold_switch(parser)
+    parser.add_argument("--no-uphill-sets", action="store_true",
+                        help="skip the minimal uphill set of each infeasible draw: the verdict "
+                        "alone (about three times faster)")
     add_option(parser, "h2_range", "robustness")
     add_problem_options(parser)
     add_execution_options(parser, "robustness")
@@ -176,6 +179,7 @@ def run(args: argparse.Namespace) -> int:
             result = robustness(model, environment, n_draws=args.draws, seed=args.seed,
                                 modes=modes, sigma_scale=args.sigma_scale,
                                 threshold=not args.no_threshold,
+                                uphill_sets=not args.no_uphill_sets,
                                 h2_range=parse_h2_range(args.h2_range),
                                 interval_width=args.interval_width or None,
                                 scenario=args.scenario,

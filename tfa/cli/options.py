@@ -57,7 +57,7 @@ COMMAND_DEFAULTS: dict[str, dict[str, Any]] = {
     # the assessment writes its files by default; the single analyses only print
     "out": {"assess": "tfa-results"},
     # the assessment runs a small robustness check; tfa robustness a real one
-    "draws": {"assess": 12, "robustness": 100},   # assess: ASSESSMENT_DRAWS of tfa.assessment
+    "draws": {"assess": 40, "robustness": 100},   # assess: ASSESSMENT_DRAWS of tfa.assessment
     # the assessment stops at a wider interval (its draws are a first look)
     "interval_width": {"assess": 0.3},
 }

@@ -10,9 +10,14 @@ range. Each key of ``[scenario]`` names one assumption; its value is
 - ``{ normal = [mean, sd] }``: normal, cut at mean ± 3 sd (not for ``feed.<id>``).
 
 Keys: ``temperature_C``, ``pH``, ``ionic_strength_M``, ``pressure_bar``, ``feed.<id>`` (a fed
-compound's activity, mol/L; gases bar) and ``pH_feed.<id>`` (a fed H+ pool given as a pH: its
-activity is 10^−pH, e.g. the outer fluid of a proton gradient). The central value of an
-assumption is the one the rest of the file states (the draws are about it).
+compound's activity, mol/L; gases bar), ``pH_feed.<id>`` (a fed H+ pool given as a pH: its
+activity is 10^−pH), ``pH_compartment.<id>`` (the pH of a compartment of ``[compartments]``, e.g.
+the outer fluid of a proton gradient), ``ion_stoichiometry.<reaction>`` (ions moved per turnover,
+e.g. H⁺ per ATP of the gradient's ATP synthase; need not be whole: a c-ring of 11 gives 11/3),
+``phosphorylation_potential_min_kJ_per_mol`` (the floor of ``[cofactors]``) and
+``pool_total.<pool>`` (the largest total of a carrier pool of ``[cofactors]``, mol/L, drawn
+log-uniform like a fed activity). The central value of an assumption is the one the rest of the
+file states (the draws are about it).
 
 Draw i of an assumption takes the standard normal number named ``scenario:<key>`` of draw i
 (:func:`tfa.util.keyed_random.keyed_normals`): u = Φ(z) gives the uniform one. So draw i of the
@@ -23,6 +28,7 @@ Example file section (the Kestrel Ridge demo)::
     [scenario]
     "pH_compartment.out" = [5.0, 6.0]    # the outer fluid between pH 5 and 6
     temperature_C = { normal = [70.0, 5.0] }
+    "ion_stoichiometry.ATPS_GRAD" = [3.0, 5.0]   # H+ per ATP
 
 Units: as in the environment file (degC, mol/L, bar).
 """
@@ -40,8 +46,27 @@ from ..util.keyed_random import keyed_normals
 #: Keys of [scenario] for conditions -> the name of the condition changed.
 CONDITION_KEYS = {"temperature_C": "temperature", "pH": "ph", "ionic_strength_M": "ionic_strength",
                   "pressure_bar": "pressure"}
+#: Prefixes of [scenario] keys that name one thing of the environment after the dot.
+NAMED_PREFIXES = ("feed", "pH_feed", "pH_compartment", "ion_stoichiometry", "pool_total")
+#: Keys of the carrier states (``[cofactors]``) a scenario may draw, besides ``pool_total.<pool>``.
+COFACTOR_SCENARIO_KEYS = ("phosphorylation_potential_min_kJ_per_mol",)
+#: Prefixes drawn log-uniform from a range (amounts spanning orders of magnitude).
+LOG_UNIFORM_PREFIXES = ("feed", "pool_total")
 #: Cut of a normal distribution, in standard deviations.
 NORMAL_CUT = 3.0
+
+
+def changes_the_energies(key: str) -> bool:
+    """Whether drawing assumption ``key`` asks for the network to be prepared again (a condition,
+    a compartment's pH, an ion stoichiometry, a carrier state), rather than only a fed
+    compound's fixed activity.
+
+    >>> changes_the_energies("pH_compartment.out"), changes_the_energies("feed.co2")
+    (True, False)
+    """
+    prefix = key.split(".", 1)[0] if "." in key else ""
+    return key in CONDITION_KEYS or key in COFACTOR_SCENARIO_KEYS or prefix in (
+        "pH_compartment", "ion_stoichiometry", "pool_total")
 
 
 @dataclass(frozen=True)
@@ -82,18 +107,21 @@ def parse_scenario(section: Mapping[str, Any] | None, where: str = "environment"
     out: dict[str, Assumption] = {}
     for key, value in (section or {}).items():
         prefix = key.split(".", 1)[0] if "." in key else ""
-        if key not in CONDITION_KEYS and prefix not in ("feed", "pH_feed", "pH_compartment"):
+        if (key not in CONDITION_KEYS and key not in COFACTOR_SCENARIO_KEYS
+                and prefix not in NAMED_PREFIXES):
             raise NetworkFileError(
                 f"{where} [scenario] '{key}': unknown assumption; use {', '.join(CONDITION_KEYS)}, "
-                "\"feed.<compound>\", \"pH_feed.<compound>\" or \"pH_compartment.<id>\"")
+                f"{', '.join(COFACTOR_SCENARIO_KEYS)}, "
+                + ", ".join(f'"{p}.<id>"' for p in NAMED_PREFIXES))
         if prefix and not key.split(".", 1)[1]:
-            raise NetworkFileError(f"{where} [scenario] '{key}': name the fed compound after the dot")
+            raise NetworkFileError(f"{where} [scenario] '{key}': name the compound, compartment, "
+                                   "reaction or pool after the dot")
         if isinstance(value, dict):
             if set(value) != {"normal"} or not _two_numbers(value["normal"]):
                 raise NetworkFileError(f"{where} [scenario] '{key}': write [low, high] or "
                                        "{ normal = [mean, sd] }")
-            if prefix == "feed":
-                raise NetworkFileError(f"{where} [scenario] '{key}': a fed activity takes a range "
+            if prefix in LOG_UNIFORM_PREFIXES:
+                raise NetworkFileError(f"{where} [scenario] '{key}': an amount takes a range "
                                        "[low, high] (drawn log-uniform), not a normal distribution")
             mean, sd = (float(v) for v in value["normal"])
             if not sd > 0:
@@ -106,9 +134,9 @@ def parse_scenario(section: Mapping[str, Any] | None, where: str = "environment"
         low, high = (float(v) for v in value)
         if not low < high:
             raise NetworkFileError(f"{where} [scenario] '{key}': need low < high, got [{low:g}, {high:g}]")
-        if prefix == "feed":
+        if prefix in LOG_UNIFORM_PREFIXES:
             if low <= 0:
-                raise NetworkFileError(f"{where} [scenario] '{key}': activities must be > 0")
+                raise NetworkFileError(f"{where} [scenario] '{key}': amounts must be > 0")
             out[key] = Assumption(key, "log_uniform", low, high)
         else:
             out[key] = Assumption(key, "uniform", low, high)
@@ -153,6 +181,7 @@ def apply_changes(environment, changes: Mapping[str, float]):
                                        "environment; give it with [compartments.ID]")
             env = replace(env, compartments={**env.compartments,
                                              cid: replace(env.compartments[cid], ph=float(value))})
+    env = _with_drawn_setting(env, changes)
     if feed:
         unknown = [k for k in feed if k not in env.feed]
         if unknown:
@@ -160,3 +189,34 @@ def apply_changes(environment, changes: Mapping[str, float]):
                                    "scenario changes the activity of a fed compound only")
         env = env.with_feed(feed)
     return env
+
+
+def _with_drawn_setting(env, changes: Mapping[str, float]):
+    """``env`` with drawn ion stoichiometries and carrier states (keys of the module text)."""
+    ions = {key.split(".", 1)[1]: float(v) for key, v in changes.items()
+            if key.startswith("ion_stoichiometry.")}
+    if ions:
+        unknown = [rid for rid in ions if rid not in (env.ion_stoichiometry or {})]
+        if unknown:
+            raise NetworkFileError(f"[scenario] 'ion_stoichiometry.{unknown[0]}': {unknown[0]} has "
+                                   "no entry in [ion_stoichiometry]; give its central value there")
+        env = replace(env, ion_stoichiometry={**env.ion_stoichiometry, **ions})
+    floor = changes.get("phosphorylation_potential_min_kJ_per_mol")
+    totals = {key.split(".", 1)[1]: float(v) for key, v in changes.items()
+              if key.startswith("pool_total.")}
+    if floor is None and not totals:
+        return env
+    states = env.cofactors
+    if states is None:
+        raise NetworkFileError("[scenario]: a carrier state is drawn but the environment has no "
+                               "[cofactors] section; give its central values there")
+    pools = {pool.name: pool for pool in states.pools}
+    unknown = [name for name in totals if name not in pools]
+    if unknown:
+        raise NetworkFileError(f"[scenario] 'pool_total.{unknown[0]}': no pool of that name in "
+                               f"[cofactors]; pools: {', '.join(pools) or 'none'}")
+    states = replace(states, pools=tuple(replace(p, total=totals.get(p.name, p.total))
+                                         for p in states.pools),
+                     phosphorylation_floor=states.phosphorylation_floor if floor is None
+                     else float(floor))
+    return replace(env, cofactors=states)

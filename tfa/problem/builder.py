@@ -17,8 +17,11 @@ Schellenberger, Lewis & Palsson 2011, Biophys. J. 100:544). Units: kJ/mol, ln(mo
   minimal uphill set; a driving-force variable B replacing delta (max-min driving force,
   Noor et al. 2014, PLoS Comput. Biol. 10:e1003483).
 
-The problem is built once; scans change only variable bounds. Every variable and constraint
-added is removed again by :meth:`ThermoProblem.remove` (or on leaving a ``with`` block).
+The problem is built once; scans change only variable bounds, and a run over many draws of the
+energies changes only the energies' right-hand sides, the g bounds and the big-M coefficients
+(:meth:`ThermoProblem.set_standard`, on a problem built with an ``energy_spread`` that covers the
+draws). Every variable and constraint added is removed again by :meth:`ThermoProblem.remove` (or
+on leaving a ``with`` block).
 """
 
 from __future__ import annotations
@@ -26,6 +29,7 @@ from __future__ import annotations
 import logging
 import math
 import time
+from typing import Mapping
 
 import numpy as np
 from optlang.symbolics import Zero
@@ -52,9 +56,14 @@ class ThermoProblem(PointSearch):
     tests/test_engine_small.py solves hand-derived networks with it.
     """
 
-    def __init__(self, thermo_model: ThermoModel, options: ProblemOptions | None = None) -> None:
+    def __init__(self, thermo_model: ThermoModel, options: ProblemOptions | None = None, *,
+                 energy_spread: Mapping[str, float] | None = None) -> None:
+        """``energy_spread``: reaction id -> how far its ΔrG'° may later move (kJ/mol, >= 0)
+        through :meth:`set_standard`; the rows and directions are built for the widened
+        intervals and then tightened to the energies of now."""
         self.thermo_model = thermo_model
         self.options = options or ProblemOptions()
+        self._energy_spread = energy_spread
         self.model = thermo_model.model
         started = time.perf_counter()
         self.solver_name = use_solver(self.model, self.options.solver)
@@ -166,9 +175,14 @@ class ThermoProblem(PointSearch):
         self.envelope_lower = np.array(lo, float)
         self.envelope_upper = np.array(hi, float)
         self._compound_slack(tm, opts)
+        self.built_standard = self.standard.copy()
+        spread = dict(self._energy_spread or {})
+        self.energy_spread = np.array([float(spread.get(rid, 0.0)) for rid in self.energy_ids])
+        if not np.all(self.energy_spread >= 0):
+            raise InputError("energy_spread: every half-width must be a number >= 0 (kJ/mol)")
         self.g_lower, self.g_upper = energy_intervals(
-            self.standard, self.slack_width, *self.thermo, self.envelope_lower,
-            self.envelope_upper, tm.RT)
+            self.standard, self.slack_width + self.energy_spread, *self.thermo,
+            self.envelope_lower, self.envelope_upper, tm.RT)
         self.big_m = direction_big_m(self.g_lower, self.g_upper, opts.min_driving_force)
         reach = float(np.max(np.maximum(-self.g_lower, self.g_upper))) if len(self.energy_ids) else 0.0
         if len(self.energy_ids) and not opts.driving_force and opts.min_driving_force > reach:
@@ -281,6 +295,9 @@ class ThermoProblem(PointSearch):
             d[xv] = d.get(xv, 0.0) - rt * s
         delta = opts.min_driving_force
         b_hi = getattr(self, "driving_force_upper", 0.0)
+        definition_rows: list[int] = []
+        direction_rows: dict[tuple[int, int], int] = {}
+        self.direction_open = (np.asarray(fwd_ok, bool), np.asarray(bwd_ok, bool))
         for j in range(n_e):
             rid = self.energy_ids[j]
             reaction = self.reactions[self.energy_reaction_index[j]]
@@ -289,6 +306,7 @@ class ThermoProblem(PointSearch):
             if self.eps_vars[j] is not None:
                 coefs[self.eps_vars[j]] = -1.0
             std = float(self.standard[j])
+            definition_rows.append(len(rows))
             rows.append((f"tfa_def_{j}", std, std, coefs))
             u = self.u_vars[j] if self.u_vars else None
             # a row wherever the bound lets flux through; a cap of 0 (no steady state uses the
@@ -318,8 +336,10 @@ class ThermoProblem(PointSearch):
                 m_f = float(self.big_m.forward[j])
                 m_b = float(self.big_m.backward[j])
                 if fwd_ok[j] and m_f > 0:
+                    direction_rows[(j, 1)] = len(rows)
                     rows.append((f"tfa_gf_{j}", None, m_f - delta, {self.g_vars[j]: 1.0, self.f_vars[j]: m_f}))
                 if bwd_ok[j] and m_b > 0:
+                    direction_rows[(j, -1)] = len(rows)
                     rows.append((f"tfa_gb_{j}", None, m_b - delta, {self.g_vars[j]: -1.0, self.b_vars[j]: m_b}))
             del rid
         if self.z_plus:
@@ -338,9 +358,13 @@ class ThermoProblem(PointSearch):
         solver.update()
         self._constraints = constraints
         set_rows(solver, constraints, [r[3] for r in rows])
+        self._definition_rows = [constraints[i] for i in definition_rows]
+        self._direction_rows = {key: constraints[i] for key, i in direction_rows.items()}
 
         self._set_scaled_flux_bounds()
         self.set_objective({})
+        if np.any(self.energy_spread > 0):
+            self.set_standard(self.standard)
 
     def _set_scaled_flux_bounds(self) -> None:
         """Give the flux columns the scaled bounds (:mod:`tfa.problem.scaling`; the unknown-energy
@@ -399,6 +423,53 @@ class ThermoProblem(PointSearch):
         for p, m, value in zip(self.z_plus, self.z_minus, z):
             p.set_bounds(max(float(value), 0.0), max(float(value), 0.0))
             m.set_bounds(max(-float(value), 0.0), max(-float(value), 0.0))
+
+    def set_standard(self, standard: np.ndarray) -> None:
+        """Give the reactions with an energy new ΔrG'° (kJ/mol, in the order of
+        :attr:`energy_ids`): the problem becomes the one a fresh build for these energies makes.
+
+        Changed: the right-hand side of each energy's definition row, the bounds of g_j (the
+        interval bounds of :func:`tfa.problem.bigm.energy_intervals`), the big-M coefficient and
+        right-hand side of each direction row (:func:`tfa.problem.bigm.direction_big_m`), and the
+        direction binaries the new intervals forbid (fixed at 0). :attr:`standard` follows, so the
+        certificate checks a point against these energies. Every new value must lie within the
+        ``energy_spread`` the problem was built with (its rows exist only for the directions
+        that spread allows); outside it raises InputError and the caller builds afresh.
+        Only for the feasibility and uphill-set problems (not the max-min driving force).
+        """
+        from .bigm import direction_big_m
+
+        values = np.asarray(standard, float)
+        if values.shape != self.standard.shape:
+            raise InputError(f"set_standard: {len(self.standard)} energies expected, got {values.shape}")
+        if self.options.driving_force:
+            raise InputError("set_standard: the max-min driving force problem is built per energies")
+        outside = np.flatnonzero(np.abs(values - self.built_standard) > self.energy_spread + 1e-9)
+        if outside.size:
+            raise InputError(f"set_standard: reaction {self.energy_ids[outside[0]]} moves "
+                             f"{values[outside[0]] - self.built_standard[outside[0]]:+.3g} kJ/mol, "
+                             f"beyond the spread of {self.energy_spread[outside[0]]:.3g} kJ/mol the "
+                             "problem was built for; build it afresh")
+        delta = self.options.min_driving_force
+        g_lo, g_hi = energy_intervals(values, self.slack_width, *self.thermo, self.envelope_lower,
+                                      self.envelope_upper, self.thermo_model.RT)
+        big_m = direction_big_m(g_lo, g_hi, delta)
+        fwd_open, bwd_open = self.direction_open
+        for j, (row, g) in enumerate(zip(self._definition_rows, self.g_vars)):
+            _fix_row(row, float(values[j]))
+            g.set_bounds(float(g_lo[j]), float(g_hi[j]))
+            for sign, binary, possible, built_open, m in (
+                    (1, self.f_vars[j], big_m.forward_possible[j], fwd_open[j], g_hi[j] + delta),
+                    (-1, self.b_vars[j], big_m.backward_possible[j], bwd_open[j], delta - g_lo[j])):
+                binary.ub = 1 if (possible and built_open) else 0
+                direction = self._direction_rows.get((j, sign))
+                if direction is not None:
+                    # a forbidden direction keeps a redundant row (M = the interval's reach)
+                    m = max(float(m), 0.0)
+                    direction.set_linear_coefficients({binary: m})
+                    direction.ub = m - delta
+        self.standard = values.copy()
+        self.g_lower, self.g_upper, self.big_m = g_lo, g_hi, big_m
 
     def log_bounds_of(self, metabolite_id: str) -> tuple[float, float]:
         """Current (ln lo, ln hi) of one compound."""
@@ -520,6 +591,17 @@ class ThermoProblem(PointSearch):
             "compounds_with_activity": len(self.metabolite_ids),
             "build_seconds": self.build_seconds,
         }
+
+
+def _fix_row(row, value: float) -> None:
+    """Set a row's lower and upper bound to ``value`` (in the order its current bounds allow:
+    optlang refuses a lower bound above the upper one even for a moment)."""
+    if row.ub is not None and value > row.ub:
+        row.ub = value
+        row.lb = value
+    else:
+        row.lb = value
+        row.ub = value
 
 
 def _tune_glpk(solver) -> None:
