@@ -143,3 +143,50 @@ def test_h2_without_atp_runs_on_the_bundled_network_per_precursor():
     verdicts = precursor_verdicts(tm, options)
     assert set(verdicts) == set(demand_precursors(tm)) and len(verdicts) == 17
     assert all(v is not None for v in verdicts.values())
+
+
+def _two_precursors():
+    """A fed at 1 mM; R1 A -> P1 (-10 kJ/mol), R2 A -> P2 (+20 kJ/mol); the demand draws P1 and
+    P2; P1, P2 between 1 uM and 10 mM (25 degC, hand-built). By hand: P1 is made downhill;
+    P2 is not, since at its least 1 uM R2 still has ΔrG' = 20 + RT ln(1e-6 / 1e-3) = +2.87 kJ/mol
+    (RT = 2.479 kJ/mol; Alberty 2003, eq. 4.1-4)."""
+    import sys
+
+    sys.path.insert(0, str(Path(__file__).parent))
+    from engine_networks import build_thermo_model
+
+    tm = build_thermo_model({"R1": ("A -> P1", -10.0, 1.0), "R2": ("A -> P2", 20.0, 1.0)},
+                            {"A": (1e-3, 1e-3), "P1": (1e-6, 1e-2), "P2": (1e-6, 1e-2)},
+                            {"A": (-100, 0)}, demand=("P1", 1.0), solver="highs")
+    tm.model.reactions.DM_P1.add_metabolites({tm.model.metabolites.P2: -1.0})
+    return tm
+
+
+def test_precursor_verdicts_by_hand_and_known_verdicts_are_not_solved_again(monkeypatch):
+    import importlib
+
+    from tfa.analyses.precursor_demand import known_verdicts, precursor_verdicts
+    from tfa.analyses.precursors import precursor_verdicts as full_verdicts
+
+    tm = _two_precursors()
+    assert precursor_verdicts(tm) == {"P1": True, "P2": False}
+    # the per-precursor verdicts of the assessment ask the same question: same answers
+    full = full_verdicts(tm)
+    assert {v.compound: v.verdict for v in full.verdicts} == {"P1": "downhill", "P2": "uphill"}
+    assert known_verdicts(full.verdicts) == {"P1": True, "P2": False}
+    # a verdict given is taken as it is (None: "undetermined" here, to see it is not re-solved);
+    # only the other precursor is solved, once
+    asked = []
+    feasibility_module = importlib.import_module("tfa.analyses.feasibility")
+    original = feasibility_module.feasibility
+
+    def counted(model, *args, **kwargs):
+        asked.append(model.model.reactions.get_by_id(model.demand_id).reaction)
+        return original(model, *args, **kwargs)
+
+    monkeypatch.setattr(feasibility_module, "feasibility", counted)
+    assert precursor_verdicts(tm, known={"P2": None}) == {"P1": True, "P2": None}
+    assert len(asked) == 1 and "P2" not in asked[0]
+    asked.clear()
+    assert precursor_verdicts(tm, known=known_verdicts(full.verdicts)) == {"P1": True, "P2": False}
+    assert asked == []

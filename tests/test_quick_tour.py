@@ -31,9 +31,9 @@ H2_THRESHOLD = 5.47e-12
 H2_RTOL = 0.01
 #: Max-min driving force in native mode, kJ/mol, to the two decimals of summary.json.
 DRIVING_FORCE = 2.90
-#: Robustness of the default run (at most 12 draws per mode, seed 0): feasible draws per mode.
-ROBUSTNESS = {"native": 8, "h2_only": 8, "no_atp_bare": 0}
-ROBUSTNESS_DRAWS = 12
+#: Robustness of the default run (at most 40 draws per mode, seed 0): feasible draws per mode.
+ROBUSTNESS = {"native": 25, "h2_only": 24, "no_atp_bare": 0}
+ROBUSTNESS_DRAWS = 40
 
 
 @pytest.fixture(scope="module")
@@ -111,3 +111,45 @@ def test_readme_shows_the_printed_answer(bundled_run):
     cut = lambda line: line.split(" (tightest:")[0]  # noqa: E731
     assert [cut(line) for line in shown[:-1]] == [cut(line) for line in printed]
     assert shown[-1].startswith("files in tfa-results/ (report: tfa-results/report.html); ")
+
+
+#: The route comparison at the demo setting (README, "The routes side by side"): ATP made per
+#: carbon fixed in each route's own steady state, to the two decimals the summary prints; H2 per
+#: carbon (the same for every route); the first two carbon entries; the distance to a flipped
+#: verdict to the one decimal the README gives.
+ROUTE_ATP_PER_CARBON = {"acetyl_coa": 4.12, "reductive_tca": 5.69, "reversed_oxidative_tca": 4.91,
+                        "reductive_glycine": 1.31}
+ROUTE_H2_PER_CARBON = 1.94
+ROUTE_FIRST_ENTRIES = {"acetyl_coa": "PC 64 %, PFOR 35 %", "reductive_tca": "PC 72 %, PFOR 25 %",
+                       "reversed_oxidative_tca": "PC 69 %, PFOR 29 %",
+                       "reductive_glycine": "HDCR 51 %, GCS 25 %"}
+ROUTE_MARGIN_SIGMA = {"acetyl_coa": 3.4, "reductive_tca": 3.0, "reversed_oxidative_tca": 3.4,
+                      "reductive_glycine": 3.4}
+#: Columns the route comparison fills for every feasible route.
+ROUTE_FILLED = ["driving_force_kJ_per_mol", "h2_threshold", "h2_per_carbon", "atp_made_per_carbon",
+                "atp_spent_per_carbon", "delta_g_net_kJ_per_carbon", "gradient_share",
+                "carbon_entries", "route_carbon_share", "h2_threshold_binding",
+                "driving_force_binding", "margin_sigma", "margin_status", "carried_by", "solution"]
+
+
+def test_route_comparison_costs_and_entries(bundled_run):
+    import pandas as pd
+
+    table = pd.read_csv(bundled_run.out / "route_comparison.csv").set_index("route")
+    assert table["feasible"].all()
+    feasible = table[table["feasible"]]
+    assert not feasible[ROUTE_FILLED].isna().any().any()
+    assert {r: round(v, 2) for r, v in table["atp_made_per_carbon"].items()} == ROUTE_ATP_PER_CARBON
+    # ATP is internal (made by the gradient's ATP synthase, spent by the coupled steps)
+    assert list(table["atp_spent_per_carbon"]) == pytest.approx(list(table["atp_made_per_carbon"]),
+                                                                rel=1e-6)
+    assert set(table["h2_per_carbon"].round(2)) == {ROUTE_H2_PER_CARBON}
+    # the gradient pays all of it (100-101 %: the feed chemistry alone is slightly uphill)
+    assert table["gradient_share"].between(0.995, 1.015).all()
+    assert {r: ", ".join(e.split(", ")[:2]) for r, e in table["carbon_entries"].items()} == \
+        ROUTE_FIRST_ENTRIES
+    # every route's carbon came in through its own reactions, the rest (about 1 %) through the
+    # shared carbamoyl-phosphate synthetase
+    assert table["route_carbon_share"].between(0.98, 1.0).all()
+    assert {r: round(v, 1) for r, v in table["margin_sigma"].items()} == ROUTE_MARGIN_SIGMA
+    assert table["h2_threshold_binding"].str.startswith("the upper bound of fdox").all()

@@ -13,13 +13,15 @@ from __future__ import annotations
 
 import math
 import sys
+from dataclasses import replace
 from pathlib import Path
 
 import pytest
 
 sys.path.insert(0, str(Path(__file__).parent))
 from engine_networks import build_thermo_model  # noqa: E402
-from tfa.analyses.route_comparison import comparison_table, compare_routes  # noqa: E402
+from tfa.analyses.route_comparison import (comparison_table, comparison_words,  # noqa: E402
+                                            compare_routes)
 from tfa.errors import InputError  # noqa: E402
 from tfa.network.routes import Route, carbon_fixing, read_routes, route_only  # noqa: E402
 
@@ -94,11 +96,164 @@ def test_route_figure_draws_every_route():
     table = comparison_table(compare_routes(tm, routes, tm.model.metabolites.A))
     assert isinstance(table, pd.DataFrame) and len(table) == 3
     fig = route_comparison_figure(table, (1e-12, 1e-2), 1e-3)
-    verdict, window, size = fig.axes[:3]
+    verdict, window, h2_cost, atp, margin = fig.axes[:5]
     ticks = {t.get_text(): t.get_position()[1] for t in verdict.get_yticklabels()}
     assert ticks["route P"] > ticks["route Q"] > ticks["no carbon entry"]   # table order, top down
     texts = " ".join(t.get_text() for t in window.texts)
     assert "no H2 level in range" in texts and "setting" in texts
+    # the route without a carbon entry has no steady state: no cost drawn, its margin not asked
+    assert "n/a" in " ".join(t.get_text() for t in h2_cost.texts)
+    assert "not asked" in " ".join(t.get_text() for t in margin.texts)
+
+
+# ---------------------------------------------------------------------------------------------
+# What each route costs per carbon fixed, what binds it, how far from a flipped verdict
+# ---------------------------------------------------------------------------------------------
+
+def _costly_routes():
+    """CO2 to D (one carbon) two ways, 25 degC, every energy sigma = 1 kJ/mol (hand-built):
+
+    route P: RP1 co2 + h2 -> B (-10 kJ/mol), RP2 B + h2 -> D (-10): two H2 per carbon, no ATP;
+    route Q: RQ1 co2 + atp -> C + adp + pi (-5), RQ2 C + h2 -> D (-10), the ATP made back by
+    ATPR adp + ppi -> atp + pi (-10): one H2, one ATP made and one spent per carbon.
+    co2, h2, pi and ppi fed at 1 mM; B, C, D, ATP, ADP between 1 uM and 10 mM; demand 1 of D.
+    """
+    reactions = {"RP1": ("co2 + h2 -> B", -10.0, 1.0), "RP2": ("B + h2 -> D", -10.0, 1.0),
+                 "RQ1": ("co2 + atp -> C + adp + pi", -5.0, 1.0),
+                 "RQ2": ("C + h2 -> D", -10.0, 1.0), "ATPR": ("adp + ppi -> atp + pi", -10.0, 1.0)}
+    bounds = ({m: (1e-3, 1e-3) for m in ("co2", "h2", "pi", "ppi")}
+              | {m: (1e-6, 1e-2) for m in ("B", "C", "D", "atp", "adp")})
+    tm = build_thermo_model(reactions, bounds, {"co2": (-100, 0), "h2": (-100, 0),
+                                                "pi": (-100, 100), "ppi": (-100, 0)},
+                            demand=("D", 1.0), feed_ids={"h2": "h2", "co2": "co2"},
+                            solver="highs")
+    formulas = {"co2": "CO2", "h2": "H2", "B": "CH2O2", "C": "CH2O5P", "D": "CH4O",
+                "atp": "C10H16N5O13P3", "adp": "C10H15N5O10P2", "pi": "HO4P", "ppi": "HO7P2"}
+    roles = {"h2": "h2", "atp": "atp", "adp": "adp", "pi": "phosphate"}
+    for met in tm.model.metabolites:
+        met.formula = formulas[met.id]
+        if met.id in roles:
+            met.notes["role"] = roles[met.id]
+    routes = [Route("P", "route P", ("RP1", "RP2")), Route("Q", "route Q", ("RQ1", "RQ2"))]
+    return tm, routes
+
+
+def test_routes_differ_in_h2_and_atp_per_carbon_by_hand():
+    """Per carbon fixed (the net reaction of each route's own steady state, read off the
+    equations): P takes co2 + 2 h2 -> D, so 2 H2 and no ATP; Q takes co2 + h2 + ppi -> D + 2 pi
+    through RQ1, RQ2 and ATPR once each, so 1 H2 and 1 ATP made (ATPR) and spent (RQ1). The only
+    carbon entry of P is RP1, of Q RQ1."""
+    tm, routes = _costly_routes()
+    p, q = compare_routes(tm, routes, tm.model.metabolites.co2)
+    table = comparison_table([p, q]).set_index("route")
+    assert table.loc["P", "h2_per_carbon"] == pytest.approx(2.0, abs=1e-9)
+    assert table.loc["Q", "h2_per_carbon"] == pytest.approx(1.0, abs=1e-9)
+    assert (table.loc["P", "atp_made_per_carbon"], table.loc["P", "atp_spent_per_carbon"]) == (
+        pytest.approx(0.0, abs=1e-9), pytest.approx(0.0, abs=1e-9))
+    assert (table.loc["Q", "atp_made_per_carbon"], table.loc["Q", "atp_spent_per_carbon"]) == (
+        pytest.approx(1.0, abs=1e-9), pytest.approx(1.0, abs=1e-9))
+    assert table.loc["P", "carbon_entries"] == "RP1 100 %"
+    assert table.loc["Q", "carbon_entries"] == "RQ1 100 %"
+    assert list(table["route_carbon_share"]) == pytest.approx([1.0, 1.0])
+    # no outer protons: the feed chemistry pays everything
+    assert list(table["gradient_share"]) == [0.0, 0.0]
+    # ΔG_net of P: RP1 + RP2 = -20 + RT ln([D] / ([co2][h2]^2)); its max-min driving force is
+    # set by the lower bound of D (below), so [D] = 1 uM: -20 + RT ln(1e3) = -2.876 kJ per mol C
+    # (Alberty 2003, eq. 4.1-4: the energy of a sum of reactions is the sum of their energies)
+    expected = -20.0 + tm.RT * math.log(1e-6 / (1e-3 * 1e-3 ** 2))
+    assert table.loc["P", "delta_g_net_kJ_per_carbon"] == pytest.approx(expected, abs=1e-6)
+    assert "max-min driving-force steady state" in table.loc["P", "solution"]
+    words = [comparison_words(a) for a in (p, q)]
+    assert "per carbon fixed 2 H2, 0 ATP made and 0 spent" in words[0]
+    assert "per carbon fixed 1 H2, 1 ATP made and 1 spent" in words[1]
+
+
+def test_what_binds_each_routes_h2_threshold_by_hand():
+    """The least H2 of P: both steps downhill by delta, B in between, so the sum
+    -20 + RT ln([D] / ([co2] [h2]^2)) <= -2 delta with [D] at its floor:
+    [h2]^2 = [D]_min / [co2] exp(-(20 - 2 delta) / RT) = 5.83e-4 mol/L, hence
+    d ln[h2] / d ln[D]_min = +1/2 and d ln[h2] / d ln[co2] = -1/2 (the first two, equal in size).
+    Q: only RQ2 takes H2: -10 + RT ln([D] / ([C] [h2])) <= -delta with [C] at its ceiling (RQ1
+    and ATPR leave room for it): [h2] = [D]_min / [C]_max exp(-9.9 / RT) = 1.84e-6 mol/L, so
+    d ln[h2] / d ln[C]_max = -1 and d ln[h2] / d ln[D]_min = +1. (Hand derivations with
+    ΔrG' = ΔrG'° + RT Σ ν ln c, Alberty 2003, eq. 4.1-4; dual values as in tests/test_binding.py.)"""
+    tm, routes = _costly_routes()
+    p, q = compare_routes(tm, routes, tm.model.metabolites.co2, margins=False)
+    rt = tm.RT
+    assert p.h2_threshold == pytest.approx(math.sqrt(1e-6 / 1e-3 * math.exp(-(20 - 2 * DELTA) / rt)),
+                                           rel=1e-4)
+    assert q.h2_threshold == pytest.approx(1e-6 / 1e-2 * math.exp(-(10 - DELTA) / rt), rel=1e-4)
+    p_binds = {what: s for what, s, _ in p.binding["h2_threshold"]}
+    q_binds = {what: s for what, s, _ in q.binding["h2_threshold"]}
+    assert p_binds == {"the lower bound of D": pytest.approx(0.5, abs=1e-6),
+                       "the fed co2": pytest.approx(-0.5, abs=1e-6)}
+    assert q_binds == {"the upper bound of C": pytest.approx(-1.0, abs=1e-6),
+                       "the lower bound of D": pytest.approx(1.0, abs=1e-6)}
+    assert comparison_words(q).endswith("the H2 threshold is set by the upper bound of C")
+    # each dual named is confirmed by re-solving with its datum moved both ways
+    assert p.verification["binding (h2 threshold)"] == "proven"
+    assert q.verification["binding (driving force)"] == "proven"
+    assert "the lower bound of D (+0.5 d ln[H2] per unit ln c)" in comparison_table([p])[
+        "h2_threshold_binding"].iloc[0]
+
+
+def test_each_route_has_its_own_distance_to_a_flipped_verdict_by_hand():
+    """P runs only while RP1 + RP2 can both be downhill by delta: at the best concentrations
+    ([D] = 1 uM, B free) the sum -20 + RT ln(1e-6 / 1e-9) = -2.876 kJ/mol must rise above
+    -2 delta = -0.2, a change of 2.676 kJ/mol of the two values together, 2.676 sigma with sigma =
+    1 kJ/mol per value (hand-derived). The search reports a verified flip, an upper bound: its
+    cut asks the mean driving force of the two steps (dual weights 1/2 each) to fall CUT_EPSILON
+    below delta, so the sum moves 2 CUT_EPSILON further. Q's max-min driving force (14 kJ/mol
+    over three steps of sigma 1) needs more than the cap of 10 sigma."""
+    from tfa.analyses.margins import CUT_EPSILON
+
+    tm, routes = _costly_routes()
+    p, q = compare_routes(tm, routes, tm.model.metabolites.co2, budget=False, binding=False)
+    expected = -2 * DELTA - (-20.0 + tm.RT * math.log(1e-6 / 1e-9))
+    assert p.margin.distance == pytest.approx(expected + 2 * CUT_EPSILON, abs=1e-6)
+    assert p.margin.status == "best found"
+    assert not math.isfinite(q.margin.distance) and q.margin.status.startswith("none within 10")
+    table = comparison_table([p, q])
+    assert table["margin_sigma"].iloc[0] == p.margin.distance
+    assert "RP" in table["carried_by"].iloc[0] and table["carried_by"].iloc[1] == ""
+
+
+def test_the_whole_networks_smaller_flip_is_taken_for_a_feasible_route():
+    """Closing the other carbon entries only removes steady states, so a change of the energies
+    that leaves the whole network none leaves a route none: when the network's verified flip is
+    smaller than the one the route's own search found (2.678 sigma for P, above), it is the
+    route's answer too, and the table says so; a larger one is not taken."""
+    from tfa.analyses.margins import MarginResult
+
+    tm, routes = _costly_routes()
+    smaller = MarginResult(conditions=tm.conditions, mode=tm.mode, feasible=True, distance=1.5,
+                           status="best found", sources=[("v", "reaction value RP1", 1.5)],
+                           verification={"status": "best found", "check": "test flip"})
+    (p,) = compare_routes(tm, routes[:1], tm.model.metabolites.co2, budget=False, binding=False,
+                          network_margin=smaller)
+    row = comparison_table([p]).iloc[0]
+    assert row["margin_sigma"] == 1.5 and row["carried_by"] == "reaction value RP1"
+    assert "the whole network's flip" in row["message"]
+    assert "the route's own search found 2.68σ" in p.margin.verification["check"]
+    larger = replace(smaller, distance=5.0)
+    (p,) = compare_routes(tm, routes[:1], tm.model.metabolites.co2, budget=False, binding=False,
+                          network_margin=larger)
+    assert p.margin.distance == pytest.approx(2.678, abs=1e-3)
+
+
+def test_a_route_without_a_steady_state_has_no_cost_and_says_what_was_not_asked():
+    tm, _ = _costly_routes()
+    (answer,) = compare_routes(tm, [Route("none", "no entry", ("RP2",))], tm.model.metabolites.co2)
+    row = comparison_table([answer]).iloc[0]
+    assert answer.budget is None and math.isnan(row["h2_per_carbon"])
+    assert answer.margin is None and "not asked: distance to a flipped verdict" in row["message"]
+
+
+def test_route_columns_are_in_the_vocabulary():
+    from tfa.analyses.route_comparison import ROUTE_COMPARISON_COLUMNS
+    from tfa.vocabulary import COLUMNS
+
+    assert [c for c in ROUTE_COMPARISON_COLUMNS if c not in COLUMNS] == []
 
 
 @pytest.mark.slow

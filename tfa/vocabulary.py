@@ -343,6 +343,21 @@ COLUMNS.update(_terms(
     ("name", "words for a route, as tables and figures show it", ""),
     ("closed_entries", "carbon-fixing reactions outside the route closed while it is asked", ""),
     ("routes_feasible", "per route, whether it meets the demand as the only carbon entry", ""),
+    ("atp_made_per_carbon", "ATP made per carbon atom taken in from the feed (route comparison: "
+                            "per carbon fixed)", ""),
+    ("atp_spent_per_carbon", "ATP used per carbon atom taken in from the feed", ""),
+    ("delta_g_net_kJ_per_carbon", "ΔrG' of the net reaction per carbon atom taken in from the feed",
+     "kJ per mol C"),
+    ("gradient_share", "share of the net reaction's ΔrG' paid by outer protons entering (the rest: "
+                       "the feed chemistry)", ""),
+    ("carbon_entries", "reactions taking carbon from the carbon source, each with its share of "
+                       "that carbon, largest first", ""),
+    ("route_carbon_share", "share of the carbon taken from the carbon source through the route's "
+                           "own reactions (the rest: the shared entries)", ""),
+    ("h2_threshold_binding", "the constraints that set the H2 threshold, first two, each with its "
+                             "dual value and unit", ""),
+    ("driving_force_binding", "the constraints that set the max-min driving force, first two, each "
+                              "with its dual value and unit", ""),
 ))
 
 #: Keys of ``summary.json`` besides table columns.

@@ -51,7 +51,8 @@ from ..network.thermo_model import ThermoModel
 from ..problem.builder import ProblemOptions, Solution, ThermoProblem
 from ..problem.solvers import InfeasibleProblem
 from ..problem.sensitivity import (ZERO_DUAL, LPOptimum, PatternLP, dual_confirmed,
-                                   finite_difference, pattern_lp, solve_pattern)
+                                   pattern_lp, solve_pattern)
+from ..problem.sensitivity import finite_difference as _finite_difference
 from .results import AnalysisResult, certify, verification
 
 log = logging.getLogger(__name__)
@@ -226,9 +227,19 @@ def _one_sided(dual: float, left: float, right: float) -> str:
 
 
 def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
-                       range_compound: str | None = None, unit: str = "mol/L") -> list[dict]:
-    """Rows for every datum whose dual is not zero, or that lies at a bound, with words."""
+                       range_compound: str | None = None, unit: str = "mol/L",
+                       confirm: int | None = None) -> list[dict]:
+    """Rows for every datum whose dual is not zero, or that lies at a bound, with words; each
+    dual confirmed by re-solving with its datum moved both ways, or with ``confirm`` only the
+    first ``confirm`` rows by rank (the others keep NaN one-sided derivatives and
+    ``dual_confirmed`` None: two linear programs fewer per row)."""
     objective, sense = opt.objective[:2], opt.objective[2]
+
+    def finite_difference(lp, objective, sense, datum):   # deferred when confirming a few
+        if confirm is not None:
+            return math.nan, math.nan
+        return _finite_difference(lp, objective, sense, datum)
+
     is_h2 = objective[0] == "ln_activity"
     name = ANSWERS[answer]
     unit_bound = "per unit ln c" if not is_h2 else "d ln[H2] per unit ln c"
@@ -260,7 +271,8 @@ def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
                          f"{dual * math.log(10):+.3g} kJ/mol ({dual / lp.rt:+.3g} RT per unit ln c)")
             words += _one_sided(dual, left, right)
             value = math.exp(lp.lower[i] if side != "upper" else lp.upper[i])
-            rows.append({"kind": kind, "compound": mid, "reaction": "", "bound": side,
+            rows.append({"_datum": (side, mid, ""), "kind": kind, "compound": mid,
+                         "reaction": "", "bound": side,
                          "activity": value, "sensitivity": float(dual),
                          "sensitivity_unit": ("kJ/mol per unit ln c" if not is_h2 else unit_bound),
                          "sensitivity_left": left, "sensitivity_right": right,
@@ -272,7 +284,8 @@ def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
         left, right = finite_difference(lp, objective, sense, ("energy", rid, ""))
         change = (f"1 kJ/mol more in its ΔrG'° multiplies it by {math.exp(dual):.3g}" if is_h2
                   else f"1 kJ/mol more in its ΔrG'° changes it by {dual:+.3g} kJ/mol")
-        rows.append({"kind": "reaction energy", "compound": "", "reaction": rid,
+        rows.append({"_datum": ("energy", rid, ""), "kind": "reaction energy",
+                     "compound": "", "reaction": rid,
                      "bound": "", "activity": math.nan, "sensitivity": dual,
                      "sensitivity_unit": "d ln[H2] per kJ/mol" if is_h2 else "per kJ/mol",
                      "sensitivity_left": left, "sensitivity_right": right,
@@ -285,7 +298,8 @@ def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
             left, right = finite_difference(lp, objective, sense, ("state", str(k), side))
             change = (_ln_words(dual, name) if is_h2 else
                       f"a rise of its {side} bound by one unit of ln changes it by {dual:+.3g} kJ/mol")
-            rows.append({"kind": "carrier state", "compound": ", ".join(
+            rows.append({"_datum": ("state", str(k), side), "kind": "carrier state",
+                         "compound": ", ".join(
                              lp.metabolite_ids[i] for i in coefficients), "reaction": "",
                          "bound": side, "activity": math.nan, "sensitivity": float(dual),
                          "sensitivity_unit": unit_bound if is_h2 else "kJ/mol per unit ln",
@@ -295,7 +309,8 @@ def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
                                     + _one_sided(dual, left, right)})
     if is_h2 and abs(opt.delta_dual) > ZERO_DUAL:
         left, right = finite_difference(lp, objective, sense, ("delta", "", ""))
-        rows.append({"kind": "least driving force", "compound": "", "reaction": "", "bound": "",
+        rows.append({"_datum": ("delta", "", ""), "kind": "least driving force",
+                     "compound": "", "reaction": "", "bound": "",
                      "activity": math.nan, "sensitivity": opt.delta_dual,
                      "sensitivity_unit": "d ln[H2] per kJ/mol",
                      "sensitivity_left": left, "sensitivity_right": right,
@@ -305,7 +320,20 @@ def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
                                 f"{math.exp(opt.delta_dual):.3g}"})
     for row in rows:
         row.update(mode=mode, answer=answer)
-    return _ranked(rows)
+    ranked = _ranked(rows)
+    for row in ranked:
+        datum = row.pop("_datum")
+        if confirm is None:
+            continue
+        if row["rank"] > confirm or abs(row["sensitivity"]) <= ZERO_DUAL:
+            row["dual_confirmed"] = None   # not re-solved
+            continue
+        left, right = _finite_difference(lp, objective, sense, datum)
+        row.update(sensitivity_left=left, sensitivity_right=right,
+                   dual_confirmed=dual_confirmed(row["sensitivity"], left, right))
+        if row["kind"] not in ("reaction energy", "least driving force"):
+            row["message"] += _one_sided(row["sensitivity"], left, right)
+    return ranked
 
 
 #: Order of the kinds for a yes/no answer: what the question imposes first.
@@ -330,7 +358,7 @@ def _ranked(rows: list[dict]) -> list[dict]:
 def optimum_constraints(tm: ThermoModel, solution: Solution, options: ProblemOptions, mode: str,
                         answer: str, objective: tuple[str, str | None], sense: str,
                         log_bound_overrides: dict | None = None, range_compound: str | None = None,
-                        unit: str = "mol/L") -> tuple[list[dict], float]:
+                        unit: str = "mol/L", confirm: int | None = None) -> tuple[list[dict], float]:
     """Rows of one optimisation answer and the pattern LP's optimum (to compare with the MILP's).
 
     Parameters
@@ -340,10 +368,11 @@ def optimum_constraints(tm: ThermoModel, solution: Solution, options: ProblemOpt
     objective, sense : as :func:`tfa.problem.sensitivity.solve_pattern`
     log_bound_overrides : the bounds the optimum was found under (the H2 range for H2 answers)
     range_compound : the compound whose bounds are the range searched (H2), named as such
+    confirm : confirm only the duals of the first ``confirm`` rows by re-solving (default all)
     """
     lp = pattern_lp(tm, solution, options, log_bound_overrides)
     opt = solve_pattern(lp, objective, sense)
-    return _rows_from_optimum(lp, opt, mode, answer, range_compound, unit), opt.value
+    return _rows_from_optimum(lp, opt, mode, answer, range_compound, unit, confirm), opt.value
 
 
 def point_constraints(tm: ThermoModel, solution: Solution, options: ProblemOptions,

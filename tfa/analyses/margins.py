@@ -237,6 +237,12 @@ def _to_infeasible(tm: ThermoModel, options: ProblemOptions, result: MarginResul
         ids = list(problem.energy_ids)
         mean = np.asarray(problem.standard, float)
         n_z = a.shape[1]
+        if n_z == 0:   # no source of uncertainty: no change of the energies to search
+            result.status = f"none within {MARGIN_CAP:g} σ"
+            result.verification = verification(
+                "proven", "the energies carry no uncertainty (every σ is 0), so no change of "
+                "them is searched")
+            return
         cuts_a: list[np.ndarray] = []
         cuts_b: list[float] = []
         z = np.zeros(n_z)

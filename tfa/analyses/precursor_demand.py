@@ -2,13 +2,14 @@
 (with its own coefficient, the demand flux unchanged), so an analysis can say which precursors a
 mode can make.
 
-Hook: the per-precursor verdicts of the assessment (table ``precursors``) ask the same
-question; once merged, :func:`precursor_verdicts` should read them instead of solving again.
+The per-precursor verdicts of the assessment (table ``precursors``, :mod:`tfa.analyses.precursors`)
+ask the same question of the modes the assessment runs; :func:`precursor_verdicts` takes them
+(``known``) instead of solving again, and solves only the precursors it is not given.
 """
 
 from __future__ import annotations
 
-from typing import Any, Callable
+from typing import Any, Callable, Mapping
 
 from ..errors import ComputationError, InputError
 from ..network.thermo_model import ThermoModel
@@ -52,15 +53,24 @@ def per_precursor(tm: ThermoModel, run: Callable[[ThermoModel, str], Any],
 
 
 def precursor_verdicts(tm: ThermoModel, options: ProblemOptions | None = None,
-                       progress: Callable[[int, int], None] | None = None) -> dict[str, bool | None]:
+                       progress: Callable[[int, int], None] | None = None,
+                       known: Mapping[str, bool | None] | None = None) -> dict[str, bool | None]:
     """Precursor -> can the mode make it alone with every step downhill (True/False; None when a
     solver stopped without an answer). A "no" is the solver's proof, not confirmed by the second
-    solver (to keep the many small questions fast); a "yes" is a certified steady state."""
+    solver (to keep the many small questions fast); a "yes" is a certified steady state.
+
+    ``known``: verdicts already found for this mode (the assessment's ``precursors`` step asks
+    the same question, :func:`known_verdicts`); those precursors are not solved again.
+    """
     from dataclasses import replace
 
     from .feasibility import feasibility
 
     quick = replace(options or ProblemOptions(), confirm_infeasible="never")
+    known = dict(known or {})
+    drawn = list(demand_precursors(tm))
+    asked = [m for m in drawn if m not in known]
+    answers: dict[str, bool | None] = {}
 
     def ask(model: ThermoModel, compound: str):
         try:
@@ -68,4 +78,19 @@ def precursor_verdicts(tm: ThermoModel, options: ProblemOptions | None = None,
         except ComputationError:
             return compound, None
 
-    return dict(per_precursor(tm, ask, progress=progress))
+    if asked:
+        answers = dict(per_precursor(tm, ask, asked, progress=progress))
+    return {m: known[m] if m in known else answers.get(m) for m in drawn}
+
+
+#: Verdicts of :mod:`tfa.analyses.precursors` read as "made downhill": True, False or None.
+DOWNHILL_VERDICTS = {"downhill": True, "uphill": False, "stoichiometric gap": False,
+                     "undetermined": None}
+
+
+def known_verdicts(verdicts) -> dict[str, bool | None]:
+    """Precursor -> made downhill (True/False/None) from the per-precursor verdicts of one mode
+    (:class:`tfa.analyses.precursors.PrecursorVerdict`: downhill, uphill, stoichiometric gap,
+    undetermined); a verdict of another kind (not applicable) is left out."""
+    return {v.compound: DOWNHILL_VERDICTS[v.verdict] for v in verdicts
+            if v.verdict in DOWNHILL_VERDICTS}

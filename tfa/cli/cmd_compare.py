@@ -1,5 +1,7 @@
 """``tfa compare``: every carbon-fixation route of the network alone as the entry of carbon from
-CO2, side by side: feasible or not, max-min driving force, minimal uphill set, least H2. Routes
+CO2, side by side: feasible or not, max-min driving force, minimal uphill set, least H2, the energy
+budget per carbon fixed (H2, ATP made and spent, the gradient's share), the carbon entries, the
+binding constraints and the distance to a flipped verdict. Routes
 from ``--routes FILE``, else ``routes.toml`` beside the network, else one per pathway tag.
 ``--out DIR`` writes ``route_comparison`` and its figure. The same step as in ``tfa assess``.
 """
@@ -17,7 +19,9 @@ def register(subparsers) -> None:
     parser = subparsers.add_parser(
         "compare", help="carbon-fixation routes side by side, each as the only carbon entry",
         description="Each route (a named set of reactions) alone as the entry of carbon from "
-        "CO2: verdict, max-min driving force, minimal uphill set and the least H2 it runs on.",
+        "CO2: verdict, max-min driving force, minimal uphill set, the least H2 it runs on, H2 and "
+        "ATP per carbon fixed, where the carbon came in, what binds, and the distance to a "
+        "flipped verdict.",
         epilog="example: tfa compare --routes my_routes.toml --out runs/routes")
     add_network_options(parser)
     add_mode_option(parser, "compare")

@@ -38,8 +38,9 @@ class CurrenciesStep(Step):
                 "in their place, and which precursors each can make")
 
     def run(self, ctx: RunContext) -> list[CurrencyRow]:
-        from ...analyses.precursor_demand import precursor_verdicts
+        from ...analyses.precursor_demand import known_verdicts, precursor_verdicts
 
+        precursors = ctx.results.get("precursors")   # when the assessment has run that step
         rows = []
         modes = currency_modes()
         for k, mode in enumerate(modes):
@@ -54,9 +55,12 @@ class CurrenciesStep(Step):
             sets = whole.diagnosis.sets if whole.diagnosis is not None else []
             tick = (lambda done, total, k=k, mode=mode: ctx.tick(
                 k, len(modes), f"modes ({mode}, precursor {done + 1}/{total})"))
+            # the precursors step asks the same question of the modes of the run: read it
+            known = (known_verdicts(precursors.of_mode(mode))
+                     if precursors is not None and mode in ctx.settings.modes else {})
             verdicts = ctx.attempt(f"currencies ({mode}) per precursor",
                                    lambda: precursor_verdicts(ctx.thermo_model(mode), ctx.options,
-                                                              progress=tick))
+                                                              progress=tick, known=known))
             rows.append(CurrencyRow(mode, None if whole.message.startswith("undetermined")
                                     else whole.feasible, sets, verdicts or {}, whole.message,
                                     whole.verification.get("status", "")))
