@@ -97,7 +97,8 @@ def test_h2_threshold_names_the_carrier_bounds_with_their_exponents():
     # [XH2]_lo / [X]_hi = 1e-5 / 1e-2 = 1e-3, and the threshold is proportional to it
     result.carrier_pairs = {"XH2": "X"}
     assert ("the least XH2/X ratio the bounds allow (0.001: XH2 at its lower bound, X at its "
-            "upper) sets the H2 threshold: halving the ratio halves the H2 threshold"
+            "upper) sets the H2 threshold: with the flux pattern fixed, halving the ratio halves the H2 "
+            "threshold"
             in result.window_words())
 
 
@@ -284,3 +285,55 @@ def test_a_carrier_state_row_that_binds_is_named_with_its_dual():
     assert low_dual == pytest.approx(-2.478957, rel=1e-6) and high_dual == 0.0
     left, right = finite_difference(lp, ("driving_force", None), "max", ("state", "0", "lower"))
     assert left == pytest.approx(-2.478957, rel=1e-3) and right == pytest.approx(-2.478957, rel=1e-3)
+
+
+def two_carrier_network(solver: str = SOLVER):
+    """H2 + A <=> P (HYD_A, dG'deg -10 kJ/mol) or H2 + B <=> P (HYD_B, -10 + 0.002 RT kJ/mol);
+    A, B in [1 uM, 10 mM], P in [10 uM, 10 mM] and drained by a demand of 1."""
+    return build_thermo_model({"HYD_A": ("H2 + A <=> P", -10.0, 0.0),
+                               "HYD_B": ("H2 + B <=> P", -10.0 + 0.002 * RT, 0.0)},
+                              {"H2": (1e-3, 1e-3), "A": (1e-6, 1e-2), "B": (1e-6, 1e-2),
+                               "P": (1e-5, 1e-2)},
+                              exchanges={"H2": (-10, 10), "A": (-10, 10), "B": (-10, 10)},
+                              demand=("P", 1.0), feed_ids={"H2": "H2"}, solver=solver)
+
+
+def test_full_resolve_agrees_when_one_flux_pattern_holds():
+    # H2 + X <=> XH2 alone: [H2]_min = [XH2]_lo / ([X]_hi K) (hand-derived), one pattern only, so
+    # moving [X]_hi down by 0.5 % (ln step -0.005) raises ln[H2]_min by exactly 0.005, and moving
+    # [XH2]_lo down lowers it by 0.005: measured = predicted
+    result = h2_threshold(hydrogenase(), ProblemOptions(solver=SOLVER), h2_range=(1e-9, 1e-2),
+                          window=True, mode="native")
+    got = by_datum([r for r in result.binding if r["answer"] == "h2_threshold"])
+    x_hi, xh2_lo = got[("concentration bound", "X", "upper")], got[("concentration bound", "XH2", "lower")]
+    for row, change in ((x_hi, 0.005), (xh2_lo, -0.005)):
+        assert row["check_step"] == -0.005
+        assert row["predicted_ln_h2_change"] == pytest.approx(change, abs=1e-6)
+        assert row["measured_ln_h2_change"] == pytest.approx(change, abs=1e-5)
+    # only the top ones are solved again
+    assert math.isnan(got[("reaction energy", "HYD", "")].get("measured_ln_h2_change", math.nan))
+    words = result.window_words()
+    assert "with the flux pattern fixed, doubling it halves the H2 threshold" in words
+    assert "solved again in full with it 0.5 % lower, the H2 threshold moves by +0.5 %" in words
+    assert "takes over" not in words
+
+
+def test_full_resolve_shows_when_another_flux_pattern_takes_over():
+    # Two hydrogenations of equal form; HYD_B's dG'deg is larger by 0.002 RT, so its threshold is
+    # exp(0.002) times HYD_A's (hand-derived: [H2]_min = [P]_lo / ([A or B]_hi K)). The optimum
+    # runs HYD_A alone and its pattern LP says d ln[H2]/d ln[A]_hi = -1, so lowering [A]_hi by
+    # 0.5 % predicts +0.005 in ln; the full MILP switches to HYD_B at +0.002 instead.
+    result = h2_threshold(two_carrier_network(), ProblemOptions(solver=SOLVER),
+                          h2_range=(1e-9, 1e-2), window=True, mode="native")
+    assert result.threshold == pytest.approx(1e-5 / (1e-2 * math.exp(9.9 / RT)), rel=1e-6)
+    top = [r for r in result.binding if r["answer"] == "h2_threshold"][0]
+    assert (top["kind"], top["compound"], top["bound"]) == ("concentration bound", "A", "upper")
+    assert top["sensitivity"] == pytest.approx(-1.0, abs=1e-7)
+    assert top["predicted_ln_h2_change"] == pytest.approx(0.005, abs=1e-6)
+    assert top["measured_ln_h2_change"] == pytest.approx(0.002, abs=1e-5)
+    words = result.window_words()
+    assert ("the H2 threshold moves by +0.2 % (the fixed flux pattern predicts +0.5 %: another "
+            "flux pattern takes over)") in words
+    # the lower bound of P binds as strongly, named once, without a repeated effect
+    assert "as strongly (the same size of dual value): the lower bound of P (1e-05 mol/L)" in words
+    assert words.count("(lower end)") == 0

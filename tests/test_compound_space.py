@@ -100,9 +100,9 @@ def test_reconciled_factor_reproduces_the_reconciliation_covariance(bundled_nati
     np.testing.assert_allclose(part @ part.T, rec.covariance[np.ix_(index, index)], atol=1e-8)
 
 
-def test_one_value_restated_by_two_reactions_moves_both_alike():
-    # hand network: X has no species data and one literature value A -> X (σ 2 kJ/mol); R1 = A -> X
-    # and R2 = 2 A -> 2 X restate it: R2 = 2 R1 in every draw (a shared value-level source)
+def _restated_value_model():
+    """Hand network: X has no species data and one literature value A -> X (σ 2 kJ/mol); R1 = A -> X
+    and R2 = 2 A -> 2 X restate it; A from species data with σ 0."""
     from tfa.conditions import Conditions
     from tfa.network.compound_table import CompoundEnergy, CompoundEnergyTable
     from tfa.network.thermo_model import ReactionEnergy
@@ -126,12 +126,40 @@ def test_one_value_restated_by_two_reactions_moves_both_alike():
         energies = {"R1": ReactionEnergy("R1", -10.0, 2.0, "literature", "", {"A": -1, "X": 1}),
                     "R2": ReactionEnergy("R2", -20.0, 4.0, "literature", "", {"A": -2, "X": 2})}
 
-    cov = energy_covariance(Model())
+    return Model()
+
+
+def test_one_value_restated_by_two_reactions_moves_both_alike():
+    # R2 = 2 R1 in every draw (a shared value-level source)
+    cov = energy_covariance(_restated_value_model())
     assert cov.factor_names == ["value:v1"]
     for i in range(20):
         g = cov.draw(5, i)
         assert g[1] - 2 * g[0] == pytest.approx(0.0, abs=1e-12)
     np.testing.assert_allclose(np.sqrt(np.diag(cov.covariance)), [2.0, 4.0], rtol=1e-12)
+
+
+def test_compound_sigma_is_the_compound_space_sigma():
+    # one σ per compound, computed in one place (CompoundSpace.sigma), whichever way the
+    # covariance was built. Hand-derived: the diagonal path gives back the σ given (A 1, B 2,
+    # C 3 kJ/mol); on the restated-value network X = A + v1 with σ_A = 0, so σ_X = σ(v1) = 2
+    # kJ/mol (GUM JCGM 100:2008, eq. 10) and A (σ 0, no source) is 0.
+    from tfa.network.compound_space import CompoundSpace
+    from tfa.network.thermo_model import ReactionEnergy
+
+    class Stub:
+        energies = {"R1": ReactionEnergy("R1", -10.0, 5 ** 0.5, "species", "", {"A": -1, "B": 1}),
+                    "R2": ReactionEnergy("R2", 3.0, 13 ** 0.5, "species", "", {"B": -1, "C": 1})}
+
+    diagonal = energy_covariance(Stub(), {"A": 1.0, "B": 2.0, "C": 3.0})
+    reconciled = energy_covariance(_restated_value_model())
+    for cov, expected in ((diagonal, {"A": 1.0, "B": 2.0, "C": 3.0}),
+                          (reconciled, {"A": 0.0, "X": 2.0})):
+        space = cov.compound_space
+        assert isinstance(space, CompoundSpace)
+        assert space.keys == cov.compound_ids and space.source_names == cov.source_names
+        np.testing.assert_allclose(cov.compound_sigma, space.sigma, rtol=0, atol=0)
+        assert dict(zip(cov.compound_ids, cov.compound_sigma.tolist())) == pytest.approx(expected)
 
 
 def test_canonical_stoichiometry_names_a_conversion_once():

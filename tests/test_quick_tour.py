@@ -66,6 +66,34 @@ def test_h2_threshold_and_driving_force(summary):
     assert round(summary["driving_force_kJ_per_mol"], 2) == DRIVING_FORCE
 
 
+#: The full re-solve of the top binding constraint of the native H2 threshold (the upper bound
+#: of fdox): its pattern's dual -2 predicts +0.01 in ln[H2] for the bound 0.5 % lower
+#: (-0.005 in ln); the threshold MILP solved again moves -0.0012 (another pattern takes over).
+THRESHOLD_CHECK = {"predicted": 0.01, "measured": -0.0012}
+
+
+def test_h2_threshold_binding_measured_beside_predicted(bundled_run):
+    table = bundled_run.result.binding_constraints.table
+    top = bundled_run.result.binding_constraints.top("native", "h2_threshold")
+    assert (top["compound"], top["bound"], top["check_step"]) == ("fdox", "upper", -0.005)
+    assert top["predicted_ln_h2_change"] == pytest.approx(THRESHOLD_CHECK["predicted"], rel=1e-6)
+    assert top["measured_ln_h2_change"] == pytest.approx(THRESHOLD_CHECK["measured"], abs=5e-5)
+    # only the top constraint(s) of the H2 answers are solved again
+    assert table["measured_ln_h2_change"].notna().sum() <= 2
+
+
+#: The H2 scan's level below the threshold (1e-12 mol/L) needs one step uphill; of the sets of
+#: that size the first in the order of reaction ids (the solver alone gave HYD_BIF).
+SCAN_FIRST_SET = "ECH"
+
+
+def test_h2_scan_set_in_the_order_of_reaction_ids(bundled_run):
+    scan = bundled_run.result.h2_scan.table
+    low = scan[~scan["feasible"]]
+    assert list(low["h2_activity"]) == [1e-12]
+    assert list(low["uphill_set"]) == [SCAN_FIRST_SET] and low["in_order_of_ids"].all()
+
+
 def test_robustness_counts(summary):
     counts = {row["mode"]: row["feasible_draws"] for row in summary["robustness"]}
     assert counts == ROBUSTNESS

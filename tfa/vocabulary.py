@@ -80,6 +80,9 @@ COLUMNS: dict[str, Term] = _terms(
                      "(a limit stopped the search), computed (no optimisation)", ""),
     ("checked_by", "the check behind the verification, in words", ""),
     ("uphill_set", "members of a minimal uphill set, joined by ', '", ""),
+    ("in_order_of_ids", "whether the minimal uphill set(s) listed are the first in the order of "
+                        "reaction ids (sorted ids compared one by one), each proven so; false: "
+                        "in the order found (a time limit stopped a proof)", ""),
     ("h2_compound", "the network's H2 compound", ""),
     ("h2_unit", "unit the H2 supply is given in: mol/L (dissolved) or bar (gas)", ""),
     ("has_energy", "whether the reaction has a transformed standard energy", ""),
@@ -166,6 +169,13 @@ COLUMNS: dict[str, Term] = _terms(
     ("sensitivity_right", "the same derivative by re-solving with the datum moved up by 1e-3",
      ""),
     ("dual_confirmed", "whether the dual value lies between the left and right derivatives", ""),
+    ("check_step", "how far a top binding datum was moved for the full re-solve (its own unit: ln "
+                   "of a concentration, or kJ/mol for the least driving force)", ""),
+    ("predicted_ln_h2_change", "change of ln of the H2 answer the flux pattern of the optimum "
+                               "predicts for check_step (sensitivity_left x check_step)", ""),
+    ("measured_ln_h2_change", "change of ln of the H2 answer when the full problem (the H2 "
+                              "threshold MILP) is solved again with the datum moved by "
+                              "check_step", ""),
     ("h2_at_range_floor", "the network is feasible already at the bottom of the H2 range "
                           "searched (the true threshold, if any, lies lower)", ""),
     ("h2_partial_pressure_bar", "H2 partial pressure in equilibrium with the level (Henry's law "
@@ -360,8 +370,6 @@ SUMMARY_KEYS: dict[str, Term] = _terms(
                           "(sets_found, all_sets_found), whether they are listed in the order of "
                           "reaction ids (in_order_of_ids) and the energy to supply to the first "
                           "(energy_to_supply_total_kJ_per_mol_demand)", ""),
-    ("in_order_of_ids", "whether the minimal uphill sets are listed in the order of reaction ids "
-                        "(sorted ids compared one by one), each proven so", ""),
     ("precursors", "per mode, the demanded compounds by verdict (downhill, uphill, stoichiometric "
                    "gap)", ""),
     ("bottlenecks", "reactions at the max-min driving force", ""),

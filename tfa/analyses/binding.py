@@ -21,6 +21,16 @@ Sensitivities and their units:
   lower bound, -RT (hand-derived from B = -(ΔrG'° + RT ln(b/a)));
   d B / d ΔrG'° [dimensionless].
 
+The dual values describe the answer with the optimum's flux pattern fixed (which reactions run,
+and which way): they are local to that pattern, and the words say so ("with the flux pattern
+fixed"). Another pattern may take over as soon as a datum moves (a 0.5 % lower ferredoxin bound
+moved the bundled network's full H2 threshold the other way from its pattern's dual). So the
+top binding constraint(s) of each H2 answer found by a MILP are checked on the full problem
+(:func:`check_by_full_solve`): the threshold (or largest H2) MILP is solved again with the datum
+moved down by :data:`CHECK_STEP`, and the measured change of ln[H2] is reported beside the one
+the pattern predicts (columns ``check_step``, ``predicted_ln_h2_change``,
+``measured_ln_h2_change``).
+
 Example (hand-derived; R = 8.314462618 J/(mol K), CODATA 2018): H2 + X <=> XH2 with
 ΔrG'° = -10 kJ/mol, delta = 0.1 kJ/mol: [H2]_min = [XH2]_min / ([X]_max K),
 K = exp(9.9/RT), so d ln[H2]_min / d ln[XH2]_min = 1 and d ln[H2]_min / d ln[X]_max = -1
@@ -29,23 +39,29 @@ K = exp(9.9/RT), so d ln[H2]_min / d ln[XH2]_min = 1 and d ln[H2]_min / d ln[X]_
 
 from __future__ import annotations
 
+import logging
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 import pandas as pd
 
+from ..errors import ComputationError, InputError, UndeterminedError
 from ..network.thermo_model import ThermoModel
-from ..problem.builder import ProblemOptions, Solution
+from ..problem.builder import ProblemOptions, Solution, ThermoProblem
+from ..problem.solvers import InfeasibleProblem
 from ..problem.sensitivity import (ZERO_DUAL, LPOptimum, PatternLP, dual_confirmed,
                                    pattern_lp, solve_pattern)
 from ..problem.sensitivity import finite_difference as _finite_difference
-from .results import AnalysisResult, verification
+from .results import AnalysisResult, certify, verification
+
+log = logging.getLogger(__name__)
 
 #: Columns of the binding_constraints table.
 BINDING_COLUMNS = ["mode", "answer", "rank", "kind", "compound", "reaction", "bound", "activity",
                    "sensitivity", "sensitivity_unit", "sensitivity_left", "sensitivity_right",
-                   "dual_confirmed", "message"]
+                   "dual_confirmed", "check_step", "predicted_ln_h2_change",
+                   "measured_ln_h2_change", "message"]
 #: The answers a row can belong to, with the words used for them.
 ANSWERS = {"feasible": "the feasible steady state",
            "h2_threshold": "the H2 threshold",
@@ -56,6 +72,16 @@ ANSWERS = {"feasible": "the feasible steady state",
 AT_BOUND = 1e-6
 #: Priority of the kinds in the table (lower is named first; bounds and feeds compete on the
 #: size of their dual value, both per unit ln c).
+#: How far a binding datum is moved down for the full re-solve (ln units for a concentration
+#: bound, 0.5 %; kJ/mol for the least driving force): large enough to stand above the solver's
+#: tolerance (about 1e-6 in ln[H2]), small enough to stay local.
+CHECK_STEP = 0.005
+#: Rows per H2 answer given the full re-solve (the first-ranked and one that binds equally).
+CHECK_ROWS = 2
+#: A measured change agrees with the predicted one within this share of it (or 1e-4 in ln).
+CHECK_AGREEMENT = 0.1
+#: Words put before an effect read from the dual values of the pattern LP.
+FIXED = "with the flux pattern fixed, "
 KIND_ORDER = {"range searched": 0, "concentration bound": 1, "fed concentration": 1,
               "carrier state": 1, "reaction energy": 2, "least driving force": 3, "demand": 4}
 
@@ -107,10 +133,12 @@ class BindingResult(AnalysisResult):
                     & ((rows["sensitivity"].abs() - abs(s)).abs() <= 1e-6 * max(1.0, abs(s)))]
         ratio = _ratio_words(top, same, pairs or {}, ANSWERS[answer])
         if ratio:
-            return ratio
-        extra = [f"{m.split(' sets ')[0]} as much ({m.split(': ', 1)[-1]})"
-                 for m in same["message"].head(2)]
-        return "; ".join([str(top["message"])] + extra)
+            return ratio + _check_words(top, ANSWERS[answer], _subject(top, ANSWERS[answer]))
+        checked = _check_words(top, ANSWERS[answer])
+        extra = [_subject(other, ANSWERS[answer]) for _, other in same.head(2).iterrows()]
+        return (str(top["message"]) + checked
+                + (f"; as strongly (the same size of dual value): {' and '.join(extra)}"
+                   if extra else ""))
 
     def summary(self) -> str:
         lines = []
@@ -119,6 +147,31 @@ class BindingResult(AnalysisResult):
             if words:
                 lines.append(f"{mode}, {ANSWERS[answer]}: {words}")
         return "\n".join(lines) or "no binding constraints (no answer with a solution)"
+
+
+def _subject(row, name: str) -> str:
+    """What a row names, without its effect: "the upper bound of X (0.01 mol/L)", "the ΔrG'° of
+    R1", "the carrier state ... (lower end)"."""
+    if row["kind"] == "reaction energy":
+        return f"the ΔrG'° of {row['reaction']}"
+    message = str(row["message"])
+    head = message.split(f" sets {name}: ", 1)[0]
+    return head.split(f" enters {name}: ", 1)[0]
+
+
+def _check_words(row, name: str, subject: str = "it") -> str:
+    """The full re-solve beside the prediction, in words ("" when the row was not re-solved)."""
+    measured, predicted = row.get("measured_ln_h2_change"), row.get("predicted_ln_h2_change")
+    step = row.get("check_step")
+    if not all(isinstance(v, float) and math.isfinite(v) for v in (measured, predicted, step)):
+        return ""
+    moved = (f"{abs(step):g} kJ/mol lower" if row["kind"] == "least driving force"
+             else f"{100 * (1 - math.exp(step)):.2g} % lower")
+    agree = abs(measured - predicted) <= CHECK_AGREEMENT * abs(predicted) + 1e-4
+    return (f"; solved again in full with {subject} {moved}, {name} moves by "
+            f"{100 * math.expm1(measured):+.2g} % (the fixed flux pattern predicts "
+            f"{100 * math.expm1(predicted):+.2g} %"
+            + (")" if agree else ": another flux pattern takes over)"))
 
 
 def _ratio_words(top, same: pd.DataFrame, pairs: dict[str, str], name: str) -> str:
@@ -140,8 +193,8 @@ def _ratio_words(top, same: pd.DataFrame, pairs: dict[str, str], name: str) -> s
                 f"{b['bound']})")
         if str(a["sensitivity_unit"]).startswith("d ln[H2]"):
             words = _ln_words(s, name).replace(" it ", " the ratio ", 1)
-            return f"{head} sets {name}: {words}"
-        return (f"{head} sets {name}: a tenfold rise of the ratio changes it by "
+            return f"{head} sets {name}: {FIXED}{words}"
+        return (f"{head} sets {name}: {FIXED}a tenfold rise of the ratio changes it by "
                 f"{s * math.log(10):+.3g} kJ/mol")
     return ""
 
@@ -212,9 +265,9 @@ def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
             elif abs(dual) <= ZERO_DUAL:
                 words = f"{what} is active, but moving it does not move {name}"
             elif is_h2:
-                words = f"{what} sets {name}: {_ln_words(dual, name)}"
+                words = f"{what} sets {name}: {FIXED}{_ln_words(dual, name)}"
             else:
-                words = (f"{what} sets {name}: a tenfold rise of it changes it by "
+                words = (f"{what} sets {name}: {FIXED}a tenfold rise of it changes it by "
                          f"{dual * math.log(10):+.3g} kJ/mol ({dual / lp.rt:+.3g} RT per unit ln c)")
             words += _one_sided(dual, left, right)
             value = math.exp(lp.lower[i] if side != "upper" else lp.upper[i])
@@ -237,7 +290,7 @@ def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
                      "sensitivity_unit": "d ln[H2] per kJ/mol" if is_h2 else "per kJ/mol",
                      "sensitivity_left": left, "sensitivity_right": right,
                      "dual_confirmed": dual_confirmed(dual, left, right),
-                     "message": f"reaction {rid} runs at its limit and sets {name}: {change}"})
+                     "message": f"reaction {rid} runs at its limit and sets {name}: {FIXED}{change}"})
     for k, (coefficients, low, high, text) in enumerate(lp.state_rows):
         for side, dual in zip(("lower", "upper"), opt.state_duals[k]):
             if abs(dual) <= ZERO_DUAL:
@@ -252,7 +305,7 @@ def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
                          "sensitivity_unit": unit_bound if is_h2 else "kJ/mol per unit ln",
                          "sensitivity_left": left, "sensitivity_right": right,
                          "dual_confirmed": dual_confirmed(dual, left, right),
-                         "message": f"the carrier state {text} ({side} end) sets {name}: {change}"
+                         "message": f"the carrier state {text} ({side} end) sets {name}: {FIXED}{change}"
                                     + _one_sided(dual, left, right)})
     if is_h2 and abs(opt.delta_dual) > ZERO_DUAL:
         left, right = finite_difference(lp, objective, sense, ("delta", "", ""))
@@ -263,7 +316,7 @@ def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
                      "sensitivity_left": left, "sensitivity_right": right,
                      "dual_confirmed": dual_confirmed(opt.delta_dual, left, right),
                      "message": f"the least driving force ({lp.min_driving_force:g} kJ/mol) "
-                                f"enters {name}: 1 kJ/mol more multiplies it by "
+                                f"enters {name}: {FIXED}1 kJ/mol more multiplies it by "
                                 f"{math.exp(opt.delta_dual):.3g}"})
     for row in rows:
         row.update(mode=mode, answer=answer)
@@ -379,3 +432,117 @@ def binding_verification(table: pd.DataFrame, mismatches: list[str]) -> dict:
         words += "; the pattern LP's optimum differs from the answer's: " + "; ".join(mismatches)
     # an LP optimum's dual, confirmed by a second route (the re-solves): "proven"
     return verification("proven" if not len(bad) and not mismatches else "solver proof", words)
+
+
+#: Kinds of datum the full re-solve can move (through the options of the problem).
+MOVABLE = ("concentration bound", "fed concentration", "least driving force")
+
+
+def _moved_options(tm: ThermoModel, opts: ProblemOptions, row: dict, step: float
+                   ) -> ProblemOptions | None:
+    """The options with the row's datum moved down by ``step`` (ln units for a bound, both ends
+    of a fed concentration; kJ/mol for the least driving force), or None for a kind the options
+    cannot move (a carrier state, a reaction energy)."""
+    if row["kind"] == "least driving force":
+        return replace(opts, min_driving_force=opts.min_driving_force - step)
+    if row["kind"] not in MOVABLE:
+        return None
+    mid = row["compound"]
+    bounds = opts.log_bound_overrides.get(mid, tm.log_bounds.get(mid))
+    if bounds is None:
+        return None
+    lo, hi = float(bounds[0]), float(bounds[1])
+    lo, hi = {"fixed": (lo - step, hi - step), "lower": (lo - step, hi),
+              "upper": (lo, max(lo, hi - step))}[row["bound"]]
+    return replace(opts, log_bound_overrides={**opts.log_bound_overrides, mid: (lo, hi)})
+
+
+def _optimum_ln_h2(tm: ThermoModel, opts: ProblemOptions, h2: str, sense: str) -> float:
+    """ln of the least (``sense`` "min") or largest H2 at which the full problem is feasible: the
+    H2 threshold MILP of :func:`tfa.analyses.hydrogen.h2_threshold`, its point certified."""
+    with ThermoProblem(tm, opts) as problem:
+        problem.set_objective({problem.x_vars[problem.metabolite_index[h2]]: 1.0}, sense)
+        sol = problem.solve("H2 answer with a binding datum moved")
+        certify(problem, sol)
+        return float(sol.log_conc[sol.metabolite_ids.index(h2)])
+
+
+def check_by_full_solve(tm: ThermoModel, opts: ProblemOptions, rows: list[dict], h2: str,
+                        sense: str, base_ln: float, step: float = CHECK_STEP,
+                        limit: int = CHECK_ROWS) -> int:
+    """Solve the full H2 problem again with each top binding datum moved down by ``step``.
+
+    The first-ranked row of ``rows`` (one H2 answer, ranked) and the rows whose dual value has
+    the same size, of a kind the options can move (:data:`MOVABLE`), up to ``limit``, get
+    ``check_step`` (-step, in the datum's unit), ``predicted_ln_h2_change`` (the pattern LP's
+    derivative below the datum, ``sensitivity_left``, times -step) and ``measured_ln_h2_change``
+    (the optimum of the H2 MILP with the datum moved, minus ``base_ln``; nan when the moved
+    problem has no feasible H2 in the range or a time limit stopped it). Returns the re-solves
+    made.
+
+    Parameters
+    ----------
+    opts : the options the answer was found under (with the H2 range as the bounds of ``h2``)
+    sense : "min" for the threshold, "max" for the largest H2
+    base_ln : ln of the answer [ln of mol/L, or of bar for a gas]
+    step : the move [ln units for a concentration; kJ/mol for the least driving force]
+
+    Example (hand-derived, ``tests/test_binding.py``): H2 + X <=> XH2 alone has
+    [H2]_min = [XH2]_min / ([X]_max K), so one flux pattern holds everywhere and lowering
+    [XH2]_min by 0.5 % lowers the threshold by 0.5 %: measured -0.005 = predicted -0.005 in ln.
+    """
+    if not rows or not math.isfinite(base_ln):
+        return 0
+    top = abs(float(rows[0]["sensitivity"]))
+    if not math.isfinite(top) or top <= ZERO_DUAL:
+        return 0
+    chosen = [r for r in rows if r["kind"] in MOVABLE and math.isfinite(r["sensitivity"])
+              and abs(abs(r["sensitivity"]) - top) <= 1e-6 * max(1.0, top)
+              and KIND_ORDER[r["kind"]] == KIND_ORDER[rows[0]["kind"]]][:limit]
+    made = 0
+    for row in chosen:
+        moved = _moved_options(tm, opts, row, step)
+        if moved is None:
+            continue
+        slope = row["sensitivity_left"] if math.isfinite(row["sensitivity_left"]) else row["sensitivity"]
+        try:
+            measured = _optimum_ln_h2(tm, moved, h2, sense) - base_ln
+        except (InfeasibleProblem, UndeterminedError, ComputationError, InputError):
+            measured = math.nan
+        made += 1
+        row.update(check_step=-step, predicted_ln_h2_change=-step * float(slope),
+                   measured_ln_h2_change=measured)
+    return made
+
+
+def window_binding(tm: ThermoModel, opts: ProblemOptions, result, mode: str) -> None:
+    """The binding constraints at every end of every window of an H2 answer
+    (:class:`tfa.analyses.hydrogen.H2ThresholdResult`): dual values of the pattern LP, and for the
+    ends found by a MILP (not a range end) the full re-solve of the top ones
+    (:func:`check_by_full_solve`)."""
+    from ..network.roles import carrier_pairs
+
+    h2 = result.h2_id
+    try:
+        result.carrier_pairs = {p.reduced.id: p.oxidised.id
+                                for p in carrier_pairs(tm.model).values()}
+    except InputError:
+        result.carrier_pairs = {}
+    for end in result.ends:
+        answer = result.answer_of(end)
+        sense = "min" if end["window_end"] == "low" else "max"
+        try:
+            rows, _ = optimum_constraints(tm, end["solution"], opts, mode, answer,
+                                          ("ln_activity", h2), sense, range_compound=h2,
+                                          unit=result.unit)
+        except (ComputationError, InputError) as err:
+            log.warning("binding constraints at the %s end of H2 window %d: %s",
+                        end["window_end"], end["h2_window"], err)
+            continue
+        if "MILP" in end["found_by"] and not end["at_range_end"]:
+            check_by_full_solve(tm, opts, rows, h2, sense, math.log(end["h2_activity"]))
+        for row in rows:
+            row["h2_window"] = end["h2_window"]
+            if end["h2_window"] > 1:
+                row["message"] = f"(window {end['h2_window']}) " + row["message"]
+        result.binding.extend(rows)

@@ -377,29 +377,39 @@ def carbon_routes(model, fluxes: Mapping[str, float], demand_id: str | None,
         path = _widest_path(edges)
         if not path:
             break
-        width = min(edges[k] for k in path)
-        for k in path:
-            edges[k] -= width
-        # the boundary edges (feed, demand, outlet) are not steps of the route; a compound fed
-        # and demanded as it is has no step and no path
-        steps = [PathStep(k[2], k[3], k[0], k[1]) for k in path
-                 if k[0] != SOURCE and k[1] != SINK]
-        if not steps:
-            continue
-        result.paths.append(CarbonPath(steps, width, width / carbon_in if carbon_in else 0.0,
-                                       [pathway.get(s.reaction, "") for s in steps]))
+        found = _take_out(edges, path, pathway, carbon_in)
+        if found is not None:
+            result.paths.append(found)
     for _ in range(max_paths):
         cycle = _a_cycle(edges)
         if not cycle:
             break
-        width = min(edges[k] for k in cycle)
-        for k in cycle:
-            edges[k] -= width
-        steps = [PathStep(k[2], k[3], k[0], k[1]) for k in cycle]
-        result.cycles.append(CarbonPath(steps, width, width / carbon_in if carbon_in else 0.0,
-                                        [pathway.get(s.reaction, "") for s in steps]))
+        found = _take_out(edges, cycle, pathway, carbon_in)
+        if found is not None:   # always: a cycle has no boundary edge
+            result.cycles.append(found)
     result.unassigned = sum(f for f in edges.values() if f > FLOW_TOLERANCE)
     return result
+
+
+def _take_out(edges: dict[tuple[str, str, str, int], float],
+              keys: list[tuple[str, str, str, int]], pathway: Mapping[str, str],
+              carbon_in: float) -> CarbonPath | None:
+    """Subtract the bottleneck of ``keys`` (a path or a cycle) from ``edges`` and return it as a
+    :class:`CarbonPath` (carbon flow: the bottleneck, mol C per unit demand; share: relative to
+    ``carbon_in``), or None when no step is left.
+
+    The boundary edges (feed, demand, outlet) are not steps of a route: a compound fed and
+    demanded as it is has no step and no path (its flow is still subtracted). A cycle has no
+    boundary edge, so every edge is a step.
+    """
+    width = min(edges[k] for k in keys)
+    for k in keys:
+        edges[k] -= width
+    steps = [PathStep(k[2], k[3], k[0], k[1]) for k in keys if k[0] != SOURCE and k[1] != SINK]
+    if not steps:
+        return None
+    return CarbonPath(steps, width, width / carbon_in if carbon_in else 0.0,
+                      [pathway.get(s.reaction, "") for s in steps])
 
 
 def _a_cycle(edges: dict[tuple[str, str, str, int], float]) -> list[tuple[str, str, str, int]]:

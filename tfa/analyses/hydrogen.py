@@ -7,7 +7,8 @@ flux pattern certified at the previous level as a linear program (a solution pro
 feasibility) and solves the full problem (quick routes, then the exact MILP) only when that
 fails. At each level the result says whether the network is feasible, its max-min driving
 force B (Noor et al. 2014, PLoS Comput. Biol. 10:e1003483; feasible iff B >= delta) and, where
-infeasible, the size of the minimal uphill set.
+infeasible, the minimal uphill set: the first of the least size in the order of reaction ids
+(:mod:`tfa.analyses.set_order`, as the minimal-set answer lists its sets).
 
 Threshold: ln[H2] becomes a variable over the user's range and one MILP minimises it subject to
 feasibility (thermodynamics-based flux analysis, Henry, Broadbelt & Hatzimanikatis 2007,
@@ -31,6 +32,7 @@ from ..problem.builder import ProblemOptions, Solution, ThermoProblem
 from ..problem.solvers import InfeasibleProblem
 from ..vocabulary import DEFAULT_H2_LEVELS, DEFAULT_H2_RANGE
 from .h2_levels import h2_equivalents, level_words
+from .set_order import first_of_least_size
 from .results import (AnalysisResult, certificate_words, certify, confirm_infeasible, optimum_words,
                       provenance_of, verification)
 
@@ -96,7 +98,7 @@ def _check_range(levels: Sequence[float]) -> np.ndarray:
 
 #: Columns of the H2 scan table (one row per level).
 SCAN_COLUMNS = ["h2_activity", "ln_h2_activity", "h2_unit", "feasible", "driving_force_kJ_per_mol",
-                "uphill_set_size", "uphill_set"]
+                "uphill_set_size", "uphill_set", "in_order_of_ids"]
 #: Columns of the H2 threshold table (one row).
 THRESHOLD_COLUMNS = ["h2_compound", "feasible", "h2_threshold", "ln_h2_threshold", "h2_unit",
                      "h2_at_range_floor", "h2_partial_pressure_bar", "h2_partial_pressure_Pa",
@@ -201,32 +203,40 @@ def h2_scan(tm: ThermoModel, levels: Sequence[float], options: ProblemOptions | 
     table = pd.DataFrame(rows)
     table["uphill_set_size"] = np.where(table["feasible"], 0, -1)
     table["uphill_set"] = ""
+    table["in_order_of_ids"] = True
     infeasible = [i for i, r in enumerate(rows) if not r["feasible"]]
     if with_uphill and infeasible:
         up = replace(options, uphill=True, driving_force=False, log_bound_overrides=overrides)
         with ThermoProblem(tm, up) as problem:
-            problem.set_objective({v: 1.0 for v in problem.u_vars}, "min")
             for k, i in enumerate(infeasible):
                 tick(len(arr) + k)
                 x = rows[i]["ln_h2_activity"]
                 problem.set_log_bounds(h2, x, x)
+                what = f"minimal uphill set at H2 {rows[i]['h2_activity']:.3g}"
+                problem.set_objective({v: 1.0 for v in problem.u_vars}, "min")
                 try:
-                    sol = problem.solve(f"minimal uphill set at H2 {rows[i]['h2_activity']:.3g}")
+                    sol = problem.solve(what)
                 except InfeasibleProblem:
                     continue  # demand impossible at this level whatever the energies
-                result.certificates.append(certify(problem, sol, allowed_uphill=sol.uphill))
-                table.loc[i, "uphill_set_size"] = len(sol.uphill)
-                table.loc[i, "uphill_set"] = ", ".join(sorted(sol.uphill))
+                item = first_of_least_size(problem, sol, what)
+                result.certificates.append(certify(problem, item.solution,
+                                                   allowed_uphill=item.solution.uphill))
+                table.loc[i, "uphill_set_size"] = len(item.members)
+                table.loc[i, "uphill_set"] = ", ".join(item.members)
+                table.loc[i, "in_order_of_ids"] = item.ordered
     table.loc[table["uphill_set_size"] < 0, "uphill_set_size"] = np.nan
     table["h2_unit"] = result.unit
     result.table = table[SCAN_COLUMNS]
     tick(len(arr) + n_infeasible_max)
     n_no = len(infeasible)
+    in_order = bool(table["in_order_of_ids"].all())
     result.verification = verification(
         "certified" if n_no == 0 else "solver proof",
         f"{len(rows) - n_no} feasible level(s): each point passed the independent numpy check"
         + (f"; {n_no} infeasible level(s): no point, by {main.solver or 'the default solver'}'s "
-           "branch and bound (not re-asked of the other solver)" if n_no else ""))
+           "branch and bound (not re-asked of the other solver)" if n_no else "")
+        + ("" if not (with_uphill and n_no) else "; uphill sets the first in the order of reaction ids"
+           if in_order else "; some uphill sets in the order found (in_order_of_ids false)"))
     return result
 
 
@@ -434,7 +444,9 @@ def h2_threshold(tm: ThermoModel, options: ProblemOptions | None = None, h2_id: 
     result.threshold = math.exp(x)
     result.solution = sol
     if window:
-        _window_binding(tm, opts, result, mode or tm.mode)
+        from .binding import window_binding
+
+        window_binding(tm, opts, result, mode or tm.mode)
     at_floor = abs(x - math.log(lo)) < 1e-9
     result.message = (f"the least H2 at which the network is feasible is "
                       f"{level_words(result.threshold, result.unit, tm.conditions)}"
@@ -519,37 +531,6 @@ def _find_windows(problem: ThermoProblem, result: H2ThresholdResult, h2: str, lo
     result.windows, result.ends = windows, ends
     if progress is not None:
         progress(done, done)
-
-
-def _window_binding(tm: ThermoModel, opts: ProblemOptions, result: H2ThresholdResult,
-                    mode: str) -> None:
-    """The binding constraints at every end of every window (dual values of the pattern LP)."""
-    from ..errors import ComputationError
-    from .binding import optimum_constraints
-
-    from ..network.roles import carrier_pairs
-
-    h2 = result.h2_id
-    try:
-        result.carrier_pairs = {p.reduced.id: p.oxidised.id
-                                for p in carrier_pairs(tm.model).values()}
-    except InputError:
-        result.carrier_pairs = {}
-    for end in result.ends:
-        answer = result.answer_of(end)
-        try:
-            rows, _ = optimum_constraints(
-                tm, end["solution"], opts, mode, answer, ("ln_activity", h2),
-                "min" if end["window_end"] == "low" else "max", range_compound=h2, unit=result.unit)
-        except (ComputationError, InputError) as err:
-            log.warning("binding constraints at the %s end of H2 window %d: %s",
-                        end["window_end"], end["h2_window"], err)
-            continue
-        for row in rows:
-            row["h2_window"] = end["h2_window"]
-            if end["h2_window"] > 1:
-                row["message"] = f"(window {end['h2_window']}) " + row["message"]
-        result.binding.extend(rows)
 
 
 def h2_threshold_by_bisection(tm: ThermoModel, options: ProblemOptions | None = None,

@@ -145,6 +145,21 @@ def first_in_order(problem: ThermoProblem, size: int, what: str = "minimal uphil
             v.set_bounds(lb, ub)
 
 
+def first_of_least_size(problem: ThermoProblem, least: Solution,
+                        what: str = "minimal uphill set") -> OrderedSet:
+    """The first set of ``least``'s size in the order of reaction ids, ``least`` being a point of
+    the uphill-set problem with the fewest uphill steps (a proven minimum): the row
+    sum_j u_j <= size is added for :func:`first_in_order` and removed on return. Used where one
+    set per question is listed (the H2 scan's levels)."""
+    size = len(least.uphill)
+    row = problem.add_constraint({v: 1.0 for v in problem.u_vars}, None, float(size), "tfa_size")
+    try:
+        item = first_in_order(problem, size, what, witness=least)
+    finally:
+        problem.remove_constraint(row)
+    return item if item is not None else OrderedSet(sorted(least.uphill), least, False)
+
+
 def cut_off(problem: ThermoProblem, members: list[str], name: str):
     """The integer cut sum_{j in S} u_j <= |S| - 1: the set S is found no more."""
     index = {rid: j for j, rid in enumerate(problem.energy_ids)}

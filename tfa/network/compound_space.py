@@ -96,7 +96,12 @@ class CompoundSpace:
 
     @property
     def sigma(self) -> np.ndarray:
-        """σ of each compound's ΔfG'°, kJ/mol."""
+        """σ of each compound's ΔfG'°, kJ/mol: σ_k = (Σ_s F_ks²)^½, the sources being independent
+        standard normal numbers (JCGM 100:2008, GUM, eq. 10).
+
+        >>> CompoundSpace(["A", "B"], np.array([[3.0, 4.0], [0.0, 2.0]]), ["s1", "s2"]).sigma.tolist()
+        [5.0, 2.0]
+        """
         return np.sqrt(np.sum(self.factor ** 2, axis=1))
 
     def covariance(self) -> np.ndarray:
@@ -324,9 +329,17 @@ class EnergyCovariance:
     source_labels: list[str] = field(default_factory=list)
 
     @property
+    def compound_space(self) -> CompoundSpace:
+        """The compounds' factor F as a :class:`CompoundSpace` (rows :attr:`compound_ids`,
+        columns :attr:`source_names`)."""
+        return CompoundSpace(list(self.compound_ids), self.compound_factor, list(self.source_names),
+                             list(self.source_labels))
+
+    @property
     def compound_sigma(self) -> np.ndarray:
-        """σ of each compound's ΔfG'° (kJ/mol)."""
-        return np.sqrt(np.sum(self.compound_factor ** 2, axis=1))
+        """σ of each compound's ΔfG'° (kJ/mol): :attr:`CompoundSpace.sigma` of
+        :attr:`compound_space`."""
+        return self.compound_space.sigma
 
     @property
     def independent_sigma(self) -> np.ndarray:

@@ -112,7 +112,11 @@ class BindingStep(Step):
                 "max-min driving force: the dual value of each constraint in the linear program "
                 "with the optimum's flux pattern fixed (how far the answer moves per unit ln c "
                 "of a bound, or per kJ/mol of an energy), each checked by re-solving with the "
-                "datum moved both ways (sensitivity_left, sensitivity_right). For a feasible "
+                "datum moved both ways (sensitivity_left, sensitivity_right). These are local to "
+                "the pattern: another pattern may take over when a datum moves, so the top "
+                "binding constraint(s) of the H2 answers are also checked on the full problem, "
+                "the H2 MILP solved again with the datum moved down by check_step "
+                "(measured_ln_h2_change beside predicted_ln_h2_change). For a feasible "
                 "mode: the bounds reached at the point found (one of many). "
                 + result.verification.get("check", ""))
         return [Section(self.title, text + "\n\n" + result.summary(),
@@ -126,4 +130,6 @@ class BindingStep(Step):
         shown = result.table[result.table["rank"] <= 5]
         return (result.summary() + "\n\n"
                 + table_text(shown[["mode", "answer", "rank", "kind", "compound", "reaction",
-                                    "bound", "sensitivity", "sensitivity_unit"]], "{:.3g}") + "\n")
+                                    "bound", "sensitivity", "sensitivity_unit",
+                                    "predicted_ln_h2_change", "measured_ln_h2_change"]],
+                             "{:.3g}") + "\n")
