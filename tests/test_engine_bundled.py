@@ -10,7 +10,7 @@ import numpy as np
 import pytest
 
 from tfa.analyses import feasibility, h2_scan, h2_threshold, minimal_uphill_set
-from tfa.analyses.uphill import ImpossibleDemandError
+from tfa.analyses.demand import ImpossibleDemandError
 from tfa.errors import UndeterminedError
 from tfa.modes import STANDARD_MODES as MODES
 from tfa.network import bundled, energies, environment

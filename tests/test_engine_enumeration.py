@@ -32,7 +32,7 @@ sys.path.insert(0, str(Path(__file__).parent))
 from engine_networks import build_thermo_model  # noqa: E402
 
 from tfa.analyses import feasibility, minimal_uphill_set  # noqa: E402
-from tfa.analyses.uphill import ImpossibleDemandError  # noqa: E402
+from tfa.analyses.demand import ImpossibleDemandError  # noqa: E402
 from tfa.problem import ProblemOptions, available_solvers  # noqa: E402
 
 DELTA = 0.1            # kJ/mol, the default least driving force

@@ -18,7 +18,7 @@ sys.path.insert(0, str(Path(__file__).parent))
 from engine_networks import build_thermo_model  # noqa: E402
 
 from tfa.analyses import feasibility, h2_threshold, minimal_uphill_set, ranges  # noqa: E402
-from tfa.analyses.uphill import ImpossibleDemandError  # noqa: E402
+from tfa.analyses.demand import ImpossibleDemandError  # noqa: E402
 from tfa.errors import InputError, MissingDataError, UndeterminedError  # noqa: E402
 from tfa.network.thermo_model import ReactionEnergy  # noqa: E402
 from tfa.problem import InfeasibleProblem, ProblemOptions, ThermoProblem, available_solvers  # noqa: E402

@@ -17,7 +17,7 @@ import dataclasses
 import pytest
 
 from tfa.analyses import feasibility, minimal_uphill_set
-from tfa.analyses.uphill import ImpossibleDemandError
+from tfa.analyses.demand import ImpossibleDemandError
 from tfa.network.bundled import load_bundled_network
 from tfa.network.energies import prepare
 from tfa.network.environment import bundled_environment

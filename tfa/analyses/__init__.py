@@ -11,7 +11,8 @@ from .hydrogen import H2ScanResult, H2ThresholdResult, h2_scan, h2_threshold, h2
 from .ranges import RangesResult, ranges
 from .results import AnalysisResult
 from .route import energy_profile, order_route, parse_route
-from .uphill import ImpossibleDemandError, UphillResult, minimal_uphill_set
+from .demand import ImpossibleDemandError
+from .uphill import UphillResult, minimal_uphill_set
 
 __all__ = [
     "AnalysisResult", "CarbonRoutes", "CensusResult", "EnergyBudget", "DrivingForceResult", "FeasibilityResult", "H2ScanResult",

@@ -150,7 +150,8 @@ class DrawSolver:
         out.update(feasible=False,
                    verification="proven" if confirmation == "confirmed" else "solver proof")
         if diagnose:
-            from .uphill import ImpossibleDemandError, minimal_uphill_set
+            from .demand import ImpossibleDemandError
+            from .uphill import minimal_uphill_set
 
             drawn = with_energies(self.tm, dict(zip(problem.energy_ids, problem.standard.tolist())))
             try:

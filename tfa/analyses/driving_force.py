@@ -181,7 +181,7 @@ def network_driving_force(tm: ThermoModel, options: ProblemOptions | None = None
         try:
             sol = problem.solve("max-min driving force of the network", accept_best=True)
         except InfeasibleProblem:
-            from .uphill import impossible_demand_message
+            from .demand import impossible_demand_message
 
             raise InfeasibleProblem(f"driving force: {impossible_demand_message(tm, problem.blocked_ids)}"
                                    ) from None

@@ -22,7 +22,8 @@ from ..problem.builder import ProblemOptions, Solution, ThermoProblem
 from ..problem.solvers import InfeasibleProblem
 from .results import (AnalysisResult, certificate_words, certify, concentration_table,
                       confirm_infeasible, provenance_of, reaction_table, verification)
-from .uphill import UPHILL_TABLE_COLUMNS, ImpossibleDemandError, UphillResult, minimal_uphill_set
+from .demand import ImpossibleDemandError
+from .uphill import UPHILL_TABLE_COLUMNS, UphillResult, minimal_uphill_set
 
 log = logging.getLogger(__name__)
 

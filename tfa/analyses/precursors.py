@@ -139,7 +139,7 @@ def capacities(tm: ThermoModel, compounds: list[str] | None = None) -> dict[str,
     """Largest flux of each demanded compound's own demand by flux balance alone (no energies),
     flux unit: the first question of :func:`precursor_verdicts`, asked alone (one linear program
     per compound)."""
-    from .uphill import demand_capacity
+    from .demand import demand_capacity
 
     wanted = [m for m, _ in demanded_compounds(tm) if compounds is None or m in compounds]
     if not wanted:
@@ -223,7 +223,8 @@ def _one(tm: ThermoModel, options: ProblemOptions, compound: str, coefficient: f
     """The three questions for one compound whose own demand is in place: the flux-balance
     capacity, then the minimal uphill set on one build (:func:`minimal_uphill_set` first asks
     with every step downhill: a certified point there is the "downhill" verdict)."""
-    from .uphill import ImpossibleDemandError, demand_capacity, minimal_uphill_set
+    from .demand import ImpossibleDemandError, demand_capacity
+    from .uphill import minimal_uphill_set
 
     verdict = PrecursorVerdict(tm.mode, compound, coefficient, "undetermined")
     capacity = demand_capacity(tm)
