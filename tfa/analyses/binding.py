@@ -222,8 +222,11 @@ def _one_sided(dual: float, left: float, right: float) -> str:
         return ""
     if abs(left - right) <= 1e-3 * max(abs(left), abs(right), 1e-9):
         return ""
-    return (f" (one-sided: the derivative is {left:+.3g} below and {right:+.3g} above the bound, "
-            "another constraint takes over)")
+    def said(x: float) -> str:   # a derivative within the re-solve's noise is 0
+        return "0" if abs(x) <= ZERO_DUAL else f"{x:+.3g}"
+
+    return (f" (one-sided: the derivative is {said(left)} below and {said(right)} above the "
+            "bound, another constraint takes over)")
 
 
 def _rows_from_optimum(lp: PatternLP, opt: LPOptimum, mode: str, answer: str,
